@@ -1,0 +1,92 @@
+/*
+** unitgram — unit charts and pictograms from counts.
+**
+** The one public header. Every handle is opaque; every function that can fail
+** returns a ug_status and, when it fails, fills the caller's ug_error with the
+** place in the input (file, 1-based line and column) and a message. Objects a
+** function returns belong to the caller and have a matching *_free, which
+** accepts NULL. Inputs are borrowed and never modified.
+**
+** Pipeline: ug_chart_load -> ug_chart_allocate -> ug_scene_pack -> ug_scene_svg
+** (-> ug_render for PNG/PDF). See DEVELOPERS.md for which file owns which stage.
+*/
+#ifndef UNITGRAM_H
+#define UNITGRAM_H
+
+#include <stddef.h>
+#include <stdio.h>
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+#define UG_VERSION "0.1.0"
+
+typedef enum {
+    UG_OK = 0,
+    UG_ENOMEM,   /* out of memory */
+    UG_EIO,      /* a file could not be read or written */
+    UG_ESYNTAX,  /* YAML or CSV syntax */
+    UG_ESCHEMA,  /* a key, type or value the format does not allow */
+    UG_EDATA,    /* counts that cannot be used (negative, mismatched, ...) */
+    UG_ELIMIT,   /* input beyond a stated limit */
+    UG_ERENDER   /* text layout or rendering failed */
+} ug_status;
+
+typedef struct {
+    const char *file; /* points into the owning ug_error or model; may be NULL */
+    unsigned line, column; /* 1-based; 0 when the place is the whole file */
+} ug_mark;
+
+typedef struct {
+    ug_status status;
+    ug_mark where;     /* where.file points at file[] below */
+    char file[1024];
+    char msg[512];
+} ug_error;
+
+/* "file:line:col: message" (or "file: message" without a line) into buf. */
+const char *ug_error_format(const ug_error *err, char *buf, size_t size);
+const char *ug_status_name(ug_status st);
+
+/* ---- the chart model (layout files, FORMAT.md §1) --------------------- */
+
+typedef struct ug_chart ug_chart;
+
+typedef struct {
+    size_t max_file_bytes;   /* 0 = default (4 MiB) */
+    size_t max_icons;        /* 0 = default (100 000) */
+} ug_limits;
+
+ug_status ug_chart_load(const char *path, const ug_limits *limits,
+                        ug_chart **out, ug_error *err);
+/* name is used in error messages and to resolve relative paths (data.file). */
+ug_status ug_chart_load_string(const char *text, size_t len, const char *name,
+                               const ug_limits *limits, ug_chart **out,
+                               ug_error *err);
+void ug_chart_free(ug_chart *chart);
+
+/* ---- allocation: counts -> whole icons (FORMAT.md §3) ------------------ */
+
+typedef struct ug_allocation ug_allocation;
+
+typedef enum { UG_REPORT_TEXT, UG_REPORT_CSV, UG_REPORT_JSON } ug_report_format;
+
+ug_status ug_chart_allocate(const ug_chart *chart, ug_allocation **out,
+                            ug_error *err);
+void ug_allocation_free(ug_allocation *a);
+/* The allocation report as text, CSV or JSON; *out is malloc'd, NUL-ended. */
+ug_status ug_allocation_report(const ug_allocation *a, ug_report_format fmt,
+                               char **out, size_t *len, ug_error *err);
+
+/* ---- utilities ---------------------------------------------------------- */
+
+/* Write len bytes to path through a temporary file in the same folder and
+** rename(2), so a failure leaves any previous file untouched. "-" = stdout. */
+ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
+                               ug_error *err);
+
+#ifdef __cplusplus
+}
+#endif
+#endif

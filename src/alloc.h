@@ -1,0 +1,70 @@
+/*
+** Apportionment: exact counts -> whole icons (FORMAT.md §3). Pure C, no I/O.
+*/
+#ifndef UG_ALLOC_H
+#define UG_ALLOC_H
+
+#include "model.h"
+
+typedef struct {
+    ug_method method;
+    bool by_cells;   /* true: a fixed number of cells; false: each icon = value */
+    ug_dec value;    /* icon value V (> 0) when !by_cells */
+    long cells;      /* N when by_cells */
+    bool partial;    /* rounding: partial (only with a value) */
+    long max_icons;  /* refuse an N above this (0: no limit) */
+} alloc_rule;
+
+/* One category's share. Exact rationals keep the report honest: the quota is
+** quota_num / quota_den, and so is the remainder rem / quota_den. */
+typedef struct {
+    ug_dec count;
+    long icons;            /* whole icons drawn */
+    ug_i128 quota_num, quota_den;
+    ug_i128 rem;           /* quota_num mod quota_den */
+    bool partial;          /* one more icon clipped to rem / quota_den */
+    ug_i128 shown_num, shown_den; /* shown value, scaled by 10^6, as a ratio */
+} alloc_share;
+
+/* Apportion n counts under rule into out[0..n). *total_icons gets N. The mark
+** names the place blamed when the limit is exceeded. */
+ug_status alloc_apportion(const ug_dec *counts, size_t n, const alloc_rule *rule,
+                          alloc_share *out, long *total_icons, ug_mark where,
+                          ug_error *err);
+
+/* Sum of counts (exact). */
+ug_dec alloc_sum(const ug_dec *counts, size_t n);
+
+/* N for a stated value: round-half-up(total / value). */
+ug_i128 alloc_icons_for_value(ug_dec total, ug_dec value);
+
+/* The smallest "nice" value (1, 2, 2.5 or 5 x 10^k) that keeps the icons for
+** `largest` within `fit` (at least 1). Returns false when none exists. */
+bool alloc_nice_value(ug_dec largest, long fit, ug_dec *out);
+
+/* The next nice value above v (for searching upward). */
+ug_dec alloc_next_nice(ug_dec v);
+
+/* The allocation of a whole chart: one apportionment per group. */
+struct ug_allocation {
+    const ug_chart *chart;  /* borrowed: the chart outlives the allocation */
+    alloc_rule rule;        /* the rule actually used (auto value resolved) */
+    size_t ngroups, ncats;
+    alloc_share *shares;    /* [group * ncats + category] */
+    long *group_icons;      /* N per group */
+    ug_dec *group_totals;
+};
+
+static inline const alloc_share *alloc_at(const ug_allocation *a, size_t g, size_t c)
+{
+    return &a->shares[g * a->ncats + c];
+}
+
+/* Icons per line: `columns`, or 20 for rows and 10 for waffles. */
+long alloc_default_columns(const ug_chart *chart);
+
+/* Build the allocation rule a chart states (auto icon value resolved). */
+ug_status alloc_rule_for_chart(const ug_chart *chart, alloc_rule *rule,
+                               ug_error *err);
+
+#endif

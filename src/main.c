@@ -1,0 +1,75 @@
+/*
+** unitgram command-line client: picks the command and hands over to its
+** cli_<name>.c. Everything real happens in the library.
+*/
+#include <stdio.h>
+#include <string.h>
+
+#include "cli.h"
+
+typedef struct {
+    const char *name;
+    int (*run)(int argc, char **argv);
+    const char *summary;
+} command;
+
+static const command commands[] = {
+    {"draw", cli_draw, "draw a chart or handout (SVG, PNG, PDF, HTML)"},
+    {"tally", cli_tally, "print the allocation report: counts to icons"},
+    {"audit", cli_audit, "check a chart for honesty, privacy and accessibility"},
+    {"describe", cli_describe, "print the plain-language description (alt text)"},
+    {"glyphs", cli_glyphs, "list the glyph library or draw a contact sheet"},
+    {"init", cli_init, "write a commented starter layout"},
+};
+
+static void usage(FILE *to)
+{
+    fprintf(to, "usage: unitgram COMMAND [OPTIONS] ...\n\ncommands:\n");
+    for (size_t i = 0; i < sizeof commands / sizeof commands[0]; i++)
+        fprintf(to, "  %-10s %s\n", commands[i].name, commands[i].summary);
+    fprintf(to, "  %-10s %s\n", "help", "show help for a command");
+    fprintf(to, "\n'unitgram COMMAND --help' shows a command's options.\n"
+                "exit codes: 0 success, 1 bad input, 2 usage, 3 audit failure "
+                "under --strict, 4 output could not be written\n");
+}
+
+static const command *find(const char *name)
+{
+    for (size_t i = 0; i < sizeof commands / sizeof commands[0]; i++)
+        if (strcmp(commands[i].name, name) == 0)
+            return &commands[i];
+    return NULL;
+}
+
+int main(int argc, char **argv)
+{
+    if (argc < 2) {
+        usage(stderr);
+        return EXIT_USAGE;
+    }
+    const char *name = argv[1];
+    if (!strcmp(name, "--version") || !strcmp(name, "-V")) {
+        printf("unitgram %s\n", UG_VERSION);
+        return EXIT_OK;
+    }
+    if (!strcmp(name, "--help") || !strcmp(name, "-h")) {
+        usage(stdout);
+        return EXIT_OK;
+    }
+    if (!strcmp(name, "help")) {
+        const command *c = argc > 2 ? find(argv[2]) : NULL;
+        if (!c) {
+            usage(argc > 2 ? stderr : stdout);
+            return argc > 2 ? EXIT_USAGE : EXIT_OK;
+        }
+        char *help_argv[] = {argv[2], "--help", NULL};
+        return c->run(2, help_argv);
+    }
+    const command *c = find(name);
+    if (!c) {
+        fprintf(stderr, "unitgram: unknown command '%s'\n", name);
+        usage(stderr);
+        return EXIT_USAGE;
+    }
+    return c->run(argc - 1, argv + 1);
+}

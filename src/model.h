@@ -1,0 +1,141 @@
+/*
+** The chart model: what a layout file says, typed and validated, every value
+** keeping the place it came from. layout.c and data.c build it; every later
+** stage reads it and never changes it. All memory belongs to the chart's arena.
+*/
+#ifndef UG_MODEL_H
+#define UG_MODEL_H
+
+#include "ug.h"
+
+#define UG_MAX_CATEGORIES 1000
+#define UG_MAX_GROUPS 1000
+#define UG_MAX_STRING 4096     /* bytes in one text value */
+#define UG_MAX_DEPTH 32        /* YAML nesting */
+#define UG_DEFAULT_MAX_FILE (4u << 20)
+#define UG_DEFAULT_MAX_ICONS 100000
+
+typedef enum { UG_FORM_ROWS, UG_FORM_WAFFLE } ug_form;
+typedef enum { UG_ROUND_WHOLE, UG_ROUND_PARTIAL } ug_rounding;
+typedef enum {
+    UG_METHOD_LARGEST_REMAINDER,
+    UG_METHOD_SAINTE_LAGUE,
+    UG_METHOD_DHONDT
+} ug_method;
+typedef enum { UG_ARRANGE_INLINE, UG_ARRANGE_SPLIT } ug_arrangement;
+typedef enum { UG_FILL_BY_ROW, UG_FILL_BY_COLUMN, UG_FILL_SNAKE } ug_fill;
+typedef enum { UG_START_TOP_LEFT, UG_START_BOTTOM_LEFT } ug_start;
+typedef enum { UG_PALETTE_OKABE_ITO, UG_PALETTE_TOL_BRIGHT, UG_PALETTE_TOL_MUTED } ug_palette;
+
+typedef struct {
+    unsigned char r, g, b;
+    bool set;     /* false: not given in the layout */
+    ug_mark mark;
+} ug_color;
+
+typedef struct {
+    const char *text; /* NULL when absent */
+    ug_mark mark;
+} ug_text;
+
+typedef struct {
+    ug_text *items;
+    size_t n;
+    ug_mark mark;
+} ug_text_list;
+
+typedef struct {
+    const char *id;       /* given or a slug of the label; unique */
+    ug_text label;
+    ug_text glyph;        /* library name, primitive or path; NULL: "square" */
+    ug_color color;       /* resolved: from the layout or the palette */
+    bool color_given;
+    ug_text note;
+    ug_text column;       /* CSV column (wide tables) or category value (long) */
+    ug_dec *counts;       /* one per group, or one without groups */
+    ug_mark *count_marks; /* where each count came from (YAML or CSV cell) */
+    ug_mark mark;         /* the category's mapping */
+} ug_category;
+
+typedef struct {
+    const char *file;      /* resolved path of the CSV */
+    ug_text file_text;     /* as written */
+    ug_text group_column;
+    ug_text category_column; /* long tables */
+    ug_text count_column;
+    bool present;
+} ug_data_spec;
+
+struct ug_chart {
+    ug_arena arena;
+    const char *path;        /* the layout file as named by the caller */
+    const char *dir;         /* its folder, for relative paths */
+
+    ug_text title, subtitle, description, unit_label;
+    ug_text_list source, notes;
+
+    ug_form form;
+    ug_mark form_mark;
+    bool has_icon_value, icon_value_auto;
+    ug_dec icon_value;       /* > 0 when has_icon_value && !icon_value_auto */
+    ug_mark icon_value_mark;
+    bool has_cells;
+    long cells;              /* waffle; 100 when not given */
+    ug_mark cells_mark;
+    ug_rounding rounding;
+    ug_mark rounding_mark;
+    ug_method method;
+    ug_mark method_mark;
+
+    double icon_size, icon_gap; /* px */
+    ug_mark icon_mark;
+    long columns;               /* 0: not given (rows: 20, waffle: 10) */
+    ug_mark columns_mark;
+    long cluster;               /* rows: 0 = none; default 5 */
+    ug_arrangement arrangement;
+    ug_fill fill;
+    ug_start start;
+
+    ug_text_list groups;     /* n == 0: no groups */
+    ug_category *cats;
+    size_t ncats;
+    ug_mark categories_mark;
+
+    bool has_total;
+    ug_dec total;
+    ug_mark total_mark;
+
+    bool has_suppress;
+    ug_dec suppress_below;
+    ug_text suppress_label;  /* default "fewer than N" */
+    ug_mark suppress_mark;
+
+    struct {
+        bool has_tolerance;
+        ug_dec tolerance_percent;  /* default 10 */
+        bool has_small_count;
+        ug_dec small_count;        /* default 10 */
+        ug_text_list ignore;
+        ug_mark mark;
+    } audit;
+
+    struct {
+        double width;            /* px, default 800 */
+        const char *font;        /* default "DejaVu Sans" */
+        ug_color background;     /* default #ffffff */
+        ug_color ink;            /* default #222222 */
+        ug_palette palette;
+        ug_mark mark;
+    } style;
+
+    ug_data_spec data;
+    ug_limits limits;            /* resolved: no zeros */
+};
+
+/* Number of count columns per category: groups.n, or 1 without groups. */
+static inline size_t chart_ngroups(const ug_chart *c)
+{
+    return c->groups.n ? c->groups.n : 1;
+}
+
+#endif

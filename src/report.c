@@ -1,0 +1,273 @@
+/*
+** Allocation of a whole chart (one apportionment per group) and the report
+** that states, per category, what was counted and what the picture shows.
+** The report is how a reader checks the picture: it never hides a difference.
+*/
+#include <string.h>
+
+#include "alloc.h"
+
+static ug_dec largest_line(const ug_chart *c)
+{
+    ug_dec best = {0};
+    for (size_t g = 0; g < chart_ngroups(c); g++) {
+        ug_dec group = {0};
+        for (size_t i = 0; i < c->ncats; i++) {
+            ug_dec v = c->cats[i].counts[g];
+            group.v += v.v;
+            if (c->arrangement == UG_ARRANGE_SPLIT && v.v > best.v)
+                best = v;
+        }
+        if (c->arrangement == UG_ARRANGE_INLINE && group.v > best.v)
+            best = group;
+    }
+    return best;
+}
+
+long alloc_default_columns(const ug_chart *c)
+{
+    if (c->columns > 0)
+        return c->columns;
+    return c->form == UG_FORM_WAFFLE ? 10 : 20;
+}
+
+ug_status alloc_rule_for_chart(const ug_chart *c, alloc_rule *rule, ug_error *err)
+{
+    memset(rule, 0, sizeof *rule);
+    rule->method = c->method;
+    rule->max_icons = (long)c->limits.max_icons;
+    rule->partial = c->rounding == UG_ROUND_PARTIAL;
+    if (c->form == UG_FORM_WAFFLE && !c->has_icon_value) {
+        rule->by_cells = true;
+        rule->cells = c->cells > 0 ? c->cells : 100;
+        return UG_OK;
+    }
+    if (!c->icon_value_auto) {
+        rule->value = c->icon_value;
+        return UG_OK;
+    }
+    if (!alloc_nice_value(largest_line(c), alloc_default_columns(c), &rule->value))
+        return ug_fail(err, UG_EDATA, c->icon_value_mark,
+                       "no icon value fits these counts on one line");
+    return UG_OK;
+}
+
+static ug_status fill_groups(ug_allocation *a, const ug_chart *c, ug_dec *column,
+                             ug_error *err)
+{
+    for (size_t g = 0; g < a->ngroups; g++) {
+        for (size_t i = 0; i < c->ncats; i++)
+            column[i] = c->cats[i].counts[g];
+        a->group_totals[g] = alloc_sum(column, c->ncats);
+        ug_mark where = c->groups.n ? c->groups.items[g].mark : c->categories_mark;
+        ug_status st = alloc_apportion(column, c->ncats, &a->rule,
+                                       &a->shares[g * c->ncats],
+                                       &a->group_icons[g], where, err);
+        if (st)
+            return st;
+    }
+    return UG_OK;
+}
+
+ug_status ug_chart_allocate(const ug_chart *c, ug_allocation **out, ug_error *err)
+{
+    *out = NULL;
+    ug_allocation *a = ug_calloc(1, sizeof *a);
+    ug_dec *column = ug_calloc(c->ncats, sizeof *column);
+    ug_status st = UG_ENOMEM;
+    if (!a || !column)
+        goto fail;
+    a->chart = c;
+    a->ngroups = chart_ngroups(c);
+    a->ncats = c->ncats;
+    a->shares = ug_calloc(a->ngroups * c->ncats, sizeof *a->shares);
+    a->group_icons = ug_calloc(a->ngroups, sizeof *a->group_icons);
+    a->group_totals = ug_calloc(a->ngroups, sizeof *a->group_totals);
+    if (!a->shares || !a->group_icons || !a->group_totals)
+        goto fail;
+    if ((st = alloc_rule_for_chart(c, &a->rule, err)))
+        goto fail;
+    if ((st = fill_groups(a, c, column, err)))
+        goto fail;
+    ug_free(column);
+    *out = a;
+    return UG_OK;
+fail:
+    if (st == UG_ENOMEM)
+        ug_fail(err, st, ug_mark_file(c->path), "out of memory");
+    ug_free(column);
+    ug_allocation_free(a);
+    return st;
+}
+
+void ug_allocation_free(ug_allocation *a)
+{
+    if (!a)
+        return;
+    ug_free(a->shares);
+    ug_free(a->group_icons);
+    ug_free(a->group_totals);
+    ug_free(a);
+}
+
+/* ---- the report ---------------------------------------------------------- */
+
+typedef struct {
+    char count[48], quota[64], icons[64], shown[64], diff[64], rel[64];
+} row_text;
+
+/* Rationals are printed rounded half-up to six places with trailing zeros
+** dropped, so an exact value reads exactly and a repeating one reads sensibly. */
+static char *trimmed_ratio(ug_i128 num, ug_i128 den, char *buf)
+{
+    ug_ratio_format(num, den, UG_DEC_PLACES, buf);
+    char *dot = strchr(buf, '.');
+    if (dot) {
+        char *end = buf + strlen(buf) - 1;
+        while (end > dot && *end == '0')
+            *end-- = '\0';
+        if (end == dot)
+            *end = '\0';
+    }
+    if (strcmp(buf, "-0") == 0)
+        strcpy(buf, "0");
+    return buf;
+}
+
+static void describe_share(const alloc_share *s, row_text *t)
+{
+    ug_dec_format(s->count, t->count);
+    trimmed_ratio(s->quota_num, s->quota_den, t->quota);
+    if (s->partial)
+        trimmed_ratio(s->quota_num, s->quota_den, t->icons);
+    else
+        snprintf(t->icons, sizeof t->icons, "%ld", s->icons);
+    trimmed_ratio(s->shown_num, s->shown_den * UG_DEC_SCALE, t->shown);
+    ug_i128 diff = s->shown_num - s->count.v * s->shown_den;
+    trimmed_ratio(diff, s->shown_den * UG_DEC_SCALE, t->diff);
+    if (s->count.v)
+        ug_ratio_format(diff * 100, s->shown_den * s->count.v, 1, t->rel);
+    else
+        strcpy(t->rel, "0.0");
+}
+
+static void csv_field(ug_buf *b, const char *s)
+{
+    if (!strpbrk(s, ",\"\r\n")) {
+        ug_buf_puts(b, s);
+        return;
+    }
+    ug_buf_puts(b, "\"");
+    for (; *s; s++)
+        ug_buf_add(b, *s == '"' ? "\"\"" : s, *s == '"' ? 2 : 1);
+    ug_buf_puts(b, "\"");
+}
+
+static void json_string(ug_buf *b, const char *s)
+{
+    ug_buf_puts(b, "\"");
+    for (; *s; s++) {
+        unsigned char ch = (unsigned char)*s;
+        if (ch == '"' || ch == '\\')
+            ug_buf_printf(b, "\\%c", ch);
+        else if (ch < 0x20)
+            ug_buf_printf(b, "\\u%04x", ch);
+        else
+            ug_buf_add(b, s, 1);
+    }
+    ug_buf_puts(b, "\"");
+}
+
+static const char *group_name(const ug_chart *c, size_t g)
+{
+    return c->groups.n ? c->groups.items[g].text : "";
+}
+
+static const char *value_text(const ug_allocation *a, char *buf)
+{
+    if (a->rule.by_cells)
+        snprintf(buf, 48, "1/%ld of the total", a->rule.cells);
+    else
+        ug_dec_format(a->rule.value, buf);
+    return buf;
+}
+
+static void report_text(const ug_allocation *a, ug_buf *b)
+{
+    const ug_chart *c = a->chart;
+    char v[64], tot[48];
+    ug_buf_printf(b, "Each icon = %s%s%s; method: %s%s\n", value_text(a, v),
+                  c->unit_label.text ? " " : "",
+                  c->unit_label.text ? c->unit_label.text : "",
+                  a->rule.method == UG_METHOD_LARGEST_REMAINDER ? "largest remainder"
+                  : a->rule.method == UG_METHOD_SAINTE_LAGUE ? "Sainte-Lague"
+                                                             : "D'Hondt",
+                  a->rule.partial ? " (partial icons)" : "");
+    for (size_t g = 0; g < a->ngroups; g++) {
+        if (c->groups.n)
+            ug_buf_printf(b, "\n%s\n", group_name(c, g));
+        ug_buf_printf(b, "  %-24s %12s %12s %8s %12s %12s %8s\n", "category",
+                      "count", "quota", "icons", "shown", "difference", "rel %");
+        for (size_t i = 0; i < a->ncats; i++) {
+            row_text t;
+            describe_share(alloc_at(a, g, i), &t);
+            ug_buf_printf(b, "  %-24s %12s %12s %8s %12s %12s %8s\n",
+                          c->cats[i].label.text, t.count, t.quota, t.icons,
+                          t.shown, t.diff, t.rel);
+        }
+        ug_buf_printf(b, "  %-24s %12s %12s %8ld\n", "total",
+                      ug_dec_format(a->group_totals[g], tot), "",
+                      a->group_icons[g]);
+    }
+}
+
+static void report_csv(const ug_allocation *a, ug_buf *b)
+{
+    const ug_chart *c = a->chart;
+    ug_buf_puts(b, "group,category,count,quota,icons,shown,difference\n");
+    for (size_t g = 0; g < a->ngroups; g++)
+        for (size_t i = 0; i < a->ncats; i++) {
+            row_text t;
+            describe_share(alloc_at(a, g, i), &t);
+            csv_field(b, group_name(c, g));
+            ug_buf_puts(b, ",");
+            csv_field(b, c->cats[i].label.text);
+            ug_buf_printf(b, ",%s,%s,%s,%s,%s\n", t.count, t.quota, t.icons,
+                          t.shown, t.diff);
+        }
+}
+
+static void report_json(const ug_allocation *a, ug_buf *b)
+{
+    const ug_chart *c = a->chart;
+    ug_buf_puts(b, "[\n");
+    for (size_t g = 0; g < a->ngroups; g++)
+        for (size_t i = 0; i < a->ncats; i++) {
+            row_text t;
+            describe_share(alloc_at(a, g, i), &t);
+            ug_buf_puts(b, "  {\"group\": ");
+            json_string(b, group_name(c, g));
+            ug_buf_puts(b, ", \"category\": ");
+            json_string(b, c->cats[i].label.text);
+            ug_buf_printf(b,
+                          ", \"count\": %s, \"quota\": %s, \"icons\": %s, "
+                          "\"shown\": %s, \"difference\": %s}%s\n",
+                          t.count, t.quota, t.icons, t.shown, t.diff,
+                          g + 1 == a->ngroups && i + 1 == a->ncats ? "" : ",");
+        }
+    ug_buf_puts(b, "]\n");
+}
+
+ug_status ug_allocation_report(const ug_allocation *a, ug_report_format fmt,
+                               char **out, size_t *len, ug_error *err)
+{
+    ug_buf b;
+    ug_buf_init(&b);
+    if (fmt == UG_REPORT_CSV)
+        report_csv(a, &b);
+    else if (fmt == UG_REPORT_JSON)
+        report_json(a, &b);
+    else
+        report_text(a, &b);
+    return ug_buf_take(&b, out, len, err);
+}

@@ -1,0 +1,181 @@
+/* Tests for src/util.c and src/dec.c: exact decimals, buffers, atomic writes. */
+#define _POSIX_C_SOURCE 200809L
+#include <check.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include "ug.h"
+
+typedef struct {
+    const char *text;
+    ug_dec_result result;
+    const char *canonical; /* ug_dec_format of the parsed value */
+} dec_case;
+
+static const dec_case dec_cases[] = {
+    {"412", UG_DEC_OK, "412"},
+    {"41.25", UG_DEC_OK, "41.25"},
+    {"0.5", UG_DEC_OK, "0.5"},
+    {" 7 ", UG_DEC_OK, "7"},
+    {"+3", UG_DEC_OK, "3"},
+    {".5", UG_DEC_OK, "0.5"},
+    {"5.", UG_DEC_OK, "5"},
+    {"0.000001", UG_DEC_OK, "0.000001"},
+    {"1000000000000000", UG_DEC_OK, "1000000000000000"},
+    {"1000000000000000.999999", UG_DEC_OK, "1000000000000000.999999"},
+    {"1000000000000001", UG_DEC_TOO_LARGE, "0"},
+    {"0.0000001", UG_DEC_PLACES_MAX, "0"},
+    {"-1", UG_DEC_NEGATIVE, "0"},
+    {"-0", UG_DEC_NEGATIVE, "0"},
+    {"1e3", UG_DEC_SYNTAX, "0"},
+    {"NaN", UG_DEC_SYNTAX, "0"},
+    {"inf", UG_DEC_SYNTAX, "0"},
+    {"1,000", UG_DEC_SYNTAX, "0"},
+    {".", UG_DEC_SYNTAX, "0"},
+    {"0x10", UG_DEC_SYNTAX, "0"},
+    {"", UG_DEC_EMPTY, "0"},
+    {"   ", UG_DEC_EMPTY, "0"},
+    {"99999999999999999999999999999999999999999", UG_DEC_TOO_LARGE, "0"},
+};
+
+START_TEST(test_dec_parse_table)
+{
+    const dec_case *c = &dec_cases[_i];
+    ug_dec d;
+    char buf[48];
+    ck_assert_int_eq(ug_dec_parse(c->text, strlen(c->text), &d), c->result);
+    if (c->result == UG_DEC_OK)
+        ck_assert_str_eq(ug_dec_format(d, buf), c->canonical);
+}
+END_TEST
+
+/* 0.1 + 0.2 is not 0.3 in binary floating point; in scaled integers it is. */
+START_TEST(test_dec_sum_is_exact)
+{
+    ug_dec a, b, c;
+    ug_dec_parse("0.1", 3, &a);
+    ug_dec_parse("0.2", 3, &b);
+    ug_dec_parse("0.3", 3, &c);
+    ck_assert(a.v + b.v == c.v);
+}
+END_TEST
+
+START_TEST(test_ratio_format_half_up)
+{
+    char buf[64];
+    ck_assert_str_eq(ug_ratio_format(1, 8, 2, buf), "0.13");  /* 0.125 */
+    ck_assert_str_eq(ug_ratio_format(-1, 8, 2, buf), "-0.13");
+    ck_assert_str_eq(ug_ratio_format(2, 3, 4, buf), "0.6667");
+    ck_assert_str_eq(ug_ratio_format(0, 3, 1, buf), "0.0");
+    ck_assert_str_eq(ug_i128_format_scaled(-1500000, buf), "-1.5");
+}
+END_TEST
+
+START_TEST(test_buf_grows_and_takes)
+{
+    ug_buf b;
+    ug_buf_init(&b);
+    for (int i = 0; i < 1000; i++)
+        ug_buf_printf(&b, "%04d", i);
+    char *out;
+    size_t len;
+    ug_error err = {0};
+    ck_assert_int_eq(ug_buf_take(&b, &out, &len, &err), UG_OK);
+    ck_assert_uint_eq(len, 4000);
+    ck_assert(strncmp(out + 3996, "0999", 4) == 0);
+    ug_free(out);
+}
+END_TEST
+
+START_TEST(test_buf_out_of_memory_is_reported)
+{
+    ug_buf b;
+    ug_buf_init(&b);
+    ug_mem_fail_after(0);
+    ug_buf_puts(&b, "hello");
+    ug_mem_fail_after(-1);
+    char *out;
+    ug_error err = {0};
+    ck_assert_int_eq(ug_buf_take(&b, &out, NULL, &err), UG_ENOMEM);
+    ck_assert_ptr_null(out);
+}
+END_TEST
+
+START_TEST(test_arena_zeroes_and_aligns)
+{
+    ug_arena a = {0};
+    for (int i = 0; i < 5000; i++) {
+        unsigned char *p = ug_arena_alloc(&a, (size_t)(i % 37) + 1);
+        ck_assert_ptr_nonnull(p);
+        ck_assert_uint_eq((uintptr_t)p % 16, 0);
+        ck_assert_uint_eq(p[0], 0);
+    }
+    ck_assert_str_eq(ug_arena_strdup(&a, "pantry"), "pantry");
+    ug_arena_free(&a);
+}
+END_TEST
+
+START_TEST(test_first_error_wins)
+{
+    ug_error err = {0};
+    ug_mark m = {"a.yaml", 3, 7};
+    ug_fail(&err, UG_ESCHEMA, m, "first %d", 1);
+    ug_fail(&err, UG_EDATA, ug_mark_file("b.yaml"), "second");
+    char buf[600];
+    ck_assert_str_eq(ug_error_format(&err, buf, sizeof buf), "a.yaml:3:7: first 1");
+    ck_assert_int_eq(err.status, UG_ESCHEMA);
+}
+END_TEST
+
+START_TEST(test_atomic_write_replaces_whole_file)
+{
+    char dir[] = "/tmp/ugtestXXXXXX";
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    char path[64];
+    snprintf(path, sizeof path, "%s/out.svg", dir);
+    ug_error err = {0};
+    ck_assert_int_eq(ug_write_file_atomic(path, "old", 3, &err), UG_OK);
+    ck_assert_int_eq(ug_write_file_atomic(path, "newer", 5, &err), UG_OK);
+    FILE *f = fopen(path, "r");
+    char got[16] = {0};
+    ck_assert_uint_eq(fread(got, 1, sizeof got, f), 5);
+    fclose(f);
+    ck_assert_str_eq(got, "newer");
+    /* a folder that does not exist: an error, nothing written */
+    char bad[96];
+    snprintf(bad, sizeof bad, "%s/missing/out.svg", dir);
+    ck_assert_int_eq(ug_write_file_atomic(bad, "x", 1, &err), UG_EIO);
+    ck_assert(strstr(err.msg, "cannot create output") != NULL);
+    unlink(path);
+    rmdir(dir);
+}
+END_TEST
+
+static Suite *util_suite(void)
+{
+    Suite *s = suite_create("util");
+    TCase *tc = tcase_create("core");
+    tcase_add_loop_test(tc, test_dec_parse_table, 0,
+                        (int)(sizeof dec_cases / sizeof dec_cases[0]));
+    tcase_add_test(tc, test_dec_sum_is_exact);
+    tcase_add_test(tc, test_ratio_format_half_up);
+    tcase_add_test(tc, test_buf_grows_and_takes);
+    tcase_add_test(tc, test_buf_out_of_memory_is_reported);
+    tcase_add_test(tc, test_arena_zeroes_and_aligns);
+    tcase_add_test(tc, test_first_error_wins);
+    tcase_add_test(tc, test_atomic_write_replaces_whole_file);
+    suite_add_tcase(s, tc);
+    return s;
+}
+
+int main(void)
+{
+    SRunner *sr = srunner_create(util_suite());
+    srunner_run_all(sr, CK_NORMAL);
+    int failed = srunner_ntests_failed(sr);
+    srunner_free(sr);
+    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+}
