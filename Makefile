@@ -19,6 +19,13 @@ PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null) -lcsv -lm
 CHECK_LIBS = $(shell pkg-config --libs check 2>/dev/null)
 ALL_CFLAGS = $(STD) $(WARNINGS) $(CFLAGS) -Iinclude -Isrc $(PKG_CFLAGS) -MMD -MP
 
+# The sanitized pass of `make check` (ASan + UBSan, leaks included).
+SAN_CFLAGS = -O1 -g -fsanitize=address,undefined -fno-omit-frame-pointer \
+             -fno-sanitize-recover=all
+SAN_ENV    = G_SLICE=always-malloc ASAN_OPTIONS=detect_leaks=1:abort_on_error=0 \
+             LSAN_OPTIONS=suppressions=$(CURDIR)/tests/lsan.supp:print_suppressions=0 \
+             UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 UG_SANITIZED=1
+
 DEBIAN_PACKAGES = build-essential pkg-config libyaml-dev librsvg2-dev libcairo2-dev \
   libpango1.0-dev liblcms2-dev libxml2-dev libcsv-dev check librsvg2-bin \
   libxml2-utils poppler-utils fonts-dejavu-core
@@ -36,7 +43,7 @@ BIN      = $(BUILD)/unitgram
 
 LAYOUTS  = $(wildcard layouts/*.yaml)
 
-.PHONY: all deps check run-tests demo render-demo clean
+.PHONY: all deps check run-tests check-sanitized demo render-demo clean
 
 all: $(BIN) $(LIB)
 
@@ -60,10 +67,12 @@ $(BUILD)/%.o: %.c
 
 $(LIB): $(LIB_OBJ)
 	@rm -f $@
-	ar rcs $@ $^
+	@echo "  AR  $@"
+	@ar rcs $@ $^
 
 $(BIN): $(CLI_OBJ) $(LIB)
-	$(CC) $(CFLAGS) -o $@ $(CLI_OBJ) $(LIB) $(PKG_LIBS)
+	@echo "  LD  $@"
+	@$(CC) $(CFLAGS) -o $@ $(CLI_OBJ) $(LIB) $(PKG_LIBS)
 
 $(BUILD)/tests/%: tests/%.c $(LIB)
 	@mkdir -p $(dir $@)
@@ -73,10 +82,17 @@ $(BUILD)/tests/%: tests/%.c $(LIB)
 # ---- tests ------------------------------------------------------------------
 check: deps
 	@$(MAKE) --no-print-directory run-tests
+	@$(MAKE) --no-print-directory check-sanitized
+
+# The whole suite again, built with AddressSanitizer and UBSan.
+check-sanitized:
+	@echo "== sanitized pass (ASan + UBSan) in build/asan"
+	@$(SAN_ENV) $(MAKE) --no-print-directory BUILD=build/asan \
+	  CFLAGS="$(SAN_CFLAGS)" run-tests
 
 run-tests: $(BIN) $(TESTS)
 	@set -e; for t in $(TESTS); do \
-	  echo "== $$t"; (cd tests && ../$$t); done
+	  echo "== $$t"; (cd tests && $(CURDIR)/$$t); done
 	@set -e; for s in tests/suite_*.sh; do [ -f "$$s" ] || continue; \
 	  echo "== $$s"; bash "$$s" $(BIN); done
 	@echo "unitgram: all test suites passed"
