@@ -8,6 +8,7 @@ CFLAGS  ?= -O2 -g
 PREFIX  ?= /usr/local
 DESTDIR ?=
 BUILD   ?= build
+VERSION  = $(shell sed -n 's/^#define UG_VERSION "\(.*\)"/\1/p' include/unitgram.h)
 
 PKGS      = yaml-0.1 librsvg-2.0 cairo cairo-pdf cairo-png pangocairo libxml-2.0 lcms2
 WARNINGS  = -Wall -Wextra -Wshadow -Wstrict-prototypes -Wmissing-prototypes \
@@ -17,7 +18,9 @@ STD       = -std=c11 -D_POSIX_C_SOURCE=200809L
 PKG_CFLAGS = $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
 PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null) -lcsv -lm
 CHECK_LIBS = $(shell pkg-config --libs check 2>/dev/null)
-ALL_CFLAGS = $(STD) $(WARNINGS) $(CFLAGS) -Iinclude -Isrc $(PKG_CFLAGS) -MMD -MP
+DATADIR    = $(PREFIX)/share/unitgram
+ALL_CFLAGS = $(STD) $(WARNINGS) $(CFLAGS) -Iinclude -Isrc $(PKG_CFLAGS) -MMD -MP \
+             -DUG_DATADIR='"$(DATADIR)/glyphs"'
 
 # The sanitized pass of `make check` (ASan + UBSan, leaks included).
 SAN_CFLAGS = -O1 -g -fsanitize=address,undefined -fno-omit-frame-pointer \
@@ -43,7 +46,8 @@ BIN      = $(BUILD)/unitgram
 
 LAYOUTS  = $(wildcard layouts/*.yaml)
 
-.PHONY: all deps check run-tests check-sanitized demo render-demo clean
+.PHONY: all deps check run-tests check-sanitized demo render-demo clean \
+        install uninstall
 
 all: $(BIN) $(LIB)
 
@@ -106,6 +110,30 @@ render-demo: $(BIN)
 	@set -e; for f in $(LAYOUTS); do \
 	  n=$$(basename $$f .yaml); \
 	  $(BIN) draw $$f -o out/$$n.svg && echo "out/$$n.svg"; done
+
+# ---- install ----------------------------------------------------------------
+# Build and install with the same PREFIX: the glyph folder is compiled in.
+INSTALL_FILES = bin/unitgram lib/libunitgram.a include/unitgram.h \
+  lib/pkgconfig/unitgram.pc share/man/man1/unitgram.1 \
+  share/bash-completion/completions/unitgram
+
+install: all
+	install -d $(DESTDIR)$(PREFIX)/bin $(DESTDIR)$(PREFIX)/lib/pkgconfig \
+	  $(DESTDIR)$(PREFIX)/include $(DESTDIR)$(PREFIX)/share/man/man1 \
+	  $(DESTDIR)$(DATADIR)/glyphs $(DESTDIR)$(PREFIX)/share/bash-completion/completions
+	install -m 755 $(BIN) $(DESTDIR)$(PREFIX)/bin/unitgram
+	install -m 644 $(LIB) $(DESTDIR)$(PREFIX)/lib/libunitgram.a
+	install -m 644 include/unitgram.h $(DESTDIR)$(PREFIX)/include/unitgram.h
+	install -m 644 src/unitgram.1 $(DESTDIR)$(PREFIX)/share/man/man1/unitgram.1
+	install -m 644 src/unitgram.bash $(DESTDIR)$(PREFIX)/share/bash-completion/completions/unitgram
+	install -m 644 glyphs/*.svg glyphs/index.yaml $(DESTDIR)$(DATADIR)/glyphs/
+	sed -e 's|@PREFIX@|$(PREFIX)|g' -e 's|@VERSION@|$(VERSION)|g' \
+	  -e 's|@REQUIRES@|$(PKGS)|g' src/unitgram.pc.in \
+	  > $(DESTDIR)$(PREFIX)/lib/pkgconfig/unitgram.pc
+
+uninstall:
+	rm -f $(addprefix $(DESTDIR)$(PREFIX)/,$(INSTALL_FILES))
+	rm -rf $(DESTDIR)$(DATADIR)
 
 clean:
 	rm -rf $(BUILD) out
