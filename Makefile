@@ -47,7 +47,7 @@ BIN      = $(BUILD)/unitgram
 LAYOUTS  = $(wildcard layouts/*.yaml)
 
 .PHONY: all deps check run-tests check-sanitized demo render-demo clean \
-        install uninstall
+        install uninstall bench
 
 all: $(BIN) $(LIB)
 
@@ -100,6 +100,10 @@ run-tests: $(BIN) $(TESTS)
 	@set -e; for s in tests/suite_*.sh; do [ -f "$$s" ] || continue; \
 	  echo "== $$s"; bash "$$s" $(BIN); done
 	@echo "unitgram: all test suites passed"
+
+# ---- benchmarks (never part of check: timings belong here, not in tests) ----
+bench: all
+	@bash tests/bench/run.sh $(BUILD)
 
 # ---- demo -------------------------------------------------------------------
 demo: deps
