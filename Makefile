@@ -47,7 +47,7 @@ BIN      = $(BUILD)/unitgram
 LAYOUTS  = $(wildcard layouts/*.yaml)
 
 .PHONY: all deps check run-tests check-sanitized demo render-demo clean \
-        install uninstall bench
+        install uninstall bench fuzz fuzz-build
 
 all: $(BIN) $(LIB)
 
@@ -100,6 +100,38 @@ run-tests: $(BIN) $(TESTS)
 	@set -e; for s in tests/suite_*.sh; do [ -f "$$s" ] || continue; \
 	  echo "== $$s"; bash "$$s" $(BIN); done
 	@echo "unitgram: all test suites passed"
+
+# ---- fuzzing (libFuzzer, clang) --------------------------------------------
+FUZZ_SECONDS ?= 60
+FUZZ_SRC    = $(wildcard tests/fuzz/fuzz_*.c)
+FUZZ_BUILD  = build/fuzz
+FUZZ_CFLAGS = -O1 -g -fsanitize=fuzzer-no-link,address,undefined -fno-omit-frame-pointer
+FUZZERS     = $(FUZZ_SRC:tests/fuzz/%.c=$(FUZZ_BUILD)/%)
+
+fuzz-build:
+	@$(MAKE) --no-print-directory CC=clang BUILD=$(FUZZ_BUILD) \
+	  CFLAGS="$(FUZZ_CFLAGS)" $(FUZZ_BUILD)/libunitgram.a $(FUZZERS)
+
+$(FUZZ_BUILD)/fuzz_%: tests/fuzz/fuzz_%.c $(FUZZ_BUILD)/libunitgram.a
+	@echo "  LD  $@"
+	@clang $(STD) $(WARNINGS) -O1 -g -fsanitize=fuzzer,address,undefined \
+	  -Iinclude -Isrc $(PKG_CFLAGS) -o $@ $< $(FUZZ_BUILD)/libunitgram.a $(PKG_LIBS)
+
+# Each fuzzer runs FUZZ_SECONDS on its corpus (seeded from the tests); a crash
+# leaves its input in build/fuzz/ and fails the target.
+fuzz: fuzz-build
+	@set -e; for f in $(FUZZERS); do n=$$(basename $$f); \
+	  mkdir -p $(FUZZ_BUILD)/corpus/$$n; \
+	  echo "== $$n for $(FUZZ_SECONDS) s"; \
+	  rc=0; G_SLICE=always-malloc ASAN_OPTIONS=detect_leaks=1 \
+	  LSAN_OPTIONS=suppressions=$(CURDIR)/tests/lsan.supp \
+	  $$f -max_total_time=$(FUZZ_SECONDS) -timeout=10 -rss_limit_mb=2048 \
+	    -artifact_prefix=$(FUZZ_BUILD)/$$n- -print_final_stats=1 \
+	    $(FUZZ_BUILD)/corpus/$$n $$(cat tests/fuzz/$$n.seeds 2>/dev/null) \
+	    > $(FUZZ_BUILD)/$$n.log 2>&1 || rc=$$?; \
+	  grep -E "^stat::number_of_executed_units|^SUMMARY" $(FUZZ_BUILD)/$$n.log || true; \
+	  if [ $$rc != 0 ]; then tail -n 40 $(FUZZ_BUILD)/$$n.log; exit 1; fi; \
+	  done
 
 # ---- benchmarks (never part of check: timings belong here, not in tests) ----
 bench: all
