@@ -322,7 +322,9 @@ static void side_texts(packer *p, const rows_frame *f, rows_cursor *cur,
         right_text(p, g, i, &b);
         r = put_buf(p, &b, p->right, top, f->tw, LABEL_PX, false, SCENE_END, true);
     }
-    cur->floor = fmax(cur->floor, top + fmax(l.h, r.h) + p->gap);
+    /* the next line's text starts above its icons when text is taller */
+    cur->floor = fmax(cur->floor, top + fmax(l.h, r.h) + p->gap +
+                                      fmax(0, (lb - f->line_h) / 2));
 }
 
 static void rows_category(packer *p, const rows_frame *f, rows_cursor *cur,
