@@ -239,6 +239,7 @@ static const char *cat_label(const ug_chart *c, size_t i)
 typedef struct {
     double lw, tw;     /* left label column, right total column */
     double x0, avail;  /* icon area */
+    double tx;         /* where the totals start: just past the longest line */
     long cols;
     double line_h;     /* one line of icons (a placeholder may be taller) */
     double band_gap;
@@ -278,10 +279,11 @@ static rows_frame rows_setup(packer *p)
     rows_frame f;
     double cw = content_width(p);
     f.lw = fmin(widest_side(p, true), 0.3 * cw);
-    f.tw = fmin(widest_side(p, false), 0.25 * cw);
+    f.tw = fmin(widest_side(p, false), 0.3 * cw);
     f.x0 = p->left + (f.lw > 0 ? f.lw + COL_GAP : 0);
     f.avail = p->right - (f.tw > 0 ? f.tw + COL_GAP : 0) - f.x0;
     f.cols = fit_columns(p, f.x0, f.avail);
+    f.tx = fmax(slot_x(p, f.x0, f.cols - 1) + p->size, f.x0 + p->holder_w) + COL_GAP;
     f.line_h = fmax(p->size, p->holder_label ? p->holder_h : 0);
     f.band_gap = fmax(14, p->size * 0.75);
     return f;
@@ -297,7 +299,7 @@ static void new_line(const packer *p, const rows_frame *f, rows_cursor *cur)
 {
     if (cur->fresh)
         return;
-    cur->top = fmax(cur->top + f->line_h + p->gap, cur->floor);
+    cur->top = fmax(cur->top + f->line_h + p->gap, ceil(cur->floor));
     cur->k = 0;
     cur->fresh = true;
 }
@@ -320,7 +322,8 @@ static void side_texts(packer *p, const rows_frame *f, rows_cursor *cur,
         ug_buf b;
         ug_buf_init(&b);
         right_text(p, g, i, &b);
-        r = put_buf(p, &b, p->right, top, f->tw, LABEL_PX, false, SCENE_END, true);
+        r = put_buf(p, &b, f->tx, top, p->right - f->tx, LABEL_PX, false, SCENE_START,
+                    true);
     }
     /* the next line's text starts above its icons when text is taller */
     cur->floor = fmax(cur->floor, top + fmax(l.h, r.h) + p->gap +
@@ -358,7 +361,8 @@ static void rows_band(packer *p, const rows_frame *f, size_t g)
 {
     bool split = p->c->arrangement == UG_ARRANGE_SPLIT;
     double lb = line_box(p, LABEL_PX, false);
-    rows_cursor cur = {p->y + fmax(0, (lb - f->line_h) / 2), p->y, 0, true};
+    /* whole-pixel tops keep icon edges crisp when rendered */
+    rows_cursor cur = {ceil(p->y + fmax(0, (lb - f->line_h) / 2)), p->y, 0, true};
     for (size_t i = 0; i < p->c->ncats && !p->st; i++) {
         if (split && i > 0) {
             cur.fresh = false; /* an empty category still gets its line */
@@ -468,10 +472,11 @@ static void pack_waffle(packer *p)
     waffle_frame f = waffle_setup(p);
     size_t n = chart_ngroups(p->c);
     for (size_t g0 = 0; g0 < n && !p->st; g0 += f.per_row) {
+        p->y = ceil(p->y);
         size_t g1 = g0 + f.per_row < n ? g0 + f.per_row : n;
         double head = 0;
         for (size_t g = g0; g < g1; g++)
-            head = fmax(head, panel_header(p, &f, g, 0, false));
+            head = fmax(head, ceil(panel_header(p, &f, g, 0, false)));
         for (size_t g = g0; g < g1 && !p->st; g++) {
             double x = p->left + (double)(g - g0) * (f.w + f.gap);
             panel_header(p, &f, g, x, true);
@@ -498,7 +503,7 @@ static void key_detail(packer *p, size_t i, ug_buf *b)
 static void key_entry(packer *p, size_t i, double lw)
 {
     double lb = line_box(p, LABEL_PX, true);
-    double top = p->y + fmax(0, (lb - p->size) / 2);
+    double top = ceil(p->y + fmax(0, (lb - p->size) / 2));
     double text_top = top + (p->size - lb) / 2;
     double lx = p->left + p->size + 10, dx = lx + lw + 24;
     scene_icon *sw = PUSH(p, swatches, nswatches, cap_swatches);
