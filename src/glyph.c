@@ -471,7 +471,7 @@ static void put_number(ug_buf *b, double v)
 /* Wrap markup in the transform that maps box (x, y, w, h) into the square
 ** [lo, hi]^2, aspect ratio kept and centred (SVG's xMidYMid meet). */
 static ug_status fit(char **markup, const double box[4], double lo, double hi,
-                     ug_error *err, ug_mark where)
+                     ug_error *err)
 {
     double side = hi - lo;
     double s = side / (box[2] > box[3] ? box[2] : box[3]);
@@ -488,8 +488,7 @@ static ug_status fit(char **markup, const double box[4], double lo, double hi,
     ug_buf_printf(&b, ")\">%s</g>", *markup);
     ug_free(*markup);
     *markup = NULL;
-    return ug_buf_take(&b, markup, NULL, err) ? ug_fail(err, UG_ENOMEM, where, "out of memory")
-                                              : UG_OK;
+    return ug_buf_take(&b, markup, NULL, err);
 }
 
 static ug_status place(ug_glyph *g, bool library, const double vb[4], ug_mark where,
@@ -498,7 +497,7 @@ static ug_status place(ug_glyph *g, bool library, const double vb[4], ug_mark wh
     if (library) {
         if (vb[0] == 0 && vb[1] == 0 && vb[2] == 100 && vb[3] == 100)
             return UG_OK;
-        return fit(&g->body, vb, 0, 100, err, where);
+        return fit(&g->body, vb, 0, 100, err);
     }
     double box[4];
     ug_status st = glyph_measure(g->body, where, box, err);
@@ -508,7 +507,7 @@ static ug_status place(ug_glyph *g, bool library, const double vb[4], ug_mark wh
         return ug_fail(err, UG_ESCHEMA, where,
                        "glyph file '%s' draws nothing with an area (after sanitizing)",
                        g->path);
-    return fit(&g->body, box, GLYPH_MARGIN, 100 - GLYPH_MARGIN, err, where);
+    return fit(&g->body, box, GLYPH_MARGIN, 100 - GLYPH_MARGIN, err);
 }
 
 /* ---- parsing ---------------------------------------------------------------- */

@@ -56,6 +56,9 @@ void glyph_free_dirs(char **dirs);
 /* A name the library can hold: [a-z0-9-], 1..64 characters, no leading '-'. */
 bool glyph_is_library_name(const char *ref);
 
+/* The inked area index.yaml states for library entry i (-1 when none). */
+double glyph_library_weight(const ug_glyph_library *lib, size_t i);
+
 /* ---- measuring (glyph_render.c) ---- */
 
 /* Extent {x, y, width, height} of sanitized markup in its own user units. */
