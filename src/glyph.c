@@ -24,7 +24,7 @@
 **   - A path may only name a file inside the layout's folder (after resolving
 **     symlinks and `..`); names only resolve on the search path.
 */
-#define _XOPEN_SOURCE 700 /* realpath(3) */
+#define _GNU_SOURCE /* realpath(3), memmem(3) */
 #include <errno.h>
 #include <fcntl.h>
 #include <libxml/parser.h>
@@ -526,6 +526,15 @@ static ug_status xml_error(xmlParserCtxt *ctxt, const char *path, ug_mark where,
                    e ? e->line : 0, msg);
 }
 
+/* The removal that most likely explains an empty result. */
+static const char *main_removal(const ug_glyph *g)
+{
+    for (size_t i = 0; i < g->nremoved; i++)
+        if (strncmp(g->removed[i], "unfilled", 8) == 0 || strstr(g->removed[i], "'line'"))
+            return g->removed[i];
+    return g->removed[0];
+}
+
 static ug_status rebuild_root(ug_glyph *g, xmlNode *root, bool library,
                               ug_mark where, ug_error *err)
 {
@@ -542,7 +551,9 @@ static ug_status rebuild_root(ug_glyph *g, xmlNode *root, bool library,
     bool nothing = b.len == empty;
     ug_buf_puts(&b, "</g>");
     ug_status st = UG_OK;
-    if (r.too_deep)
+    if (b.failed)
+        st = ug_fail(err, UG_ENOMEM, where, "out of memory");
+    else if (r.too_deep)
         st = ug_fail(err, UG_ELIMIT, where, "glyph file '%s' nests elements deeper than %d "
                      "levels", g->path, GLYPH_MAX_DEPTH);
     else if (r.elements > GLYPH_MAX_ELEMENTS)
@@ -550,17 +561,28 @@ static ug_status rebuild_root(ug_glyph *g, xmlNode *root, bool library,
                      g->path, GLYPH_MAX_ELEMENTS);
     else if (nothing)
         st = ug_fail(err, UG_ESCHEMA, where, "glyph file '%s' has no drawing left after "
-                     "sanitizing (expected path, rect, circle, ellipse or polygon "
-                     "elements)", g->path);
+                     "sanitizing (expected filled path, rect, circle, ellipse or polygon "
+                     "elements)%s%s", g->path, g->nremoved ? "; removed: " : "",
+                     g->nremoved ? main_removal(g) : "");
     if (!st)
         st = ug_buf_take(&b, &g->body, NULL, err);
     ug_buf_free(&b);
     return st ? st : place(g, library, vb, where, err);
 }
 
+static ug_status refuse_dtd(const ug_glyph *g, ug_mark where, ug_error *err)
+{
+    return ug_fail(err, UG_ESCHEMA, where, "glyph file '%s' has a DTD (<!DOCTYPE>); DTDs "
+                   "and entities are not allowed in glyphs", g->path);
+}
+
 static ug_status parse_svg(ug_glyph *g, const char *text, size_t len, bool library,
                            ug_mark where, ug_error *err)
 {
+    /* Refused before libxml2 reads any declaration (UTF-16 text slips past
+    ** this and is caught by the intSubset test after parsing). */
+    if (memmem(text, len, "<!DOCTYPE", 9))
+        return refuse_dtd(g, where, err);
     xmlParserCtxt *ctxt = xmlNewParserCtxt();
     if (!ctxt)
         return ug_fail(err, UG_ENOMEM, where, "out of memory");
@@ -571,11 +593,13 @@ static ug_status parse_svg(ug_glyph *g, const char *text, size_t len, bool libra
                                         XML_PARSE_NOWARNING | XML_PARSE_NOCDATA);
     ug_status st = UG_OK;
     xmlNode *root = doc ? xmlDocGetRootElement(doc) : NULL;
+    for (xmlNode *n = doc ? doc->children : NULL; n; n = n->next)
+        if (n->type == XML_PI_NODE)
+            note_removed(g, "processing instruction '%.80s'", (const char *)n->name);
     if (!doc)
         st = xml_error(ctxt, g->path, where, err);
     else if (doc->intSubset || doc->extSubset)
-        st = ug_fail(err, UG_ESCHEMA, where, "glyph file '%s' has a DTD (<!DOCTYPE>); "
-                     "DTDs and entities are not allowed in glyphs", g->path);
+        st = refuse_dtd(g, where, err);
     else if (!root || strcmp((const char *)root->name, "svg") != 0 || !is_svg_element(root))
         st = ug_fail(err, UG_ESCHEMA, where, "glyph file '%s' has no <svg> root element",
                      g->path);
