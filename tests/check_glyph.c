@@ -442,9 +442,10 @@ START_TEST(test_sheet_of_test_library)
 }
 END_TEST
 
-/* The shipped library (glyphs/ at the top of the project). The inked-area band
-** is the artist's stated design range (glyphs/index.yaml `weight` per glyph),
-** and our 64 x 64 coverage must reproduce each stated weight. */
+/* The shipped library (glyphs/ at the top of the project). The inked-area
+** band and the +-0.01 tolerance on each glyph's index.yaml `weight` are the
+** artist's (tests/suite_glyph_art.sh measures them its own way); our 64 x 64
+** coverage must agree with both. */
 START_TEST(test_project_library)
 {
     struct stat sb;
@@ -453,9 +454,12 @@ START_TEST(test_project_library)
                         "there yet (the art is merged separately)\n");
         return;
     }
+    /* Named explicitly too, for a binary built outside build/ (sanitizers). */
+    static const char *const project[] = {"../glyphs"};
+    glyph_search s = {project, 1, NULL};
     ug_glyph_library *lib = NULL;
     ug_error err = {0};
-    ck_assert_int_eq(ug_glyph_library_open(NULL, 0, &lib, &err), UG_OK);
+    ck_assert_int_eq(ug_glyph_library_open(project, 1, &lib, &err), UG_OK);
     size_t n = 0;
     for (size_t i = 0; i < ug_glyph_library_count(lib); i++) {
         const char *name = ug_glyph_library_name(lib, i);
@@ -463,10 +467,9 @@ START_TEST(test_project_library)
             continue; /* an installed copy, not this tree's */
         n++;
         ug_glyph *g = NULL;
-        ck_assert_msg(glyph_load(name, NULL, here(), &g, &err) == UG_OK, "%s: %s", name,
+        ck_assert_msg(glyph_load(name, &s, here(), &g, &err) == UG_OK, "%s: %s", name,
                       err.msg);
         ck_assert_msg(g->nremoved == 0, "%s: sanitizing removed %s", name, g->removed[0]);
-        ck_assert_str_eq(g->body, g->body); /* loaded */
         double box[4];
         ck_assert_int_eq(glyph_measure(g->body, here(), box, &err), UG_OK);
         ck_assert_msg(box[0] >= 0 && box[1] >= 0 && box[0] + box[2] <= 100 &&
