@@ -190,10 +190,12 @@ static void set_shown(alloc_share *s, size_t n, const alloc_rule *rule,
     }
 }
 
-/* The largest N any rule may ask for, whatever limit the caller states. The
-** report forms icons * total * 2 * 10^6; with counts of 10^15 (scaled by
-** 10^6) in 1000 categories that stays inside 128 bits only for N up to about
-** 8 * 10^7, and no unit chart is readable long before that. */
+/* The largest N any rule may ask for, whatever limit the caller states (a
+** size_t limit can exceed what a long or 128 bits can carry). The report
+** rounds count * N / total and icons * total / N to six places, forming
+** products up to count * N * 2 * 10^6; with counts of 10^15 scaled by 10^6
+** that overflows 128 bits near N = 8 * 10^10. 10^7 keeps a wide margin,
+** bounds the time highest averages take, and is far beyond a readable chart. */
 static long icon_ceiling(const alloc_rule *rule)
 {
     if (rule->max_icons > 0 && rule->max_icons < ALLOC_MAX_ICONS)

@@ -273,6 +273,38 @@ START_TEST(test_auto_value)
 }
 END_TEST
 
+/* The largest numbers the format allows: 999 counts of 10^15 + 0.999999 and
+** one of 0.5 in a waffle at the icon ceiling. The report forms products of
+** about 10^34 here, inside 128 bits (run under UBSan to see no overflow).
+** Each large quota is 10010.01001...: 999 x 10010 leaves 10 cells for the
+** first 10 listed (equal remainders). Shown values recomputed with exact
+** rationals (Python fractions): 10011 x total / 10^7. */
+START_TEST(test_csv_largest_numbers)
+{
+    static cat_spec cats[1000];
+    static char labels[1000][8];
+    for (int i = 0; i < 1000; i++) {
+        snprintf(labels[i], sizeof labels[i], "C%d", i + 1);
+        cats[i].label = labels[i];
+        cats[i].counts[0] = i < 999 ? "1000000000000000.999999" : "0.5";
+    }
+    ug_chart *c = waffle(new_chart(NULL, 0, cats, 1000), ALLOC_MAX_ICONS);
+    c->limits.max_icons = ALLOC_MAX_ICONS;
+    char *got = report(c, UG_REPORT_CSV);
+    ck_assert(strstr(got, "\n,C1,1000000000000000.999999,10010.01001,10011,"
+                          "1000098900000001.000598,98900000000.000599\n"));
+    ck_assert(strstr(got, "\n,C10,1000000000000000.999999,10010.01001,10011,"));
+    ck_assert(strstr(got, "\n,C11,1000000000000000.999999,10010.01001,10010,"));
+    ck_assert(strstr(got, "\n,C1000,0.5,0,0,0,-0.5\n"));
+    ug_free(got);
+    got = report(c, UG_REPORT_TEXT);
+    ck_assert(strstr(got, "  C1000                             0.5            0        0"
+                          "            0         -0.5   -100.0\n"));
+    ug_free(got);
+    free_chart(c);
+}
+END_TEST
+
 /* A group beyond the icon limit names that group's place in the layout. */
 START_TEST(test_limit_names_group)
 {
@@ -341,6 +373,7 @@ static Suite *report_suite(void)
     tcase_add_test(tc, test_text_partial);
     tcase_add_test(tc, test_text_groups);
     tcase_add_test(tc, test_auto_value);
+    tcase_add_test(tc, test_csv_largest_numbers);
     tcase_add_test(tc, test_limit_names_group);
     tcase_add_loop_test(tc, test_out_of_memory_each_step, 0, 3);
     suite_add_tcase(s, tc);
