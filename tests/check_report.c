@@ -282,7 +282,7 @@ END_TEST
 START_TEST(test_csv_largest_numbers)
 {
     static cat_spec cats[1000];
-    static char labels[1000][8];
+    static char labels[1000][16];
     for (int i = 0; i < 1000; i++) {
         snprintf(labels[i], sizeof labels[i], "C%d", i + 1);
         cats[i].label = labels[i];
