@@ -280,7 +280,7 @@ bool alloc_nice_value(ug_dec largest, long fit, ug_dec *out)
     ug_dec v = {0};
     if (fit < 1)
         return false;
-    if (largest.v == 0) { /* every value fits nothing; say a plain 1 */
+    if (largest.v == 0) { /* nothing to draw: any value fits; say a plain 1 */
         *out = (ug_dec){UG_DEC_SCALE};
         return true;
     }

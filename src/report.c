@@ -224,8 +224,8 @@ static void report_text(const ug_allocation *a, ug_buf *b)
             row_text t;
             describe_share(alloc_at(a, g, i), &t);
             ug_buf_printf(b, "  %-24s %12s %12s %8s %12s %12s %8s\n",
-                          or_empty(c->cats[i].label.text), t.count, t.quota, t.icons,
-                          t.shown, t.diff, t.rel);
+                          or_empty(c->cats[i].label.text), t.count, t.quota,
+                          t.icons, t.shown, t.diff, t.rel);
         }
         ug_buf_printf(b, "  %-24s %12s %12s %8s\n", "total",
                       ug_dec_format(a->group_totals[g], tot), "",
