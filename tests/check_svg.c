@@ -289,7 +289,10 @@ START_TEST(test_million_icons_small_and_fast)
     scene_category cats[2] = {{"cat-a", "A", {200, 0, 0}, 0}, {"cat-b", "B", {0, 0, 200}, 0}};
     s->cats = cats;
     s->ncats = 2;
-    ug_glyph g = {"square", "<rect width=\"100\" height=\"100\"/>", 1, NULL, 0};
+    ug_glyph g;
+    memset(&g, 0, sizeof g);
+    g.name = "square";
+    g.body = "<rect width=\"100\" height=\"100\"/>";
     ug_glyph *gp = &g;
     s->glyphs = &gp;
     s->nglyphs = 1;
