@@ -267,10 +267,10 @@ static ug_status put_count(reader *r, size_t i, size_t g, const row *w, size_t f
     ug_mark m = at(r, w->line, field + 1);
     if (cat->count_marks[g].line)
         return ug_fail(r->err, UG_EDATA, m,
-                       "a second count for category '%s'%s%s (first on line %u)",
-                       cat->id, r->c->groups.n ? " in group " : "",
+                       "a second count for category '%s'%s%s%s (first on line %u)",
+                       cat->id, r->c->groups.n ? " in group '" : "",
                        r->c->groups.n ? r->c->groups.items[g].text : "",
-                       cat->count_marks[g].line);
+                       r->c->groups.n ? "'" : "", cat->count_marks[g].line);
     ug_dec_result res = ug_dec_parse(w->f[field], strlen(w->f[field]), &cat->counts[g]);
     if (res != UG_DEC_OK)
         return ug_fail(r->err, UG_EDATA, m, "%s (found '%s')", ug_dec_result_text(res),
@@ -319,9 +319,10 @@ static ug_status check_complete(reader *r)
         for (size_t g = 0; g < chart_ngroups(c); g++)
             if (!c->cats[i].count_marks[g].line)
                 return ug_fail(r->err, UG_EDATA, ug_mark_file(r->file),
-                               "no count for category '%s'%s%s", c->cats[i].id,
-                               c->groups.n ? " in group " : "",
-                               c->groups.n ? c->groups.items[g].text : "");
+                               "no count for category '%s'%s%s%s", c->cats[i].id,
+                               c->groups.n ? " in group '" : "",
+                               c->groups.n ? c->groups.items[g].text : "",
+                               c->groups.n ? "'" : "");
     return UG_OK;
 }
 

@@ -773,6 +773,10 @@ static ug_status key_categories(loader *l, void *base, const layout_node *v)
     for (const layout_node *it = v->first; it; it = it->next) {
         l->cur = c->ncats;
         c->cats[l->cur].mark = it->mark;
+        if (it->kind != LAYOUT_MAP)
+            return ug_fail(l->err, UG_ESCHEMA, it->mark,
+                           "each category must be a mapping (label, glyph, count, "
+                           "...), not %s", kind_name(it));
         ug_status st = walk_map(l, &c->cats[l->cur], it, category_keys);
         if (st)
             return st;
