@@ -57,7 +57,8 @@ static void on_field(void *s, size_t len, void *data)
         return;
     const char *text = s ? s : "";
     ug_mark m = at(r, r->rec_line, r->ncur + 1);
-    if ((r->st = layout_check_text(text, s ? len : 0, false, m, r->err)))
+    /* line breaks are fine in a quoted field; group names are checked again */
+    if ((r->st = layout_check_text(text, s ? len : 0, true, m, r->err)))
         return;
     if (r->ncur == r->capcur) {
         size_t cap = r->capcur ? 2 * r->capcur : 16;
@@ -138,7 +139,7 @@ static ug_status parse_csv(reader *r, const char *text, size_t len)
             r->at_start = false;
         }
         if (csv_parse(&p, text + i, 1, on_field, on_record, r) != 1 && !r->st)
-            r->st = ug_fail(r->err, UG_ESYNTAX, at(r, r->rec_line, r->ncur + 1),
+            r->st = csv_error(&p) == CSV_ENOMEM ? nomem(r) : ug_fail(r->err, UG_ESYNTAX, at(r, r->rec_line, r->ncur + 1),
                             "CSV syntax error: %s (line %u, field %zu)",
                             csv_strerror(csv_error(&p)), r->line, r->ncur + 1);
         r->line += text[i] == '\n';
@@ -202,13 +203,17 @@ static ug_status csv_groups(reader *r, size_t gi, ug_text_list *out)
         return nomem(r);
     for (size_t i = 1; i < r->nrows; i++) {
         const char *name = r->rows[i].f[gi];
+        ug_mark m = at(r, r->rows[i].line, gi + 1);
+        ug_status st = layout_check_text(name, strlen(name), false, m, r->err);
+        if (st)
+            return st;
         if (group_index(out, name) >= 0)
             continue;
         if (out->n == UG_MAX_GROUPS)
             return ug_fail(r->err, UG_ELIMIT, at(r, r->rows[i].line, gi + 1),
                            "more than %d groups (the limit)", UG_MAX_GROUPS);
         out->items[out->n].text = name;
-        out->items[out->n++].mark = at(r, r->rows[i].line, gi + 1);
+        out->items[out->n++].mark = m;
     }
     return UG_OK;
 }
