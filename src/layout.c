@@ -689,16 +689,25 @@ static ug_status key_tolerance(loader *l, void *base, const layout_node *v)
     return UG_OK;
 }
 
+/* A non-empty list of at most `max` items; `what` completes "expects a list of". */
+static ug_status want_list(loader *l, const layout_node *v, size_t max,
+                           const char *what)
+{
+    if (v->kind != LAYOUT_SEQ || !v->n)
+        return ug_fail(l->err, UG_ESCHEMA, v->mark, "'%s' expects a list of %s",
+                       l->key, what);
+    if (v->n > max)
+        return ug_fail(l->err, UG_ELIMIT, v->mark, "more than %zu %s (the limit)",
+                       max, l->key);
+    return UG_OK;
+}
+
 static ug_status key_groups(loader *l, void *base, const layout_node *v)
 {
     ug_chart *c = base;
-    if (v->kind != LAYOUT_SEQ || !v->n)
-        return ug_fail(l->err, UG_ESCHEMA, v->mark,
-                       "'groups' expects a list of group names");
-    if (v->n > UG_MAX_GROUPS)
-        return ug_fail(l->err, UG_ELIMIT, v->mark,
-                       "more than %d groups (the limit)", UG_MAX_GROUPS);
-    ug_status st = read_text_list(l, v, &c->groups);
+    ug_status st = want_list(l, v, UG_MAX_GROUPS, "group names");
+    if (!st)
+        st = read_text_list(l, v, &c->groups);
     for (size_t i = 0; !st && i < c->groups.n; i++)
         for (size_t j = 0; j < i; j++)
             if (!strcmp(c->groups.items[i].text, c->groups.items[j].text))
@@ -758,12 +767,9 @@ static void *arena_array(ug_arena *a, size_t n, size_t size)
 static ug_status key_categories(loader *l, void *base, const layout_node *v)
 {
     ug_chart *c = base;
-    if (v->kind != LAYOUT_SEQ || !v->n)
-        return ug_fail(l->err, UG_ESCHEMA, v->mark,
-                       "'categories' expects a list of category mappings");
-    if (v->n > UG_MAX_CATEGORIES)
-        return ug_fail(l->err, UG_ELIMIT, v->mark,
-                       "more than %d categories (the limit)", UG_MAX_CATEGORIES);
+    ug_status st = want_list(l, v, UG_MAX_CATEGORIES, "category mappings");
+    if (st)
+        return st;
     c->cats = arena_array(l->arena, v->n, sizeof *c->cats);
     l->count = arena_array(l->arena, v->n, sizeof *l->count);
     l->counts = arena_array(l->arena, v->n, sizeof *l->counts);
@@ -777,7 +783,7 @@ static ug_status key_categories(loader *l, void *base, const layout_node *v)
             return ug_fail(l->err, UG_ESCHEMA, it->mark,
                            "each category must be a mapping (label, glyph, count, "
                            "...), not %s", kind_name(it));
-        ug_status st = walk_map(l, &c->cats[l->cur], it, category_keys);
+        st = walk_map(l, &c->cats[l->cur], it, category_keys);
         if (st)
             return st;
         c->ncats++;
@@ -1175,16 +1181,30 @@ static ug_status chart_from_node(ug_chart *c, const layout_node *root, ug_error 
     return st ? st : finish_chart(&l, c, root);
 }
 
-static ug_status chart_from_text(ug_chart *c, const char *text, size_t len,
-                                 ug_error *err)
+/* Fill a model (chart or page) from a node tree: one per kind of file. */
+typedef ug_status (*fill_fn)(void *model, const layout_node *root, ug_error *err);
+
+static ug_status fill_chart(void *model, const layout_node *root, ug_error *err)
 {
+    return chart_from_node(model, root, err);
+}
+
+/* Parse the text of `path` and hand its top mapping to `fill`; the node tree
+** lives only as long as this call. */
+static ug_status from_text(void *model, fill_fn fill, bool page, const char *path,
+                           const ug_limits *lim, const char *text, size_t len,
+                           ug_error *err)
+{
+    if (len > lim->max_file_bytes)
+        return ug_fail(err, UG_ELIMIT, ug_mark_file(path),
+                       "larger than the limit of %zu bytes", lim->max_file_bytes);
     ug_arena tree = {0};
     layout_node *root;
-    ug_status st = layout_parse(text, len, c->path, &tree, &root, err);
+    ug_status st = layout_parse(text, len, path, &tree, &root, err);
     if (!st)
-        st = check_root(root, c->path, false, err);
+        st = check_root(root, path, page, err);
     if (!st)
-        st = chart_from_node(c, root, err);
+        st = fill(model, root, err);
     ug_arena_free(&tree);
     return st;
 }
@@ -1197,12 +1217,7 @@ ug_status ug_chart_load_string(const char *text, size_t len, const char *name,
     ug_chart *c = chart_new(name ? name : "<string>", NULL, limits);
     if (!c)
         return ug_fail(err, UG_ENOMEM, ug_mark_file(name), "out of memory");
-    ug_status st;
-    if (len > c->limits.max_file_bytes)
-        st = ug_fail(err, UG_ELIMIT, ug_mark_file(c->path),
-                     "larger than the limit of %zu bytes", c->limits.max_file_bytes);
-    else
-        st = chart_from_text(c, text, len, err);
+    ug_status st = from_text(c, fill_chart, false, c->path, &c->limits, text, len, err);
     if (st) {
         ug_chart_free(c);
         return st;
@@ -1227,17 +1242,32 @@ static ug_status load_file(const char *path, const ug_limits *limits, ug_mark at
     return st;
 }
 
-static ug_status chart_load_at(const char *path, const ug_limits *limits,
-                               ug_mark at, ug_chart **out, ug_error *err)
+/* Read a chart or page file and load it from its text. */
+static ug_status load_path(const char *path, const ug_limits *limits, ug_mark at,
+                           bool page, void **out, ug_error *err)
 {
     char *text;
     size_t len;
-    *out = NULL;
+    ug_chart *c = NULL;
+    ug_page *p = NULL;
     ug_status st = load_file(path, limits, at, &text, &len, err);
     if (st)
         return st;
-    st = ug_chart_load_string(text, len, path, limits, out, err);
+    if (page)
+        st = ug_page_load_string(text, len, path, limits, &p, err);
+    else
+        st = ug_chart_load_string(text, len, path, limits, &c, err);
+    *out = page ? (void *)p : (void *)c;
     ug_free(text);
+    return st;
+}
+
+static ug_status chart_load_at(const char *path, const ug_limits *limits,
+                               ug_mark at, ug_chart **out, ug_error *err)
+{
+    void *c = NULL;
+    ug_status st = load_path(path, limits, at, false, &c, err);
+    *out = c;
     return st;
 }
 
@@ -1349,14 +1379,14 @@ static ug_status read_panel(loader *l, ug_panel *panel, const layout_node *v)
 static ug_status key_panels(loader *l, void *base, const layout_node *v)
 {
     ug_page *p = base;
-    if (v->kind != LAYOUT_SEQ || !v->n)
-        return ug_fail(l->err, UG_ESCHEMA, v->mark,
-                       "'panels' expects a list of panels (chart: or text:)");
+    ug_status st = want_list(l, v, UG_MAX_CATEGORIES, "panels (chart: or text:)");
+    if (st)
+        return st;
     if (!(p->panels = arena_array(l->arena, v->n, sizeof *p->panels)))
         return nomem(l, v);
     for (const layout_node *it = v->first; it; it = it->next) {
         /* counted before reading, so a half-read chart is freed with the page */
-        ug_status st = read_panel(l, &p->panels[p->npanels++], it);
+        st = read_panel(l, &p->panels[p->npanels++], it);
         if (st)
             return st;
     }
@@ -1454,25 +1484,16 @@ static ug_page *page_new(const char *path, const ug_limits *limits)
     return p;
 }
 
-static ug_status page_from_text(ug_page *p, const char *text, size_t len,
-                                ug_error *err)
+static ug_status fill_page(void *model, const layout_node *root, ug_error *err)
 {
-    ug_arena tree = {0};
-    layout_node *root;
+    ug_page *p = model;
     loader l;
     memset(&l, 0, sizeof l);
     l.arena = &p->arena;
     l.err = err;
     l.page = p;
-    ug_status st = layout_parse(text, len, p->path, &tree, &root, err);
-    if (!st)
-        st = check_root(root, p->path, true, err);
-    if (!st)
-        st = walk_map(&l, p, root, page_keys);
-    if (!st)
-        st = finish_page(p, root, err);
-    ug_arena_free(&tree);
-    return st;
+    ug_status st = walk_map(&l, p, root, page_keys);
+    return st ? st : finish_page(p, root, err);
 }
 
 ug_status ug_page_load_string(const char *text, size_t len, const char *name,
@@ -1482,12 +1503,7 @@ ug_status ug_page_load_string(const char *text, size_t len, const char *name,
     ug_page *p = page_new(name ? name : "<string>", limits);
     if (!p)
         return ug_fail(err, UG_ENOMEM, ug_mark_file(name), "out of memory");
-    ug_status st;
-    if (len > p->limits.max_file_bytes)
-        st = ug_fail(err, UG_ELIMIT, ug_mark_file(p->path),
-                     "larger than the limit of %zu bytes", p->limits.max_file_bytes);
-    else
-        st = page_from_text(p, text, len, err);
+    ug_status st = from_text(p, fill_page, true, p->path, &p->limits, text, len, err);
     if (st) {
         ug_page_free(p);
         return st;
@@ -1499,14 +1515,9 @@ ug_status ug_page_load_string(const char *text, size_t len, const char *name,
 ug_status ug_page_load(const char *path, const ug_limits *limits, ug_page **out,
                        ug_error *err)
 {
-    char *text;
-    size_t len;
-    *out = NULL;
-    ug_status st = load_file(path, limits, ug_mark_file(path), &text, &len, err);
-    if (st)
-        return st;
-    st = ug_page_load_string(text, len, path, limits, out, err);
-    ug_free(text);
+    void *p = NULL;
+    ug_status st = load_path(path, limits, ug_mark_file(path), true, &p, err);
+    *out = p;
     return st;
 }
 
