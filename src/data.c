@@ -57,6 +57,11 @@ static void on_field(void *s, size_t len, void *data)
         return;
     const char *text = s ? s : "";
     ug_mark m = at(r, r->rec_line, r->ncur + 1);
+    if (len > UG_MAX_STRING) {
+        r->st = ug_fail(r->err, UG_ELIMIT, m, "a field longer than the limit of %d "
+                        "bytes", UG_MAX_STRING);
+        return;
+    }
     /* line breaks are fine in a quoted field; group names are checked again */
     if ((r->st = layout_check_text(text, s ? len : 0, true, m, r->err)))
         return;

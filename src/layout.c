@@ -385,8 +385,10 @@ static ug_status read_text_list(loader *l, const layout_node *n, ug_text_list *o
     out->items = ug_arena_alloc(l->arena, (count ? count : 1) * sizeof *out->items);
     if (!out->items)
         return nomem(l, n);
-    if (n->kind == LAYOUT_SCALAR)
-        return out->n = 1, read_text(l, n, false, &out->items[0]);
+    if (n->kind == LAYOUT_SCALAR) {
+        out->n = 1;
+        return read_text(l, n, false, &out->items[0]);
+    }
     for (const layout_node *it = n->first; it; it = it->next) {
         ug_status st = read_text(l, it, false, &out->items[out->n]);
         if (st)

@@ -150,6 +150,21 @@ START_TEST(test_layout_group_order)
 }
 END_TEST
 
+/* One field longer than UG_MAX_STRING is refused where it stands. */
+START_TEST(test_csv_long_field)
+{
+    static char csv[UG_MAX_STRING + 64];
+    ug_error err;
+    ug_chart *c = NULL;
+    strcpy(csv, "adults,kids\n1,\"");
+    memset(csv + strlen(csv), 'x', UG_MAX_STRING + 1);
+    strcat(csv, "\"\n");
+    ck_assert_int_eq(load(WIDE1, csv, NULL, &c, &err), UG_ELIMIT);
+    ck_assert_uint_eq(err.where.line, 2);
+    ck_assert_uint_eq(err.where.column, 2);
+}
+END_TEST
+
 /* The CSV is held to the same file-size limit as the layout. */
 START_TEST(test_csv_size_limit)
 {
@@ -175,6 +190,7 @@ static Suite *suite(void)
     tcase_add_test(t, test_groups_from_csv);
     tcase_add_test(t, test_layout_group_order);
     tcase_add_test(t, test_csv_size_limit);
+    tcase_add_test(t, test_csv_long_field);
     suite_add_tcase(s, t);
     return s;
 }
