@@ -33,6 +33,8 @@ CLI_OBJ  = $(CLI_SRC:%.c=$(BUILD)/%.o)
 TESTS    = $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 LIB      = $(BUILD)/libunitgram.a
 BIN      = $(BUILD)/unitgram
+# Drivers that print our numbers for outside reference libraries (tests/ref).
+REF_BIN  = $(BUILD)/tests/ref/cvd_driver
 
 LAYOUTS  = $(wildcard layouts/*.yaml)
 
@@ -70,11 +72,16 @@ $(BUILD)/tests/%: tests/%.c $(LIB)
 	@echo "  LD  $@"
 	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(CHECK_LIBS) $(PKG_LIBS)
 
+$(REF_BIN): $(BUILD)/tests/ref/%: tests/ref/%.c $(LIB)
+	@mkdir -p $(dir $@)
+	@echo "  LD  $@"
+	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(PKG_LIBS)
+
 # ---- tests ------------------------------------------------------------------
 check: deps
 	@$(MAKE) --no-print-directory run-tests
 
-run-tests: $(BIN) $(TESTS)
+run-tests: $(BIN) $(TESTS) $(REF_BIN)
 	@set -e; for t in $(TESTS); do \
 	  echo "== $$t"; (cd tests && ../$$t); done
 	@set -e; for s in tests/suite_*.sh; do [ -f "$$s" ] || continue; \
