@@ -599,15 +599,19 @@ static ug_status replacement(audit_ctx *x, size_t j, char *fix, size_t n)
     return st;
 }
 
-static ug_status confusable_pair(audit_ctx *x, const color_lab *lab, size_t i, size_t j)
+/* Category j against every earlier one: one finding for its closest pair,
+** so a long chart gives at most one finding (and one palette search) per
+** category. */
+static ug_status confusable_with_earlier(audit_ctx *x, const color_lab *lab, size_t j)
 {
-    size_t n = x->c->ncats, worst = 0;
+    size_t n = x->c->ncats, worst = 0, other = 0;
     double d = INFINITY;
-    for (size_t v = 0; v < COLOR_VISION_COUNT; v++) {
-        double e = color_delta_e00(lab[v * n + i], lab[v * n + j]);
-        if (e < d)
-            d = e, worst = v;
-    }
+    for (size_t i = 0; i < j; i++)
+        for (size_t v = 0; v < COLOR_VISION_COUNT; v++) {
+            double e = color_delta_e00(lab[v * n + i], lab[v * n + j]);
+            if (e < d)
+                d = e, worst = v, other = i;
+        }
     if (d >= AUDIT_MIN_DELTA_E)
         return UG_OK;
     char fix[160], hi[8], hj[8];
@@ -618,7 +622,7 @@ static ug_status confusable_pair(audit_ctx *x, const color_lab *lab, size_t i, s
                fix[0] ? fix : NULL,
                "'%s' (%s) and '%s' (%s) differ by CIEDE2000 %.1f under %s; unitgram "
                "asks for at least %g (its own threshold)",
-               cat_name(x->c, i), color_format_hex(cat_color(x->c, i), hi),
+               cat_name(x->c, other), color_format_hex(cat_color(x->c, other), hi),
                cat_name(x->c, j), color_format_hex(cat_color(x->c, j), hj), d,
                color_vision_name((color_vision)worst), AUDIT_MIN_DELTA_E);
 }
@@ -630,8 +634,7 @@ static ug_status check_confusable(audit_ctx *x)
     color_lab *lab;
     ug_status st = category_labs(x, &lab);
     for (size_t j = 1; !st && j < x->c->ncats; j++)
-        for (size_t i = 0; !st && i < j; i++)
-            st = confusable_pair(x, lab, i, j);
+        st = confusable_with_earlier(x, lab, j);
     ug_free(lab);
     return st;
 }

@@ -396,6 +396,25 @@ START_TEST(test_too_many_categories)
 }
 END_TEST
 
+/* A long chart whose palette repeats gives one finding per repeated colour,
+** not one per pair. */
+START_TEST(test_confusable_bounded)
+{
+    enum { N = 300 };
+    static cat_spec cats[N];
+    for (size_t i = 0; i < N; i++)
+        cats[i] = (cat_spec){"Category", PALETTE, {"100"}};
+    ug_chart *c = chart_new(cats, N, 0, "100");
+    ug_findings *f = audit(c);
+    size_t n = 0;
+    for (size_t i = 0; i < ug_findings_count(f); i++)
+        n += !strcmp(ug_findings_at(f, i)->rule, "confusable-colors");
+    ck_assert_uint_eq(n, N - color_palette_size(UG_PALETTE_OKABE_ITO));
+    ug_findings_free(f);
+    chart_done(c);
+}
+END_TEST
+
 START_TEST(test_missing_labels)
 {
     ug_chart *c = chart_new(blue, 2, 0, "1");
@@ -521,6 +540,7 @@ static Suite *audit_suite(void)
     tcase_add_test(t, test_confusable_colors);
     tcase_add_loop_test(t, test_palettes_not_confusable, UG_PALETTE_OKABE_ITO,
                         UG_PALETTE_TOL_MUTED + 1);
+    tcase_add_test(t, test_confusable_bounded);
     tcase_add_test(t, test_too_many_categories);
     tcase_add_test(t, test_missing_labels);
     tcase_add_test(t, test_ignore);
