@@ -42,9 +42,8 @@ LIB_OBJ  = $(LIB_SRC:%.c=$(BUILD)/%.o)
 CLI_OBJ  = $(CLI_SRC:%.c=$(BUILD)/%.o)
 TESTS    = $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 LIB      = $(BUILD)/libunitgram.a
+REF_DRIVERS = $(BUILD)/tests/ref/alloc_driver $(BUILD)/tests/ref/cvd_driver
 BIN      = $(BUILD)/unitgram
-# Drivers that print our numbers for outside reference libraries (tests/ref).
-REF_BIN  = $(BUILD)/tests/ref/cvd_driver
 
 LAYOUTS  = $(wildcard layouts/*.yaml)
 
@@ -85,7 +84,8 @@ $(BUILD)/tests/%: tests/%.c $(LIB)
 	@echo "  LD  $@"
 	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(CHECK_LIBS) $(PKG_LIBS)
 
-$(REF_BIN): $(BUILD)/tests/ref/%: tests/ref/%.c $(LIB)
+# Drivers that let tests/ref compare the library with outside references.
+$(BUILD)/tests/ref/%: tests/ref/%.c $(LIB)
 	@mkdir -p $(dir $@)
 	@echo "  LD  $@"
 	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(PKG_LIBS)
@@ -101,7 +101,7 @@ check-sanitized:
 	@$(SAN_ENV) $(MAKE) --no-print-directory BUILD=build/asan \
 	  CFLAGS="$(SAN_CFLAGS)" run-tests
 
-run-tests: $(BIN) $(TESTS) $(REF_BIN)
+run-tests: $(BIN) $(TESTS) $(REF_DRIVERS)
 	@set -e; for t in $(TESTS); do \
 	  echo "== $$t"; (cd tests && $(CURDIR)/$$t); done
 	@set -e; for s in tests/suite_*.sh; do [ -f "$$s" ] || continue; \

@@ -66,6 +66,20 @@ ug_status ug_chart_load_string(const char *text, size_t len, const char *name,
                                ug_error *err);
 void ug_chart_free(ug_chart *chart);
 
+/* ---- the page model (page files, FORMAT.md §2) ------------------------- */
+
+typedef struct ug_page ug_page;
+
+/* Load a page file and every chart file its panels name (paths relative to
+** the page's folder). A chart file given here, or a page file given to
+** ug_chart_load, is refused with a message saying which kind it is. */
+ug_status ug_page_load(const char *path, const ug_limits *limits,
+                       ug_page **out, ug_error *err);
+ug_status ug_page_load_string(const char *text, size_t len, const char *name,
+                              const ug_limits *limits, ug_page **out,
+                              ug_error *err);
+void ug_page_free(ug_page *page);
+
 /* ---- allocation: counts -> whole icons (FORMAT.md §3) ------------------ */
 
 typedef struct ug_allocation ug_allocation;
@@ -78,6 +92,52 @@ void ug_allocation_free(ug_allocation *a);
 /* The allocation report as text, CSV or JSON; *out is malloc'd, NUL-ended. */
 ug_status ug_allocation_report(const ug_allocation *a, ug_report_format fmt,
                                char **out, size_t *len, ug_error *err);
+
+/* ---- the picture: allocation -> placed boxes -> SVG -------------------- */
+
+typedef struct ug_scene ug_scene;
+
+/* Place every icon, text line and key entry of a chart; the chart and the
+** allocation are borrowed and must outlive nothing (the scene copies what it
+** needs). Glyphs are resolved from the layout's folder and the library. */
+ug_status ug_scene_pack(const ug_chart *chart, const ug_allocation *alloc,
+                        ug_scene **out, ug_error *err);
+void ug_scene_free(ug_scene *scene);
+double ug_scene_width(const ug_scene *scene);   /* px (SVG user units) */
+double ug_scene_height(const ug_scene *scene);
+/* The scene as an SVG document; *out is malloc'd and NUL-ended. */
+ug_status ug_scene_svg(const ug_scene *scene, char **out, size_t *len,
+                       ug_error *err);
+/* Plain-language description of the chart (the SVG's <desc>); the layout's
+** `description:` when it gives one. *out is malloc'd and NUL-ended. */
+ug_status ug_chart_describe(const ug_chart *chart, const ug_allocation *alloc,
+                            char **out, size_t *len, ug_error *err);
+
+/* ---- the glyph library ------------------------------------------------ */
+
+/* Every glyph the search path offers (the project's glyphs/, the installed
+** data folder, UNITGRAM_GLYPH_PATH, then dirs), sorted by name; a name in
+** several folders is the first one found, as when a chart names it. */
+typedef struct ug_glyph_library ug_glyph_library;
+
+ug_status ug_glyph_library_open(const char *const *dirs, size_t ndirs,
+                                ug_glyph_library **out, ug_error *err);
+void ug_glyph_library_free(ug_glyph_library *lib);
+size_t ug_glyph_library_count(const ug_glyph_library *lib);
+/* NULL when i is out of range. Keywords come from the folder's index.yaml,
+** joined with ", "; "" when the index does not describe the glyph. */
+const char *ug_glyph_library_name(const ug_glyph_library *lib, size_t i);
+const char *ug_glyph_library_keywords(const ug_glyph_library *lib, size_t i);
+const char *ug_glyph_library_folder(const ug_glyph_library *lib, size_t i);
+/* A labelled contact sheet (SVG) of every glyph; *out is malloc'd. */
+ug_status ug_glyph_library_sheet_svg(const ug_glyph_library *lib, char **out,
+                                     size_t *len, ug_error *err);
+/* Load one glyph reference as a layout in base_dir would (a library name, a
+** primitive or a path). *warnings (malloc'd, "" if none) gets one line per
+** thing sanitizing removed; *ink the covered fraction of the unit box. */
+ug_status ug_glyph_check(const char *ref, const char *base_dir,
+                         const char *const *dirs, size_t ndirs, char **warnings,
+                         double *ink, ug_error *err);
 
 /* ---- audit: honesty, privacy and accessibility findings (src/audit.c) --- */
 
