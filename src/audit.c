@@ -391,10 +391,10 @@ static ug_status report_share(audit_ctx *x, size_t i, size_t g, share_verdict v,
 {
     const ug_chart *c = x->c;
     const alloc_share *s = alloc_at(x->a, g, i);
-    char cnt[48], shown[64], grp[256];
+    char cnt[48], shown[64], buf[256];
     ug_dec_format(s->count, cnt);
     ug_ratio_format(s->shown_num, s->shown_den * UG_DEC_SCALE, 2, shown);
-    in_group(c, g, grp, sizeof grp);
+    const char *grp = in_group(c, g, buf, sizeof buf);
     if (v == SHARE_VANISHED)
         return add(x, "vanished-category", UG_SEVERITY_ERROR, count_mark(c, i, g), fix,
                    "'%s'%s has %s %s but gets no icon, so it disappears from the "

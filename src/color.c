@@ -230,14 +230,15 @@ const char *color_vision_name(color_vision v)
 /* ---- palettes ------------------------------------------------------------ */
 
 /* Okabe & Ito, "Color Universal Design (CUD): how to make figures and
-** presentations that are friendly to colorblind people" (2002/2008). Their
-** order, except that black moves from first to last: black is the text colour,
-** and a chart's first category should not read as text (our choice). */
+** presentations that are friendly to colorblind people" (2002/2008), in their
+** order without their first colour, black: black is the text colour, and a
+** category should not read as text (our choice; the layout loader's palette
+** leaves it out too). */
 static const ug_color okabe_ito[] = {
     {0xE6, 0x9F, 0x00, true, {0}}, {0x56, 0xB4, 0xE9, true, {0}},
     {0x00, 0x9E, 0x73, true, {0}}, {0xF0, 0xE4, 0x42, true, {0}},
     {0x00, 0x72, 0xB2, true, {0}}, {0xD5, 0x5E, 0x00, true, {0}},
-    {0xCC, 0x79, 0xA7, true, {0}}, {0x00, 0x00, 0x00, true, {0}},
+    {0xCC, 0x79, 0xA7, true, {0}},
 };
 
 /* Paul Tol, "Colour Schemes", SRON/EPS/TN/09-002 (2021), qualitative

@@ -151,6 +151,13 @@ START_TEST(test_vanished_category)
 {
     expect(chart_new(vanish, 2, 0, "10"), "vanished-category", UG_SEVERITY_ERROR, 15, 13,
            "icon-value: 2 keeps every category visible");
+    ug_chart *c = chart_new(vanish, 2, 0, "10");
+    ug_findings *f = audit(c);
+    ck_assert_str_eq(find(f, "vanished-category")->message,
+                     "'Infants' has 4 households but gets no icon, so it disappears "
+                     "from the picture");
+    ug_findings_free(f);
+    chart_done(c);
     ug_chart *ok = chart_new(vanish, 2, 0, "10");
     ok->rounding = UG_ROUND_PARTIAL; /* a clipped icon shows the 0.4 */
     expect_none(ok, "vanished-category");
@@ -165,6 +172,16 @@ START_TEST(test_rounding_difference)
 {
     expect(chart_new(rounded, 2, 0, "10"), "rounding-difference", UG_SEVERITY_WARNING,
            15, 13, "icon-value: 2 keeps");
+    /* With groups the message names the group. */
+    static const cat_spec grouped[] = {{"Adults", 0x0072b2, {"94", "50"}},
+                                       {"Children", 0x000000, {"6", "50"}}};
+    ug_chart *c = chart_new(grouped, 2, 2, "10");
+    ug_findings *f = audit(c);
+    ck_assert_str_eq(find(f, "rounding-difference")->message,
+                     "'Children' in North ward has 6 households but its icons show "
+                     "10.00, more than 10 % off");
+    ug_findings_free(f);
+    chart_done(c);
     ug_chart *ok = chart_new(rounded, 2, 0, "10");
     ok->audit.has_tolerance = true;
     ok->audit.tolerance_percent = dec("70");

@@ -214,13 +214,13 @@ END_TEST
 
 START_TEST(test_palettes)
 {
-    ck_assert_uint_eq(color_palette_size(UG_PALETTE_OKABE_ITO), 8);
+    ck_assert_uint_eq(color_palette_size(UG_PALETTE_OKABE_ITO), 7);
     ck_assert_uint_eq(color_palette_size(UG_PALETTE_TOL_BRIGHT), 7);
     ck_assert_uint_eq(color_palette_size(UG_PALETTE_TOL_MUTED), 9);
-    /* Okabe & Ito: orange first, black moved last (our choice). */
+    /* Okabe & Ito: orange first, reddish purple last, black left out (our choice). */
     ck_assert(color_equal(color_palette_at(UG_PALETTE_OKABE_ITO, 0), hex(0xe69f00)));
-    ck_assert(color_equal(color_palette_at(UG_PALETTE_OKABE_ITO, 7), hex(0x000000)));
-    ck_assert(color_equal(color_palette_at(UG_PALETTE_OKABE_ITO, 8), hex(0xe69f00)));
+    ck_assert(color_equal(color_palette_at(UG_PALETTE_OKABE_ITO, 6), hex(0xcc79a7)));
+    ck_assert(color_equal(color_palette_at(UG_PALETTE_OKABE_ITO, 7), hex(0xe69f00)));
     /* Tol (2021): bright starts #4477AA, muted #CC6677 and ends #AA4499. */
     ck_assert(color_equal(color_palette_at(UG_PALETTE_TOL_BRIGHT, 0), hex(0x4477aa)));
     ck_assert(color_equal(color_palette_at(UG_PALETTE_TOL_MUTED, 0), hex(0xcc6677)));
