@@ -110,10 +110,11 @@ static const ug_finding *find(const ug_findings *f, const char *rule)
     return NULL;
 }
 
-/* Audit c; the trigger must produce `rule` at line:col with the given fix
-** prefix; returns nothing, frees everything. */
-static void expect(ug_chart *c, const char *rule, ug_severity sev, unsigned line,
-                   unsigned col, const char *fix_prefix)
+/* Audit c; it must produce `rule` at line:col with the given fix prefix.
+** fix and msg (512 bytes), when given, get copies of the finding's texts.
+** Frees the chart and the findings. */
+static void expect_full(ug_chart *c, const char *rule, ug_severity sev, unsigned line,
+                        unsigned col, const char *fix_prefix, char *fix, char *msg)
 {
     ug_findings *f = audit(c);
     const ug_finding *it = find(f, rule);
@@ -127,8 +128,26 @@ static void expect(ug_chart *c, const char *rule, ug_severity sev, unsigned line
         ck_assert_msg(!strncmp(it->fix, fix_prefix, strlen(fix_prefix)),
                       "fix '%s' does not start with '%s'", it->fix, fix_prefix);
     }
+    if (fix)
+        snprintf(fix, 512, "%s", it->fix ? it->fix : "");
+    if (msg)
+        snprintf(msg, 512, "%s", it->message);
     ug_findings_free(f);
     chart_done(c);
+}
+
+static void expect(ug_chart *c, const char *rule, ug_severity sev, unsigned line,
+                   unsigned col, const char *fix_prefix)
+{
+    expect_full(c, rule, sev, line, col, fix_prefix, NULL, NULL);
+}
+
+/* The colour in a fix of the form color: "#rrggbb" ... */
+static ug_color fix_color(const char *fix)
+{
+    unsigned v;
+    ck_assert_int_eq(sscanf(fix, "color: \"#%6x\"", &v), 1);
+    return hex(v);
 }
 
 static void expect_none(ug_chart *c, const char *rule)
@@ -149,15 +168,11 @@ static const cat_spec vanish[] = {{"Adults", 0x0072b2, {"95"}}, {"Infants", 0x00
 
 START_TEST(test_vanished_category)
 {
-    expect(chart_new(vanish, 2, 0, "10"), "vanished-category", UG_SEVERITY_ERROR, 15, 13,
-           "icon-value: 2 keeps every category visible");
-    ug_chart *c = chart_new(vanish, 2, 0, "10");
-    ug_findings *f = audit(c);
-    ck_assert_str_eq(find(f, "vanished-category")->message,
-                     "'Infants' has 4 households but gets no icon, so it disappears "
-                     "from the picture");
-    ug_findings_free(f);
-    chart_done(c);
+    char msg[512];
+    expect_full(chart_new(vanish, 2, 0, "10"), "vanished-category", UG_SEVERITY_ERROR,
+                15, 13, "icon-value: 2 keeps every category visible", NULL, msg);
+    ck_assert_str_eq(msg, "'Infants' has 4 households but gets no icon, so it "
+                          "disappears from the picture");
     ug_chart *ok = chart_new(vanish, 2, 0, "10");
     ok->rounding = UG_ROUND_PARTIAL; /* a clipped icon shows the 0.4 */
     expect_none(ok, "vanished-category");
@@ -175,13 +190,11 @@ START_TEST(test_rounding_difference)
     /* With groups the message names the group. */
     static const cat_spec grouped[] = {{"Adults", 0x0072b2, {"94", "50"}},
                                        {"Children", 0x000000, {"6", "50"}}};
-    ug_chart *c = chart_new(grouped, 2, 2, "10");
-    ug_findings *f = audit(c);
-    ck_assert_str_eq(find(f, "rounding-difference")->message,
-                     "'Children' in North ward has 6 households but its icons show "
-                     "10.00, more than 10 % off");
-    ug_findings_free(f);
-    chart_done(c);
+    char msg[512];
+    expect_full(chart_new(grouped, 2, 2, "10"), "rounding-difference",
+                UG_SEVERITY_WARNING, 15, 13, NULL, NULL, msg);
+    ck_assert_str_eq(msg, "'Children' in North ward has 6 households but its icons "
+                          "show 10.00, more than 10 % off");
     ug_chart *ok = chart_new(rounded, 2, 0, "10");
     ok->audit.has_tolerance = true;
     ok->audit.tolerance_percent = dec("70");
@@ -328,19 +341,12 @@ static const cat_spec blue[] = {{"Adults", 0x0072b2, {"60"}}, {"Children", 0x000
 
 START_TEST(test_low_contrast_icon)
 {
-    ug_chart *c = chart_new(orange, 2, 0, "1");
-    ug_findings *f = audit(c);
-    const ug_finding *it = find(f, "low-contrast-icon");
-    ck_assert_ptr_nonnull(it);
-    ck_assert_uint_eq(it->where.line, 11);
-    ck_assert_uint_eq(it->where.column, 12);
-    /* The fix is a colour that passes: color: "#rrggbb" (r:1). */
-    unsigned v;
-    ck_assert_int_eq(sscanf(it->fix, "color: \"#%6x\"", &v), 1);
-    ck_assert(color_contrast(hex(v), hex(0xffffff)) >= 3.0);
-    ck_assert(color_contrast(hex(v), hex(0xffffff)) < 3.1);
-    ug_findings_free(f);
-    chart_done(c);
+    char fix[512];
+    expect_full(chart_new(orange, 2, 0, "1"), "low-contrast-icon", UG_SEVERITY_WARNING,
+                11, 12, NULL, fix, NULL);
+    /* The fix is the nearest shade that passes. */
+    double r = color_contrast(fix_color(fix), hex(0xffffff));
+    ck_assert(r >= 3.0 && r < 3.1);
     expect_none(chart_new(blue, 2, 0, "1"), "low-contrast-icon");
 }
 END_TEST
@@ -366,21 +372,16 @@ static const cat_spec redblue[] = {{"Adults", 0xcc3311, {"60"}}, {"Children", 0x
 
 START_TEST(test_confusable_colors)
 {
-    ug_chart *c = chart_new(redgreen, 2, 0, "1");
-    ug_findings *f = audit(c);
-    const ug_finding *it = find(f, "confusable-colors");
-    ck_assert_ptr_nonnull(it);
-    ck_assert_uint_eq(it->where.line, 14); /* the second category's colour */
-    ck_assert_ptr_nonnull(strstr(it->message, "deuteranopia"));
-    unsigned v;
-    ck_assert_int_eq(sscanf(it->fix, "color: \"#%6x\"", &v), 1);
+    char fix[512], msg[512];
+    /* The place is the second category's colour. */
+    expect_full(chart_new(redgreen, 2, 0, "1"), "confusable-colors", UG_SEVERITY_WARNING,
+                14, 12, NULL, fix, msg);
+    ck_assert_ptr_nonnull(strstr(msg, "deuteranopia"));
     ug_color others[1] = {hex(0xcc3311)};
     double d;
     ug_error err = {0};
-    ck_assert_int_eq(color_min_difference(hex(v), others, 1, &d, &err), UG_OK);
+    ck_assert_int_eq(color_min_difference(fix_color(fix), others, 1, &d, &err), UG_OK);
     ck_assert(d >= AUDIT_MIN_DELTA_E);
-    ug_findings_free(f);
-    chart_done(c);
     expect_none(chart_new(redblue, 2, 0, "1"), "confusable-colors");
 }
 END_TEST
