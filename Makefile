@@ -42,7 +42,7 @@ LIB_OBJ  = $(LIB_SRC:%.c=$(BUILD)/%.o)
 CLI_OBJ  = $(CLI_SRC:%.c=$(BUILD)/%.o)
 TESTS    = $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 LIB      = $(BUILD)/libunitgram.a
-REF_DRIVERS = $(BUILD)/tests/ref/alloc_driver
+REF_DRIVERS = $(BUILD)/tests/ref/alloc_driver $(BUILD)/tests/ref/cvd_driver
 BIN      = $(BUILD)/unitgram
 
 LAYOUTS  = $(wildcard layouts/*.yaml)

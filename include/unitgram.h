@@ -139,6 +139,33 @@ ug_status ug_glyph_check(const char *ref, const char *base_dir,
                          const char *const *dirs, size_t ndirs, char **warnings,
                          double *ink, ug_error *err);
 
+/* ---- audit: honesty, privacy and accessibility findings (src/audit.c) --- */
+
+typedef enum { UG_SEVERITY_NOTE, UG_SEVERITY_WARNING, UG_SEVERITY_ERROR } ug_severity;
+
+typedef struct {
+    const char *rule;     /* stable kebab-case name, e.g. "vanished-category" */
+    ug_severity severity;
+    ug_mark where;        /* the model mark the finding is about */
+    const char *message;  /* plain language */
+    const char *fix;      /* a computed suggestion; NULL when there is none */
+} ug_finding;
+
+typedef struct ug_findings ug_findings;
+
+/* Check a chart; rules named in the layout's audit.ignore are left out.
+** The findings own copies of everything they show (the chart may go first). */
+ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_error *err);
+size_t ug_findings_count(const ug_findings *f);
+/* How many findings have at least this severity. */
+size_t ug_findings_count_severity(const ug_findings *f, ug_severity at_least);
+const ug_finding *ug_findings_at(const ug_findings *f, size_t i);
+/* UG_REPORT_TEXT or UG_REPORT_JSON; *out is malloc'd, NUL-ended. */
+ug_status ug_findings_format(const ug_findings *f, ug_report_format fmt,
+                             char **out, size_t *len, ug_error *err);
+void ug_findings_free(ug_findings *f);
+const char *ug_severity_name(ug_severity s); /* "error", "warning", "note" */
+
 /* ---- utilities ---------------------------------------------------------- */
 
 /* The commented starter layout `unitgram init` writes (page != 0: a page file). */
