@@ -1378,10 +1378,14 @@ static ug_status read_panel(loader *l, ug_panel *panel, const layout_node *v)
     return UG_OK;
 }
 
+/* A printed page holds a handful of panels; each may load a chart file of up
+** to the input limit, so the count bounds the memory one page file can ask for. */
+#define MAX_PANELS 48
+
 static ug_status key_panels(loader *l, void *base, const layout_node *v)
 {
     ug_page *p = base;
-    ug_status st = want_list(l, v, UG_MAX_CATEGORIES, "panels (chart: or text:)");
+    ug_status st = want_list(l, v, MAX_PANELS, "panels (chart: or text:)");
     if (st)
         return st;
     if (!(p->panels = arena_array(l->arena, v->n, sizeof *p->panels)))
