@@ -42,7 +42,8 @@ ug_status layout_read_file(const char *path, size_t max, ug_mark at,
     }
     if ((unsigned long long)st.st_size > max) {
         rc = ug_fail(err, UG_ELIMIT, at,
-                     "'%s' is larger than the limit of %zu bytes", path, max);
+                     "'%s' is larger than the limit of %zu bytes "
+                     "(raise it with --max-input-bytes)", path, max);
         goto out;
     }
     size_t size = (size_t)st.st_size;
