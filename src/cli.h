@@ -27,6 +27,11 @@ int cli_init(int argc, char **argv);
 
 /* Print an error as "file:line:col: error: message" on stderr. */
 void cli_report_error(const ug_error *err);
+/* --max-icons N and --max-input-bytes N (also --opt=N) into *lim. Returns 1
+** when argv[*i] was one of them (and steps *i past a separate value), 0 when
+** it was not, -1 after printing a usage error for a bad value. */
+int cli_limit_option(const char *cmd, int argc, char **argv, int *i,
+                     ug_limits *lim);
 /* Exit code for a failed library call. */
 int cli_exit_for(const ug_error *err);
 

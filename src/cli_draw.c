@@ -14,6 +14,9 @@ static const char draw_help[] =
     "\n"
     "Draw the chart a layout file describes as SVG.\n"
     "  -o, --output FILE   where to write; '-' writes to standard output\n"
+    "  --max-icons N       refuse charts of more than N icons (default 100000)\n"
+    "  --max-input-bytes N refuse layout or CSV files larger than N bytes\n"
+    "                      (default 4194304)\n"
     "  -h, --help          show this help\n"
     "\n"
     "exit codes: 0 drawn, 1 bad input, 2 usage, 4 output could not be written\n";
@@ -23,6 +26,7 @@ static const char describe_help[] =
     "\n"
     "Print the chart's plain-language description (its alt text, the same text\n"
     "the SVG carries in <desc>).\n"
+    "  --max-icons N, --max-input-bytes N   raise or lower the limits (see draw)\n"
     "exit codes: 0 printed, 1 bad input, 2 usage, 4 output could not be written\n";
 
 typedef struct {
@@ -36,10 +40,10 @@ static void unload(loaded *l)
     ug_chart_free(l->chart);
 }
 
-static int load(const char *path, loaded *l, ug_error *err)
+static int load(const char *path, const ug_limits *lim, loaded *l, ug_error *err)
 {
     memset(l, 0, sizeof *l);
-    if (ug_chart_load(path, NULL, &l->chart, err) ||
+    if (ug_chart_load(path, lim, &l->chart, err) ||
         ug_chart_allocate(l->chart, &l->alloc, err)) {
         cli_report_error(err);
         unload(l);
@@ -55,10 +59,16 @@ static bool is_svg(const char *out)
     return strcmp(out, "-") == 0 || (n > 4 && strcmp(out + n - 4, ".svg") == 0);
 }
 
-static int parse_draw(int argc, char **argv, const char **layout, const char **out)
+static int parse_draw(int argc, char **argv, const char **layout, const char **out,
+                      ug_limits *lim)
 {
     for (int i = 1; i < argc; i++) {
         const char *a = argv[i];
+        int lo = cli_limit_option("draw", argc, argv, &i, lim);
+        if (lo < 0)
+            return EXIT_USAGE;
+        if (lo)
+            continue;
         if (!strcmp(a, "-h") || !strcmp(a, "--help")) {
             fputs(draw_help, stdout);
             return -1;
@@ -90,13 +100,14 @@ static int parse_draw(int argc, char **argv, const char **layout, const char **o
 int cli_draw(int argc, char **argv)
 {
     const char *layout = NULL, *out = NULL;
-    int rc = parse_draw(argc, argv, &layout, &out);
+    ug_limits lim = {0, 0};
+    int rc = parse_draw(argc, argv, &layout, &out, &lim);
     if (rc)
         return rc < 0 ? EXIT_OK : rc;
     ug_error err;
     memset(&err, 0, sizeof err);
     loaded l;
-    if ((rc = load(layout, &l, &err)))
+    if ((rc = load(layout, &lim, &l, &err)))
         return rc;
     ug_scene *scene = NULL;
     char *svg = NULL;
@@ -118,7 +129,13 @@ int cli_draw(int argc, char **argv)
 int cli_describe(int argc, char **argv)
 {
     const char *layout = NULL;
+    ug_limits lim = {0, 0};
     for (int i = 1; i < argc; i++) {
+        int lo = cli_limit_option("describe", argc, argv, &i, &lim);
+        if (lo < 0)
+            return EXIT_USAGE;
+        if (lo)
+            continue;
         if (!strcmp(argv[i], "-h") || !strcmp(argv[i], "--help")) {
             fputs(describe_help, stdout);
             return EXIT_OK;
@@ -137,7 +154,7 @@ int cli_describe(int argc, char **argv)
     ug_error err;
     memset(&err, 0, sizeof err);
     loaded l;
-    int rc = load(layout, &l, &err);
+    int rc = load(layout, &lim, &l, &err);
     if (rc)
         return rc;
     char *text = NULL;

@@ -19,6 +19,9 @@ static void help(FILE *to)
             "difference from the count.\n"
             "\n"
             "  --format FORMAT  text (default), csv or json\n"
+            "  --max-icons N, --max-input-bytes N\n"
+            "                   refuse charts of more than N icons (default 100000)\n"
+            "                   or input files larger than N bytes (default 4194304)\n"
             "  -h, --help       show this help\n"
             "\n"
             "exit codes: 0 success, 1 bad input, 2 usage\n");
@@ -44,7 +47,7 @@ static int usage_error(const char *msg, const char *arg)
     return EXIT_USAGE;
 }
 
-static int run(const char *layout, ug_report_format fmt)
+static int run(const char *layout, const ug_limits *lim, ug_report_format fmt)
 {
     ug_error err = {0};
     ug_chart *chart = NULL;
@@ -52,7 +55,7 @@ static int run(const char *layout, ug_report_format fmt)
     char *report = NULL;
     size_t len = 0;
     int rc = EXIT_OK;
-    if (ug_chart_load(layout, NULL, &chart, &err) ||
+    if (ug_chart_load(layout, lim, &chart, &err) ||
         ug_chart_allocate(chart, &alloc, &err) ||
         ug_allocation_report(alloc, fmt, &report, &len, &err)) {
         cli_report_error(&err);
@@ -71,8 +74,14 @@ int cli_tally(int argc, char **argv)
 {
     const char *layout = NULL;
     ug_report_format fmt = UG_REPORT_TEXT;
+    ug_limits lim = {0, 0};
     for (int i = 1; i < argc; i++) {
         const char *a = argv[i];
+        int lo = cli_limit_option("tally", argc, argv, &i, &lim);
+        if (lo < 0)
+            return EXIT_USAGE;
+        if (lo)
+            continue;
         if (!strcmp(a, "-h") || !strcmp(a, "--help")) {
             help(stdout);
             return EXIT_OK;
@@ -93,5 +102,5 @@ int cli_tally(int argc, char **argv)
     }
     if (!layout)
         return usage_error("missing the LAYOUT file", NULL);
-    return run(layout, fmt);
+    return run(layout, &lim, fmt);
 }
