@@ -172,13 +172,17 @@ static void describe_share(const alloc_share *s, row_text *t)
         strcpy(t->rel, "0.0");
 }
 
+/* A label that starts like a formula (=, +, -, @, tab, CR) would run as one
+** when the report is opened in a spreadsheet: such a cell gets a leading
+** apostrophe, as OWASP's "CSV Injection" page advises. */
 static void csv_field(ug_buf *b, const char *s)
 {
-    if (!strpbrk(s, ",\"\r\n")) {
+    bool formula = *s && strchr("=+-@\t\r", *s);
+    if (!formula && !strpbrk(s, ",\"\r\n")) {
         ug_buf_puts(b, s);
         return;
     }
-    ug_buf_puts(b, "\"");
+    ug_buf_puts(b, formula ? "\"'" : "\"");
     for (; *s; s++)
         ug_buf_add(b, *s == '"' ? "\"\"" : s, *s == '"' ? 2 : 1);
     ug_buf_puts(b, "\"");
