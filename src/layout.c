@@ -7,12 +7,14 @@
 */
 #include <assert.h>
 #include <errno.h>
+#include <fcntl.h>
 #include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
 #include <sys/stat.h>
+#include <unistd.h>
 #include <yaml.h>
 
 #include "colorparse.h"
@@ -29,10 +31,15 @@ ug_status layout_read_file(const char *path, size_t max, ug_mark at,
                            char **text, size_t *len, ug_error *err)
 {
     *text = NULL;
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return ug_fail(err, UG_EIO, at, "cannot read '%s': %s", path,
-                       strerror(errno));
+    /* Non-blocking, so a FIFO is refused below instead of waiting for a writer. */
+    int fd = open(path, O_RDONLY | O_NONBLOCK | O_CLOEXEC);
+    FILE *f = fd < 0 ? NULL : fdopen(fd, "rb");
+    if (!f) {
+        int e = errno;
+        if (fd >= 0)
+            close(fd);
+        return ug_fail(err, UG_EIO, at, "cannot read '%s': %s", path, strerror(e));
+    }
     struct stat st;
     ug_status rc = UG_OK;
     char *buf = NULL;
