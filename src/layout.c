@@ -6,6 +6,7 @@
 ** table of the keys it may hold. Counts from CSV files are read by data.c.
 */
 #include <assert.h>
+#include <ctype.h>
 #include <errno.h>
 #include <fcntl.h>
 #include <stddef.h>
@@ -823,13 +824,23 @@ static const key_rule audit_keys[] = {
     {.name = NULL},
 };
 
+/* A family name goes into a font-family attribute and a CSS font stack, so
+** it keeps to the characters family names use: ';', quotes or "url(" there
+** would be CSS, not a name. Non-ASCII letters (already checked UTF-8) pass. */
 static ug_status key_font(loader *l, void *base, const layout_node *v)
 {
     ug_text t;
     ug_status st = read_text(l, v, false, &t);
-    if (!st)
-        ((ug_chart *)base)->style.font = t.text;
-    return st;
+    if (st)
+        return st;
+    for (const unsigned char *p = (const unsigned char *)t.text; *p; p++)
+        if (*p < 0x80 && !isalnum(*p) && !strchr(" -_.,", *p))
+            return ug_fail(l->err, UG_ESCHEMA, v->mark,
+                           "'font' expects a font family name such as DejaVu Sans "
+                           "(letters, digits, spaces, '-', '_', '.', ','); found '%c'",
+                           *p);
+    ((ug_chart *)base)->style.font = t.text;
+    return UG_OK;
 }
 
 static const key_rule style_keys[] = {
