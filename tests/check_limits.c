@@ -15,7 +15,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
-#include "ug.h"
+#include "pipeline_run.h"
 
 #define HEAD "title: t\nsource: s\nunit-label: u\nform: rows\n"
 
@@ -195,24 +195,10 @@ START_TEST(test_fuzz_regressions)
         char buf[65536];
         size_t len = fread(buf, 1, sizeof buf, f);
         fclose(f);
-        ug_error err = {0};
-        ug_chart *c = NULL;
-        ug_allocation *a = NULL;
-        ug_scene *s = NULL;
-        char *svg = NULL;
+        ug_error err;
         ug_limits lim = {0, 5000};
-        ug_status st = ug_chart_load_string(buf, len, "data/good/fuzz.yaml", &lim, &c, &err);
-        if (!st)
-            st = ug_chart_allocate(c, &a, &err);
-        if (!st)
-            st = ug_scene_pack(c, a, &s, &err);
-        if (!st)
-            st = ug_scene_svg(s, &svg, NULL, &err);
+        ug_status st = pipeline_run(buf, len, "data/good/fuzz.yaml", &lim, true, &err);
         ck_assert_msg(!st || err.msg[0], "%s: a failure without a message", path);
-        ug_free(svg);
-        ug_scene_free(s);
-        ug_allocation_free(a);
-        ug_chart_free(c);
         n++;
     }
     closedir(d);

@@ -11,7 +11,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "ug.h"
+#include "pipeline_run.h"
 
 /* Each case is a layout named as if it lay in `dir` (relative to tests/, where
 ** Check binaries run), so its CSV file and glyph paths resolve there. */
@@ -79,36 +79,15 @@ static const nomem_case cases[] = {
      "  - {label: Bars, glyph: ./lib-a/test-bar.svg, count: 9}\n"},
 };
 
-/* One run of the pipeline, description included; the first failing status. */
+/* One run of the pipeline, report and description included. */
 static ug_status pipeline(const nomem_case *c)
 {
-    ug_error err = {0};
-    ug_chart *chart = NULL;
-    ug_allocation *a = NULL;
-    ug_scene *scene = NULL;
-    char *svg = NULL, *report = NULL, *desc = NULL;
+    ug_error err;
     char name[256];
     snprintf(name, sizeof name, "%s/nomem.yaml", c->dir);
-    ug_status st = ug_chart_load_string(c->text, strlen(c->text), name, NULL, &chart,
-                                        &err);
-    if (!st)
-        st = ug_chart_allocate(chart, &a, &err);
-    if (!st)
-        st = ug_allocation_report(a, UG_REPORT_JSON, &report, NULL, &err);
-    if (!st)
-        st = ug_chart_describe(chart, a, &desc, NULL, &err);
-    if (!st)
-        st = ug_scene_pack(chart, a, &scene, &err);
-    if (!st)
-        st = ug_scene_svg(scene, &svg, NULL, &err);
+    ug_status st = pipeline_run(c->text, strlen(c->text), name, NULL, true, &err);
     if (st)
         ck_assert_msg(err.msg[0] != '\0', "%s: a failure without a message", c->what);
-    ug_free(svg);
-    ug_free(desc);
-    ug_free(report);
-    ug_scene_free(scene);
-    ug_allocation_free(a);
-    ug_chart_free(chart);
     return st;
 }
 
