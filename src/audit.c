@@ -467,8 +467,14 @@ static size_t next_smallest(const ug_chart *c, size_t g, size_t skip)
     return best;
 }
 
-/* A group's total is shown on its line (FORMAT.md §3) and a chart's stated
-** total in its key: with one cell suppressed, total minus the others gives it. */
+/* The picture never prints an exact sum that contains a hidden count (it says
+** "more than 62" instead, src/describe.c), but the other counts in the group
+** are exact: wherever the group's total is published elsewhere — a ward's
+** population, last quarter's report — total minus the shown counts gives the
+** hidden one away. Disclosure practice calls for a second, complementary
+** suppression (CMS cell size suppression policy: no cell of 1-10 may be
+** derivable from totals, REFERENCES.md §7). A warning, since only the author
+** knows whether such a total is out there. */
 static ug_status check_derivable(audit_ctx *x)
 {
     const ug_chart *c = x->c;
@@ -485,13 +491,14 @@ static ug_status check_derivable(audit_ctx *x)
         size_t other = next_smallest(c, g, which);
         char fix[512], grp[256];
         if (other != SIZE_MAX)
-            snprintf(fix, sizeof fix, "also hide '%s'%s (the next smallest), or do "
-                     "not show the total", cat_name(c, other), in_group(c, g, grp, sizeof grp));
+            snprintf(fix, sizeof fix, "also hide '%s'%s (the next smallest), or make "
+                     "sure the group's total is published nowhere", cat_name(c, other),
+                     in_group(c, g, grp, sizeof grp));
         else
-            snprintf(fix, sizeof fix, "do not show the total");
-        st = add(x, "derivable-suppression", UG_SEVERITY_ERROR, count_mark(c, which, g),
-                 fix, "'%s'%s is suppressed, but it is the only suppressed count "
-                 "there, so the shown total minus the other counts gives it away",
+            snprintf(fix, sizeof fix, "make sure the group's total is published nowhere");
+        st = add(x, "derivable-suppression", UG_SEVERITY_WARNING, count_mark(c, which, g),
+                 fix, "'%s'%s is the only hidden count there and the other counts "
+                 "are exact, so a total published anywhere else gives it away",
                  cat_name(c, which), in_group(c, g, grp, sizeof grp));
     }
     return st;
