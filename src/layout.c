@@ -16,6 +16,7 @@
 #include <yaml.h>
 
 #include "colorparse.h"
+#include "audit.h"
 #include "color.h"
 #include "layout.h"
 
@@ -807,10 +808,23 @@ static const key_rule suppress_keys[] = {
     {.name = NULL},
 };
 
+/* `small-count`: a number, or the name of a published agency rule (audit.h). */
+static ug_status key_small_count(loader *l, void *base, const layout_node *v)
+{
+    ug_chart *c = base;
+    if (v->kind == LAYOUT_SCALAR && audit_small_count_preset(v->text))
+        return read_text(l, v, false, &c->audit.small_count_preset);
+    if (v->kind == LAYOUT_SCALAR && ug_dec_parse(v->text, v->len, &c->audit.small_count))
+        return ug_fail(l->err, UG_ESCHEMA, v->mark,
+                       "'small-count' expects a number or one of cms, cdc-wonder, "
+                       "nhs-hes (found '%s')", v->text);
+    return read_dec(l, v, &c->audit.small_count);
+}
+
 static const key_rule audit_keys[] = {
     {.name = "rounding-tolerance", .kind = K_FN, .fn = key_tolerance,
      .flag = CH(audit.has_tolerance)},
-    {.name = "small-count", .kind = K_DEC, .off = CH(audit.small_count),
+    {.name = "small-count", .kind = K_FN, .fn = key_small_count,
      .flag = CH(audit.has_small_count)},
     {.name = "ignore", .kind = K_LIST, .off = CH(audit.ignore)},
     {.name = NULL},

@@ -258,6 +258,23 @@ START_TEST(test_strings)
 }
 END_TEST
 
+/* `audit: small-count` takes a number or an agency preset name (REFERENCES.md
+** §7: CMS cell size suppression policy, CDC WONDER, NHS Digital HES). */
+START_TEST(test_small_count_preset)
+{
+    static const char text[] = "title: t\nform: rows\nicon-value: 1\n"
+                               "audit: {small-count: cdc-wonder}\n"
+                               "categories: [{label: A, count: 3}]\n";
+    ug_error err = {0};
+    ug_chart *c = NULL;
+    ck_assert_int_eq(ug_chart_load_string(text, strlen(text), "mem.yaml", NULL, &c, &err),
+                     UG_OK);
+    ck_assert_str_eq(c->audit.small_count_preset.text, "cdc-wonder");
+    ck_assert_uint_eq(c->audit.small_count_preset.mark.line, 4);
+    ug_chart_free(c);
+}
+END_TEST
+
 /* ---- limits ------------------------------------------------------------- */
 
 START_TEST(test_file_size_limit)
@@ -434,6 +451,7 @@ static Suite *suite(void)
     tcase_add_test(t, test_full_chart);
     tcase_add_test(t, test_defaults);
     tcase_add_loop_test(t, test_strings, 0, sizeof strings / sizeof strings[0]);
+    tcase_add_test(t, test_small_count_preset);
     tcase_add_test(t, test_file_size_limit);
     tcase_add_test(t, test_alias_bomb);
     tcase_add_test(t, test_page);
