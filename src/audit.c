@@ -709,33 +709,18 @@ static void text_finding(ug_buf *b, const ug_finding *it)
         ug_buf_printf(b, "    fix: %s\n", it->fix);
 }
 
-static void json_text(ug_buf *b, const char *s)
-{
-    ug_buf_puts(b, "\"");
-    for (; *s; s++) {
-        unsigned char ch = (unsigned char)*s;
-        if (ch == '"' || ch == '\\')
-            ug_buf_printf(b, "\\%c", ch);
-        else if (ch < 0x20)
-            ug_buf_printf(b, "\\u%04x", ch);
-        else
-            ug_buf_add(b, s, 1);
-    }
-    ug_buf_puts(b, "\"");
-}
-
 static void json_finding(ug_buf *b, const ug_finding *it, bool last)
 {
     ug_buf_puts(b, "    {\"rule\": ");
-    json_text(b, it->rule);
+    ug_buf_json_string(b, it->rule);
     ug_buf_printf(b, ", \"severity\": \"%s\", \"file\": ", ug_severity_name(it->severity));
-    json_text(b, it->where.file ? it->where.file : "");
+    ug_buf_json_string(b, it->where.file ? it->where.file : "");
     ug_buf_printf(b, ", \"line\": %u, \"column\": %u, \"message\": ", it->where.line,
                   it->where.column);
-    json_text(b, it->message);
+    ug_buf_json_string(b, it->message);
     ug_buf_puts(b, ", \"fix\": ");
     if (it->fix)
-        json_text(b, it->fix);
+        ug_buf_json_string(b, it->fix);
     else
         ug_buf_puts(b, "null");
     ug_buf_puts(b, last ? "}\n" : "},\n");

@@ -236,6 +236,21 @@ void ug_buf_printf(ug_buf *b, const char *fmt, ...)
     b->len += (size_t)n;
 }
 
+void ug_buf_json_string(ug_buf *b, const char *s)
+{
+    ug_buf_puts(b, "\"");
+    for (; *s; s++) {
+        unsigned char ch = (unsigned char)*s;
+        if (ch == '"' || ch == '\\')
+            ug_buf_printf(b, "\\%c", ch);
+        else if (ch < 0x20)
+            ug_buf_printf(b, "\\u%04x", ch);
+        else
+            ug_buf_add(b, s, 1);
+    }
+    ug_buf_puts(b, "\"");
+}
+
 ug_status ug_buf_take(ug_buf *b, char **out, size_t *len, ug_error *err)
 {
     *out = NULL;
