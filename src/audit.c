@@ -31,6 +31,7 @@
 
 #include "alloc.h"
 #include "audit.h"
+#include "glyph.h"
 #include "color.h"
 
 struct ug_findings {
@@ -49,7 +50,7 @@ static const char *const rule_names[] = {
     "vanished-category", "rounding-difference", "total-mismatch",
     "small-count", "derivable-suppression", "low-contrast-icon",
     "low-contrast-text", "confusable-colors", "too-many-categories",
-    "missing-title", "missing-source", "missing-unit-label",
+    "missing-title", "missing-source", "missing-unit-label", "glyph-weight",
 };
 
 /* REFERENCES.md §7. */
@@ -658,6 +659,56 @@ static ug_status check_category_count(audit_ctx *x)
                AUDIT_MAX_CATEGORIES);
 }
 
+/* ---- glyph weight ------------------------------------------------------- */
+
+/* Glyphs that differ a lot in inked area pull the eye to the heavier category
+** and make equal counts look unequal. A factor of 2 is unitgram's own limit
+** (common practice, no source); the library's glyphs all lie within 0.22-0.55
+** of their box, well inside it. */
+#define AUDIT_MAX_INK_RATIO 2.0
+
+static ug_status category_ink(audit_ctx *x, size_t i, double *ink)
+{
+    const ug_category *cat = &x->c->cats[i];
+    glyph_search search = {NULL, 0, x->c->dir};
+    ug_mark where = cat->glyph.text ? cat->glyph.mark : cat->mark;
+    ug_glyph *g = NULL;
+    ug_status st = glyph_load(cat->glyph.text ? cat->glyph.text : "square", &search,
+                              where, &g, x->err);
+    if (!st)
+        *ink = g->ink;
+    glyph_free(g);
+    return st;
+}
+
+static ug_status check_glyph_weight(audit_ctx *x)
+{
+    const ug_chart *c = x->c;
+    size_t light = 0, heavy = 0;
+    double lo = 2, hi = -1, ink;
+    for (size_t i = 0; i < c->ncats; i++) {
+        ug_status st = category_ink(x, i, &ink);
+        if (st)
+            return st;
+        if (ink < lo)
+            lo = ink, light = i;
+        if (ink > hi)
+            hi = ink, heavy = i;
+    }
+    if (c->ncats < 2 || hi <= AUDIT_MAX_INK_RATIO * lo)
+        return UG_OK;
+    const ug_category *cat = &c->cats[light];
+    char fix[256];
+    snprintf(fix, sizeof fix, "a glyph for '%s' that covers at least %.0f%% of its box "
+             "(half of '%s')", cat_name(c, light), 50 * hi + 0.5, cat_name(c, heavy));
+    return add(x, "glyph-weight", UG_SEVERITY_WARNING,
+               cat->glyph.text ? cat->glyph.mark : cat->mark, fix,
+               "the glyph of '%s' inks %.0f%% of its box and that of '%s' %.0f%%: more "
+               "than %.0fx apart, so equal counts will not look equal",
+               cat_name(c, light), 100 * lo, cat_name(c, heavy), 100 * hi,
+               AUDIT_MAX_INK_RATIO);
+}
+
 /* ---- the audit ------------------------------------------------------------ */
 
 static ug_status check_ignore_list(audit_ctx *x)
@@ -675,7 +726,7 @@ ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_error *err
 {
     static ug_status (*const checks[])(audit_ctx *) = {
         check_labels, check_total, check_rounding, check_small, check_derivable,
-        check_category_count, check_contrast, check_confusable,
+        check_category_count, check_contrast, check_confusable, check_glyph_weight,
     };
     audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err};
     ug_allocation *a = NULL;
