@@ -663,7 +663,7 @@ static ug_status check_category_count(audit_ctx *x)
 
 /* Glyphs that differ a lot in inked area pull the eye to the heavier category
 ** and make equal counts look unequal. A factor of 2 is unitgram's own limit
-** (common practice, no source); the library's glyphs all lie within 0.22-0.55
+** (common practice, no source); the library's glyphs all lie within 0.25-0.50
 ** of their box, well inside it. */
 #define AUDIT_MAX_INK_RATIO 2.0
 
