@@ -213,6 +213,12 @@ const char *ug_starter_layout(int page);
 ** rename(2), so a failure leaves any previous file untouched. "-" = stdout. */
 ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
                                ug_error *err);
+/* The same with the fsync before the rename made optional (sync == 0): a
+** batch writing a thousand files skips a thousand journal commits and calls
+** sync(2) once at the end instead. A crash before that sync may lose or
+** empty files of the batch. */
+ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t len,
+                                    int sync, ug_error *err);
 
 #ifdef __cplusplus
 }

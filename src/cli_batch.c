@@ -4,6 +4,8 @@
 ** checked for collisions by the library) before the first file is written;
 ** glyphs are loaded once for the whole batch through one glyph cache.
 */
+/* sync(2) is not in POSIX.1-2008 base; glibc declares it with _DEFAULT_SOURCE. */
+#define _DEFAULT_SOURCE
 #include <errno.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -75,7 +77,7 @@ static int draw_row(ug_batch *b, size_t i, const char *path,
             cli_glyph_warnings(scene, chart);
         if (make_parents(path))
             rc = EXIT_OUTPUT;
-        else if (ug_write_file_atomic(path, svg, len, &err)) {
+        else if (ug_write_file_atomic_sync(path, svg, len, 0, &err)) {
             cli_report_error(&err);
             rc = EXIT_OUTPUT;
         }
@@ -119,6 +121,7 @@ static int run(ug_batch *b, char **paths, const cli_draw_opts *o,
         if (!o->quiet)
             progress(i + 1, n, start, &shown);
     }
+    sync(); /* once for the whole batch (see ug_write_file_atomic_sync) */
     if (!o->quiet) {
         const char *slash = strrchr(o->out, '/');
         fprintf(stderr, "drew %zu chart%s to %.*s in %.1f s\n", drawn,
