@@ -81,7 +81,7 @@ static int parse_number(const char *v, double *out)
 static int draw_option(int argc, char **argv, int *i, cli_draw_opts *o)
 {
     const char *v = NULL;
-    double num;
+    double num = 0;
     int m;
     if ((m = cli_option("draw", argc, argv, i, "--output", "-o", &o->out)))
         return m < 0 ? EXIT_USAGE : 0;
