@@ -45,6 +45,9 @@ int cli_exit_for(const ug_error *err);
 int cli_usage(const char *cmd, const char *fmt, ...)
     __attribute__((format(printf, 2, 3)));
 
+/* Seconds on a monotonic clock (for progress, summaries and timeouts). */
+double cli_now(void);
+
 /* ---- arguments ---- */
 
 /* Does argv[*i] name the option (long "--name", short "-x" or NULL)? When it

@@ -11,19 +11,11 @@
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
-#include <time.h>
 #include <unistd.h>
 
 #include "cli.h"
 
 #define PROGRESS_AFTER 0.5 /* seconds before a progress bar is worth showing */
-
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double)ts.tv_sec + (double)ts.tv_nsec / 1e9;
-}
 
 /* mkdir -p for the folders above path (the output pattern may name any). */
 static int make_parents(const char *path)
@@ -45,7 +37,7 @@ static int make_parents(const char *path)
 
 static void progress(size_t done, size_t total, double start, bool *shown)
 {
-    if (!*shown && (now() - start < PROGRESS_AFTER || !isatty(STDERR_FILENO)))
+    if (!*shown && (cli_now() - start < PROGRESS_AFTER || !isatty(STDERR_FILENO)))
         return;
     *shown = true;
     int width = 30, fill = (int)(width * done / (total ? total : 1));
@@ -110,7 +102,7 @@ static int run(ug_batch *b, char **paths, const cli_draw_opts *o,
 {
     ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, cache};
     size_t n = ug_batch_count(b), drawn = 0;
-    double start = now();
+    double start = cli_now();
     bool shown = false;
     int rc = EXIT_OK;
     for (size_t i = 0; i < n; i++) {
@@ -126,7 +118,7 @@ static int run(ug_batch *b, char **paths, const cli_draw_opts *o,
         const char *slash = strrchr(o->out, '/');
         fprintf(stderr, "drew %zu chart%s to %.*s in %.1f s\n", drawn,
                 drawn == 1 ? "" : "s", slash ? (int)(slash - o->out + 1) : 2,
-                slash ? o->out : "./", now() - start);
+                slash ? o->out : "./", cli_now() - start);
     }
     return rc;
 }

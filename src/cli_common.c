@@ -7,6 +7,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
+#include <time.h>
 #include <unistd.h>
 
 #include "cli.h"
@@ -158,4 +159,11 @@ const char *cli_output_format(const char *out, const char *given)
         cli_usage("draw", "cannot tell the format of '%s' from its extension: "
                           "name it .svg, .png, .pdf or .html, or give --format", out);
     return NULL;
+}
+
+double cli_now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + (double)ts.tv_nsec / 1e9;
 }

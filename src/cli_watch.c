@@ -17,7 +17,6 @@
 #include <stdlib.h>
 #include <string.h>
 #include <sys/inotify.h>
-#include <time.h>
 #include <unistd.h>
 
 #include "cli.h"
@@ -36,13 +35,6 @@ typedef struct {
     watched files[MAX_FILES];
     size_t n;
 } watcher;
-
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double)ts.tv_sec + (double)ts.tv_nsec / 1e9;
-}
 
 static void forget_all(watcher *w)
 {
@@ -114,7 +106,7 @@ static bool wait_change(const watcher *w, double deadline)
     for (;;) {
         int ms = changed ? DEBOUNCE_MS : -1;
         if (deadline > 0) {
-            double left = (deadline - now()) * 1000;
+            double left = (deadline - cli_now()) * 1000;
             if (left <= 0)
                 return false;
             ms = ms < 0 || left < ms ? (int)left + 1 : ms;
@@ -144,7 +136,7 @@ int cli_watch(const cli_draw_opts *o)
         fprintf(stderr, "unitgram draw: error: cannot watch files: %s\n", strerror(errno));
         return EXIT_OUTPUT;
     }
-    double deadline = o->watch_timeout > 0 ? now() + o->watch_timeout : 0;
+    double deadline = o->watch_timeout > 0 ? cli_now() + o->watch_timeout : 0;
     char **inputs = NULL;
     int rc = cli_draw_one(o, &inputs);
     watch_inputs(&w, o->layout, inputs);

@@ -8,13 +8,14 @@
 #     glyphs in PREFIX/share/unitgram/glyphs when run far from the sources.
 set -u
 ROOT=$PWD
+BIN=$(realpath "${1:-build/unitgram}")
 T=$(mktemp -d)
 trap 'rm -rf "$T"' EXIT
 fails=0
 fail() { echo "FAIL: $*"; fails=$((fails + 1)); }
 # This runs from inside make: do not let the caller's settings (a sanitized
 # BUILD or CFLAGS) leak into the builds below.
-unset MAKEFLAGS MFLAGS MAKELEVEL
+unset MAKEFLAGS MFLAGS MAKELEVEL CFLAGS BUILD DESTDIR PREFIX
 export PKG_CONFIG_PATH=
 
 P=/opt/ugtest$$   # an unusual PREFIX; never created outside $T/stage
@@ -41,7 +42,7 @@ if [ -x "$T/example" ]; then
   UNITGRAM_GLYPH_PATH=$D$P/share/unitgram/glyphs "$T/example" layouts/pantry.yaml \
     "$T/example.svg" > /dev/null || fail "example failed"
   xmllint --noout "$T/example.svg" || fail "example SVG not well-formed"
-  "$ROOT/build/unitgram" draw layouts/pantry.yaml -o "$T/cli.svg" 2> /dev/null
+  "$BIN" draw layouts/pantry.yaml -o "$T/cli.svg" 2> /dev/null
   cmp -s "$T/example.svg" "$T/cli.svg" || fail "example and CLI draw different SVG"
 fi
 unset PKG_CONFIG_SYSROOT_DIR
@@ -55,7 +56,7 @@ fi
 for c in draw tally audit describe glyphs init help; do
   grep -q "^\.B unitgram $c" "$man1" || fail "man page lacks 'unitgram $c'"
 done
-for o in $("$ROOT/build/unitgram" draw --help | grep -oE -- '--[a-z-]+' | sort -u); do
+for o in $("$BIN" draw --help | grep -oE -- '--[a-z-]+' | sort -u); do
   grep -q -- "$(echo "$o" | sed 's/-/\\\\-/g')" "$man1" || fail "man page lacks draw $o"
 done
 bash -n "$D$P/share/bash-completion/completions/unitgram" || fail "completion: syntax"
