@@ -296,6 +296,12 @@ static ug_status write_stdout(const void *data, size_t len, ug_error *err)
 ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
                                ug_error *err)
 {
+    return ug_write_file_atomic_sync(path, data, len, true, err);
+}
+
+ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t len,
+                                    int sync, ug_error *err)
+{
     if (strcmp(path, "-") == 0)
         return write_stdout(data, len, err);
     size_t n = strlen(path);
@@ -311,7 +317,7 @@ ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
         return UG_EIO;
     }
     int saved = 0;
-    bool ok = write_all(fd, data, len) == UG_OK && fsync(fd) == 0;
+    bool ok = write_all(fd, data, len) == UG_OK && (!sync || fsync(fd) == 0);
     if (!ok)
         saved = errno;
     /* mkstemp creates 0600; a chart is a document meant to be shared. */
