@@ -1,7 +1,8 @@
 /*
 ** `unitgram draw LAYOUT -o OUT.svg` and `unitgram describe LAYOUT`: load,
 ** allocate, pack, write. The output is written atomically, so a failure
-** leaves any earlier picture as it was.
+** leaves any earlier picture as it was. Batches (--each-row) and --watch
+** live in cli_batch.c and cli_watch.c; this file only reads their options.
 */
 #include <stdio.h>
 #include <stdlib.h>
@@ -10,24 +11,42 @@
 #include "cli.h"
 
 static const char draw_help[] =
-    "usage: unitgram draw LAYOUT -o OUT.svg\n"
+    "usage: unitgram draw LAYOUT -o OUT [OPTIONS]\n"
+    "       unitgram draw TEMPLATE --each-row COUNTS.csv -o 'DIR/{group}.svg'\n"
     "\n"
-    "Draw the chart a layout file describes as SVG.\n"
-    "  -o, --output FILE   where to write; '-' writes to standard output\n"
-    "  --max-icons N       refuse charts of more than N icons (default 100000)\n"
-    "  --max-input-bytes N refuse layout or CSV files larger than N bytes\n"
-    "                      (default 4194304)\n"
-    "  -h, --help          show this help\n"
+    "Draw the chart a layout file describes. LAYOUT '-' reads the layout from\n"
+    "standard input (relative paths in it start from the current folder).\n"
     "\n"
-    "exit codes: 0 drawn, 1 bad input, 2 usage, 4 output could not be written\n";
+    "options:\n"
+    "  -o, --output FILE     where to write; '-' writes to standard output\n"
+    "  --format FORMAT       svg (default for '-'); otherwise the extension of\n"
+    "                        FILE decides\n"
+    "  --glyph-dir DIR       also look for glyphs in DIR (repeatable)\n"
+    "  --each-row CSV        draw one chart per row of CSV: the row's group-column\n"
+    "                        value (or first column) names it and replaces {group}\n"
+    "                        in -o and in the template's title and subtitle; all\n"
+    "                        charts share one icon value and one icon size\n"
+    "  --quiet               no progress bar or summary line (--each-row)\n"
+    "  --watch               redraw whenever the layout, its CSV or a glyph file\n"
+    "                        changes; a broken edit keeps the last good picture\n"
+    "  --watch-limit N       with --watch: exit after N redraws\n"
+    "  --watch-timeout SECS  with --watch: exit after SECS seconds\n"
+    "  --max-icons N         refuse charts of more than N icons (default 100000)\n"
+    "  --max-input-bytes N   refuse layout or CSV files larger than N bytes\n"
+    "                        (default 4194304)\n"
+    "  -h, --help            show this help\n"
+    "\n" CLI_EXIT_CODES;
 
 static const char describe_help[] =
     "usage: unitgram describe LAYOUT\n"
     "\n"
     "Print the chart's plain-language description (its alt text, the same text\n"
-    "the SVG carries in <desc>).\n"
-    "  --max-icons N, --max-input-bytes N   raise or lower the limits (see draw)\n"
-    "exit codes: 0 printed, 1 bad input, 2 usage, 4 output could not be written\n";
+    "the SVG carries in <desc>). LAYOUT '-' reads standard input.\n"
+    "\n"
+    "options:\n"
+    "  --max-icons N, --max-input-bytes N   the limits, as for draw\n"
+    "  -h, --help            show this help\n"
+    "\n" CLI_EXIT_CODES;
 
 typedef struct {
     ug_chart *chart;
@@ -40,11 +59,13 @@ static void unload(loaded *l)
     ug_chart_free(l->chart);
 }
 
-static int load(const char *path, const ug_limits *lim, loaded *l, ug_error *err)
+static int load(const char *path, loaded *l, ug_error *err)
 {
     memset(l, 0, sizeof *l);
-    if (ug_chart_load(path, lim, &l->chart, err) ||
-        ug_chart_allocate(l->chart, &l->alloc, err)) {
+    int rc = cli_load_chart(path, &l->chart);
+    if (rc)
+        return rc;
+    if (ug_chart_allocate(l->chart, &l->alloc, err)) {
         cli_report_error(err);
         unload(l);
         return cli_exit_for(err);
@@ -52,116 +73,176 @@ static int load(const char *path, const ug_limits *lim, loaded *l, ug_error *err
     return EXIT_OK;
 }
 
-/* Only SVG is written here for now; other formats come with the rasterizer. */
-static bool is_svg(const char *out)
+/* ---- options (the new ones are read here; their work is elsewhere) ---- */
+
+static int parse_number(const char *v, double *out)
 {
-    size_t n = strlen(out);
-    return strcmp(out, "-") == 0 || (n > 4 && strcmp(out + n - 4, ".svg") == 0);
+    char *end;
+    *out = strtod(v, &end);
+    return *v && !*end && *out >= 0 ? 0 : cli_usage("draw", "'%s' is not a number", v);
 }
 
-static int parse_draw(int argc, char **argv, const char **layout, const char **out,
-                      ug_limits *lim)
+static int draw_option(int argc, char **argv, int *i, cli_draw_opts *o)
 {
-    for (int i = 1; i < argc; i++) {
-        const char *a = argv[i];
-        int lo = cli_limit_option("draw", argc, argv, &i, lim);
-        if (lo < 0)
-            return EXIT_USAGE;
-        if (lo)
-            continue;
-        if (!strcmp(a, "-h") || !strcmp(a, "--help")) {
-            fputs(draw_help, stdout);
-            return -1;
-        } else if ((!strcmp(a, "-o") || !strcmp(a, "--output")) && i + 1 < argc) {
-            *out = argv[++i];
-        } else if (a[0] == '-' && a[1]) {
-            fprintf(stderr, "unitgram draw: unknown option '%s'\n%s", a, draw_help);
-            return EXIT_USAGE;
-        } else if (!*layout) {
-            *layout = a;
-        } else {
-            fprintf(stderr, "unitgram draw: one layout at a time ('%s')\n", a);
-            return EXIT_USAGE;
-        }
+    const char *v = NULL;
+    double num = 0;
+    int m;
+    if ((m = cli_limit_option("draw", argc, argv, i)))
+        return m < 0 ? EXIT_USAGE : 0;
+    if ((m = cli_option("draw", argc, argv, i, "--output", "-o", &o->out)))
+        return m < 0 ? EXIT_USAGE : 0;
+    if ((m = cli_option("draw", argc, argv, i, "--format", NULL, &o->format)))
+        return m < 0 ? EXIT_USAGE : 0;
+    if ((m = cli_option("draw", argc, argv, i, "--each-row", NULL, &o->each_row)))
+        return m < 0 ? EXIT_USAGE : 0;
+    if ((m = cli_option("draw", argc, argv, i, "--glyph-dir", NULL, &v))) {
+        if (m > 0 && o->nglyph_dirs == CLI_MAX_DIRS)
+            return cli_usage("draw", "at most %d --glyph-dir folders", CLI_MAX_DIRS);
+        if (m > 0)
+            o->glyph_dirs[o->nglyph_dirs++] = v;
+        return m < 0 ? EXIT_USAGE : 0;
     }
-    if (!*layout || !*out) {
-        fprintf(stderr, "unitgram draw: %s\n%s", *layout ? "missing -o OUT.svg"
-                                                         : "missing LAYOUT", draw_help);
+    if ((m = cli_option("draw", argc, argv, i, "--watch-limit", NULL, &v))) {
+        int rc = m < 0 ? EXIT_USAGE : parse_number(v, &num);
+        o->watch_limit = (long)num;
+        return rc;
+    }
+    if ((m = cli_option("draw", argc, argv, i, "--watch-timeout", NULL, &v))) {
+        int rc = m < 0 ? EXIT_USAGE : parse_number(v, &num);
+        o->watch_timeout = num;
+        return rc;
+    }
+    if (cli_option("draw", argc, argv, i, "--watch", NULL, NULL))
+        return o->watch = true, 0;
+    if (cli_option("draw", argc, argv, i, "--quiet", "-q", NULL))
+        return o->quiet = true, 0;
+    return -1;
+}
+
+static int check_draw(const cli_draw_opts *o)
+{
+    if (!o->layout)
+        return cli_usage("draw", "missing the LAYOUT file");
+    if (!o->out)
+        return cli_usage("draw", "missing -o OUT (a file, or '-' for standard output)");
+    if (o->watch && o->each_row)
+        return cli_usage("draw", "--watch and --each-row do not go together");
+    if (o->watch && (!strcmp(o->layout, "-") || !strcmp(o->out, "-")))
+        return cli_usage("draw", "--watch needs a layout file and an output file, "
+                                 "not '-'");
+    if ((o->watch_limit || o->watch_timeout) && !o->watch)
+        return cli_usage("draw", "--watch-limit and --watch-timeout go with --watch");
+    if (o->each_row && !strstr(o->out, "{group}"))
+        return cli_usage("draw", "with --each-row, -o must contain {group} "
+                                 "(for instance 'out/{group}.svg')");
+    const char *fmt = cli_output_format(o->out, o->format);
+    if (!fmt)
         return EXIT_USAGE;
-    }
-    if (!is_svg(*out)) {
-        fprintf(stderr, "unitgram draw: '%s': only SVG output (.svg or -) is "
-                        "available in this build; PNG, PDF and HTML are not yet\n", *out);
-        return EXIT_USAGE;
-    }
+    if (strcmp(fmt, "svg"))
+        return cli_usage("draw", "'%s': only SVG output is available in this build; "
+                                 "%s is not yet", o->out, fmt);
     return EXIT_OK;
 }
 
-int cli_draw(int argc, char **argv)
+static int parse_draw(int argc, char **argv, cli_draw_opts *o)
 {
-    const char *layout = NULL, *out = NULL;
-    ug_limits lim = {0, 0};
-    int rc = parse_draw(argc, argv, &layout, &out, &lim);
-    if (rc)
-        return rc < 0 ? EXIT_OK : rc;
-    ug_error err;
-    memset(&err, 0, sizeof err);
+    for (int i = 1; i < argc; i++) {
+        const char *a = argv[i];
+        int rc;
+        if (cli_is_help(a)) {
+            fputs(draw_help, stdout);
+            return -1;
+        } else if ((rc = draw_option(argc, argv, &i, o)) >= 0) {
+            if (rc)
+                return rc;
+        } else if (a[0] == '-' && a[1]) {
+            return cli_usage("draw", "unknown option '%s'", a);
+        } else if (!o->layout) {
+            o->layout = a;
+        } else {
+            return cli_usage("draw", "one layout at a time (found '%s' too)", a);
+        }
+    }
+    return check_draw(o);
+}
+
+/* ---- drawing ---- */
+
+int cli_draw_one(const cli_draw_opts *o, char ***inputs)
+{
+    ug_error err = {0};
     loaded l;
-    if ((rc = load(layout, &lim, &l, &err)))
+    if (inputs)
+        *inputs = NULL;
+    int rc = load(o->layout, &l, &err);
+    if (rc)
         return rc;
+    ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, NULL};
     ug_scene *scene = NULL;
     char *svg = NULL;
     size_t len = 0;
-    if (ug_scene_pack(l.chart, l.alloc, &scene, &err) ||
+    if (ug_scene_pack_with(l.chart, l.alloc, &popt, &scene, &err) ||
         ug_scene_svg(scene, &svg, &len, &err)) {
         cli_report_error(&err);
-        rc = err.status == UG_ENOMEM ? EXIT_OUTPUT : EXIT_INPUT;
-    } else if (ug_write_file_atomic(out, svg, len, &err)) {
-        cli_report_error(&err);
-        rc = EXIT_OUTPUT;
+        rc = EXIT_INPUT;
+    } else {
+        cli_glyph_warnings(scene, l.chart);
+        if (ug_write_file_atomic(o->out, svg, len, &err)) {
+            cli_report_error(&err);
+            rc = EXIT_OUTPUT;
+        }
     }
+    if (inputs)
+        *inputs = ug_chart_inputs(l.chart, scene);
     free(svg);
     ug_scene_free(scene);
     unload(&l);
     return rc;
 }
 
+int cli_draw(int argc, char **argv)
+{
+    cli_draw_opts o;
+    memset(&o, 0, sizeof o);
+    int rc = parse_draw(argc, argv, &o);
+    if (rc)
+        return rc < 0 ? EXIT_OK : rc;
+    if (o.each_row)
+        return cli_batch(&o);
+    if (o.watch)
+        return cli_watch(&o);
+    return cli_draw_one(&o, NULL);
+}
+
 int cli_describe(int argc, char **argv)
 {
     const char *layout = NULL;
-    ug_limits lim = {0, 0};
     for (int i = 1; i < argc; i++) {
-        int lo = cli_limit_option("describe", argc, argv, &i, &lim);
-        if (lo < 0)
-            return EXIT_USAGE;
-        if (lo)
-            continue;
-        if (!strcmp(argv[i], "-h") || !strcmp(argv[i], "--help")) {
+        if (cli_is_help(argv[i])) {
             fputs(describe_help, stdout);
             return EXIT_OK;
         }
-        if (argv[i][0] == '-' || layout) {
-            fprintf(stderr, "unitgram describe: unexpected '%s'\n%s", argv[i],
-                    describe_help);
+        int m = cli_limit_option("describe", argc, argv, &i);
+        if (m < 0)
             return EXIT_USAGE;
-        }
+        if (m)
+            continue;
+        if ((argv[i][0] == '-' && argv[i][1]) || layout)
+            return cli_usage("describe", "unexpected argument '%s'", argv[i]);
         layout = argv[i];
     }
-    if (!layout) {
-        fprintf(stderr, "unitgram describe: missing LAYOUT\n%s", describe_help);
-        return EXIT_USAGE;
-    }
-    ug_error err;
-    memset(&err, 0, sizeof err);
+    if (!layout)
+        return cli_usage("describe", "missing the LAYOUT file");
+    ug_error err = {0};
     loaded l;
-    int rc = load(layout, &lim, &l, &err);
+    int rc = load(layout, &l, &err);
     if (rc)
         return rc;
     char *text = NULL;
     size_t len = 0;
     if (ug_chart_describe(l.chart, l.alloc, &text, &len, &err)) {
         cli_report_error(&err);
-        rc = EXIT_OUTPUT;
+        rc = cli_exit_for(&err);
     } else if (fwrite(text, 1, len, stdout) != len || fputc('\n', stdout) == EOF ||
                fflush(stdout)) {
         fprintf(stderr, "unitgram describe: could not write the description\n");

@@ -16,15 +16,13 @@ static void help(FILE *to)
             "\n"
             "Print how the chart's counts become whole icons: per category the\n"
             "count, the exact quota, the icons drawn, the value they show and the\n"
-            "difference from the count.\n"
+            "difference from the count. LAYOUT '-' reads standard input.\n"
             "\n"
-            "  --format FORMAT  text (default), csv or json\n"
-            "  --max-icons N, --max-input-bytes N\n"
-            "                   refuse charts of more than N icons (default 100000)\n"
-            "                   or input files larger than N bytes (default 4194304)\n"
-            "  -h, --help       show this help\n"
-            "\n"
-            "exit codes: 0 success, 1 bad input, 2 usage\n");
+            "options:\n"
+            "  --format FORMAT       text (default), csv or json\n"
+            "  --max-icons N, --max-input-bytes N   the limits, as for draw\n"
+            "  -h, --help            show this help\n"
+            "\n" CLI_EXIT_CODES);
 }
 
 static int parse_format(const char *s, ug_report_format *fmt)
@@ -42,12 +40,10 @@ static int parse_format(const char *s, ug_report_format *fmt)
 
 static int usage_error(const char *msg, const char *arg)
 {
-    fprintf(stderr, "unitgram tally: %s%s%s\n", msg, arg ? " " : "", arg ? arg : "");
-    fprintf(stderr, "usage: unitgram tally LAYOUT [--format text|csv|json]\n");
-    return EXIT_USAGE;
+    return cli_usage("tally", "%s%s%s", msg, arg ? " " : "", arg ? arg : "");
 }
 
-static int run(const char *layout, const ug_limits *lim, ug_report_format fmt)
+static int run(const char *layout, ug_report_format fmt)
 {
     ug_error err = {0};
     ug_chart *chart = NULL;
@@ -55,8 +51,9 @@ static int run(const char *layout, const ug_limits *lim, ug_report_format fmt)
     char *report = NULL;
     size_t len = 0;
     int rc = EXIT_OK;
-    if (ug_chart_load(layout, lim, &chart, &err) ||
-        ug_chart_allocate(chart, &alloc, &err) ||
+    if ((rc = cli_load_chart(layout, &chart)))
+        return rc;
+    if (ug_chart_allocate(chart, &alloc, &err) ||
         ug_allocation_report(alloc, fmt, &report, &len, &err)) {
         cli_report_error(&err);
         rc = cli_exit_for(&err);
@@ -74,18 +71,17 @@ int cli_tally(int argc, char **argv)
 {
     const char *layout = NULL;
     ug_report_format fmt = UG_REPORT_TEXT;
-    ug_limits lim = {0, 0};
     for (int i = 1; i < argc; i++) {
         const char *a = argv[i];
-        int lo = cli_limit_option("tally", argc, argv, &i, &lim);
-        if (lo < 0)
-            return EXIT_USAGE;
-        if (lo)
-            continue;
         if (!strcmp(a, "-h") || !strcmp(a, "--help")) {
             help(stdout);
             return EXIT_OK;
         }
+        int m = cli_limit_option("tally", argc, argv, &i);
+        if (m < 0)
+            return EXIT_USAGE;
+        if (m)
+            continue;
         if (!strcmp(a, "--format") || !strncmp(a, "--format=", 9)) {
             const char *v = a[8] == '=' ? a + 9 : i + 1 < argc ? argv[++i] : NULL;
             if (!v)
@@ -102,5 +98,5 @@ int cli_tally(int argc, char **argv)
     }
     if (!layout)
         return usage_error("missing the LAYOUT file", NULL);
-    return run(layout, &lim, fmt);
+    return run(layout, fmt);
 }

@@ -305,7 +305,7 @@ START_TEST(test_derivable_suppression)
     ug_chart *c = chart_new(derivable, 3, 2, "1");
     c->has_suppress = true;
     c->suppress_below = dec("10");
-    expect(c, "derivable-suppression", UG_SEVERITY_ERROR, 18, 13,
+    expect(c, "derivable-suppression", UG_SEVERITY_WARNING, 18, 13,
            "also hide 'Children' in North ward");
     ug_chart *ok = chart_new(derivable_ok, 3, 2, "1");
     ok->has_suppress = true;
@@ -328,7 +328,7 @@ START_TEST(test_derivable_needs_a_shown_total)
     c->suppress_below = dec("10");
     c->has_total = true;
     c->total = dec("125");
-    expect(c, "derivable-suppression", UG_SEVERITY_ERROR, 15, 13, "also hide 'Adults'");
+    expect(c, "derivable-suppression", UG_SEVERITY_WARNING, 15, 13, "also hide 'Adults'");
 }
 END_TEST
 
