@@ -1228,7 +1228,8 @@ static ug_status from_text(void *model, fill_fn fill, bool page, const char *pat
 {
     if (len > lim->max_file_bytes)
         return ug_fail(err, UG_ELIMIT, ug_mark_file(path),
-                       "larger than the limit of %zu bytes", lim->max_file_bytes);
+                       "larger than the limit of %zu bytes (raise it with "
+                       "--max-input-bytes)", lim->max_file_bytes);
     ug_arena tree = {0};
     layout_node *root;
     ug_status st = layout_parse(text, len, path, &tree, &root, err);
