@@ -5,7 +5,8 @@
 # way) the old file keeps its exact bytes and no temporary file is left beside
 # it. A successful run replaces the file by rename (a hard link to the old
 # file keeps the old bytes), leaves a device node a device, and replaces a
-# symlink at the output path rather than writing through it.
+# symlink at the output path rather than writing through it. Batches
+# (--each-row) never write outside their output folder.
 # usage: bash tests/suite_output_safety.sh build/unitgram
 set -u
 BIN=$(cd "$(dirname "$1")" && pwd)/$(basename "$1")
@@ -113,11 +114,55 @@ if [ "$(id -u)" = 0 ]; then
   [ -c "$T/null.svg" ] || fail "the device node was replaced by a file"
 fi
 
-# Batch output (--each-row) must stay inside its folder: tested here once
-# the command exists.
-if "$BIN" draw --help 2>/dev/null | grep -q -- '--each-row'; then
-  echo "note: --each-row exists; its escape checks belong here"
-fi
+# Batches (--each-row): whatever a row's name says, every file lands inside
+# the output folder; a symlink planted there is replaced, not followed; and a
+# batch that fails keeps the folder's earlier files byte for byte.
+B=$T/batch
+mkdir -p "$B/work"
+cat > "$B/work/tmpl.yaml" <<'YAML'
+title: "Card holders in {group}"
+source: Branch report (demo data)
+unit-label: card holders
+icon-value: 1
+categories:
+  - {label: Adults, glyph: square, column: adults, count: 1}
+  - {label: Children, glyph: circle, column: children, count: 1}
+YAML
+{ printf 'name,adults,children\n'
+  for n in .. ../../escape /etc/passwd-x ./. a/../../b '..\\..\\win' '%2e%2e%2fenc' \
+           '．．／wide' '~root' '$HOME' '`id`' '-rf' '<script>' 'nul.svg' \
+           "$(head -c 300 /dev/zero | tr '\0' 'n')"; do
+    printf '"%s",3,2\n' "$n"
+  done; } > "$B/work/rows.csv"
+mkdir -p "$B/work/out"
+ln -s ../../victim.svg "$B/work/out/north.svg"
+printf '%s' "$OLD" > "$B/victim.svg"
+printf 'name,adults,children\nNorth,1,1\n' > "$B/work/north.csv"
+before=$(cd "$B" && find . -path ./work/out -prune -o -print | sort)
+(cd "$B/work" && "$BIN" draw tmpl.yaml --each-row rows.csv -o 'out/{group}.svg' --quiet \
+   && "$BIN" draw tmpl.yaml --each-row north.csv -o 'out/{group}.svg' --quiet) \
+  2> "$T/err.txt" || fail "batch: exit $? ($(head -c 300 "$T/err.txt"))"
+after=$(cd "$B" && find . -path ./work/out -prune -o -print | sort)
+checks=$((checks + 1))
+[ "$before" = "$after" ] || fail "batch wrote outside its folder: $(diff <(echo "$before") \
+  <(echo "$after") | grep '^>' | tr '\n' ' ')"
+[ "$(cat "$B/victim.svg")" = "$OLD" ] || fail "batch wrote through a planted symlink"
+[ -f "$B/work/out/north.svg" ] && [ ! -L "$B/work/out/north.svg" ] \
+  || fail "batch did not replace the planted symlink"
+[ "$(find "$B/work/out" -mindepth 1 -type d | wc -l)" = 0 ] \
+  || fail "batch made folders inside its output folder"
+ls -A "$B/work/out" | grep -q 'tmp' && fail "batch left temporary files"
+# A failing batch (one row over the icon cap) leaves the earlier files alone.
+sum_before=$(cd "$B/work/out" && cat -- * | cksum)
+printf 'name,adults,children\nNorth,200000,1\n' > "$B/work/north.csv"
+(cd "$B/work" && "$BIN" draw tmpl.yaml --each-row north.csv -o 'out/{group}.svg' --quiet) \
+  2> "$T/err.txt"
+rc=$?
+checks=$((checks + 1))
+[ "$rc" = 1 ] || fail "over-the-cap batch: exit $rc, expected 1"
+[ "$(cd "$B/work/out" && cat -- * | cksum)" = "$sum_before" ] \
+  || fail "a failed batch changed earlier files"
+ls -A "$B/work/out" | grep -q 'tmp' && fail "a failed batch left temporary files"
 
 echo "suite_output_safety: $checks checks, $fails failures"
 [ "$fails" = 0 ]
