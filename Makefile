@@ -8,6 +8,7 @@ CFLAGS  ?= -O2 -g
 PREFIX  ?= /usr/local
 DESTDIR ?=
 BUILD   ?= build
+VERSION  = $(shell sed -n 's/^#define UG_VERSION "\(.*\)"/\1/p' include/unitgram.h)
 
 PKGS      = yaml-0.1 librsvg-2.0 cairo cairo-pdf cairo-png pangocairo libxml-2.0 lcms2
 WARNINGS  = -Wall -Wextra -Wshadow -Wstrict-prototypes -Wmissing-prototypes \
@@ -17,7 +18,16 @@ STD       = -std=c11 -D_POSIX_C_SOURCE=200809L
 PKG_CFLAGS = $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
 PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null) -lcsv -lm
 CHECK_LIBS = $(shell pkg-config --libs check 2>/dev/null)
-ALL_CFLAGS = $(STD) $(WARNINGS) $(CFLAGS) -Iinclude -Isrc $(PKG_CFLAGS) -MMD -MP
+DATADIR    = $(PREFIX)/share/unitgram
+ALL_CFLAGS = $(STD) $(WARNINGS) $(CFLAGS) -Iinclude -Isrc $(PKG_CFLAGS) -MMD -MP \
+             -DUG_DATADIR='"$(DATADIR)/glyphs"'
+
+# The sanitized pass of `make check` (ASan + UBSan, leaks included).
+SAN_CFLAGS = -O1 -g -fsanitize=address,undefined -fno-omit-frame-pointer \
+             -fno-sanitize-recover=all
+SAN_ENV    = G_SLICE=always-malloc ASAN_OPTIONS=detect_leaks=1:abort_on_error=0 \
+             LSAN_OPTIONS=suppressions=$(CURDIR)/tests/lsan.supp:print_suppressions=0 \
+             UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 UG_SANITIZED=1
 
 DEBIAN_PACKAGES = build-essential pkg-config libyaml-dev librsvg2-dev libcairo2-dev \
   libpango1.0-dev liblcms2-dev libxml2-dev libcsv-dev check librsvg2-bin \
@@ -36,7 +46,8 @@ BIN      = $(BUILD)/unitgram
 
 LAYOUTS  = $(wildcard layouts/*.yaml)
 
-.PHONY: all deps check run-tests demo render-demo clean
+.PHONY: all deps check run-tests check-sanitized demo render-demo clean \
+        install uninstall bench fuzz fuzz-build
 
 all: $(BIN) $(LIB)
 
@@ -60,10 +71,12 @@ $(BUILD)/%.o: %.c
 
 $(LIB): $(LIB_OBJ)
 	@rm -f $@
-	ar rcs $@ $^
+	@echo "  AR  $@"
+	@ar rcs $@ $^
 
 $(BIN): $(CLI_OBJ) $(LIB)
-	$(CC) $(CFLAGS) -o $@ $(CLI_OBJ) $(LIB) $(PKG_LIBS)
+	@echo "  LD  $@"
+	@$(CC) $(CFLAGS) -o $@ $(CLI_OBJ) $(LIB) $(PKG_LIBS)
 
 $(BUILD)/tests/%: tests/%.c $(LIB)
 	@mkdir -p $(dir $@)
@@ -73,13 +86,56 @@ $(BUILD)/tests/%: tests/%.c $(LIB)
 # ---- tests ------------------------------------------------------------------
 check: deps
 	@$(MAKE) --no-print-directory run-tests
+	@$(MAKE) --no-print-directory check-sanitized
+
+# The whole suite again, built with AddressSanitizer and UBSan.
+check-sanitized:
+	@echo "== sanitized pass (ASan + UBSan) in build/asan"
+	@$(SAN_ENV) $(MAKE) --no-print-directory BUILD=build/asan \
+	  CFLAGS="$(SAN_CFLAGS)" run-tests
 
 run-tests: $(BIN) $(TESTS)
 	@set -e; for t in $(TESTS); do \
-	  echo "== $$t"; (cd tests && ../$$t); done
+	  echo "== $$t"; (cd tests && $(CURDIR)/$$t); done
 	@set -e; for s in tests/suite_*.sh; do [ -f "$$s" ] || continue; \
 	  echo "== $$s"; bash "$$s" $(BIN); done
 	@echo "unitgram: all test suites passed"
+
+# ---- fuzzing (libFuzzer, clang) --------------------------------------------
+FUZZ_SECONDS ?= 60
+FUZZ_SRC    = $(wildcard tests/fuzz/fuzz_*.c)
+FUZZ_BUILD  = build/fuzz
+FUZZ_CFLAGS = -O1 -g -fsanitize=fuzzer-no-link,address,undefined -fno-omit-frame-pointer
+FUZZERS     = $(FUZZ_SRC:tests/fuzz/%.c=$(FUZZ_BUILD)/%)
+
+fuzz-build:
+	@$(MAKE) --no-print-directory CC=clang BUILD=$(FUZZ_BUILD) \
+	  CFLAGS="$(FUZZ_CFLAGS)" $(FUZZ_BUILD)/libunitgram.a $(FUZZERS)
+
+$(FUZZ_BUILD)/fuzz_%: tests/fuzz/fuzz_%.c $(FUZZ_BUILD)/libunitgram.a
+	@echo "  LD  $@"
+	@clang $(STD) $(WARNINGS) -O1 -g -fsanitize=fuzzer,address,undefined \
+	  -Iinclude -Isrc $(PKG_CFLAGS) -o $@ $< $(FUZZ_BUILD)/libunitgram.a $(PKG_LIBS)
+
+# Each fuzzer runs FUZZ_SECONDS on its corpus (seeded from the tests); a crash
+# leaves its input in build/fuzz/ and fails the target.
+fuzz: fuzz-build
+	@set -e; for f in $(FUZZERS); do n=$$(basename $$f); \
+	  mkdir -p $(FUZZ_BUILD)/corpus/$$n; \
+	  echo "== $$n for $(FUZZ_SECONDS) s"; \
+	  rc=0; G_SLICE=always-malloc ASAN_OPTIONS=detect_leaks=1 \
+	  LSAN_OPTIONS=suppressions=$(CURDIR)/tests/lsan.supp \
+	  $$f -max_total_time=$(FUZZ_SECONDS) -timeout=10 -rss_limit_mb=2048 \
+	    -artifact_prefix=$(FUZZ_BUILD)/$$n- -print_final_stats=1 \
+	    $(FUZZ_BUILD)/corpus/$$n $$(cat tests/fuzz/$$n.seeds 2>/dev/null) \
+	    > $(FUZZ_BUILD)/$$n.log 2>&1 || rc=$$?; \
+	  grep -E "^stat::number_of_executed_units|^SUMMARY" $(FUZZ_BUILD)/$$n.log || true; \
+	  if [ $$rc != 0 ]; then tail -n 40 $(FUZZ_BUILD)/$$n.log; exit 1; fi; \
+	  done
+
+# ---- benchmarks (never part of check: timings belong here, not in tests) ----
+bench: all
+	@bash tests/bench/run.sh $(BUILD)
 
 # ---- demo -------------------------------------------------------------------
 demo: deps
@@ -90,6 +146,30 @@ render-demo: $(BIN)
 	@set -e; for f in $(LAYOUTS); do \
 	  n=$$(basename $$f .yaml); \
 	  $(BIN) draw $$f -o out/$$n.svg && echo "out/$$n.svg"; done
+
+# ---- install ----------------------------------------------------------------
+# Build and install with the same PREFIX: the glyph folder is compiled in.
+INSTALL_FILES = bin/unitgram lib/libunitgram.a include/unitgram.h \
+  lib/pkgconfig/unitgram.pc share/man/man1/unitgram.1 \
+  share/bash-completion/completions/unitgram
+
+install: all
+	install -d $(DESTDIR)$(PREFIX)/bin $(DESTDIR)$(PREFIX)/lib/pkgconfig \
+	  $(DESTDIR)$(PREFIX)/include $(DESTDIR)$(PREFIX)/share/man/man1 \
+	  $(DESTDIR)$(DATADIR)/glyphs $(DESTDIR)$(PREFIX)/share/bash-completion/completions
+	install -m 755 $(BIN) $(DESTDIR)$(PREFIX)/bin/unitgram
+	install -m 644 $(LIB) $(DESTDIR)$(PREFIX)/lib/libunitgram.a
+	install -m 644 include/unitgram.h $(DESTDIR)$(PREFIX)/include/unitgram.h
+	install -m 644 src/unitgram.1 $(DESTDIR)$(PREFIX)/share/man/man1/unitgram.1
+	install -m 644 src/unitgram.bash $(DESTDIR)$(PREFIX)/share/bash-completion/completions/unitgram
+	install -m 644 glyphs/*.svg glyphs/index.yaml $(DESTDIR)$(DATADIR)/glyphs/
+	sed -e 's|@PREFIX@|$(PREFIX)|g' -e 's|@VERSION@|$(VERSION)|g' \
+	  -e 's|@REQUIRES@|$(PKGS)|g' src/unitgram.pc.in \
+	  > $(DESTDIR)$(PREFIX)/lib/pkgconfig/unitgram.pc
+
+uninstall:
+	rm -f $(addprefix $(DESTDIR)$(PREFIX)/,$(INSTALL_FILES))
+	rm -rf $(DESTDIR)$(DATADIR)
 
 clean:
 	rm -rf $(BUILD) out

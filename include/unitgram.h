@@ -115,6 +115,9 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
 
 /* ---- utilities ---------------------------------------------------------- */
 
+/* The commented starter layout `unitgram init` writes (page != 0: a page file). */
+const char *ug_starter_layout(int page);
+
 /* Write len bytes to path through a temporary file in the same folder and
 ** rename(2), so a failure leaves any previous file untouched. "-" = stdout. */
 ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,

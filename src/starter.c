@@ -1,0 +1,65 @@
+/*
+** Starter files for `unitgram init`: a commented layout that draws as it is,
+** so a new user edits a working chart instead of a blank page.
+*/
+#include "unitgram.h"
+
+static const char chart_text[] =
+    "# A unitgram layout. Edit the counts and labels, then run:\n"
+    "#   unitgram draw chart.yaml -o chart.svg\n"
+    "# Every key is described in the README (\"The layout format\").\n"
+    "\n"
+    "title: Visitors to the Elm Street library branch, October\n"
+    "subtitle: Visits by purpose\n"
+    "source: Elm Street branch door counter and desk log (demo data)\n"
+    "notes:\n"
+    "  - Counts rounded to whole icons by the largest-remainder method.\n"
+    "\n"
+    "form: rows            # rows (isotype) or waffle\n"
+    "icon-value: 10        # each icon stands for 10 visits; the key says so\n"
+    "unit-label: visits    # what is counted\n"
+    "columns: 20           # icons per line before wrapping\n"
+    "cluster: 5            # a small extra gap after every 5 icons\n"
+    "\n"
+    "categories:\n"
+    "  - label: Borrowing books\n"
+    "    glyph: book\n"
+    "    count: 412\n"
+    "  - label: Using computers\n"
+    "    glyph: laptop\n"
+    "    count: 187\n"
+    "  - label: Children's story time\n"
+    "    glyph: child\n"
+    "    count: 96\n"
+    "\n"
+    "# Counts below 10 can identify people: draw them as a placeholder.\n"
+    "suppress:\n"
+    "  below: 10\n"
+    "\n"
+    "style:\n"
+    "  width: 800\n"
+    "  palette: okabe-ito   # colour-blind-safe colours for categories\n";
+
+static const char page_text[] =
+    "# A one-page handout. Each panel holds a chart file, an inline chart or\n"
+    "# a text block. Draw it with:\n"
+    "#   unitgram draw handout.yaml -o handout.pdf\n"
+    "\n"
+    "page: {size: A4, orientation: portrait, margin: 15mm, columns: 2}\n"
+    "title: Elm Street library branch, autumn update\n"
+    "source: Elm Street branch records (demo data)\n"
+    "shared-scale: true    # every chart uses one icon size and one icon value\n"
+    "panels:\n"
+    "  - chart:\n"
+    "      title: Visits in October\n"
+    "      form: rows\n"
+    "      icon-value: 10\n"
+    "      unit-label: visits\n"
+    "      categories:\n"
+    "        - {label: Borrowing books, glyph: book, count: 412}\n"
+    "        - {label: Using computers, glyph: laptop, count: 187}\n"
+    "    span: 2\n"
+    "  - text: |\n"
+    "      Replace this paragraph with a few sentences for the reader.\n";
+
+const char *ug_starter_layout(int page) { return page ? page_text : chart_text; }

@@ -1,0 +1,268 @@
+#!/usr/bin/env bash
+# Checks the unitgram glyph set (glyphs/*.svg and glyphs/index.yaml).
+#
+# For every glyph:
+#   - well-formed XML (xmllint --noout)
+#   - only svg/path/circle/ellipse/rect/polygon/g elements
+#   - no fill/stroke/style/transform/on* attributes (fill-rule/clip-rule are allowed),
+#     no id attributes, viewBox "0 0 100 100"
+#   - numbers have at most 2 decimals and lie within 0..100
+#   - rendered at 64x64 (rsvg-convert), the inked fraction (sum of alpha / pixels)
+#     lies within the weight band [BAND_LO, BAND_HI]
+#   - the ink bounding box reaches within ~4 units of one pair of opposite edges
+# For the index:
+#   - one entry per svg and vice versa, sorted by name, licence line present,
+#     weight equal to the measured fraction (2 decimals, +-0.01 tolerance)
+#
+# Usage: tests/suite_glyph_art.sh   (UG_GLYPH_ART_DIR overrides <repo>/glyphs)
+# Prints a table "name fraction status" and exits non-zero on any failure.
+set -u
+
+BAND_LO=0.22
+BAND_HI=0.55
+
+here="$(cd "$(dirname "$0")" && pwd)"
+# make check passes the CLI as $1; the art is checked where it lives.
+dir="${UG_GLYPH_ART_DIR:-$here/../glyphs}"
+PY=/usr/bin/python3
+
+for tool in xmllint rsvg-convert "$PY"; do
+    if ! command -v "$tool" >/dev/null 2>&1; then
+        echo "glyphs_check: required tool '$tool' not found" >&2
+        exit 2
+    fi
+done
+if [ ! -d "$dir" ]; then
+    echo "glyphs_check: no glyph directory at $dir" >&2
+    exit 2
+fi
+
+tmp="$(mktemp -d)"
+trap 'rm -rf "$tmp"' EXIT
+
+fail=0
+shopt -s nullglob
+files=("$dir"/*.svg)
+if [ "${#files[@]}" -eq 0 ]; then
+    echo "glyphs_check: no svg files in $dir" >&2
+    exit 1
+fi
+
+for f in "${files[@]}"; do
+    name="$(basename "$f" .svg)"
+    if ! xmllint --noout "$f" 2>"$tmp/$name.xmlerr"; then
+        echo "FAIL $name: xmllint: $(head -n 3 "$tmp/$name.xmlerr")"
+        fail=1
+        continue
+    fi
+    if ! rsvg-convert -w 64 -h 64 -f png -o "$tmp/$name.png" "$f" 2>"$tmp/$name.rsvgerr"; then
+        echo "FAIL $name: rsvg-convert: $(head -n 3 "$tmp/$name.rsvgerr")"
+        rm -f "$tmp/$name.png"
+        fail=1
+    fi
+done
+
+"$PY" - "$dir" "$tmp" "$BAND_LO" "$BAND_HI" <<'PYEOF'
+import os, re, struct, sys, zlib
+import xml.etree.ElementTree as ET
+
+gdir, tmp, lo, hi = sys.argv[1], sys.argv[2], float(sys.argv[3]), float(sys.argv[4])
+SVGNS = '{http://www.w3.org/2000/svg}'
+ALLOWED_EL = {'svg', 'path', 'circle', 'ellipse', 'rect', 'polygon', 'g'}
+ALLOWED_FILL_ATTR = {'fill-rule', 'clip-rule'}
+NUM = re.compile(r'[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?')
+LICENCE = 'unitgram project (original work)'
+
+def png_alpha(path):
+    data = open(path, 'rb').read()
+    if data[:8] != b'\x89PNG\r\n\x1a\n':
+        raise ValueError('not a PNG')
+    pos, idat = 8, b''
+    w = h = ct = bpp = None
+    while pos < len(data):
+        ln, typ = struct.unpack('>I4s', data[pos:pos + 8])
+        body = data[pos + 8:pos + 8 + ln]
+        if typ == b'IHDR':
+            w, h, depth, ct, _, _, interlace = struct.unpack('>IIBBBBB', body)
+            if depth != 8 or interlace != 0 or ct not in (0, 2, 4, 6):
+                raise ValueError('unsupported PNG layout')
+            bpp = {0: 1, 2: 3, 4: 2, 6: 4}[ct]
+        elif typ == b'IDAT':
+            idat += body
+        elif typ == b'IEND':
+            break
+        pos += 12 + ln
+    raw = zlib.decompress(idat)
+    stride = w * bpp
+    prev = bytearray(stride)
+    rows, i = [], 0
+    for _ in range(h):
+        ftype = raw[i]
+        line = bytearray(raw[i + 1:i + 1 + stride])
+        i += 1 + stride
+        for x in range(stride):
+            a = line[x - bpp] if x >= bpp else 0
+            b = prev[x]
+            c = prev[x - bpp] if x >= bpp else 0
+            if ftype == 1:
+                line[x] = (line[x] + a) & 255
+            elif ftype == 2:
+                line[x] = (line[x] + b) & 255
+            elif ftype == 3:
+                line[x] = (line[x] + ((a + b) >> 1)) & 255
+            elif ftype == 4:
+                p = a + b - c
+                pa, pb, pc = abs(p - a), abs(p - b), abs(p - c)
+                pr = a if (pa <= pb and pa <= pc) else (b if pb <= pc else c)
+                line[x] = (line[x] + pr) & 255
+        rows.append(line)
+        prev = line
+    if ct in (4, 6):
+        return w, h, [[r[x * bpp + bpp - 1] for x in range(w)] for r in rows]
+    return w, h, [[255 - r[x * bpp] for x in range(w)] for r in rows]
+
+def structural_problems(path):
+    probs = []
+    try:
+        root = ET.parse(path).getroot()
+    except ET.ParseError as e:
+        return ['XML parse error: %s' % e]
+    if root.tag != SVGNS + 'svg':
+        probs.append('root element is not an SVG <svg>')
+    if root.get('viewBox', '').split() != ['0', '0', '100', '100']:
+        probs.append('viewBox must be "0 0 100 100"')
+    for el in root.iter():
+        tag = el.tag
+        local = tag[len(SVGNS):] if tag.startswith(SVGNS) else tag
+        if not tag.startswith(SVGNS) or local not in ALLOWED_EL:
+            probs.append('element <%s> not allowed' % local)
+        for attr, val in el.attrib.items():
+            a = attr.split('}')[-1].lower()
+            if a in ALLOWED_FILL_ATTR:
+                pass
+            elif a in ('fill', 'stroke', 'style', 'transform', 'id', 'class') or \
+                    a.startswith('fill-') or a.startswith('stroke-') or a.startswith('on'):
+                probs.append('attribute %s on <%s> not allowed' % (a, local))
+            if a in ('d', 'cx', 'cy', 'r', 'rx', 'ry', 'x', 'y', 'width', 'height', 'points'):
+                for n in NUM.findall(val):
+                    if 'e' in n.lower():
+                        probs.append('exponent notation %s' % n)
+                        continue
+                    if '.' in n and len(n.split('.')[1]) > 2:
+                        probs.append('more than 2 decimals: %s' % n)
+                    v = float(n)
+                    if v < 0 or v > 100:
+                        probs.append('coordinate out of 0..100: %s' % n)
+        if (el.text or '').strip():
+            probs.append('text content in <%s>' % local)
+    seen, out = set(), []
+    for p in probs:
+        if p not in seen:
+            seen.add(p)
+            out.append(p)
+    return out
+
+def read_index(path):
+    entries, cur, order, probs = {}, None, [], []
+    for ln, line in enumerate(open(path, encoding='utf-8'), 1):
+        if not line.strip() or line.lstrip().startswith('#'):
+            continue
+        m = re.match(r'^- name:\s*(\S+)\s*$', line)
+        if m:
+            cur = m.group(1)
+            order.append(cur)
+            if cur in entries:
+                probs.append('index: duplicate entry %s' % cur)
+            entries[cur] = {}
+            continue
+        m = re.match(r'^  (\w+):\s*(.*?)\s*$', line)
+        if m and cur is not None:
+            entries[cur][m.group(1)] = m.group(2)
+            continue
+        probs.append('index line %d not understood: %s' % (ln, line.rstrip()))
+    if order != sorted(order):
+        probs.append('index: entries are not sorted by name')
+    return entries, probs
+
+fail = False
+names = sorted(f[:-4] for f in os.listdir(gdir) if f.endswith('.svg'))
+measured = {}
+print('%-16s %-8s %s' % ('name', 'fraction', 'status'))
+print('%-16s %-8s %s' % ('-' * 16, '-' * 8, '-' * 6))
+for name in names:
+    probs = []
+    if not re.match(r'^[a-z0-9]+(-[a-z0-9]+)*$', name):
+        probs.append('file name must be lower-case, hyphenated')
+    probs += structural_problems(os.path.join(gdir, name + '.svg'))
+    png = os.path.join(tmp, name + '.png')
+    frac = None
+    if not os.path.exists(png):
+        probs.append('not rendered')
+    else:
+        w, h, alpha = png_alpha(png)
+        frac = sum(sum(r) for r in alpha) / (255.0 * w * h)
+        measured[name] = frac
+        if not (lo <= frac <= hi):
+            probs.append('inked fraction %.3f outside band %.2f-%.2f' % (frac, lo, hi))
+        ink_rows = [y for y in range(h) if max(alpha[y]) > 0]
+        ink_cols = [x for x in range(w) if any(alpha[y][x] > 0 for y in range(h))]
+        if not ink_rows:
+            probs.append('renders empty')
+        else:
+            edge = 3  # pixels at 64 px, i.e. ~4.7 units of the 100-unit box
+            fills_x = ink_cols[0] <= edge and ink_cols[-1] >= w - 1 - edge
+            fills_y = ink_rows[0] <= edge and ink_rows[-1] >= h - 1 - edge
+            if not (fills_x or fills_y):
+                probs.append('drawing does not reach a pair of opposite edges')
+    status = 'ok' if not probs else 'FAIL'
+    print('%-16s %-8s %s' % (name, '%.3f' % frac if frac is not None else '-', status))
+    for p in probs:
+        print('    - %s' % p)
+    if probs:
+        fail = True
+
+if measured:
+    vals = sorted(measured.values())
+    print('glyphs: %d   band: %.2f-%.2f   min: %.3f   max: %.3f' % (len(names), lo, hi, vals[0], vals[-1]))
+
+index = os.path.join(gdir, 'index.yaml')
+if not os.path.exists(index):
+    print('FAIL index.yaml missing')
+    fail = True
+else:
+    entries, probs = read_index(index)
+    for n in names:
+        if n not in entries:
+            probs.append('index: no entry for %s.svg' % n)
+    for n, e in entries.items():
+        if n not in names:
+            probs.append('index: entry %s has no svg file' % n)
+            continue
+        if e.get('licence') != LICENCE:
+            probs.append('index: %s licence must be "%s"' % (n, LICENCE))
+        kw = e.get('keywords', '')
+        if not re.match(r'^\[[^\[\]]+\]$', kw):
+            probs.append('index: %s keywords must be a non-empty [list]' % n)
+        try:
+            wt = float(e.get('weight', 'x'))
+            if n in measured and abs(wt - measured[n]) > 0.0101:
+                probs.append('index: %s weight %.2f but measured %.3f' % (n, wt, measured[n]))
+        except ValueError:
+            probs.append('index: %s weight missing or not a number' % n)
+    for p in probs:
+        print('FAIL ' + p)
+    if probs:
+        fail = True
+    else:
+        print('index.yaml: %d entries ok' % len(entries))
+
+sys.exit(1 if fail else 0)
+PYEOF
+pyrc=$?
+
+if [ "$fail" -ne 0 ] || [ "$pyrc" -ne 0 ]; then
+    echo "glyphs_check: FAILED"
+    exit 1
+fi
+echo "glyphs_check: all glyphs ok"
+exit 0
