@@ -160,7 +160,8 @@ static const char page_css[] =
     "table{border-collapse:collapse;margin:1.5em 0}"
     "caption{text-align:left;font-weight:bold;padding-bottom:.4em}"
     "th,td{border:1px solid #767676;padding:.25em .6em}"
-    "td{text-align:right}thead th{background:#eee}";
+    "td{text-align:right}thead th{background:#eee}"
+    "tbody th{text-align:left;font-weight:normal}";
 
 static void page_head(ug_buf *b, const char *title)
 {

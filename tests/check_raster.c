@@ -553,6 +553,26 @@ END_TEST
 
 /* ---- files for tests/suite_raster.sh ---------------------------------------- */
 
+/* The web page around the same picture, with the Wikipedia example's table. */
+static int write_page(const char *dir)
+{
+    ug_chart ca, cb;
+    ug_allocation *a = NULL;
+    char path[4096], *page = NULL;
+    size_t len;
+    ug_error err = {0};
+    make_charts(&ca, &cb);
+    snprintf(path, sizeof path, "%s/squares.html", dir);
+    if (ug_chart_allocate(&ca, &a, &err) ||
+        ug_html_page(NULL, test_svg, strlen(test_svg), NULL,
+                     (const ug_allocation *const *)&a, 1, &page, &len, &err) ||
+        ug_write_file_atomic(path, page, len, &err))
+        fprintf(stderr, "%s: %s\n", path, err.msg);
+    ug_free(page);
+    ug_allocation_free(a);
+    return err.status ? EXIT_FAILURE : EXIT_SUCCESS;
+}
+
 static int write_files(const char *dir)
 {
     static const struct {
@@ -573,7 +593,7 @@ static int write_files(const char *dir)
             return EXIT_FAILURE;
         }
     }
-    return EXIT_SUCCESS;
+    return write_page(dir);
 }
 
 static Suite *raster_suite(void)
