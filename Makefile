@@ -42,6 +42,7 @@ LIB_OBJ  = $(LIB_SRC:%.c=$(BUILD)/%.o)
 CLI_OBJ  = $(CLI_SRC:%.c=$(BUILD)/%.o)
 TESTS    = $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 LIB      = $(BUILD)/libunitgram.a
+REF_DRIVERS = $(BUILD)/tests/ref/alloc_driver
 BIN      = $(BUILD)/unitgram
 
 LAYOUTS  = $(wildcard layouts/*.yaml)
@@ -83,6 +84,12 @@ $(BUILD)/tests/%: tests/%.c $(LIB)
 	@echo "  LD  $@"
 	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(CHECK_LIBS) $(PKG_LIBS)
 
+# Drivers that let tests/ref compare the library with outside references.
+$(BUILD)/tests/ref/%: tests/ref/%.c $(LIB)
+	@mkdir -p $(dir $@)
+	@echo "  LD  $@"
+	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(PKG_LIBS)
+
 # ---- tests ------------------------------------------------------------------
 check: deps
 	@$(MAKE) --no-print-directory run-tests
@@ -94,7 +101,7 @@ check-sanitized:
 	@$(SAN_ENV) $(MAKE) --no-print-directory BUILD=build/asan \
 	  CFLAGS="$(SAN_CFLAGS)" run-tests
 
-run-tests: $(BIN) $(TESTS)
+run-tests: $(BIN) $(TESTS) $(REF_DRIVERS)
 	@set -e; for t in $(TESTS); do \
 	  echo "== $$t"; (cd tests && $(CURDIR)/$$t); done
 	@set -e; for s in tests/suite_*.sh; do [ -f "$$s" ] || continue; \

@@ -113,6 +113,32 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
                        const ug_allocation *const *allocs, size_t nallocs,
                        char **out, size_t *len, ug_error *err);
 
+/* ---- the glyph library ------------------------------------------------ */
+
+/* Every glyph the search path offers (the project's glyphs/, the installed
+** data folder, UNITGRAM_GLYPH_PATH, then dirs), sorted by name; a name in
+** several folders is the first one found, as when a chart names it. */
+typedef struct ug_glyph_library ug_glyph_library;
+
+ug_status ug_glyph_library_open(const char *const *dirs, size_t ndirs,
+                                ug_glyph_library **out, ug_error *err);
+void ug_glyph_library_free(ug_glyph_library *lib);
+size_t ug_glyph_library_count(const ug_glyph_library *lib);
+/* NULL when i is out of range. Keywords come from the folder's index.yaml,
+** joined with ", "; "" when the index does not describe the glyph. */
+const char *ug_glyph_library_name(const ug_glyph_library *lib, size_t i);
+const char *ug_glyph_library_keywords(const ug_glyph_library *lib, size_t i);
+const char *ug_glyph_library_folder(const ug_glyph_library *lib, size_t i);
+/* A labelled contact sheet (SVG) of every glyph; *out is malloc'd. */
+ug_status ug_glyph_library_sheet_svg(const ug_glyph_library *lib, char **out,
+                                     size_t *len, ug_error *err);
+/* Load one glyph reference as a layout in base_dir would (a library name, a
+** primitive or a path). *warnings (malloc'd, "" if none) gets one line per
+** thing sanitizing removed; *ink the covered fraction of the unit box. */
+ug_status ug_glyph_check(const char *ref, const char *base_dir,
+                         const char *const *dirs, size_t ndirs, char **warnings,
+                         double *ink, ug_error *err);
+
 /* ---- utilities ---------------------------------------------------------- */
 
 /* The commented starter layout `unitgram init` writes (page != 0: a page file). */

@@ -21,6 +21,7 @@
 ** listed first. Everything is compared as exact integers (counts are scaled
 ** by 10^6) so equal remainders are truly equal and the tie rule decides.
 */
+#include <assert.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -36,6 +37,7 @@ ug_dec alloc_sum(const ug_dec *counts, size_t n)
 
 ug_i128 alloc_icons_for_value(ug_dec total, ug_dec value)
 {
+    assert(value.v > 0);
     return (2 * total.v + value.v) / (2 * value.v);
 }
 
@@ -59,8 +61,11 @@ static int by_remainder(const void *pa, const void *pb)
     return a->i < b->i ? -1 : 1;
 }
 
+/* 0 <= leftover <= n always: the floors fall short of the quotas' sum by
+** less than n, and N is within 1/2 of that sum (exactly it, with cells). */
 static ug_status give_leftovers(alloc_share *s, size_t n, long leftover)
 {
+    assert(leftover >= 0 && (size_t)leftover <= n);
     ranked *order = ug_malloc(n * sizeof *order);
     if (!order)
         return UG_ENOMEM;
@@ -185,20 +190,37 @@ static void set_shown(alloc_share *s, size_t n, const alloc_rule *rule,
     }
 }
 
+/* The largest N any rule may ask for, whatever limit the caller states (a
+** size_t limit can exceed what a long or 128 bits can carry). The report
+** rounds count * N / total and icons * total / N to six places, forming
+** products up to count * N * 2 * 10^6; with counts of 10^15 scaled by 10^6
+** that overflows 128 bits near N = 8 * 10^10. 10^7 keeps a wide margin,
+** bounds the time highest averages take, and is far beyond a readable chart. */
+static long icon_ceiling(const alloc_rule *rule)
+{
+    if (rule->max_icons > 0 && rule->max_icons < ALLOC_MAX_ICONS)
+        return rule->max_icons;
+    return ALLOC_MAX_ICONS;
+}
+
 static ug_status house_size(const alloc_rule *rule, ug_dec total, long *out,
                             ug_mark where, ug_error *err)
 {
     ug_i128 n = rule->by_cells ? rule->cells : alloc_icons_for_value(total, rule->value);
     if (rule->by_cells && total.v == 0)
         n = 0;
-    ug_i128 limit = rule->max_icons > 0 ? rule->max_icons : (ug_i128)1 << 40;
+    long limit = icon_ceiling(rule);
+    if (n > limit && rule->by_cells)
+        return ug_fail(err, UG_ELIMIT, where,
+                       "%ld cells are more than %ld, the limit on icons; "
+                       "state fewer cells or raise the limit (--max-icons)",
+                       rule->cells, limit);
     if (n > limit) {
         char t[48], v[48];
         return ug_fail(err, UG_ELIMIT, where,
                        "%s at %s each would need more than %ld icons, the limit; "
                        "state a larger icon value or raise the limit (--max-icons)",
-                       ug_dec_format(total, t), ug_dec_format(rule->value, v),
-                       rule->max_icons);
+                       ug_dec_format(total, t), ug_dec_format(rule->value, v), limit);
     }
     *out = (long)n;
     return UG_OK;
@@ -258,6 +280,10 @@ bool alloc_nice_value(ug_dec largest, long fit, ug_dec *out)
     ug_dec v = {0};
     if (fit < 1)
         return false;
+    if (largest.v == 0) { /* nothing to draw: any value fits; say a plain 1 */
+        *out = (ug_dec){UG_DEC_SCALE};
+        return true;
+    }
     for (int i = 0; i < 200; i++) {
         ug_dec next = alloc_next_nice(v);
         if (next.v == v.v)

@@ -6,13 +6,17 @@
 
 #include "model.h"
 
+/* No rule may ask for more icons than this (see icon_ceiling in alloc.c). */
+#define ALLOC_MAX_ICONS 10000000L
+
 typedef struct {
     ug_method method;
     bool by_cells;   /* true: a fixed number of cells; false: each icon = value */
     ug_dec value;    /* icon value V (> 0) when !by_cells */
     long cells;      /* N when by_cells */
     bool partial;    /* rounding: partial (only with a value) */
-    long max_icons;  /* refuse an N above this (0: no limit) */
+    long max_icons;  /* refuse an N above this (0 or above ALLOC_MAX_ICONS:
+                        ALLOC_MAX_ICONS) */
 } alloc_rule;
 
 /* One category's share. Exact rationals keep the report honest: the quota is

@@ -1,12 +1,132 @@
-/* Placeholder until the 'glyphs' command lands; it refuses rather than pretends. */
+/*
+** `unitgram glyphs`: list the glyph library, draw its contact sheet, or check
+** a glyph file of one's own. A thin layer over ug_glyph_library_* and
+** ug_glyph_check.
+*/
 #include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
 
 #include "cli.h"
 
+#define MAX_DIRS 32
+
+typedef struct {
+    const char *dirs[MAX_DIRS];
+    size_t ndirs;
+    const char *sheet;
+    const char *check[MAX_DIRS];
+    size_t ncheck;
+} options;
+
+static void help(FILE *to)
+{
+    fprintf(to,
+            "usage: unitgram glyphs [--glyph-dir DIR]... [--sheet FILE.svg]\n"
+            "       unitgram glyphs [--glyph-dir DIR]... --check GLYPH...\n\n"
+            "Lists the glyph library: each glyph's name and keywords (a chart names\n"
+            "a glyph with `glyph: NAME`).\n\n"
+            "  --glyph-dir DIR  also look for NAME.svg in DIR (after the library,\n"
+            "                   the installed glyphs and UNITGRAM_GLYPH_PATH)\n"
+            "  --sheet FILE     write a contact sheet: every glyph drawn with its name\n"
+            "  --check GLYPH    load a glyph as a layout in the current folder would\n"
+            "                   (a name or a path such as ./icons/boat.svg); print what\n"
+            "                   sanitizing removed and its inked area\n"
+            "  --help           this text\n\n"
+            "exit codes: 0 success, 1 bad glyph or index, 2 usage, 4 output not written\n");
+}
+
+static int parse(int argc, char **argv, options *o)
+{
+    for (int i = 1; i < argc; i++) {
+        const char *a = argv[i];
+        const char *next = i + 1 < argc ? argv[i + 1] : NULL;
+        if (!strcmp(a, "--help") || !strcmp(a, "-h")) {
+            help(stdout);
+            return -1;
+        } else if (!next && (!strcmp(a, "--glyph-dir") || !strcmp(a, "--sheet") ||
+                             !strcmp(a, "--check"))) {
+            fprintf(stderr, "unitgram glyphs: %s needs a value\n", a);
+            return EXIT_USAGE;
+        } else if (!strcmp(a, "--glyph-dir") && o->ndirs < MAX_DIRS) {
+            o->dirs[o->ndirs++] = argv[++i];
+        } else if (!strcmp(a, "--sheet")) {
+            o->sheet = argv[++i];
+        } else if (!strcmp(a, "--check") && o->ncheck < MAX_DIRS) {
+            o->check[o->ncheck++] = argv[++i];
+        } else {
+            fprintf(stderr, "unitgram glyphs: unexpected argument '%s' (see --help)\n", a);
+            return EXIT_USAGE;
+        }
+    }
+    return EXIT_OK;
+}
+
+static int list(const ug_glyph_library *lib)
+{
+    for (size_t i = 0; i < ug_glyph_library_count(lib); i++) {
+        const char *kw = ug_glyph_library_keywords(lib, i);
+        printf("%-16s %s\n", ug_glyph_library_name(lib, i), kw);
+    }
+    return EXIT_OK;
+}
+
+static int sheet(const ug_glyph_library *lib, const char *path)
+{
+    ug_error err = {0};
+    char *svg = NULL;
+    size_t len = 0;
+    if (ug_glyph_library_sheet_svg(lib, &svg, &len, &err)) {
+        cli_report_error(&err);
+        return cli_exit_for(&err);
+    }
+    int rc = EXIT_OK;
+    if (ug_write_file_atomic(path, svg, len, &err)) {
+        cli_report_error(&err);
+        rc = EXIT_OUTPUT;
+    }
+    free(svg);
+    return rc;
+}
+
+static int check(const options *o)
+{
+    int rc = EXIT_OK;
+    for (size_t i = 0; i < o->ncheck; i++) {
+        ug_error err = {0};
+        char *warnings = NULL;
+        double ink = 0;
+        if (ug_glyph_check(o->check[i], ".", o->dirs, o->ndirs, &warnings, &ink, &err)) {
+            cli_report_error(&err);
+            rc = cli_exit_for(&err);
+            continue;
+        }
+        for (char *line = warnings; *line;) {
+            size_t n = strcspn(line, "\n");
+            fprintf(stderr, "%s: warning: %.*s\n", o->check[i], (int)n, line);
+            line += n + (line[n] == '\n');
+        }
+        printf("%s: ok, inked area %.3f of the unit box\n", o->check[i], ink);
+        free(warnings);
+    }
+    return rc;
+}
+
 int cli_glyphs(int argc, char **argv)
 {
-    (void)argc;
-    (void)argv;
-    fprintf(stderr, "unitgram: 'glyphs' is not available in this build yet\n");
-    return EXIT_USAGE;
+    options o = {0};
+    int rc = parse(argc, argv, &o);
+    if (rc)
+        return rc < 0 ? EXIT_OK : rc;
+    if (o.ncheck)
+        return check(&o);
+    ug_glyph_library *lib = NULL;
+    ug_error err = {0};
+    if (ug_glyph_library_open(o.dirs, o.ndirs, &lib, &err)) {
+        cli_report_error(&err);
+        return cli_exit_for(&err);
+    }
+    rc = o.sheet ? sheet(lib, o.sheet) : list(lib);
+    ug_glyph_library_free(lib);
+    return rc;
 }

@@ -29,7 +29,22 @@ typedef struct {
     double ink;      /* covered fraction of the unit box (rendered at 64 x 64) */
     char **removed;  /* what sanitizing removed, one line each, for warnings */
     size_t nremoved;
+    char *path;      /* the file it was read from; NULL for a primitive */
 } ug_glyph;
+
+/* Library glyphs are drawn inside this margin of the unit box (measured on
+** the library: its drawings span 4..96 on their longer side), and user
+** glyphs are fitted to the same box so both sit alike. */
+#define GLYPH_MARGIN 4.0
+/* The inked-area band the library is drawn to (the artist's, stated in
+** tests/suite_glyph_art.sh), so glyphs side by side look about as heavy;
+** a user glyph outside it is not an error. */
+#define GLYPH_BAND_LOW 0.22
+#define GLYPH_BAND_HIGH 0.55
+#define GLYPH_INK_SIZE 64 /* pixels per side of the inked-area rendering */
+#define GLYPH_MAX_BYTES (1u << 20)
+#define GLYPH_MAX_DEPTH 32
+#define GLYPH_MAX_ELEMENTS 5000
 
 /* Resolve and load a glyph; `where` is blamed in errors. */
 ug_status glyph_load(const char *ref, const glyph_search *search, ug_mark where,
@@ -38,5 +53,26 @@ void glyph_free(ug_glyph *g);
 
 /* The default folders of the search path, in order, NULL-terminated. */
 const char *const *glyph_default_dirs(void);
+/* Every folder of the search path in order: defaults, UNITGRAM_GLYPH_PATH,
+** then search->dirs. *out is a NULL-terminated array the caller frees with
+** ug_free (one block). */
+ug_status glyph_search_dirs(const glyph_search *search, char ***out, ug_error *err);
+void glyph_free_dirs(char **dirs);
+/* A name the library can hold: [a-z0-9-], 1..64 characters, no leading '-'. */
+bool glyph_is_library_name(const char *ref);
+
+/* The inked area index.yaml states for library entry i (-1 when none). */
+double glyph_library_weight(const ug_glyph_library *lib, size_t i);
+
+/* ---- measuring (glyph_render.c) ---- */
+
+/* Extent {x, y, width, height} of sanitized markup in its own user units. */
+ug_status glyph_measure(const char *markup, ug_mark where, double box[4],
+                        ug_error *err);
+/* Unit-box markup drawn at size x size px; alpha gets size*size coverages. */
+ug_status glyph_rasterize(const char *body, int size, unsigned char *alpha,
+                          ug_mark where, ug_error *err);
+/* Covered fraction of the unit box: sum of alpha/255 at 64 x 64 over 4096. */
+ug_status glyph_ink(const char *body, ug_mark where, double *ink, ug_error *err);
 
 #endif

@@ -178,9 +178,11 @@ static void json_string(ug_buf *b, const char *s)
     ug_buf_puts(b, "\"");
 }
 
+static const char *or_empty(const char *s) { return s ? s : ""; }
+
 static const char *group_name(const ug_chart *c, size_t g)
 {
-    return c->groups.n ? c->groups.items[g].text : "";
+    return c->groups.n ? or_empty(c->groups.items[g].text) : "";
 }
 
 static const char *value_text(const ug_allocation *a, char *buf)
@@ -192,10 +194,20 @@ static const char *value_text(const ug_allocation *a, char *buf)
     return buf;
 }
 
+/* The icons column's total. A partial chart draws every quota exactly, so
+** its icons add up to total / V, not to the rounded N. */
+static const char *total_icons(const ug_allocation *a, size_t g, char *buf)
+{
+    if (a->rule.partial)
+        return trimmed_ratio(a->group_totals[g].v, a->rule.value.v, buf);
+    snprintf(buf, 64, "%ld", a->group_icons[g]);
+    return buf;
+}
+
 static void report_text(const ug_allocation *a, ug_buf *b)
 {
     const ug_chart *c = a->chart;
-    char v[64], tot[48];
+    char v[64], tot[48], n[64];
     ug_buf_printf(b, "Each icon = %s%s%s; method: %s%s\n", value_text(a, v),
                   c->unit_label.text ? " " : "",
                   c->unit_label.text ? c->unit_label.text : "",
@@ -212,12 +224,12 @@ static void report_text(const ug_allocation *a, ug_buf *b)
             row_text t;
             describe_share(alloc_at(a, g, i), &t);
             ug_buf_printf(b, "  %-24s %12s %12s %8s %12s %12s %8s\n",
-                          c->cats[i].label.text, t.count, t.quota, t.icons,
-                          t.shown, t.diff, t.rel);
+                          or_empty(c->cats[i].label.text), t.count, t.quota,
+                          t.icons, t.shown, t.diff, t.rel);
         }
-        ug_buf_printf(b, "  %-24s %12s %12s %8ld\n", "total",
+        ug_buf_printf(b, "  %-24s %12s %12s %8s\n", "total",
                       ug_dec_format(a->group_totals[g], tot), "",
-                      a->group_icons[g]);
+                      total_icons(a, g, n));
     }
 }
 
@@ -231,7 +243,7 @@ static void report_csv(const ug_allocation *a, ug_buf *b)
             describe_share(alloc_at(a, g, i), &t);
             csv_field(b, group_name(c, g));
             ug_buf_puts(b, ",");
-            csv_field(b, c->cats[i].label.text);
+            csv_field(b, or_empty(c->cats[i].label.text));
             ug_buf_printf(b, ",%s,%s,%s,%s,%s\n", t.count, t.quota, t.icons,
                           t.shown, t.diff);
         }
@@ -248,7 +260,7 @@ static void report_json(const ug_allocation *a, ug_buf *b)
             ug_buf_puts(b, "  {\"group\": ");
             json_string(b, group_name(c, g));
             ug_buf_puts(b, ", \"category\": ");
-            json_string(b, c->cats[i].label.text);
+            json_string(b, or_empty(c->cats[i].label.text));
             ug_buf_printf(b,
                           ", \"count\": %s, \"quota\": %s, \"icons\": %s, "
                           "\"shown\": %s, \"difference\": %s}%s\n",

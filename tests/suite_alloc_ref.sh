@@ -1,0 +1,40 @@
+#!/usr/bin/env bash
+# Outside cross-check of the allocator: our largest-remainder and
+# Sainte-Laguë results against the npm packages hare-niemeyer@3.0.0 and
+# sainte-lague@3.0.0 on thousands of random cases where those packages can be
+# trusted (see tests/ref/alloc_crosscheck.mjs).
+#
+#   bash tests/suite_alloc_ref.sh build/unitgram
+#
+# make builds the driver (build/tests/ref/alloc_driver, beside the CLI); this
+# script builds nothing. Without Node.js it prints SKIP and passes, unless
+# UG_REQUIRE_NODE=1 (as in CI), when a missing reference is a failure.
+set -euo pipefail
+
+cli=${1:?usage: suite_alloc_ref.sh PATH/TO/unitgram}
+here=$(cd "$(dirname "$0")" && pwd)
+driver=$(cd "$(dirname "$cli")" && pwd)/tests/ref/alloc_driver
+ref="$here/ref"
+
+skip() {
+    if [ "${UG_REQUIRE_NODE:-0}" = 1 ]; then
+        echo "FAIL: alloc reference check: $1 (UG_REQUIRE_NODE=1)" >&2
+        exit 1
+    fi
+    echo "SKIP: alloc reference check: $1"
+    exit 0
+}
+
+command -v node >/dev/null 2>&1 || skip "node is not installed"
+command -v npm >/dev/null 2>&1 || skip "npm is not installed"
+[ -x "$driver" ] || { echo "FAIL: $driver is missing; run make first" >&2; exit 1; }
+
+if [ ! -f "$ref/node_modules/hare-niemeyer/package.json" ] ||
+   [ ! -f "$ref/node_modules/sainte-lague/package.json" ]; then
+    echo "installing the reference packages in tests/ref"
+    (cd "$ref" && npm install --no-audit --no-fund >/dev/null) ||
+        skip "npm install of the reference packages failed"
+fi
+
+cd "$ref"
+node alloc_crosscheck.mjs "$driver"
