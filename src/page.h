@@ -1,0 +1,42 @@
+/*
+** Page stage: a handout page (FORMAT.md §2) -> one scene the size of the
+** sheet, with several chart panels and text blocks on a column grid.
+** This header holds the paper sizes and the grid geometry, which are pure
+** arithmetic and tested on their own.
+*/
+#ifndef UG_PAGE_H
+#define UG_PAGE_H
+
+#include "ug.h"
+
+/* CSS: 96 px per inch, 25.4 mm per inch (W3C CSS Values and Units). */
+#define PAGE_PX_PER_MM (96.0 / 25.4)
+
+/* A named sheet in millimetres, portrait: A3, A4, A5 (ISO 216), letter
+** (8.5 x 11 in) and legal (8.5 x 14 in); names match in any case. */
+bool page_paper(const char *name, double *w_mm, double *h_mm);
+
+/* The grid: the sheet in px, its margin, and `columns` equal columns with
+** `gutter` px between them (and between rows of panels). */
+typedef struct {
+    double width, height, margin, gutter;
+    long columns;
+    double top, bottom;   /* the content area's first and last y (px) */
+} page_grid;
+
+typedef struct {
+    double x, y, w, h;
+} page_box;
+
+/* Width of a panel spanning `span` columns. */
+double page_span_width(const page_grid *g, long span);
+
+/* Place n panels in reading order: a panel takes the next `span` columns of
+** the current row, or starts a new row when they are not free; a row is as
+** tall as its tallest panel. Returns the index of the first panel whose
+** bottom passes g->bottom, or n when all fit; *over gets how far the
+** lowest panel passes it (px), the height the content lacks. */
+size_t page_place(const page_grid *g, const long *spans, const double *heights,
+                  size_t n, page_box *out, double *over);
+
+#endif
