@@ -79,6 +79,26 @@ void ug_allocation_free(ug_allocation *a);
 ug_status ug_allocation_report(const ug_allocation *a, ug_report_format fmt,
                                char **out, size_t *len, ug_error *err);
 
+/* ---- the picture: allocation -> placed boxes -> SVG -------------------- */
+
+typedef struct ug_scene ug_scene;
+
+/* Place every icon, text line and key entry of a chart; the chart and the
+** allocation are borrowed and must outlive nothing (the scene copies what it
+** needs). Glyphs are resolved from the layout's folder and the library. */
+ug_status ug_scene_pack(const ug_chart *chart, const ug_allocation *alloc,
+                        ug_scene **out, ug_error *err);
+void ug_scene_free(ug_scene *scene);
+double ug_scene_width(const ug_scene *scene);   /* px (SVG user units) */
+double ug_scene_height(const ug_scene *scene);
+/* The scene as an SVG document; *out is malloc'd and NUL-ended. */
+ug_status ug_scene_svg(const ug_scene *scene, char **out, size_t *len,
+                       ug_error *err);
+/* Plain-language description of the chart (the SVG's <desc>); the layout's
+** `description:` when it gives one. *out is malloc'd and NUL-ended. */
+ug_status ug_chart_describe(const ug_chart *chart, const ug_allocation *alloc,
+                            char **out, size_t *len, ug_error *err);
+
 /* ---- output: PNG, PDF and a web page (src/raster.c, src/html.c) -------- */
 
 typedef enum { UG_OUT_SVG, UG_OUT_PNG, UG_OUT_PDF, UG_OUT_HTML } ug_output_format;

@@ -1,0 +1,757 @@
+/*
+** Pack stage: model + allocation -> scene (every box placed, in px).
+**
+** The one rule that shapes everything here is Isotype's first rule (Neurath,
+** International Picture Language, 1936): a larger count is shown by more
+** symbols of one size, never by a bigger symbol. So the icon size is fixed by
+** the layout for the whole chart and the canvas grows downwards to hold what
+** the counts need; when a line of `columns` icons does not fit the width, the
+** line wraps earlier rather than shrinking an icon.
+**
+** The page is a column of blocks, top to bottom, each starting below the
+** lowest box of the one before: title and subtitle, the plot (bands of rows,
+** or a grid of waffle panels), the key, the value statement, notes, source.
+** Inside a block, text columns and icon areas are side by side and never
+** share x; every text is wrapped to the width it is given. That is why boxes
+** cannot overlap, and the tests check it on random layouts.
+*/
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "pack.h"
+#include "text.h"
+
+#define MARGIN 40.0
+#define TITLE_PX 26.0
+#define SUBTITLE_PX 17.0
+#define LABEL_PX 15.0
+#define SMALL_PX 13.0
+#define HOLDER_PX 12.0
+#define BLOCK_GAP 28.0 /* between title, plot, key and foot */
+#define COL_GAP 16.0   /* between a text column and icons */
+#define DEFAULT_ICON 24.0
+#define DEFAULT_WIDTH 800.0
+
+typedef struct {
+    const ug_chart *c;
+    const ug_allocation *a;
+    ug_scene *s;
+    ug_error *err;
+    ug_status st; /* first failure; later placing is skipped */
+    size_t cap_icons, cap_texts, cap_holders, cap_rects, cap_swatches;
+    double size, gap, pitch, left, right;
+    double y; /* top of the next block */
+    /* suppressed-count placeholder, one size for the chart */
+    const char *holder_label;
+    double holder_w, holder_h;
+    char holder_buf[96];
+} packer;
+
+static void fail(packer *p, ug_status st)
+{
+    if (!p->st)
+        p->st = ug_fail(p->err, st, ug_mark_file(p->c->path), "out of memory");
+}
+
+static void *push(packer *p, void **arr, size_t *n, size_t *cap, size_t elem)
+{
+    if (p->st)
+        return NULL;
+    if (*n == *cap) {
+        size_t grown = *cap ? *cap * 2 : 64;
+        void *g = ug_realloc(*arr, grown * elem);
+        if (!g) {
+            fail(p, UG_ENOMEM);
+            return NULL;
+        }
+        *arr = g;
+        *cap = grown;
+    }
+    void *slot = (char *)*arr + (*n)++ * elem;
+    memset(slot, 0, elem);
+    return slot;
+}
+
+#define PUSH(p, arr, n, cap) push((p), (void **)&(p)->s->arr, &(p)->s->n, &(p)->cap, \
+                                  sizeof *(p)->s->arr)
+
+static double content_width(const packer *p) { return p->right - p->left; }
+
+/* ---- text ------------------------------------------------------------------ */
+
+typedef struct {
+    double w, h, line; /* widest line, block height, height of one line box */
+} text_size;
+
+/* Wrap s to `width` and, when place is true, add its lines with the first
+** line box's top at `top`. Returns the block's size either way. */
+static text_size put_text(packer *p, const char *s, double x, double top,
+                          double width, double px, bool bold, scene_anchor an,
+                          bool place)
+{
+    text_size ts = {0, 0, 0};
+    char *clean = s && !p->st ? text_clean(s) : NULL;
+    text_font f = {p->s->font, px, bold};
+    text_block b;
+    if (!clean) {
+        if (s && !p->st)
+            fail(p, UG_ENOMEM);
+        return ts;
+    }
+    if ((p->st = text_wrap(&f, clean, width, &b, p->err))) {
+        ug_free(clean);
+        return ts;
+    }
+    ts.line = b.ascent + b.descent;
+    ts.w = b.width;
+    ts.h = b.n ? ts.line + (double)(b.n - 1) * b.pitch : 0;
+    for (size_t i = 0; place && i < b.n; i++) {
+        if (!b.lines[i][0])
+            continue;
+        scene_text *t = PUSH(p, texts, ntexts, cap_texts);
+        if (!t)
+            break;
+        *t = (scene_text){x, top + b.ascent + (double)i * b.pitch, px, b.widths[i],
+                          b.ascent, b.descent, bold, an,
+                          ug_arena_strdup(&p->s->arena, b.lines[i])};
+        if (!t->text)
+            fail(p, UG_ENOMEM);
+    }
+    text_block_free(&b);
+    ug_free(clean);
+    return ts;
+}
+
+/* Height of one line box at px (for centring text on a line of icons). */
+static double line_box(packer *p, double px, bool bold)
+{
+    return put_text(p, "Ag", 0, 0, 0, px, bold, SCENE_START, false).line;
+}
+
+/* A text as a block of its own, spanning the content width; moves p->y. */
+static void put_block(packer *p, const char *s, double px, bool bold, double after)
+{
+    if (!s)
+        return;
+    text_size ts = put_text(p, s, p->left, p->y, content_width(p), px, bold,
+                            SCENE_START, true);
+    p->y += ts.h + after;
+}
+
+/* A string built in a buffer, placed, then dropped. */
+static text_size put_buf(packer *p, ug_buf *b, double x, double top, double width,
+                         double px, bool bold, scene_anchor an, bool place)
+{
+    ug_buf_add(b, "", 1);
+    if (b->failed) {
+        fail(p, UG_ENOMEM);
+        ug_buf_free(b);
+        return (text_size){0, 0, 0};
+    }
+    text_size ts = put_text(p, b->data, x, top, width, px, bold, an, place);
+    ug_buf_free(b);
+    return ts;
+}
+
+/* ---- icons ------------------------------------------------------------------ */
+
+static void put_icon(packer *p, double x, double y, size_t cat, size_t group,
+                     double fraction)
+{
+    scene_icon *ic = PUSH(p, icons, nicons, cap_icons);
+    if (ic)
+        *ic = (scene_icon){x, y, fraction, (unsigned)cat, (unsigned)group};
+}
+
+/* An unfilled waffle cell: a light outline, so the grid keeps its shape. */
+static void put_empty(packer *p, double x, double y)
+{
+    scene_rect *r = PUSH(p, rects, nrects, cap_rects);
+    if (r)
+        *r = (scene_rect){x + 0.5, y + 0.5, p->size - 1, p->size - 1, {0xc4, 0xc4, 0xc4}};
+}
+
+/* The marked placeholder of a hidden count: dashed box plus its label. */
+static void put_holder(packer *p, double x, double y, size_t cat, size_t group)
+{
+    scene_placeholder *h = PUSH(p, holders, nholders, cap_holders);
+    if (!h)
+        return;
+    *h = (scene_placeholder){x, y, p->holder_w, p->holder_h, (unsigned)cat,
+                             (unsigned)group};
+    double lb = line_box(p, HOLDER_PX, false);
+    put_text(p, p->holder_label, x + p->holder_w / 2, y + (p->holder_h - lb) / 2, 0,
+             HOLDER_PX, false, SCENE_MIDDLE, true);
+}
+
+/* Icons sit in the scene grouped by category (the SVG writer's <g> per
+** category needs them so); a counting sort keeps each category's order. */
+static void sort_icons(packer *p)
+{
+    ug_scene *s = p->s;
+    size_t *start = ug_calloc(s->ncats + 1, sizeof *start);
+    scene_icon *sorted = ug_malloc((s->nicons ? s->nicons : 1) * sizeof *sorted);
+    if (!start || !sorted) {
+        fail(p, UG_ENOMEM);
+    } else {
+        for (size_t i = 0; i < s->nicons; i++)
+            start[s->icons[i].cat + 1]++;
+        for (size_t k = 0; k < s->ncats; k++)
+            start[k + 1] += start[k];
+        for (size_t i = 0; i < s->nicons; i++)
+            sorted[start[s->icons[i].cat]++] = s->icons[i];
+        ug_free(s->icons);
+        s->icons = sorted;
+        p->cap_icons = s->nicons;
+        sorted = NULL;
+    }
+    ug_free(start);
+    ug_free(sorted);
+}
+
+/* ---- rows (isotype) ---------------------------------------------------------- */
+
+/* An extra space after every `cluster` icons helps counting; grouping in
+** fives or tens is common practice with no primary source (REFERENCES.md §6),
+** and half an icon is our own choice of how wide that space is. */
+static double slot_x(const packer *p, double x0, long k)
+{
+    double extra = p->c->cluster > 0 ? (double)(k / p->c->cluster) * p->size / 2 : 0;
+    return x0 + (double)k * p->pitch + extra;
+}
+
+static long fit_columns(const packer *p, double x0, double avail)
+{
+    long want = alloc_default_columns(p->c), n = 1;
+    while (n < want && slot_x(p, x0, n) + p->size - x0 <= avail)
+        n++;
+    if (n < want && p->c->cluster > 0 && n > p->c->cluster)
+        n -= n % p->c->cluster; /* wrap at a cluster boundary */
+    return n;
+}
+
+static const char *cat_label(const ug_chart *c, size_t i)
+{
+    return c->cats[i].label.text ? c->cats[i].label.text : c->cats[i].id;
+}
+
+typedef struct {
+    double lw, tw;     /* left label column, right total column */
+    double x0, avail;  /* icon area */
+    double tx;         /* where the totals start: just past the longest line */
+    long cols;
+    double line_h;     /* one line of icons (a placeholder may be taller) */
+    double band_gap;
+} rows_frame;
+
+static void right_text(packer *p, size_t g, size_t i, ug_buf *b)
+{
+    if (p->c->arrangement == UG_ARRANGE_SPLIT)
+        pack_category_cell(p->c, g, i, b);
+    else
+        pack_group_phrase(p->c, g, b);
+}
+
+static double widest_side(packer *p, bool left)
+{
+    const ug_chart *c = p->c;
+    bool split = c->arrangement == UG_ARRANGE_SPLIT;
+    double w = 0;
+    for (size_t g = 0; g < chart_ngroups(c); g++)
+        for (size_t i = 0; i < (split ? c->ncats : 1); i++) {
+            ug_buf b;
+            ug_buf_init(&b);
+            if (!left)
+                right_text(p, g, i, &b);
+            else if (c->groups.n)
+                ug_buf_puts(&b, c->groups.items[g].text);
+            else if (split)
+                ug_buf_puts(&b, cat_label(c, i));
+            text_size ts = put_buf(p, &b, 0, 0, 0, LABEL_PX, left, SCENE_START, false);
+            w = fmax(w, ts.w);
+        }
+    return w;
+}
+
+static rows_frame rows_setup(packer *p)
+{
+    rows_frame f;
+    double cw = content_width(p);
+    f.lw = fmin(widest_side(p, true), 0.3 * cw);
+    f.tw = fmin(widest_side(p, false), 0.3 * cw);
+    f.x0 = p->left + (f.lw > 0 ? f.lw + COL_GAP : 0);
+    f.avail = p->right - (f.tw > 0 ? f.tw + COL_GAP : 0) - f.x0;
+    f.cols = fit_columns(p, f.x0, f.avail);
+    f.tx = fmax(slot_x(p, f.x0, f.cols - 1) + p->size, f.x0 + p->holder_w) + COL_GAP;
+    f.line_h = fmax(p->size, p->holder_label ? p->holder_h : 0);
+    f.band_gap = fmax(14, p->size * 0.75);
+    return f;
+}
+
+typedef struct {
+    double top, floor; /* current line's top; lowest text bottom so far */
+    long k;            /* slots used on the current line */
+    bool fresh;        /* nothing on the current line yet */
+} rows_cursor;
+
+static void new_line(const packer *p, const rows_frame *f, rows_cursor *cur)
+{
+    if (cur->fresh)
+        return;
+    cur->top = fmax(cur->top + f->line_h + p->gap, ceil(cur->floor));
+    cur->k = 0;
+    cur->fresh = true;
+}
+
+static void side_texts(packer *p, const rows_frame *f, rows_cursor *cur,
+                       size_t g, size_t i, bool first)
+{
+    const ug_chart *c = p->c;
+    bool split = c->arrangement == UG_ARRANGE_SPLIT;
+    double lb = line_box(p, LABEL_PX, false);
+    double top = cur->top + (f->line_h - lb) / 2;
+    text_size l = {0, 0, 0}, r = {0, 0, 0};
+    if (first && c->groups.n)
+        l = put_text(p, c->groups.items[g].text, p->left, top, f->lw, LABEL_PX,
+                     true, SCENE_START, true);
+    else if (split && !c->groups.n)
+        l = put_text(p, cat_label(c, i), p->left, top, f->lw, LABEL_PX, false,
+                     SCENE_START, true);
+    if (first || split) {
+        ug_buf b;
+        ug_buf_init(&b);
+        right_text(p, g, i, &b);
+        r = put_buf(p, &b, f->tx, top, p->right - f->tx, LABEL_PX, false, SCENE_START,
+                    true);
+    }
+    /* the next line's text starts above its icons when text is taller */
+    cur->floor = fmax(cur->floor, top + fmax(l.h, r.h) + p->gap +
+                                      fmax(0, (lb - f->line_h) / 2));
+}
+
+static void rows_category(packer *p, const rows_frame *f, rows_cursor *cur,
+                          size_t g, size_t i)
+{
+    const alloc_share *sh = alloc_at(p->a, g, i);
+    double dy = (f->line_h - p->size) / 2;
+    if (pack_suppressed(p->c, sh->count)) {
+        long slots = (long)ceil((p->holder_w + p->gap) / p->pitch);
+        slots = slots < 1 ? 1 : slots > f->cols ? f->cols : slots;
+        if (cur->k > 0 && cur->k + slots > f->cols)
+            new_line(p, f, cur);
+        put_holder(p, slot_x(p, f->x0, cur->k), cur->top + (f->line_h - p->holder_h) / 2,
+                   i, g);
+        cur->k += slots;
+        cur->fresh = false;
+        return;
+    }
+    long n = sh->icons + (sh->partial ? 1 : 0);
+    for (long j = 0; j < n && !p->st; j++) {
+        if (cur->k == f->cols)
+            new_line(p, f, cur);
+        double frac = j == sh->icons ? (double)sh->rem / (double)sh->quota_den : 1.0;
+        put_icon(p, slot_x(p, f->x0, cur->k), cur->top + dy, i, g, frac);
+        cur->k++;
+        cur->fresh = false;
+    }
+}
+
+static void rows_band(packer *p, const rows_frame *f, size_t g)
+{
+    bool split = p->c->arrangement == UG_ARRANGE_SPLIT;
+    double lb = line_box(p, LABEL_PX, false);
+    /* whole-pixel tops keep icon edges crisp when rendered */
+    rows_cursor cur = {ceil(p->y + fmax(0, (lb - f->line_h) / 2)), p->y, 0, true};
+    for (size_t i = 0; i < p->c->ncats && !p->st; i++) {
+        if (split && i > 0) {
+            cur.fresh = false; /* an empty category still gets its line */
+            new_line(p, f, &cur);
+        }
+        if (i == 0 || split)
+            side_texts(p, f, &cur, g, i, i == 0);
+        rows_category(p, f, &cur, g, i);
+    }
+    p->y = fmax(cur.top + f->line_h + p->gap, cur.floor) - p->gap + f->band_gap;
+}
+
+static void pack_rows(packer *p)
+{
+    rows_frame f = rows_setup(p);
+    for (size_t g = 0; g < chart_ngroups(p->c) && !p->st; g++)
+        rows_band(p, &f, g);
+    p->y += BLOCK_GAP - f.band_gap;
+}
+
+/* ---- waffle ------------------------------------------------------------------ */
+
+typedef struct {
+    long cols, rows, cells;  /* grid shared by every panel */
+    double w, h, gap;        /* one panel; space between panels */
+    size_t per_row;
+} waffle_frame;
+
+static waffle_frame waffle_setup(const packer *p)
+{
+    waffle_frame f;
+    const ug_allocation *a = p->a;
+    f.cols = alloc_default_columns(p->c);
+    f.cells = a->rule.by_cells ? a->rule.cells : 0;
+    for (size_t g = 0; !a->rule.by_cells && g < a->ngroups; g++)
+        if (a->group_icons[g] > f.cells)
+            f.cells = a->group_icons[g];
+    f.rows = (f.cells + f.cols - 1) / f.cols;
+    f.w = (double)f.cols * p->pitch - p->gap;
+    f.h = f.rows ? (double)f.rows * p->pitch - p->gap : 0;
+    f.gap = fmax(40, 2 * p->size);
+    double fit = floor((content_width(p) + f.gap) / (f.w + f.gap));
+    f.per_row = fit < 1 ? 1 : (size_t)fit;
+    return f;
+}
+
+/* Cell k of the fill order -> its column and row in the grid. */
+static void cell_at(const ug_chart *c, const waffle_frame *f, long k, long *col,
+                    long *row)
+{
+    if (c->fill == UG_FILL_BY_COLUMN) {
+        *col = k / f->rows;
+        *row = k % f->rows;
+    } else {
+        *row = k / f->cols;
+        *col = k % f->cols;
+        if (c->fill == UG_FILL_SNAKE && *row % 2 == 1)
+            *col = f->cols - 1 - *col;
+    }
+    if (c->start == UG_START_BOTTOM_LEFT)
+        *row = f->rows - 1 - *row;
+}
+
+/* Categories fill the grid one after another in key order. A hidden count's
+** cells and the cells of an all-zero total are drawn as empty outlines: the
+** grid keeps its shape and no colour stands for a number we must not show.
+** An icon-value waffle whose last row is short leaves the rest blank. */
+static void waffle_cells(packer *p, const waffle_frame *f, size_t g, double x0,
+                         double y0)
+{
+    long k = 0, col, row;
+    for (size_t i = 0; i < p->c->ncats && !p->st; i++) {
+        const alloc_share *sh = alloc_at(p->a, g, i);
+        bool hidden = pack_suppressed(p->c, sh->count);
+        for (long j = 0; j < sh->icons && !p->st; j++, k++) {
+            cell_at(p->c, f, k, &col, &row);
+            double x = x0 + (double)col * p->pitch, y = y0 + (double)row * p->pitch;
+            if (hidden)
+                put_empty(p, x, y);
+            else
+                put_icon(p, x, y, i, g, 1.0);
+        }
+    }
+    for (; p->a->rule.by_cells && k < f->cells && !p->st; k++) {
+        cell_at(p->c, f, k, &col, &row);
+        put_empty(p, x0 + (double)col * p->pitch, y0 + (double)row * p->pitch);
+    }
+}
+
+static double panel_header(packer *p, const waffle_frame *f, size_t g, double x,
+                           bool place)
+{
+    if (!p->c->groups.n)
+        return 0;
+    text_size l = put_text(p, p->c->groups.items[g].text, x, p->y, f->w, LABEL_PX,
+                           true, SCENE_START, place);
+    ug_buf b;
+    ug_buf_init(&b);
+    pack_group_phrase(p->c, g, &b);
+    text_size t = put_buf(p, &b, x, p->y + l.h + 4, f->w, SMALL_PX, false,
+                          SCENE_START, place);
+    return l.h + 4 + t.h + 10;
+}
+
+static void pack_waffle(packer *p)
+{
+    waffle_frame f = waffle_setup(p);
+    size_t n = chart_ngroups(p->c);
+    for (size_t g0 = 0; g0 < n && !p->st; g0 += f.per_row) {
+        p->y = ceil(p->y);
+        size_t g1 = g0 + f.per_row < n ? g0 + f.per_row : n;
+        double head = 0;
+        for (size_t g = g0; g < g1; g++)
+            head = fmax(head, ceil(panel_header(p, &f, g, 0, false)));
+        for (size_t g = g0; g < g1 && !p->st; g++) {
+            double x = p->left + (double)(g - g0) * (f.w + f.gap);
+            panel_header(p, &f, g, x, true);
+            waffle_cells(p, &f, g, x, p->y + head);
+        }
+        p->y += head + f.h + (g1 < n ? f.gap * 0.75 : BLOCK_GAP);
+    }
+}
+
+/* ---- key, value statement, notes, source ---------------------------------------- */
+
+static void key_detail(packer *p, size_t i, ug_buf *b)
+{
+    const ug_chart *c = p->c;
+    pack_category_phrase(c, i, b);
+    const alloc_share *sh = alloc_at(p->a, 0, i);
+    if (c->groups.n || pack_suppressed(c, sh->count))
+        return;
+    char n[64];
+    ug_buf_printf(b, " \xc2\xb7 %s %s", pack_icons_text(sh, n),
+                  pack_icon_word(c, sh->partial || sh->icons != 1));
+}
+
+static void key_entry(packer *p, size_t i, double lw)
+{
+    double lb = line_box(p, LABEL_PX, true);
+    double top = ceil(p->y + fmax(0, (lb - p->size) / 2));
+    double text_top = top + (p->size - lb) / 2;
+    double lx = p->left + p->size + 10, dx = lx + lw + 24;
+    scene_icon *sw = PUSH(p, swatches, nswatches, cap_swatches);
+    if (sw)
+        *sw = (scene_icon){p->left, top, 1.0, (unsigned)i, 0};
+    text_size l = put_text(p, cat_label(p->c, i), lx, text_top, lw, LABEL_PX, true,
+                           SCENE_START, true);
+    ug_buf b;
+    ug_buf_init(&b);
+    key_detail(p, i, &b);
+    text_size d = put_buf(p, &b, dx, text_top, p->right - dx, LABEL_PX, false,
+                          SCENE_START, true);
+    double bottom = fmax(top + p->size, text_top + fmax(l.h, d.h));
+    if (p->c->cats[i].note.text) {
+        text_size nt = put_text(p, p->c->cats[i].note.text, lx, bottom + 4,
+                                p->right - lx, SMALL_PX, false, SCENE_START, true);
+        bottom += 4 + nt.h;
+    }
+    p->y = bottom + 12;
+}
+
+static void pack_key(packer *p)
+{
+    double lw = 0, lx = p->size + 10;
+    for (size_t i = 0; i < p->c->ncats; i++)
+        lw = fmax(lw, put_text(p, cat_label(p->c, i), 0, 0, 0, LABEL_PX, true,
+                               SCENE_START, false).w);
+    lw = fmin(lw, 0.45 * (content_width(p) - lx));
+    for (size_t i = 0; i < p->c->ncats && !p->st; i++)
+        key_entry(p, i, lw);
+    p->y += BLOCK_GAP - 12;
+}
+
+static void pack_foot(packer *p)
+{
+    ug_buf b;
+    ug_buf_init(&b);
+    pack_value_statement(p->c, p->a, "=", &b);
+    text_size ts = put_buf(p, &b, p->left, p->y, content_width(p), LABEL_PX, true,
+                           SCENE_START, true);
+    p->y += ts.h + 14;
+    for (size_t i = 0; i < p->c->notes.n; i++)
+        put_block(p, p->c->notes.items[i].text, SMALL_PX, false, 6);
+    if (p->c->source.n) {
+        ug_buf_init(&b);
+        ug_buf_puts(&b, "Source: ");
+        for (size_t i = 0; i < p->c->source.n; i++)
+            ug_buf_printf(&b, "%s%s", i ? "; " : "", p->c->source.items[i].text);
+        ts = put_buf(p, &b, p->left, p->y + 4, content_width(p), SMALL_PX, false,
+                     SCENE_START, true);
+        p->y += 4 + ts.h;
+    }
+}
+
+/* ---- set-up -------------------------------------------------------------------- */
+
+static scene_rgb rgb_or(ug_color c, scene_rgb fallback)
+{
+    return c.set ? (scene_rgb){c.r, c.g, c.b} : fallback;
+}
+
+static bool isalnum_ascii(unsigned char ch)
+{
+    return (ch >= '0' && ch <= '9') || ((ch | 32) >= 'a' && (ch | 32) <= 'z');
+}
+
+/* An XML id from a category id: letters, digits, '-' and '_' survive. */
+static const char *safe_id(packer *p, size_t i)
+{
+    const char *id = p->c->cats[i].id ? p->c->cats[i].id : "";
+    size_t n = strlen(id);
+    char *out = ug_arena_alloc(&p->s->arena, n + 48);
+    if (!out)
+        return NULL;
+    size_t o = (size_t)snprintf(out, 24, "cat-");
+    for (size_t k = 0; k < n; k++) {
+        unsigned char ch = (unsigned char)id[k];
+        out[o++] = (isalnum_ascii(ch) || ch == '-' || ch == '_') ? (char)ch
+                                                                            : '-';
+    }
+    if (n == 0)
+        snprintf(out + o, 24, "%zu", i);
+    return out;
+}
+
+static size_t glyph_index(packer *p, size_t i)
+{
+    const ug_category *cat = &p->c->cats[i];
+    const char *ref = cat->glyph.text ? cat->glyph.text : "square";
+    ug_scene *s = p->s;
+    for (size_t k = 0; k < s->nglyphs; k++)
+        if (strcmp(s->glyphs[k]->name, ref) == 0)
+            return k;
+    glyph_search search = {NULL, 0, p->c->dir};
+    ug_glyph *g = NULL;
+    ug_mark where = cat->glyph.text ? cat->glyph.mark : cat->mark;
+    if ((p->st = glyph_load(ref, &search, where, &g, p->err)))
+        return 0;
+    s->glyphs[s->nglyphs] = g;
+    return s->nglyphs++;
+}
+
+static void setup_categories(packer *p)
+{
+    ug_scene *s = p->s;
+    s->ncats = p->c->ncats;
+    s->cats = ug_arena_alloc(&s->arena, (s->ncats + 1) * sizeof *s->cats);
+    s->glyphs = ug_calloc(s->ncats + 1, sizeof *s->glyphs);
+    if (!s->cats || !s->glyphs) {
+        fail(p, UG_ENOMEM);
+        return;
+    }
+    for (size_t i = 0; i < s->ncats && !p->st; i++) {
+        scene_category *sc = &s->cats[i];
+        sc->color = rgb_or(p->c->cats[i].color, (scene_rgb){0x55, 0x55, 0x55});
+        sc->id = safe_id(p, i);
+        sc->glyph = glyph_index(p, i);
+        ug_buf b;
+        ug_buf_init(&b);
+        ug_buf_printf(&b, "%s: ", cat_label(p->c, i));
+        pack_category_phrase(p->c, i, &b);
+        ug_buf_add(&b, "", 1);
+        char *clean = b.failed ? NULL : text_clean(b.data);
+        sc->title = clean ? ug_arena_strdup(&s->arena, clean) : NULL;
+        ug_free(clean);
+        ug_buf_free(&b);
+        if (!sc->id || !sc->title)
+            fail(p, UG_ENOMEM);
+    }
+}
+
+static void setup_holder(packer *p)
+{
+    bool any = false;
+    for (size_t k = 0; k < p->a->ngroups * p->a->ncats; k++)
+        any = any || pack_suppressed(p->c, p->a->shares[k].count);
+    if (!any)
+        return;
+    p->holder_label = pack_suppress_label(p->c, p->holder_buf, sizeof p->holder_buf);
+    text_size ts = put_text(p, p->holder_label, 0, 0, 0, HOLDER_PX, false,
+                            SCENE_START, false);
+    p->holder_w = ts.w + 12;
+    p->holder_h = fmax(p->size, ts.line + 8);
+}
+
+/* The canvas is style.width wide unless one icon line or one waffle panel
+** needs more: the icon never shrinks, so the page widens instead. */
+static double canvas_width(const packer *p)
+{
+    double w = p->c->style.width > 0 ? p->c->style.width : DEFAULT_WIDTH;
+    double need;
+    if (p->c->form == UG_FORM_WAFFLE)
+        need = (double)alloc_default_columns(p->c) * p->pitch - p->gap;
+    else /* text columns take at most 55% of the width; one icon the rest */
+        need = (p->size + 2 * COL_GAP + p->holder_w) / 0.45;
+    return fmax(w, ceil(2 * MARGIN + need));
+}
+
+static void setup(packer *p)
+{
+    const ug_chart *c = p->c;
+    ug_scene *s = p->s;
+    p->size = c->icon_size > 0 ? c->icon_size : DEFAULT_ICON;
+    p->gap = c->icon_gap >= 0 ? c->icon_gap : 4;
+    p->pitch = p->size + p->gap;
+    s->icon_size = p->size;
+    s->font = ug_arena_strdup(&s->arena, c->style.font ? c->style.font : "DejaVu Sans");
+    s->background = rgb_or(c->style.background, (scene_rgb){0xff, 0xff, 0xff});
+    s->ink = rgb_or(c->style.ink, (scene_rgb){0x22, 0x22, 0x22});
+    char *title = text_clean(c->title.text ? c->title.text : "Unit chart");
+    s->title = title ? ug_arena_strdup(&s->arena, title) : NULL;
+    ug_free(title);
+    if (!s->font || !s->title) {
+        fail(p, UG_ENOMEM);
+        return;
+    }
+    setup_holder(p);
+    s->width = canvas_width(p);
+    p->left = MARGIN;
+    p->right = s->width - MARGIN;
+    p->y = MARGIN;
+    setup_categories(p);
+}
+
+static void set_desc(packer *p)
+{
+    char *d = NULL;
+    if (p->st)
+        return;
+    if ((p->st = ug_chart_describe(p->c, p->a, &d, NULL, p->err)))
+        return;
+    char *clean = text_clean(d);
+    p->s->desc = clean ? ug_arena_strdup(&p->s->arena, clean) : NULL;
+    if (!p->s->desc)
+        fail(p, UG_ENOMEM);
+    ug_free(clean);
+    ug_free(d);
+}
+
+ug_status ug_scene_pack(const ug_chart *c, const ug_allocation *a, ug_scene **out,
+                        ug_error *err)
+{
+    *out = NULL;
+    packer p;
+    memset(&p, 0, sizeof p);
+    p.c = c;
+    p.a = a;
+    p.err = err;
+    if (!(p.s = ug_calloc(1, sizeof *p.s)))
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(c->path), "out of memory");
+    setup(&p);
+    if (!p.st && c->title.text)
+        put_block(&p, c->title.text, TITLE_PX, true, c->subtitle.text ? 6 : BLOCK_GAP);
+    if (!p.st && c->subtitle.text)
+        put_block(&p, c->subtitle.text, SUBTITLE_PX, false, BLOCK_GAP);
+    if (!p.st)
+        (c->form == UG_FORM_WAFFLE ? pack_waffle : pack_rows)(&p);
+    if (!p.st)
+        pack_key(&p);
+    if (!p.st)
+        pack_foot(&p);
+    p.s->height = ceil(p.y + MARGIN);
+    if (!p.st)
+        sort_icons(&p);
+    set_desc(&p);
+    if (p.st) {
+        ug_scene_free(p.s);
+        return p.st;
+    }
+    *out = p.s;
+    return UG_OK;
+}
+
+void ug_scene_free(ug_scene *s)
+{
+    if (!s)
+        return;
+    for (size_t i = 0; i < s->nglyphs; i++)
+        glyph_free(s->glyphs[i]);
+    ug_free(s->glyphs);
+    ug_free(s->icons);
+    ug_free(s->swatches);
+    ug_free(s->texts);
+    ug_free(s->holders);
+    ug_free(s->rects);
+    ug_arena_free(&s->arena);
+    ug_free(s);
+}
+
+double ug_scene_width(const ug_scene *s) { return s->width; }
+double ug_scene_height(const ug_scene *s) { return s->height; }

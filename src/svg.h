@@ -1,0 +1,16 @@
+/*
+** SVG stage: scene -> SVG bytes. Also the number formatter and the XML
+** escaping, which other writers of SVG text (the handout page) can share.
+*/
+#ifndef UG_SVG_H
+#define UG_SVG_H
+
+#include "scene.h"
+
+/* v with at most two decimals, trailing zeros dropped ("12.5", "-3", "0.07").
+** Writes at most 32 bytes including the NUL; returns the length. */
+size_t svg_number(double v, char *out);
+/* s escaped for XML text and attribute values (& < > " '). */
+void svg_escape(ug_buf *b, const char *s);
+
+#endif

@@ -1,0 +1,154 @@
+/*
+** Text stage: measuring and wrapping with pango (pangocairo font map).
+**
+** librsvg lays SVG text out with pango too, so measuring here with the same
+** font and the same settings gives the widths the renderer will draw: an
+** absolute size in px (SVG font-size 16 == "DejaVu Sans 12" at 96 dpi), no
+** metrics hinting, no rounding of glyph positions. The font map and context
+** are made on first use and kept for the life of the process: font set-up is
+** the expensive part, and a batch of charts must pay it once.
+*/
+#include <pango/pangocairo.h>
+#include <string.h>
+
+#include "text.h"
+
+static PangoContext *shared_context(void)
+{
+    static PangoContext *ctx;
+    if (ctx)
+        return ctx;
+    PangoFontMap *map = pango_cairo_font_map_new();
+    ctx = pango_font_map_create_context(map);
+    g_object_unref(map); /* the context keeps it */
+    cairo_font_options_t *o = cairo_font_options_create();
+    cairo_font_options_set_hint_metrics(o, CAIRO_HINT_METRICS_OFF);
+    cairo_font_options_set_hint_style(o, CAIRO_HINT_STYLE_NONE);
+    pango_cairo_context_set_font_options(ctx, o);
+    cairo_font_options_destroy(o);
+    pango_cairo_context_set_resolution(ctx, 96.0);
+    pango_context_set_round_glyph_positions(ctx, FALSE);
+    return ctx;
+}
+
+static PangoLayout *layout_for(const text_font *f, const char *s)
+{
+    PangoLayout *l = pango_layout_new(shared_context());
+    PangoFontDescription *d = pango_font_description_from_string(
+        f->family && *f->family ? f->family : "DejaVu Sans");
+    pango_font_description_set_absolute_size(d, f->size * PANGO_SCALE);
+    pango_font_description_set_weight(d, f->bold ? PANGO_WEIGHT_BOLD
+                                                 : PANGO_WEIGHT_NORMAL);
+    pango_layout_set_font_description(l, d);
+    pango_font_description_free(d);
+    pango_layout_set_text(l, s, -1);
+    return l;
+}
+
+double text_width(const text_font *f, const char *s)
+{
+    PangoLayout *l = layout_for(f, s);
+    PangoRectangle ink, logical;
+    pango_layout_get_extents(l, &ink, &logical);
+    g_object_unref(l);
+    return (double)logical.width / PANGO_SCALE;
+}
+
+void text_block_free(text_block *b)
+{
+    if (!b)
+        return;
+    for (size_t i = 0; i < b->n; i++)
+        ug_free(b->lines[i]);
+    ug_free(b->lines);
+    ug_free(b->widths);
+    memset(b, 0, sizeof *b);
+}
+
+static void set_metrics(PangoLayout *l, text_block *b, const text_font *f)
+{
+    PangoFontMetrics *m = pango_context_get_metrics(
+        pango_layout_get_context(l), pango_layout_get_font_description(l), NULL);
+    b->ascent = (double)pango_font_metrics_get_ascent(m) / PANGO_SCALE;
+    b->descent = (double)pango_font_metrics_get_descent(m) / PANGO_SCALE;
+    pango_font_metrics_unref(m);
+    /* 1.3 em between baselines reads comfortably and never lets lines touch. */
+    b->pitch = f->size * 1.3;
+    if (b->pitch < b->ascent + b->descent)
+        b->pitch = b->ascent + b->descent;
+}
+
+static ug_status take_lines(PangoLayout *l, const char *s, text_block *b)
+{
+    int n = pango_layout_get_line_count(l);
+    b->lines = ug_calloc((size_t)n, sizeof *b->lines);
+    b->widths = ug_calloc((size_t)n, sizeof *b->widths);
+    if (!b->lines || !b->widths)
+        return UG_ENOMEM;
+    for (int i = 0; i < n; i++) {
+        PangoLayoutLine *line = pango_layout_get_line_readonly(l, i);
+        size_t len = (size_t)line->length;
+        while (len && (s[line->start_index + len - 1] == ' ' ||
+                       s[line->start_index + len - 1] == '\n'))
+            len--;
+        if (!(b->lines[b->n] = ug_strndup(s + line->start_index, len)))
+            return UG_ENOMEM;
+        PangoRectangle logical;
+        pango_layout_line_get_extents(line, NULL, &logical);
+        double w = (double)logical.width / PANGO_SCALE;
+        b->widths[b->n++] = w;
+        if (w > b->width)
+            b->width = w;
+    }
+    return UG_OK;
+}
+
+ug_status text_wrap(const text_font *f, const char *s, double max_width,
+                    text_block *out, ug_error *err)
+{
+    memset(out, 0, sizeof *out);
+    PangoLayout *l = layout_for(f, s);
+    if (max_width > 0) {
+        pango_layout_set_width(l, (int)(max_width * PANGO_SCALE));
+        pango_layout_set_wrap(l, PANGO_WRAP_WORD_CHAR);
+    }
+    set_metrics(l, out, f);
+    ug_status st = take_lines(l, s, out);
+    g_object_unref(l);
+    if (st) {
+        text_block_free(out);
+        return ug_fail(err, st, ug_mark_file(NULL), "out of memory");
+    }
+    return UG_OK;
+}
+
+/* XML 1.0 allows neither control characters nor U+FFFE/U+FFFF; pango wants
+** valid UTF-8. Anything else passes through unchanged. */
+char *text_clean(const char *s)
+{
+    size_t n = strlen(s);
+    char *out = ug_malloc(3 * n + 1), *o = out;
+    if (!out)
+        return NULL;
+    const char *p = s, *end = s + n;
+    while (p < end) {
+        gunichar c = g_utf8_get_char_validated(p, end - p);
+        if (c == (gunichar)-1 || c == (gunichar)-2) {
+            o += g_unichar_to_utf8(0xFFFD, o);
+            p++;
+            continue;
+        }
+        const char *next = g_utf8_next_char(p);
+        if ((c < 0x20 && c != '\n') || c == 0x7F)
+            *o++ = ' ';
+        else if (c == 0xFFFE || c == 0xFFFF)
+            o += g_unichar_to_utf8(0xFFFD, o);
+        else {
+            memcpy(o, p, (size_t)(next - p));
+            o += next - p;
+        }
+        p = next;
+    }
+    *o = '\0';
+    return out;
+}

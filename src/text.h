@@ -1,0 +1,39 @@
+/*
+** Text stage: strings -> measured, wrapped lines (pango through pangocairo).
+**
+** Sizes are CSS px (SVG font-size). Measurement matches what librsvg draws:
+** metrics hinting off and glyph positions not rounded. One font map and
+** context serve the whole process, so drawing a thousand charts sets fonts
+** up once.
+*/
+#ifndef UG_TEXT_H
+#define UG_TEXT_H
+
+#include "ug.h"
+
+typedef struct {
+    const char *family; /* "DejaVu Sans" */
+    double size;        /* px */
+    bool bold;
+} text_font;
+
+typedef struct {
+    char **lines;       /* owned, trailing spaces trimmed */
+    double *widths;     /* px, one per line */
+    size_t n;
+    double width;       /* widest line */
+    double ascent, descent, pitch; /* per line; pitch = baseline to baseline */
+} text_block;
+
+/* Width of s on one line. */
+double text_width(const text_font *f, const char *s);
+/* Wrap s (which may hold newlines) to max_width px; a single word wider than
+** that is broken between characters. max_width <= 0: no wrapping. */
+ug_status text_wrap(const text_font *f, const char *s, double max_width,
+                    text_block *out, ug_error *err);
+void text_block_free(text_block *b);
+/* A copy of s that is valid UTF-8 with every control character but the
+** newline turned into a space; NULL when out of memory. */
+char *text_clean(const char *s);
+
+#endif

@@ -1,0 +1,130 @@
+/* Tests for src/describe.c: the plain-language description and the phrases
+** the key shares with it. Expected icon counts are worked by hand with the
+** largest-remainder rule (REFERENCES.md §1) in the comments. */
+#define _POSIX_C_SOURCE 200809L
+#include <check.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "data/draw/fixture.h"
+#include "pack.h"
+
+static char *describe(ug_chart *c)
+{
+    ug_error err;
+    memset(&err, 0, sizeof err);
+    ug_allocation *a;
+    char *out;
+    ck_assert_int_eq(ug_chart_allocate(c, &a, &err), UG_OK);
+    ck_assert_int_eq(ug_chart_describe(c, a, &out, NULL, &err), UG_OK);
+    ug_allocation_free(a);
+    return out;
+}
+
+/* 412, 300, 123 of 835 in 100 cells: quotas 49.34, 35.93, 14.73; whole parts
+** 49 + 35 + 14 = 98, the two leftovers go to .93 and .73: 49, 36, 15. */
+START_TEST(test_waffle_sentences)
+{
+    const fx_cat cats[] = {{"Families with children", "square", 0x0072B2, {"412"}, NULL},
+                           {"Single adults", "square", 0xE69F00, {"300"}, NULL},
+                           {"Older people", "square", 0x009E73, {"123"}, NULL}};
+    ug_chart *c = fx_chart(UG_FORM_WAFFLE, "Who the pantry served", NULL, 0, cats, 3);
+    ug_text src = {"Pantry intake log (demo data)", {0}};
+    c->source.items = &src;
+    c->source.n = 1;
+    char *d = describe(c);
+    ck_assert_str_eq(d, "Waffle chart: Who the pantry served. Each square is 1% of the "
+                        "835 households. Families with children: 412 households "
+                        "(49 squares). Single adults: 300 households (36 squares). "
+                        "Older people: 123 households (15 squares). Source: Pantry "
+                        "intake log (demo data).");
+    ug_free(d);
+    fx_free(c);
+}
+END_TEST
+
+/* 1/200 of the whole is 0.5%. */
+START_TEST(test_half_percent_cells)
+{
+    const fx_cat cats[] = {{"A", "square", 0x0072B2, {"10"}, NULL}};
+    ug_chart *c = fx_chart(UG_FORM_WAFFLE, "t", NULL, 0, cats, 1);
+    c->cells = 200;
+    c->has_cells = true;
+    char *d = describe(c);
+    ck_assert_ptr_nonnull(strstr(d, "Each square is 0.5% of the 10 households."));
+    ug_free(d);
+    fx_free(c);
+}
+END_TEST
+
+/* One sentence per group; the hidden count appears only as its label and no
+** total lets a reader subtract their way to it. */
+START_TEST(test_groups_and_suppression)
+{
+    const char *groups[] = {"North ward", "River ward"};
+    const fx_cat cats[] = {{"Adults", "person", 0x0072B2, {"1200", "640"}, NULL},
+                           {"Children", "child", 0xE69F00, {"7", "512"}, NULL}};
+    ug_chart *c = fx_chart(UG_FORM_ROWS, "Pantry visits", groups, 2, cats, 2);
+    fx_suppress(c, "10");
+    char *d = describe(c);
+    ck_assert_str_eq(d, "Pictogram chart: Pantry visits. Each icon is 10 households. "
+                        "North ward, more than 1,200 households in all: Adults 1,200 "
+                        "households (120 icons), Children fewer than 10. River ward, "
+                        "1,152 households in all: Adults 640 households (64 icons), "
+                        "Children 512 households (51 icons).");
+    ck_assert_ptr_null(strstr(d, "1,207"));
+    ck_assert_ptr_null(strstr(d, "519"));
+    ug_free(d);
+    fx_free(c);
+}
+END_TEST
+
+START_TEST(test_layout_description_wins)
+{
+    const fx_cat cats[] = {{"A", "square", 0x0072B2, {"10"}, NULL}};
+    ug_chart *c = fx_chart(UG_FORM_ROWS, "t", NULL, 0, cats, 1);
+    c->description.text = "Ten households, one icon.";
+    char *d = describe(c);
+    ck_assert_str_eq(d, "Ten households, one icon.");
+    ug_free(d);
+    fx_free(c);
+}
+END_TEST
+
+typedef struct {
+    const char *in, *out;
+} number_case;
+
+static const number_case numbers[] = {
+    {"0", "0"}, {"412", "412"}, {"1200", "1,200"}, {"1234567.5", "1,234,567.5"},
+    {"100000", "100,000"}, {"0.25", "0.25"},
+};
+
+START_TEST(test_number_grouping)
+{
+    char buf[64];
+    ck_assert_str_eq(pack_number(fx_dec(numbers[_i].in), buf), numbers[_i].out);
+}
+END_TEST
+
+static Suite *describe_suite(void)
+{
+    Suite *s = suite_create("describe");
+    TCase *t = tcase_create("describe");
+    tcase_add_test(t, test_waffle_sentences);
+    tcase_add_test(t, test_half_percent_cells);
+    tcase_add_test(t, test_groups_and_suppression);
+    tcase_add_test(t, test_layout_description_wins);
+    tcase_add_loop_test(t, test_number_grouping, 0, sizeof numbers / sizeof numbers[0]);
+    suite_add_tcase(s, t);
+    return s;
+}
+
+int main(void)
+{
+    SRunner *r = srunner_create(describe_suite());
+    srunner_run_all(r, CK_NORMAL);
+    int failed = srunner_ntests_failed(r);
+    srunner_free(r);
+    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+}

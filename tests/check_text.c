@@ -1,0 +1,144 @@
+/* Tests for src/text.c: pango measurement against librsvg's own layout of the
+** same text, the pt/px relation, wrapping, and cleaning of strings. */
+#define _POSIX_C_SOURCE 200809L
+#include <check.h>
+#include <librsvg/rsvg.h>
+#include <pango/pangocairo.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "text.h"
+
+/* librsvg lays out <text> itself; what it draws (the ink box it reports for
+** the element, x = 10) must lie inside the width we measured and reserve, and
+** fill it up to the side bearings, or wrapped lines would collide or gape in
+** the rendered picture. */
+START_TEST(test_width_matches_librsvg)
+{
+    static const char *const samples[] = {"Hamburgefonts", "Families with children",
+                                          "412 households \xc2\xb7 49 squares"};
+    for (size_t i = 0; i < 3; i++) {
+        char svg[512];
+        int n = snprintf(svg, sizeof svg,
+                         "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"800\" "
+                         "height=\"100\"><text id=\"t\" x=\"10\" y=\"50\" "
+                         "font-family=\"DejaVu Sans\" font-size=\"16\">%s</text></svg>",
+                         samples[i]);
+        GError *e = NULL;
+        RsvgHandle *r = rsvg_handle_new_from_data((const guint8 *)svg, (gsize)n, &e);
+        ck_assert_ptr_nonnull(r);
+        RsvgRectangle vp = {0, 0, 800, 100}, ink, logical;
+        ck_assert(rsvg_handle_get_geometry_for_layer(r, "#t", &vp, &ink, &logical, &e));
+        text_font f = {"DejaVu Sans", 16, false};
+        double w = text_width(&f, samples[i]);
+        double left = ink.x - 10, right = ink.x + ink.width - 10;
+        (void)logical;
+        ck_assert_msg(left >= 0 && right <= w + 0.01 && w - right < 2.0,
+                      "'%s': ours 0..%.2f, librsvg draws %.2f..%.2f", samples[i], w,
+                      left, right);
+        g_object_unref(r);
+    }
+}
+END_TEST
+
+/* CSS Values and Units: 1pt = 4/3 px at 96 px per inch, so "DejaVu Sans 12"
+** at 96 dpi is our 16 px. */
+START_TEST(test_points_and_pixels)
+{
+    PangoFontMap *map = pango_cairo_font_map_new();
+    PangoContext *ctx = pango_font_map_create_context(map);
+    cairo_font_options_t *o = cairo_font_options_create();
+    cairo_font_options_set_hint_metrics(o, CAIRO_HINT_METRICS_OFF);
+    pango_cairo_context_set_font_options(ctx, o);
+    pango_cairo_context_set_resolution(ctx, 96);
+    pango_context_set_round_glyph_positions(ctx, FALSE);
+    PangoLayout *l = pango_layout_new(ctx);
+    PangoFontDescription *d = pango_font_description_from_string("DejaVu Sans 12");
+    pango_layout_set_font_description(l, d);
+    pango_layout_set_text(l, "Hamburgefonts", -1);
+    int w, h;
+    pango_layout_get_size(l, &w, &h);
+    text_font f = {"DejaVu Sans", 16, false};
+    ck_assert_double_eq_tol(text_width(&f, "Hamburgefonts"), (double)w / PANGO_SCALE, 0.01);
+    pango_font_description_free(d);
+    g_object_unref(l);
+    g_object_unref(ctx);
+    g_object_unref(map);
+    cairo_font_options_destroy(o);
+}
+END_TEST
+
+START_TEST(test_wrap_keeps_words_and_width)
+{
+    const char *s = "Who the Alder Lane pantry served in 2025, by type of household";
+    text_font f = {"DejaVu Sans", 16, true};
+    text_block b;
+    ug_error err;
+    memset(&err, 0, sizeof err);
+    ck_assert_int_eq(text_wrap(&f, s, 200, &b, &err), UG_OK);
+    ck_assert_uint_gt(b.n, 2);
+    char joined[256] = "";
+    for (size_t i = 0; i < b.n; i++) {
+        ck_assert(b.widths[i] <= 200.5);
+        ck_assert(b.lines[i][0] != ' ' && b.lines[i][strlen(b.lines[i]) - 1] != ' ');
+        strcat(joined, i ? " " : "");
+        strcat(joined, b.lines[i]);
+    }
+    ck_assert_str_eq(joined, s);
+    ck_assert(b.pitch >= b.ascent + b.descent);
+    text_block_free(&b);
+    /* a word wider than the width is broken between characters */
+    ck_assert_int_eq(text_wrap(&f, "Supercalifragilistic", 60, &b, &err), UG_OK);
+    ck_assert_uint_gt(b.n, 1);
+    for (size_t i = 0; i < b.n; i++)
+        ck_assert(b.widths[i] <= 60.5);
+    text_block_free(&b);
+    ck_assert_int_eq(text_wrap(&f, "one\ntwo", 0, &b, &err), UG_OK);
+    ck_assert_uint_eq(b.n, 2);
+    text_block_free(&b);
+}
+END_TEST
+
+typedef struct {
+    const char *in, *out;
+} clean_case;
+
+static const clean_case cleans[] = {
+    {"plain", "plain"},
+    {"tab\there", "tab here"},
+    {"bell\a", "bell "},
+    {"line\nbreak", "line\nbreak"},
+    {"caf\xc3\xa9", "caf\xc3\xa9"},
+    {"bad \xff byte", "bad \xef\xbf\xbd byte"},
+    {"cut \xc3", "cut \xef\xbf\xbd"},
+    {"\xef\xbf\xbe", "\xef\xbf\xbd"}, /* U+FFFE is not an XML character */
+};
+
+START_TEST(test_clean)
+{
+    char *c = text_clean(cleans[_i].in);
+    ck_assert_str_eq(c, cleans[_i].out);
+    ug_free(c);
+}
+END_TEST
+
+static Suite *text_suite(void)
+{
+    Suite *s = suite_create("text");
+    TCase *t = tcase_create("text");
+    tcase_add_test(t, test_width_matches_librsvg);
+    tcase_add_test(t, test_points_and_pixels);
+    tcase_add_test(t, test_wrap_keeps_words_and_width);
+    tcase_add_loop_test(t, test_clean, 0, sizeof cleans / sizeof cleans[0]);
+    suite_add_tcase(s, t);
+    return s;
+}
+
+int main(void)
+{
+    SRunner *r = srunner_create(text_suite());
+    srunner_run_all(r, CK_NORMAL);
+    int failed = srunner_ntests_failed(r);
+    srunner_free(r);
+    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+}
