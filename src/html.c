@@ -12,6 +12,7 @@
 #include <strings.h>
 
 #include "alloc.h"
+#include "raster.h"
 
 static void esc(ug_buf *b, const char *s)
 {
@@ -27,41 +28,6 @@ static void esc(ug_buf *b, const char *s)
 }
 
 /* ---- the SVG ------------------------------------------------------------- */
-
-static size_t skip_space(const char *s, size_t i, size_t n)
-{
-    while (i < n && (s[i] == ' ' || s[i] == '\t' || s[i] == '\r' || s[i] == '\n'))
-        i++;
-    return i;
-}
-
-/* Index just past `end` at or after i, or n when it is missing. */
-static size_t past(const char *s, size_t i, size_t n, const char *end)
-{
-    size_t k = strlen(end);
-    for (; i + k <= n; i++)
-        if (memcmp(s + i, end, k) == 0)
-            return i + k;
-    return n;
-}
-
-/* Where the <svg> element starts: the XML declaration, a doctype and
-** comments before it have no place inside an HTML body. */
-static size_t svg_start(const char *s, size_t n)
-{
-    size_t i = skip_space(s, 0, n);
-    for (;;) {
-        if (n - i >= 5 && memcmp(s + i, "<?xml", 5) == 0)
-            i = past(s, i, n, "?>");
-        else if (n - i >= 4 && memcmp(s + i, "<!--", 4) == 0)
-            i = past(s, i, n, "-->");
-        else if (n - i >= 9 && strncasecmp(s + i, "<!DOCTYPE", 9) == 0)
-            i = past(s, i, n, memchr(s + i, '[', n - i) ? "]>" : ">");
-        else
-            return i;
-        i = skip_space(s, i, n);
-    }
-}
 
 static bool has_script(const char *s, size_t n)
 {
@@ -183,7 +149,7 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
 {
     *out = NULL;
     const ug_chart *first = nallocs ? allocs[0]->chart : NULL;
-    size_t at = svg_start(svg, svg_len);
+    size_t at = raster_svg_body(svg, svg_len);
     if (svg_len - at < 4 || memcmp(svg + at, "<svg", 4) != 0)
         return ug_fail(err, UG_ERENDER, ug_mark_file(NULL),
                        "the picture for the web page is not an <svg> element");

@@ -56,6 +56,41 @@ ug_output_format ug_output_format_from_path(const char *path)
     return f;
 }
 
+/* ---- the <svg> element of a document --------------------------------------- */
+
+static size_t skip_space(const char *s, size_t i, size_t n)
+{
+    while (i < n && (s[i] == ' ' || s[i] == '\t' || s[i] == '\r' || s[i] == '\n'))
+        i++;
+    return i;
+}
+
+/* Index just past `end` at or after i, or n when it is missing. */
+static size_t past(const char *s, size_t i, size_t n, const char *end)
+{
+    size_t k = strlen(end);
+    for (; i + k <= n; i++)
+        if (memcmp(s + i, end, k) == 0)
+            return i + k;
+    return n;
+}
+
+size_t raster_svg_body(const char *s, size_t n)
+{
+    size_t i = skip_space(s, 0, n);
+    for (;;) {
+        if (n - i >= 5 && memcmp(s + i, "<?xml", 5) == 0)
+            i = past(s, i, n, "?>");
+        else if (n - i >= 4 && memcmp(s + i, "<!--", 4) == 0)
+            i = past(s, i, n, "-->");
+        else if (n - i >= 9 && strncasecmp(s + i, "<!DOCTYPE", 9) == 0)
+            i = past(s, i, n, memchr(s + i, '[', n - i) ? "]>" : ">");
+        else
+            return i;
+        i = skip_space(s, i, n);
+    }
+}
+
 /* ---- reading the SVG ------------------------------------------------------ */
 
 static ug_status svg_error(ug_error *err, GError *gerr, const char *what)

@@ -23,6 +23,11 @@
 ** (ISO 32000-1, Annex C, table C.1, implementation limits). */
 #define RASTER_MAX_PAGE_PT 14400.0
 
+/* Offset of the <svg> element in an SVG document: the XML declaration, a
+** doctype and comments before it have no place inside another document
+** (a web page, a handout page). */
+size_t raster_svg_body(const char *svg, size_t len);
+
 /* The SVG's intrinsic size in CSS px, or an error when it states none. */
 ug_status raster_svg_size(const char *svg, size_t len, double *w, double *h,
                           ug_error *err);
