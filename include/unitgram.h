@@ -66,6 +66,20 @@ ug_status ug_chart_load_string(const char *text, size_t len, const char *name,
                                ug_error *err);
 void ug_chart_free(ug_chart *chart);
 
+/* ---- the page model (page files, FORMAT.md §2) ------------------------- */
+
+typedef struct ug_page ug_page;
+
+/* Load a page file and every chart file its panels name (paths relative to
+** the page's folder). A chart file given here, or a page file given to
+** ug_chart_load, is refused with a message saying which kind it is. */
+ug_status ug_page_load(const char *path, const ug_limits *limits,
+                       ug_page **out, ug_error *err);
+ug_status ug_page_load_string(const char *text, size_t len, const char *name,
+                              const ug_limits *limits, ug_page **out,
+                              ug_error *err);
+void ug_page_free(ug_page *page);
+
 /* ---- allocation: counts -> whole icons (FORMAT.md §3) ------------------ */
 
 typedef struct ug_allocation ug_allocation;

@@ -1,12 +1,97 @@
-/* Placeholder until the 'tally' command lands; it refuses rather than pretends. */
+/*
+** `unitgram tally LAYOUT [--format text|csv|json]`: load a chart, allocate
+** its icons and print the allocation report (count, quota, icons, shown value
+** and difference per category). Nothing is drawn and no file is written.
+*/
 #include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
 
 #include "cli.h"
 
+static void help(FILE *to)
+{
+    fprintf(to,
+            "usage: unitgram tally LAYOUT [--format text|csv|json]\n"
+            "\n"
+            "Print how the chart's counts become whole icons: per category the\n"
+            "count, the exact quota, the icons drawn, the value they show and the\n"
+            "difference from the count.\n"
+            "\n"
+            "  --format FORMAT  text (default), csv or json\n"
+            "  -h, --help       show this help\n"
+            "\n"
+            "exit codes: 0 success, 1 bad input, 2 usage\n");
+}
+
+static int parse_format(const char *s, ug_report_format *fmt)
+{
+    if (!strcmp(s, "text"))
+        *fmt = UG_REPORT_TEXT;
+    else if (!strcmp(s, "csv"))
+        *fmt = UG_REPORT_CSV;
+    else if (!strcmp(s, "json"))
+        *fmt = UG_REPORT_JSON;
+    else
+        return -1;
+    return 0;
+}
+
+static int usage_error(const char *msg, const char *arg)
+{
+    fprintf(stderr, "unitgram tally: %s%s%s\n", msg, arg ? " " : "", arg ? arg : "");
+    fprintf(stderr, "usage: unitgram tally LAYOUT [--format text|csv|json]\n");
+    return EXIT_USAGE;
+}
+
+static int run(const char *layout, ug_report_format fmt)
+{
+    ug_error err = {0};
+    ug_chart *chart = NULL;
+    ug_allocation *alloc = NULL;
+    char *report = NULL;
+    size_t len = 0;
+    int rc = EXIT_OK;
+    if (ug_chart_load(layout, NULL, &chart, &err) ||
+        ug_chart_allocate(chart, &alloc, &err) ||
+        ug_allocation_report(alloc, fmt, &report, &len, &err)) {
+        cli_report_error(&err);
+        rc = cli_exit_for(&err);
+    } else if (fwrite(report, 1, len, stdout) != len || fflush(stdout) != 0) {
+        fprintf(stderr, "unitgram tally: cannot write the report\n");
+        rc = EXIT_OUTPUT;
+    }
+    free(report);
+    ug_allocation_free(alloc);
+    ug_chart_free(chart);
+    return rc;
+}
+
 int cli_tally(int argc, char **argv)
 {
-    (void)argc;
-    (void)argv;
-    fprintf(stderr, "unitgram: 'tally' is not available in this build yet\n");
-    return EXIT_USAGE;
+    const char *layout = NULL;
+    ug_report_format fmt = UG_REPORT_TEXT;
+    for (int i = 1; i < argc; i++) {
+        const char *a = argv[i];
+        if (!strcmp(a, "-h") || !strcmp(a, "--help")) {
+            help(stdout);
+            return EXIT_OK;
+        }
+        if (!strcmp(a, "--format") || !strncmp(a, "--format=", 9)) {
+            const char *v = a[8] == '=' ? a + 9 : i + 1 < argc ? argv[++i] : NULL;
+            if (!v)
+                return usage_error("--format needs a value", NULL);
+            if (parse_format(v, &fmt))
+                return usage_error("unknown format (text, csv or json):", v);
+        } else if (a[0] == '-' && a[1]) {
+            return usage_error("unknown option", a);
+        } else if (layout) {
+            return usage_error("only one layout file, found another:", a);
+        } else {
+            layout = a;
+        }
+    }
+    if (!layout)
+        return usage_error("missing the LAYOUT file", NULL);
+    return run(layout, fmt);
 }

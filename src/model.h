@@ -132,6 +132,42 @@ struct ug_chart {
     ug_limits limits;            /* resolved: no zeros */
 };
 
+/* ---- the page model (page files, FORMAT.md §2) ------------------------- */
+
+typedef enum { UG_PANEL_CHART, UG_PANEL_TEXT } ug_panel_kind;
+typedef enum { UG_ORIENT_PORTRAIT, UG_ORIENT_LANDSCAPE } ug_orientation;
+
+typedef struct {
+    ug_panel_kind kind;
+    ug_chart *chart;       /* UG_PANEL_CHART: owned by the page */
+    ug_text chart_file;    /* the path as written; text NULL for an inline chart */
+    ug_text text;          /* UG_PANEL_TEXT: the paragraph (newlines kept) */
+    long span;             /* columns spanned, 1..page columns; default 1 */
+    ug_mark mark;          /* the panel's mapping */
+} ug_panel;
+
+struct ug_page {
+    ug_arena arena;
+    const char *path;        /* the page file as named by the caller */
+    const char *dir;         /* its folder, for chart file paths */
+
+    ug_text size;            /* as written ("A4", "200mm x 250mm"); NULL: A4 */
+    double width, height;    /* px (96 per inch), orientation applied */
+    ug_orientation orientation;
+    double margin;           /* px, default 15mm */
+    long columns;            /* default 1 */
+    ug_mark page_mark;
+
+    ug_text title;
+    ug_text_list source;
+    ug_panel *panels;
+    size_t npanels;
+    ug_mark panels_mark;
+    bool shared_scale;
+    ug_mark shared_scale_mark;
+    ug_limits limits;        /* resolved: no zeros */
+};
+
 /* Number of count columns per category: groups.n, or 1 without groups. */
 static inline size_t chart_ngroups(const ug_chart *c)
 {
