@@ -147,6 +147,13 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
                        const ug_allocation *const *allocs, size_t nallocs,
                        char **out, size_t *len, ug_error *err);
 
+/* A one-page handout (FORMAT.md §2) in any output format: the page's charts
+** and text blocks on its column grid, sources at the foot. Content that does
+** not fit is an error naming the panel and the missing height; nothing is
+** shrunk. The web page holds the page's picture and one table per chart. */
+ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
+                       double scale, char **out, size_t *len, ug_error *err);
+
 /* ---- the glyph library ------------------------------------------------ */
 
 /* Every glyph the search path offers (the project's glyphs/, the installed

@@ -7,7 +7,7 @@
 #ifndef UG_PAGE_H
 #define UG_PAGE_H
 
-#include "ug.h"
+#include "model.h"
 
 /* CSS: 96 px per inch, 25.4 mm per inch (W3C CSS Values and Units). */
 #define PAGE_PX_PER_MM (96.0 / 25.4)
@@ -38,5 +38,20 @@ double page_span_width(const page_grid *g, long span);
 ** lowest panel passes it (px), the height the content lacks. */
 size_t page_place(const page_grid *g, const long *spans, const double *heights,
                   size_t n, page_box *out, double *over);
+
+/* A composed handout: the page as one SVG (width and height in mm, user
+** units in px) and, for the web page's tables, one allocation per chart
+** panel. The allocations borrow `charts`, the adjusted copies of the
+** page's charts (panel width, shared scale, sources moved to the foot). */
+typedef struct {
+    char *svg;
+    size_t len;
+    ug_allocation **allocs;
+    size_t nallocs;
+    ug_chart *charts;
+} page_result;
+
+ug_status page_compose(const ug_page *page, page_result *out, ug_error *err);
+void page_result_free(page_result *r);
 
 #endif
