@@ -153,6 +153,10 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
 ** shrunk. The web page holds the page's picture and one table per chart. */
 ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
                        double scale, char **out, size_t *len, ug_error *err);
+/* The handout's description (its SVG's <desc>): every chart's description in
+** reading order. *out is malloc'd and NUL-ended. */
+ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
+                           ug_error *err);
 
 /* ---- the glyph library ------------------------------------------------ */
 

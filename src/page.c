@@ -108,6 +108,7 @@ typedef struct {
     double *heights;
     page_box *boxes;
     page_box *crops;      /* the part of each chart's canvas shown */
+    ug_buf desc;
 } composer;
 
 static ug_status nomem(composer *k)
@@ -241,6 +242,19 @@ static ug_status pack_panel(composer *k, size_t i, const ug_allocation *a,
     return ug_scene_pack(c, a, s, k->err);
 }
 
+/* The page's description is its charts' descriptions, in reading order. */
+static ug_status describe_panel(composer *k, const ug_chart *c,
+                                const ug_allocation *a)
+{
+    char *d = NULL;
+    ug_status st = ug_chart_describe(c, a, &d, NULL, k->err);
+    if (st)
+        return st;
+    ug_buf_printf(&k->desc, "%s%s", k->desc.len ? " " : "", d);
+    ug_free(d);
+    return k->desc.failed ? nomem(k) : UG_OK;
+}
+
 static ug_status chart_panel(composer *k, size_t i)
 {
     ug_chart *c = &k->r->charts[i];
@@ -253,7 +267,7 @@ static ug_status chart_panel(composer *k, size_t i)
     if (st)
         return st;
     k->r->allocs[k->r->nallocs++] = a;
-    if ((st = pack_panel(k, i, a, room, &s)))
+    if ((st = describe_panel(k, c, a)) || (st = pack_panel(k, i, a, room, &s)))
         return st;
     k->crops[i] = content_box(s);
     k->heights[i] = k->crops[i].h;
@@ -459,11 +473,14 @@ static void page_head(composer *k, ug_buf *b)
     svg_number(p->width, w);
     svg_number(p->height, h);
     ug_buf_printf(b, " viewBox=\"0 0 %s %s\"", w, h);
-    ug_buf_puts(b, " aria-labelledby=\"page-title\" font-family=\"");
+    ug_buf_puts(b, " aria-labelledby=\"page-title\" aria-describedby=\"page-desc\""
+                   " font-family=\"");
     svg_escape(b, k->font);
     ug_buf_puts(b, "\">\n<title id=\"page-title\">");
     svg_escape(b, p->title.text ? p->title.text : "Handout");
-    ug_buf_puts(b, "</title>\n<rect");
+    ug_buf_puts(b, "</title>\n<desc id=\"page-desc\">");
+    svg_escape(b, k->r->desc);
+    ug_buf_puts(b, "</desc>\n<rect");
     num_attr(b, "width", p->width, "");
     num_attr(b, "height", p->height, "");
     color_attr(b, "fill", k->paper);
@@ -554,6 +571,8 @@ static ug_status compose(composer *k)
                             &over);
     if (bad < k->p->npanels)
         return overflow(k, bad, over);
+    if ((st = ug_buf_take(&k->desc, &k->r->desc, NULL, k->err)))
+        return st;
     return write_page(k);
 }
 
@@ -578,6 +597,7 @@ ug_status page_compose(const ug_page *page, page_result *out, ug_error *err)
     ug_free(k.crops);
     text_block_free(&k.title);
     text_block_free(&k.foot);
+    ug_buf_free(&k.desc);
     if (st)
         page_result_free(out);
     return st;
@@ -592,6 +612,7 @@ void page_result_free(page_result *r)
     ug_free(r->allocs);
     ug_free(r->charts); /* shallow copies: their strings belong to the page */
     ug_free(r->svg);
+    ug_free(r->desc);
     memset(r, 0, sizeof *r);
 }
 
@@ -611,4 +632,20 @@ ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
         st = ug_render_svg(r.svg, r.len, fmt, dpi, scale, out, len, err);
     page_result_free(&r);
     return st;
+}
+
+ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
+                           ug_error *err)
+{
+    page_result r;
+    *out = NULL;
+    ug_status st = page_compose(page, &r, err);
+    if (st)
+        return st;
+    *out = r.desc;
+    if (len)
+        *len = strlen(r.desc);
+    r.desc = NULL;
+    page_result_free(&r);
+    return UG_OK;
 }

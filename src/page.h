@@ -46,6 +46,7 @@ size_t page_place(const page_grid *g, const long *spans, const double *heights,
 typedef struct {
     char *svg;
     size_t len;
+    char *desc;           /* the page's description: each chart's, in order */
     ug_allocation **allocs;
     size_t nallocs;
     ug_chart *charts;
