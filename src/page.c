@@ -70,8 +70,9 @@ size_t page_place(const page_grid *g, const long *spans, const double *heights,
             row = i;
             used = 0;
         }
-        out[i].x = g->margin + (double)used * (page_span_width(g, 1) + g->gutter);
-        out[i].y = y;
+        /* whole pixels, so icons drawn on whole pixels stay sharp at 96 dpi */
+        out[i].x = round(g->margin + (double)used * (page_span_width(g, 1) + g->gutter));
+        out[i].y = ceil(y);
         out[i].w = page_span_width(g, spans[i]);
         out[i].h = heights[i];
         used += spans[i];
@@ -234,7 +235,7 @@ static ug_status pack_panel(composer *k, size_t i, const ug_allocation *a,
     if (st)
         return st;
     page_box b = content_box(*s);
-    double spare = ug_scene_width(*s) - b.w;
+    double spare = floor(ug_scene_width(*s) - b.w);
     if (spare <= 0 || ug_scene_width(*s) > room + 0.5)
         return UG_OK;
     ug_scene_free(*s);
@@ -261,7 +262,9 @@ static ug_status chart_panel(composer *k, size_t i)
     ug_allocation *a = NULL;
     ug_scene *s = NULL;
     char name[160];
-    double room = page_span_width(&k->g, k->spans[i]);
+    /* whole px: a browser lays a nested <svg> out on whole pixels and would
+    ** scale a chart whose canvas is a fraction wider than its slot */
+    double room = floor(page_span_width(&k->g, k->spans[i]));
     c->source.n = 0; /* collected at the foot of the page */
     ug_status st = ug_chart_allocate(c, &a, k->err);
     if (st)
@@ -470,8 +473,8 @@ static void page_head(composer *k, ug_buf *b)
     num_attr(b, "width", mm(p->width), "mm");
     num_attr(b, "height", mm(p->height), "mm");
     char w[32], h[32];
-    svg_number(p->width, w);
-    svg_number(p->height, h);
+    svg_number(k->g.width, w);
+    svg_number(k->g.height, h);
     ug_buf_printf(b, " viewBox=\"0 0 %s %s\"", w, h);
     ug_buf_puts(b, " aria-labelledby=\"page-title\" aria-describedby=\"page-desc\""
                    " font-family=\"");
@@ -481,8 +484,8 @@ static void page_head(composer *k, ug_buf *b)
     ug_buf_puts(b, "</title>\n<desc id=\"page-desc\">");
     svg_escape(b, k->r->desc);
     ug_buf_puts(b, "</desc>\n<rect");
-    num_attr(b, "width", p->width, "");
-    num_attr(b, "height", p->height, "");
+    num_attr(b, "width", k->g.width, "");
+    num_attr(b, "height", k->g.height, "");
     color_attr(b, "fill", k->paper);
     ug_buf_puts(b, "/>\n");
 }

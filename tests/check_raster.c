@@ -581,6 +581,7 @@ static int write_files(const char *dir)
         double dpi;
     } files[] = {{"squares.png", UG_OUT_PNG, 96},
                  {"squares-300.png", UG_OUT_PNG, 300},
+                 {"squares-288.png", UG_OUT_PNG, 288}, /* 3 x 96: suite_browser */
                  {"squares.pdf", UG_OUT_PDF, 96},
                  {"squares.svg", UG_OUT_SVG, 96}};
     for (size_t k = 0; k < sizeof files / sizeof files[0]; k++) {

@@ -1,11 +1,17 @@
 #!/usr/bin/python3
 """Count the pixels of given colours in a PNG or binary PPM (P6) image.
 
-usage: colour_areas.py IMAGE [--tol N] RRGGBB...
-Prints "WIDTH HEIGHT" then one count per colour, each on its own line. A pixel
-counts for a colour when every channel is within N (default 0) of it and it is
-opaque. Standard library only (zlib), so the test suites need no imaging
-package: PNG decoding follows the PNG specification (W3C, 2nd ed., §9 filters).
+usage: colour_areas.py IMAGE [--tol N | --coverage] RRGGBB...
+Prints "WIDTH HEIGHT" then one area per colour, each on its own line.
+  --tol N      a pixel counts for a colour when every channel is within N
+               (default 0) of it and it is opaque;
+  --coverage   antialiased edges count in part: a pixel on (or near) the line
+               from the white background to a colour counts for the fraction
+               of the way it lies along it (its coverage, when the renderer
+               blends colour over white), so two renderers that antialias the
+               same shapes differently still agree on the area. Needs numpy.
+PNG decoding uses the standard library only (zlib), following the PNG
+specification (W3C, 2nd ed., §9 filters).
 """
 import struct
 import sys
@@ -79,8 +85,36 @@ def read_ppm(data):
     return w, h, 3, data[pos + 1:pos + 1 + w * h * 3]
 
 
+def coverage(w, h, bpp, px, wanted):
+    """Coverage-weighted area of each colour over a white background."""
+    import numpy as np
+    img = np.frombuffer(bytes(px), dtype=np.uint8).reshape(h, w, bpp)
+    p = img[:, :, :3].astype(float) - 255.0
+    best = np.full((h, w), np.inf)
+    share = np.zeros((h, w))
+    which = np.full((h, w), -1)
+    for k, c in enumerate(wanted):
+        d = np.array(c, dtype=float) - 255.0
+        t = np.clip((p @ d) / (d @ d), 0.0, 1.0)
+        resid = np.linalg.norm(p - t[:, :, None] * d, axis=2)
+        # off the line by little, relative to how far along it the pixel is:
+        # a light grey (a text edge) is near white and so near every light
+        # colour's line, but far from it in proportion
+        near = resid <= 2.0 + 0.15 * t * np.sqrt(d @ d)
+        take = (resid < best) & near & (t > 0.02)
+        best = np.where(take, resid, best)
+        share = np.where(take, t, share)
+        which = np.where(take, k, which)
+    if bpp == 4:
+        share = np.where(img[:, :, 3] == 255, share, 0.0)
+    return [round(float(share[which == k].sum()), 1) for k in range(len(wanted))]
+
+
 def main():
     args = sys.argv[1:]
+    cover = "--coverage" in args
+    if cover:
+        args.remove("--coverage")
     tol = 0
     if "--tol" in args:
         i = args.index("--tol")
@@ -90,6 +124,11 @@ def main():
     w, h, bpp, px = read_png(data) if data[:4] == b"\x89PNG" else read_ppm(data)
     wanted = [tuple(int(c[k:k + 2], 16) for k in (0, 2, 4))
               for c in (a.lstrip("#") for a in args[1:])]
+    if cover:
+        print(w, h)
+        for a in coverage(w, h, bpp, px, wanted):
+            print(a)
+        return
     counts = [0] * len(wanted)
     for i in range(0, w * h * bpp, bpp):
         r, g, b = px[i], px[i + 1], px[i + 2]
