@@ -9,34 +9,12 @@
 #include <assert.h>
 #include <math.h>
 #include <string.h>
-#include <strings.h>
 
 #include "pack.h"
 #include "page.h"
 #include "raster.h"
 #include "svg.h"
 #include "text.h"
-
-/* ISO 216 A-series; US Letter 8.5 x 11 in and Legal 8.5 x 14 in at
-** 25.4 mm per inch (612 x 792 pt and 612 x 1008 pt). */
-static const struct {
-    const char *name;
-    double w, h;
-} papers[] = {
-    {"A3", 297, 420}, {"A4", 210, 297}, {"A5", 148, 210},
-    {"letter", 215.9, 279.4}, {"legal", 215.9, 355.6},
-};
-
-bool page_paper(const char *name, double *w_mm, double *h_mm)
-{
-    for (size_t i = 0; i < sizeof papers / sizeof papers[0]; i++)
-        if (strcasecmp(name, papers[i].name) == 0) {
-            *w_mm = papers[i].w;
-            *h_mm = papers[i].h;
-            return true;
-        }
-    return false;
-}
 
 double page_span_width(const page_grid *g, long span)
 {
@@ -223,24 +201,32 @@ static page_box content_box(const ug_scene *s)
     return (page_box){x0, y0, ceil(x1) - x0, ceil(y1) - y0};
 }
 
-/* Pack chart i for a column `room` px wide. The packer keeps a margin inside
-** its canvas; the panel drops it, so a second pass widens the canvas by that
-** margin to let the content use the whole column. */
+/* Pack chart i for a column `room` px wide. The packer keeps a margin on
+** each side of its canvas; the panel drops it, so a second pass widens the
+** canvas by the two margins to let the content use the whole column. Should
+** the content then outgrow the column, the first pass stands. */
 static ug_status pack_panel(composer *k, size_t i, const ug_allocation *a,
                             double room, ug_scene **s)
 {
     ug_chart *c = &k->r->charts[i];
+    ug_scene *wide = NULL;
     c->style.width = room;
     ug_status st = ug_scene_pack(c, a, s, k->err);
     if (st)
         return st;
-    page_box b = content_box(*s);
-    double spare = floor(ug_scene_width(*s) - b.w);
+    double spare = 2 * floor(content_box(*s).x);
     if (spare <= 0 || ug_scene_width(*s) > room + 0.5)
         return UG_OK;
-    ug_scene_free(*s);
     c->style.width = room + spare;
-    return ug_scene_pack(c, a, s, k->err);
+    if ((st = ug_scene_pack(c, a, &wide, k->err)))
+        return st;
+    if (content_box(wide).w > room + 0.5) {
+        ug_scene_free(wide);
+        return UG_OK;
+    }
+    ug_scene_free(*s);
+    *s = wide;
+    return UG_OK;
 }
 
 /* The page's description is its charts' descriptions, in reading order. */

@@ -1,8 +1,8 @@
 /*
 ** Page stage: a handout page (FORMAT.md §2) -> one scene the size of the
 ** sheet, with several chart panels and text blocks on a column grid.
-** This header holds the paper sizes and the grid geometry, which are pure
-** arithmetic and tested on their own.
+** The grid geometry is pure arithmetic and tested on its own; the paper
+** sizes are the layout loader's (the model holds the sheet in px).
 */
 #ifndef UG_PAGE_H
 #define UG_PAGE_H
@@ -11,10 +11,6 @@
 
 /* CSS: 96 px per inch, 25.4 mm per inch (W3C CSS Values and Units). */
 #define PAGE_PX_PER_MM (96.0 / 25.4)
-
-/* A named sheet in millimetres, portrait: A3, A4, A5 (ISO 216), letter
-** (8.5 x 11 in) and legal (8.5 x 14 in); names match in any case. */
-bool page_paper(const char *name, double *w_mm, double *h_mm);
 
 /* The grid: the sheet in px, its margin, and `columns` equal columns with
 ** `gutter` px between them (and between rows of panels). */
