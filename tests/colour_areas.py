@@ -100,7 +100,7 @@ def coverage(w, h, bpp, px, wanted):
         # off the line by little, relative to how far along it the pixel is:
         # a light grey (a text edge) is near white and so near every light
         # colour's line, but far from it in proportion
-        near = resid <= 2.0 + 0.15 * t * np.sqrt(d @ d)
+        near = resid <= 1.0 + 0.15 * t * np.sqrt(d @ d)
         take = (resid < best) & near & (t > 0.02)
         best = np.where(take, resid, best)
         share = np.where(take, t, share)
