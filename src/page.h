@@ -37,8 +37,9 @@ size_t page_place(const page_grid *g, const long *spans, const double *heights,
 
 /* A composed handout: the page as one SVG (width and height in mm, user
 ** units in px) and, for the web page's tables, one allocation per chart
-** panel. The allocations borrow `charts`, the adjusted copies of the
-** page's charts (panel width, shared scale, sources moved to the foot). */
+** panel. The allocations borrow `charts`, shallow copies of the page's
+** charts adjusted for the page (panel width, shared scale, sources moved to
+** the foot), which borrow the page: free the result before the page. */
 typedef struct {
     char *svg;
     size_t len;

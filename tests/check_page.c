@@ -25,13 +25,23 @@ static ug_page *load_page(const char *yaml)
     return p;
 }
 
+/* The page behind the last compose(): a result borrows its page's charts,
+** so the page lives until done(). */
+static ug_page *composed;
+
 /* Compose; on failure return the status and leave the message in *err. */
 static ug_status compose(const char *yaml, page_result *r, ug_error *err)
 {
-    ug_page *p = load_page(yaml);
-    ug_status st = page_compose(p, r, err);
-    ug_page_free(p);
-    return st;
+    ug_page_free(composed);
+    composed = load_page(yaml);
+    return page_compose(composed, r, err);
+}
+
+static void done(page_result *r)
+{
+    page_result_free(r);
+    ug_page_free(composed);
+    composed = NULL;
 }
 
 static char *page_yaml(const char *size, const char *panels)
@@ -210,7 +220,7 @@ START_TEST(test_shared_scale_one_size_one_value)
     ck_assert_str_eq(a, "20");
     ck_assert_str_eq(b, a);
     xmlFreeDoc(doc);
-    page_result_free(&r);
+    done(&r);
 }
 END_TEST
 
@@ -238,7 +248,7 @@ START_TEST(test_shared_scale_auto_takes_the_largest)
     ck_assert(own[0].v != own[1].v); /* 120 and 45 choose different values */
     for (size_t i = 0; i < 2; i++)
         ck_assert(r.allocs[i]->rule.value.v == want.v);
-    page_result_free(&r);
+    done(&r);
 }
 END_TEST
 
@@ -273,6 +283,7 @@ START_TEST(test_shared_scale_refuses_cells)
     ck_assert_int_eq(compose(yaml, &r, &err), UG_ESCHEMA);
     ck_assert_uint_eq(err.where.line, 22);
     ck_assert(strstr(err.msg, "state icon-value instead of cells") != NULL);
+    done(&r);
 }
 END_TEST
 
@@ -298,6 +309,7 @@ START_TEST(test_overflow_names_panel_and_amount)
                   strstr(err.msg, "mm more") && strstr(err.msg, "nothing is shrunk"),
                   "%s", err.msg);
     ck_assert_ptr_null(r.svg);
+    done(&r);
 }
 END_TEST
 
@@ -308,7 +320,7 @@ START_TEST(test_taller_sheet_fits)
     ck_assert_msg(compose(page_yaml("\"148mm x 2500mm\"", tall_chart), &r, &err) == UG_OK,
                   "%s", err.msg);
     ck_assert_ptr_nonnull(r.svg);
-    page_result_free(&r);
+    done(&r);
 }
 END_TEST
 
@@ -328,6 +340,7 @@ START_TEST(test_too_narrow_column)
     ug_error err = {0};
     ck_assert_int_eq(compose(yaml, &r, &err), UG_ELIMIT);
     ck_assert_msg(strstr(err.msg, "mm of width but its column is"), "%s", err.msg);
+    done(&r);
 }
 END_TEST
 
@@ -370,7 +383,7 @@ START_TEST(test_ids_unique_and_references_resolve)
     xmlXPathFreeObject(ids);
     xmlXPathFreeContext(ctx);
     xmlFreeDoc(doc);
-    page_result_free(&r);
+    done(&r);
 }
 END_TEST
 
@@ -386,7 +399,7 @@ START_TEST(test_sources_collected_once_at_the_foot)
     ck_assert_ptr_nonnull(second);
     ck_assert(first < second);
     ck_assert_ptr_null(strstr(first + 9, "Riverside Libraries (demo data)"));
-    page_result_free(&r);
+    done(&r);
 }
 END_TEST
 
@@ -400,7 +413,7 @@ START_TEST(test_text_block_paragraphs)
     ck_assert_int_eq(compose(page_yaml("A4", panels), &r, &err), UG_OK);
     ck_assert_ptr_nonnull(strstr(r.svg, ">one two</text>"));
     ck_assert_ptr_nonnull(strstr(r.svg, ">three</text>"));
-    page_result_free(&r);
+    done(&r);
 }
 END_TEST
 
