@@ -12,6 +12,7 @@
 #include "alloc.h"
 
 #include "page.h"
+#include "xpath_check.h"
 
 /* ---- whole pages: load a page file, compose it ----------------------------- */
 
@@ -187,18 +188,6 @@ static xmlDocPtr parse_svg(const page_result *r)
     return doc;
 }
 
-static char *xpath_text(xmlDocPtr doc, const char *expr, char *buf, size_t size)
-{
-    xmlXPathContextPtr ctx = xmlXPathNewContext(doc);
-    xmlXPathObjectPtr o = xmlXPathEvalExpression((const xmlChar *)expr, ctx);
-    xmlChar *t = xmlXPathCastToString(o);
-    snprintf(buf, size, "%s", (const char *)t);
-    xmlFree(t);
-    xmlXPathFreeObject(o);
-    xmlXPathFreeContext(ctx);
-    return buf;
-}
-
 /* Isotype's first rule (Neurath 1936, REFERENCES.md §6): one symbol size
 ** for the whole picture; on a shared-scale page, for every chart. */
 START_TEST(test_shared_scale_one_size_one_value)
@@ -215,8 +204,8 @@ START_TEST(test_shared_scale_one_size_one_value)
     ck_assert_int_eq(r.allocs[1]->group_icons[0], 5); /* round-half-up(45 / 10) */
     xmlDocPtr doc = parse_svg(&r);
     char a[64], b[64];
-    xpath_text(doc, "string(//*[@id='p1-u-0']/@width)", a, sizeof a);
-    xpath_text(doc, "string(//*[@id='p2-u-0']/@width)", b, sizeof b);
+    xpath_string(doc, "string(//*[@id='p1-u-0']/@width)", a, sizeof a);
+    xpath_string(doc, "string(//*[@id='p2-u-0']/@width)", b, sizeof b);
     ck_assert_str_eq(a, "20");
     ck_assert_str_eq(b, a);
     xmlFreeDoc(doc);
@@ -346,6 +335,20 @@ END_TEST
 
 /* ---- the page's SVG --------------------------------------------------------------- */
 
+/* Every attribute value in the set (after `skip` characters) is the id of
+** exactly one element. */
+static void each_once(xmlDocPtr doc, xmlXPathObjectPtr set, int skip)
+{
+    for (int i = 0; i < set->nodesetval->nodeNr; i++) {
+        xmlChar *v = xmlNodeGetContent(set->nodesetval->nodeTab[i]);
+        char expr[256];
+        snprintf(expr, sizeof expr, "count(//@id[. = '%s'])", (const char *)v + skip);
+        ck_assert_msg(xpath_number(doc, expr) == 1, "'%s': not exactly one element",
+                      (const char *)v);
+        xmlFree(v);
+    }
+}
+
 /* Two charts with the same glyphs and category ids: every id on the page is
 ** unique and every local reference finds its target. */
 START_TEST(test_ids_unique_and_references_resolve)
@@ -356,29 +359,12 @@ START_TEST(test_ids_unique_and_references_resolve)
     xmlDocPtr doc = parse_svg(&r);
     xmlXPathContextPtr ctx = xmlXPathNewContext(doc);
     xmlXPathObjectPtr ids = xmlXPathEvalExpression((const xmlChar *)"//@id", ctx);
-    int n = ids->nodesetval ? ids->nodesetval->nodeNr : 0;
-    ck_assert_int_gt(n, 6);
-    for (int i = 0; i < n; i++) {
-        xmlChar *a = xmlNodeGetContent(ids->nodesetval->nodeTab[i]);
-        char expr[256];
-        snprintf(expr, sizeof expr, "count(//@id[. = '%s'])", (const char *)a);
-        xmlXPathObjectPtr c = xmlXPathEvalExpression((const xmlChar *)expr, ctx);
-        ck_assert_msg(xmlXPathCastToNumber(c) == 1, "id %s repeated", (const char *)a);
-        xmlXPathFreeObject(c);
-        xmlFree(a);
-    }
     xmlXPathObjectPtr refs = xmlXPathEvalExpression(
         (const xmlChar *)"//@href[starts-with(., '#')]", ctx);
+    ck_assert_int_gt(ids->nodesetval->nodeNr, 6);
     ck_assert_int_gt(refs->nodesetval->nodeNr, 0);
-    for (int i = 0; i < refs->nodesetval->nodeNr; i++) {
-        xmlChar *a = xmlNodeGetContent(refs->nodesetval->nodeTab[i]);
-        char expr[256];
-        snprintf(expr, sizeof expr, "count(//@id[. = '%s'])", (const char *)a + 1);
-        xmlXPathObjectPtr c = xmlXPathEvalExpression((const xmlChar *)expr, ctx);
-        ck_assert_msg(xmlXPathCastToNumber(c) == 1, "%s has no target", (const char *)a);
-        xmlXPathFreeObject(c);
-        xmlFree(a);
-    }
+    each_once(doc, ids, 0);
+    each_once(doc, refs, 1); /* skip the '#' */
     xmlXPathFreeObject(refs);
     xmlXPathFreeObject(ids);
     xmlXPathFreeContext(ctx);

@@ -22,6 +22,7 @@
 
 #include "alloc.h"
 #include "raster.h"
+#include "xpath_check.h"
 
 /* Three squares of pure colours on white, every edge on a multiple of 8 px
 ** so that at 72, 96 and 300 dpi (factors 0.75, 1, 3.125) they cover whole
@@ -423,28 +424,10 @@ static void count_error(void *ctx, xmlError *e)
         html_errors++;
 }
 
-static double xpath_number(xmlDocPtr doc, const char *expr)
-{
-    xmlXPathContextPtr ctx = xmlXPathNewContext(doc);
-    xmlXPathObjectPtr r = xmlXPathEvalExpression((const xmlChar *)expr, ctx);
-    ck_assert_ptr_nonnull(r);
-    double v = xmlXPathCastToNumber(r);
-    xmlXPathFreeObject(r);
-    xmlXPathFreeContext(ctx);
-    return v;
-}
-
 static char *xpath_text(xmlDocPtr doc, const char *expr)
 {
-    xmlXPathContextPtr ctx = xmlXPathNewContext(doc);
-    xmlXPathObjectPtr r = xmlXPathEvalExpression((const xmlChar *)expr, ctx);
-    xmlChar *s = xmlXPathCastToString(r);
     static char buf[512];
-    snprintf(buf, sizeof buf, "%s", (const char *)s);
-    xmlFree(s);
-    xmlXPathFreeObject(r);
-    xmlXPathFreeContext(ctx);
-    return buf;
+    return xpath_string(doc, expr, buf, sizeof buf);
 }
 
 static char *make_page(ug_allocation **allocs, size_t n, size_t *len)
