@@ -42,7 +42,7 @@ LIB_OBJ  = $(LIB_SRC:%.c=$(BUILD)/%.o)
 CLI_OBJ  = $(CLI_SRC:%.c=$(BUILD)/%.o)
 TESTS    = $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 LIB      = $(BUILD)/libunitgram.a
-REF_DRIVERS = $(BUILD)/tests/ref/alloc_driver
+REF_DRIVERS = $(BUILD)/tests/ref/alloc_driver $(BUILD)/tests/ref/cvd_driver
 BIN      = $(BUILD)/unitgram
 
 LAYOUTS  = $(wildcard layouts/*.yaml)
@@ -148,11 +148,15 @@ bench: all
 demo: deps
 	@$(MAKE) --no-print-directory render-demo
 
+# out/*.svg for every example layout, and the README's gallery: the same
+# charts as PNG (rsvg-convert, librsvg's renderer) in layouts/gallery/.
 render-demo: $(BIN)
-	@mkdir -p out
+	@mkdir -p out layouts/gallery
 	@set -e; for f in $(LAYOUTS); do \
 	  n=$$(basename $$f .yaml); \
-	  $(BIN) draw $$f -o out/$$n.svg && echo "out/$$n.svg"; done
+	  $(BIN) draw $$f -o out/$$n.svg && echo "out/$$n.svg"; \
+	  rsvg-convert out/$$n.svg -o layouts/gallery/$$n.png \
+	    && echo "layouts/gallery/$$n.png"; done
 
 # ---- install ----------------------------------------------------------------
 # Build and install with the same PREFIX: the glyph folder is compiled in.
@@ -174,6 +178,7 @@ install: all
 	  -e 's|@REQUIRES@|$(PKGS)|g' src/unitgram.pc.in \
 	  > $(DESTDIR)$(PREFIX)/lib/pkgconfig/unitgram.pc
 
+# Removes exactly what install wrote; shared folders (bin, lib, man1...) stay.
 uninstall:
 	rm -f $(addprefix $(DESTDIR)$(PREFIX)/,$(INSTALL_FILES))
 	rm -rf $(DESTDIR)$(DATADIR)

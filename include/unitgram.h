@@ -113,6 +113,71 @@ ug_status ug_scene_svg(const ug_scene *scene, char **out, size_t *len,
 ug_status ug_chart_describe(const ug_chart *chart, const ug_allocation *alloc,
                             char **out, size_t *len, ug_error *err);
 
+/* ---- packing options (additive: ug_scene_pack is ug_scene_pack_with(NULL)) */
+
+/* Glyphs loaded once and shared: a batch of charts asks the cache instead of
+** reading, sanitizing and measuring the same glyph files again. One cache
+** serves one set of glyph folders (the options it is used with). */
+typedef struct ug_glyph_cache ug_glyph_cache;
+
+ug_status ug_glyph_cache_new(ug_glyph_cache **out, ug_error *err);
+void ug_glyph_cache_free(ug_glyph_cache *cache);
+
+typedef struct {
+    const char *const *glyph_dirs; /* extra glyph folders (--glyph-dir), searched
+                                      after the library; may be NULL */
+    size_t nglyph_dirs;
+    ug_glyph_cache *glyph_cache;   /* optional; borrowed, must outlive the call */
+} ug_pack_options;
+
+/* ug_scene_pack with options; opt may be NULL (the defaults). */
+ug_status ug_scene_pack_with(const ug_chart *chart, const ug_allocation *alloc,
+                             const ug_pack_options *opt, ug_scene **out,
+                             ug_error *err);
+
+/* One warning per thing glyph sanitizing removed from the scene's glyph
+** files, each placed at the `glyph:` key of the first category (of chart, the
+** chart the scene was packed from) that uses the glyph. *out is a malloc'd
+** array of *n entries (status UG_OK, where and msg filled), NULL when none;
+** release it with free(). */
+ug_status ug_scene_glyph_warnings(const ug_scene *scene, const ug_chart *chart,
+                                  ug_error **out, size_t *n, ug_error *err);
+
+/* The files drawing this chart reads: the layout itself, its CSV (if any) and
+** every glyph file the scene loaded (scene may be NULL). A NULL-terminated
+** array in one malloc'd block (free() it); NULL when out of memory. */
+char **ug_chart_inputs(const ug_chart *chart, const ug_scene *scene);
+
+/* ---- batches: one chart per row of a CSV ------------------------------- */
+
+/* A template layout drawn once per row of a wide CSV table: each row becomes
+** a chart of its own (its group-column value, or its first column, names it;
+** the template's categories name the count columns). Every chart shares one
+** icon value (`auto` is resolved once, over all rows) and one icon size.
+** `{group}` in the template's title and subtitle is replaced by the row's
+** name. Each row also gets a safe file-name part (ug_batch_slug); two rows
+** whose names give the same slug are an error at open time. */
+typedef struct ug_batch ug_batch;
+
+ug_status ug_batch_open(const char *template_path, const char *csv_path,
+                        const ug_limits *limits, ug_batch **out, ug_error *err);
+void ug_batch_free(ug_batch *batch);
+size_t ug_batch_count(const ug_batch *batch);
+/* The row's name as written in the CSV; NULL when i is out of range. */
+const char *ug_batch_name(const ug_batch *batch, size_t i);
+/* [a-z0-9_-]+ from the name: letters lower-cased, accents dropped, anything
+** else a '-', no leading '-'; an empty result becomes "row-N" (N the row's
+** 1-based number). NULL when i is out of range. */
+const char *ug_batch_slug(const ug_batch *batch, size_t i);
+/* `pattern` with every "{group}" replaced by slug i; *out malloc'd (free()). */
+ug_status ug_batch_path(const ug_batch *batch, size_t i, const char *pattern,
+                        char **out, ug_error *err);
+/* Row i as a chart of its own (no groups, the shared icon value pinned). The
+** chart belongs to the batch and stays valid until the next ug_batch_chart
+** call or ug_batch_free. */
+ug_status ug_batch_chart(ug_batch *batch, size_t i, const ug_chart **out,
+                         ug_error *err);
+
 /* ---- output: PNG, PDF and a web page (src/raster.c, src/html.c) -------- */
 
 typedef enum { UG_OUT_SVG, UG_OUT_PNG, UG_OUT_PDF, UG_OUT_HTML } ug_output_format;
@@ -184,6 +249,33 @@ ug_status ug_glyph_check(const char *ref, const char *base_dir,
                          const char *const *dirs, size_t ndirs, char **warnings,
                          double *ink, ug_error *err);
 
+/* ---- audit: honesty, privacy and accessibility findings (src/audit.c) --- */
+
+typedef enum { UG_SEVERITY_NOTE, UG_SEVERITY_WARNING, UG_SEVERITY_ERROR } ug_severity;
+
+typedef struct {
+    const char *rule;     /* stable kebab-case name, e.g. "vanished-category" */
+    ug_severity severity;
+    ug_mark where;        /* the model mark the finding is about */
+    const char *message;  /* plain language */
+    const char *fix;      /* a computed suggestion; NULL when there is none */
+} ug_finding;
+
+typedef struct ug_findings ug_findings;
+
+/* Check a chart; rules named in the layout's audit.ignore are left out.
+** The findings own copies of everything they show (the chart may go first). */
+ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_error *err);
+size_t ug_findings_count(const ug_findings *f);
+/* How many findings have at least this severity. */
+size_t ug_findings_count_severity(const ug_findings *f, ug_severity at_least);
+const ug_finding *ug_findings_at(const ug_findings *f, size_t i);
+/* UG_REPORT_TEXT or UG_REPORT_JSON; *out is malloc'd, NUL-ended. */
+ug_status ug_findings_format(const ug_findings *f, ug_report_format fmt,
+                             char **out, size_t *len, ug_error *err);
+void ug_findings_free(ug_findings *f);
+const char *ug_severity_name(ug_severity s); /* "error", "warning", "note" */
+
 /* ---- utilities ---------------------------------------------------------- */
 
 /* The commented starter layout `unitgram init` writes (page != 0: a page file). */
@@ -193,6 +285,12 @@ const char *ug_starter_layout(int page);
 ** rename(2), so a failure leaves any previous file untouched. "-" = stdout. */
 ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
                                ug_error *err);
+/* The same with the fsync before the rename made optional (sync == 0): a
+** batch writing a thousand files skips a thousand journal commits and calls
+** sync(2) once at the end instead. A crash before that sync may lose or
+** empty files of the batch. */
+ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t len,
+                                    int sync, ug_error *err);
 
 #ifdef __cplusplus
 }

@@ -18,6 +18,11 @@ enum {
     EXIT_OUTPUT = 4  /* the output could not be written */
 };
 
+/* The exit-code paragraph every --help ends with. */
+#define CLI_EXIT_CODES \
+    "exit codes: 0 success, 1 bad input (layout, CSV or glyph), 2 usage,\n" \
+    "            3 audit failure under --strict, 4 output could not be written\n"
+
 int cli_tally(int argc, char **argv);
 int cli_draw(int argc, char **argv);
 int cli_describe(int argc, char **argv);
@@ -25,9 +30,67 @@ int cli_audit(int argc, char **argv);
 int cli_glyphs(int argc, char **argv);
 int cli_init(int argc, char **argv);
 
-/* Print an error as "file:line:col: error: message" on stderr. */
+/* ---- diagnostics (cli_common.c) ---- */
+
+/* True when stderr is a terminal and NO_COLOR is unset or empty. */
+bool cli_color(void);
+/* "file:line:col: SEVERITY: message" on stderr; severity is "error",
+** "warning" or "note"; coloured only when cli_color(). */
+void cli_diag(const char *severity, const ug_error *err);
+/* cli_diag("error", err). */
 void cli_report_error(const ug_error *err);
-/* Exit code for a failed library call. */
+/* Exit code for a failed library call that read input. */
 int cli_exit_for(const ug_error *err);
+/* "unitgram CMD: message" and a pointer to --help on stderr; EXIT_USAGE. */
+int cli_usage(const char *cmd, const char *fmt, ...)
+    __attribute__((format(printf, 2, 3)));
+
+/* Seconds on a monotonic clock (for progress, summaries and timeouts). */
+double cli_now(void);
+
+/* ---- arguments ---- */
+
+/* Does argv[*i] name the option (long "--name", short "-x" or NULL)? When it
+** takes a value (val != NULL), "--name VALUE", "--name=VALUE" and "-x VALUE"
+** are accepted and *i moves past the value. Returns 1 on a match, 0 when
+** argv[*i] is another argument, -1 (after printing a usage error) when the
+** value is missing. */
+int cli_option(const char *cmd, int argc, char **argv, int *i, const char *lng,
+               const char *shrt, const char **val);
+/* "-h" or "--help". */
+bool cli_is_help(const char *arg);
+
+/* Load a chart; "-" reads standard input (named "<stdin>", relative paths
+** from the current folder). Errors are printed; returns an exit code. */
+int cli_load_chart(const char *path, ug_chart **out);
+/* Print each glyph sanitizer warning of a packed scene. */
+void cli_glyph_warnings(const ug_scene *scene, const ug_chart *chart);
+
+/* ---- draw, batch and watch (cli_draw.c, cli_batch.c, cli_watch.c) ---- */
+
+#define CLI_MAX_DIRS 32
+
+typedef struct {
+    const char *layout, *out, *format;
+    const char *glyph_dirs[CLI_MAX_DIRS];
+    size_t nglyph_dirs;
+    const char *each_row;    /* --each-row CSV */
+    bool watch;
+    long watch_limit;        /* redraws before exiting; 0: no limit */
+    double watch_timeout;    /* seconds before exiting; 0: no limit */
+    bool quiet;              /* no progress bar or summary */
+    double dpi, scale;       /* PNG and PDF (raster.c); 0: 96 dpi, scale 1 */
+} cli_draw_opts;
+
+/* Output format from --format or the file's extension: "svg", "png", "pdf",
+** "html"; NULL when neither says (an error message is printed). */
+const char *cli_output_format(const char *out, const char *given);
+
+/* One draw of o->layout to o->out. When inputs is not NULL it receives the
+** files the drawing read (ug_chart_inputs; NULL when the layout did not
+** load). Returns an exit code. */
+int cli_draw_one(const cli_draw_opts *o, char ***inputs);
+int cli_batch(const cli_draw_opts *o);
+int cli_watch(const cli_draw_opts *o);
 
 #endif

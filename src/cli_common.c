@@ -1,22 +1,169 @@
 /*
-** Helpers every command shares: error printing and exit codes.
+** Helpers every command shares: diagnostics in the file:line:col form, exit
+** codes, option reading, and loading a chart from a file or standard input.
 */
+#include <stdarg.h>
 #include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <strings.h>
+#include <time.h>
+#include <unistd.h>
 
 #include "cli.h"
 
-void cli_report_error(const ug_error *err)
+bool cli_color(void)
 {
-    const char *file = err->where.file ? err->where.file : "unitgram";
-    if (err->where.line)
-        fprintf(stderr, "%s:%u:%u: error: %s\n", file, err->where.line,
-                err->where.column, err->msg);
-    else
-        fprintf(stderr, "%s: error: %s\n", file, err->msg);
+    const char *no = getenv("NO_COLOR"); /* https://no-color.org: any non-empty value */
+    return !(no && *no) && isatty(STDERR_FILENO);
 }
+
+static const char *severity_color(const char *severity)
+{
+    if (!strcmp(severity, "error"))
+        return "\033[1;31m";
+    if (!strcmp(severity, "warning"))
+        return "\033[1;35m";
+    return "\033[1;36m";
+}
+
+void cli_diag(const char *severity, const ug_error *err)
+{
+    bool color = cli_color();
+    const char *file = err->where.file ? err->where.file : "unitgram";
+    fputs(color ? "\033[1m" : "", stderr);
+    if (err->where.line)
+        fprintf(stderr, "%s:%u:%u:", file, err->where.line, err->where.column);
+    else
+        fprintf(stderr, "%s:", file);
+    fprintf(stderr, "%s %s%s:%s %s\n", color ? "\033[0m" : "",
+            color ? severity_color(severity) : "", severity, color ? "\033[0m" : "",
+            err->msg);
+}
+
+void cli_report_error(const ug_error *err) { cli_diag("error", err); }
 
 int cli_exit_for(const ug_error *err)
 {
     (void)err; /* reading failed: the input is at fault; writers use EXIT_OUTPUT */
     return EXIT_INPUT;
+}
+
+int cli_usage(const char *cmd, const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    fprintf(stderr, "unitgram %s: ", cmd);
+    vfprintf(stderr, fmt, ap);
+    va_end(ap);
+    fprintf(stderr, "\n(see 'unitgram %s --help')\n", cmd);
+    return EXIT_USAGE;
+}
+
+bool cli_is_help(const char *arg) { return !strcmp(arg, "-h") || !strcmp(arg, "--help"); }
+
+int cli_option(const char *cmd, int argc, char **argv, int *i, const char *lng,
+               const char *shrt, const char **val)
+{
+    const char *a = argv[*i];
+    size_t n = strlen(lng);
+    bool is_long = !strncmp(a, lng, n) && (a[n] == '\0' || (val && a[n] == '='));
+    bool is_short = shrt && !strcmp(a, shrt);
+    if (!is_long && !is_short)
+        return 0;
+    if (!val)
+        return 1;
+    if (is_long && a[n] == '=') {
+        *val = a + n + 1;
+        return 1;
+    }
+    if (*i + 1 >= argc) {
+        cli_usage(cmd, "%s needs a value", a);
+        return -1;
+    }
+    *val = argv[++*i];
+    return 1;
+}
+
+/* Standard input, whole, into a malloc'd buffer. */
+static char *read_stdin(size_t *len)
+{
+    size_t cap = 1 << 16, n = 0;
+    char *buf = malloc(cap);
+    for (size_t got; buf && (got = fread(buf + n, 1, cap - n, stdin)) > 0;) {
+        n += got;
+        if (n == cap) {
+            char *grown = cap < ((size_t)1 << 30) ? realloc(buf, cap *= 2) : NULL;
+            if (!grown)
+                free(buf);
+            buf = grown;
+        }
+    }
+    *len = n;
+    return buf;
+}
+
+int cli_load_chart(const char *path, ug_chart **out)
+{
+    ug_error err = {0};
+    ug_status st;
+    if (strcmp(path, "-") == 0) {
+        size_t len = 0;
+        char *text = read_stdin(&len);
+        if (!text) {
+            fprintf(stderr, "<stdin>: error: could not read standard input\n");
+            return EXIT_INPUT;
+        }
+        st = ug_chart_load_string(text, len, "<stdin>", NULL, out, &err);
+        free(text);
+    } else {
+        st = ug_chart_load(path, NULL, out, &err);
+    }
+    if (st) {
+        cli_report_error(&err);
+        return cli_exit_for(&err);
+    }
+    return EXIT_OK;
+}
+
+void cli_glyph_warnings(const ug_scene *scene, const ug_chart *chart)
+{
+    ug_error err = {0}, *w = NULL;
+    size_t n = 0;
+    if (ug_scene_glyph_warnings(scene, chart, &w, &n, &err)) {
+        cli_report_error(&err);
+        return;
+    }
+    for (size_t i = 0; i < n; i++)
+        cli_diag("warning", &w[i]);
+    free(w);
+}
+
+static const char *extension(const char *path)
+{
+    const char *slash = strrchr(path, '/');
+    const char *dot = strrchr(slash ? slash : path, '.');
+    return dot ? dot + 1 : "";
+}
+
+const char *cli_output_format(const char *out, const char *given)
+{
+    static const char *const known[] = {"svg", "png", "pdf", "html", NULL};
+    const char *want = given ? given : strcmp(out, "-") ? extension(out) : "svg";
+    for (size_t i = 0; known[i]; i++)
+        if (!strcasecmp(want, known[i]))
+            return known[i];
+    if (given)
+        cli_usage("draw", "unknown --format '%s' (svg, png, pdf or html)", given);
+    else
+        cli_usage("draw", "cannot tell the format of '%s' from its extension: "
+                          "name it .svg, .png, .pdf or .html, or give --format", out);
+    return NULL;
+}
+
+double cli_now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + (double)ts.tv_nsec / 1e9;
 }

@@ -2,7 +2,8 @@
 ** `unitgram draw LAYOUT -o OUT` and `unitgram describe LAYOUT`: load,
 ** allocate, pack, write SVG, PNG, PDF or a web page; a page file (one with a
 ** `page:` key) becomes a one-page handout. The output is rendered in memory
-** and written atomically, so a failure leaves any earlier picture as it was.
+** and written atomically, so a failure leaves any earlier picture as it was. Batches (--each-row) and --watch
+** live in cli_batch.c and cli_watch.c; this file only reads their options.
 */
 #include <stdio.h>
 #include <stdlib.h>
@@ -11,25 +12,43 @@
 #include "cli.h"
 
 static const char draw_help[] =
-    "usage: unitgram draw LAYOUT -o OUT [--format F] [--dpi N] [--scale N]\n"
+    "usage: unitgram draw LAYOUT -o OUT [OPTIONS]\n"
+    "       unitgram draw TEMPLATE --each-row COUNTS.csv -o 'DIR/{group}.svg'\n"
     "\n"
-    "Draw the chart (or the one-page handout) a layout file describes.\n"
-    "  -o, --output FILE   where to write; '-' writes to standard output\n"
-    "  -f, --format F      svg, png, pdf or html; default: from the extension\n"
-    "                      of FILE (.svg .png .pdf .html), SVG for '-'\n"
-    "      --dpi N         PNG resolution, pixels per inch (default 96: one\n"
-    "                      pixel per CSS px); PDF and SVG are vector\n"
-    "      --scale N       enlarge PNG and PDF by N (default 1)\n"
-    "  -h, --help          show this help\n"
+    "Draw the chart (or the one-page handout) a layout file describes. LAYOUT\n"
+    "'-' reads the layout from standard input (relative paths in it start from\n"
+    "the current folder).\n"
     "\n"
-    "exit codes: 0 drawn, 1 bad input, 2 usage, 4 output could not be written\n";
+    "options:\n"
+    "  -o, --output FILE     where to write; '-' writes to standard output\n"
+    "  --format FORMAT       svg, png, pdf or html; svg is the default for '-',\n"
+    "                        otherwise the extension of FILE decides\n"
+    "  --dpi N               PNG resolution in pixels per inch (default 96, one\n"
+    "                        pixel per CSS px); PDF and SVG are vector\n"
+    "  --scale N             enlarge PNG and PDF by N (default 1)\n"
+    "  --glyph-dir DIR       also look for glyphs in DIR (repeatable)\n"
+    "  --each-row CSV        draw one chart per row of CSV: the row's group-column\n"
+    "                        value (or first column) names it and replaces {group}\n"
+    "                        in -o and in the template's title and subtitle; all\n"
+    "                        charts share one icon value and one icon size\n"
+    "  --quiet               no progress bar or summary line (--each-row)\n"
+    "  --watch               redraw whenever the layout, its CSV or a glyph file\n"
+    "                        changes; a broken edit keeps the last good picture\n"
+    "  --watch-limit N       with --watch: exit after N redraws\n"
+    "  --watch-timeout SECS  with --watch: exit after SECS seconds\n"
+    "  -h, --help            show this help\n"
+    "\n" CLI_EXIT_CODES;
 
 static const char describe_help[] =
     "usage: unitgram describe LAYOUT\n"
     "\n"
     "Print the chart's plain-language description (its alt text, the same text\n"
-    "the SVG carries in <desc>); for a handout page, every chart's in turn.\n"
-    "exit codes: 0 printed, 1 bad input, 2 usage, 4 output could not be written\n";
+    "the SVG carries in <desc>; for a handout page, every chart's in turn).\n"
+    "LAYOUT '-' reads standard input.\n"
+    "\n"
+    "options:\n"
+    "  -h, --help            show this help\n"
+    "\n" CLI_EXIT_CODES;
 
 typedef struct {
     ug_chart *chart;
@@ -45,8 +64,10 @@ static void unload(loaded *l)
 static int load(const char *path, loaded *l, ug_error *err)
 {
     memset(l, 0, sizeof *l);
-    if (ug_chart_load(path, NULL, &l->chart, err) ||
-        ug_chart_allocate(l->chart, &l->alloc, err)) {
+    int rc = cli_load_chart(path, &l->chart);
+    if (rc)
+        return rc;
+    if (ug_chart_allocate(l->chart, &l->alloc, err)) {
         cli_report_error(err);
         unload(l);
         return cli_exit_for(err);
@@ -54,96 +75,11 @@ static int load(const char *path, loaded *l, ug_error *err)
     return EXIT_OK;
 }
 
-typedef struct {
-    const char *layout, *out;
-    ug_output_format fmt;
-    double dpi, scale;
-} draw_opts;
-
-static int number(const char *opt, const char *v, double *out)
-{
-    char *end;
-    *out = strtod(v, &end);
-    if (end == v || *end || !(*out > 0) || *out > 1e6) {
-        fprintf(stderr, "unitgram draw: %s wants a positive number, not '%s'\n", opt, v);
-        return EXIT_USAGE;
-    }
-    return EXIT_OK;
-}
-
-/* The format: --format, else the extension; an extension we do not write
-** is refused rather than guessed. */
-static int pick_format(draw_opts *o, const char *format)
-{
-    if (format) {
-        if (ug_output_format_parse(format, &o->fmt) == 0)
-            return EXIT_OK;
-        fprintf(stderr, "unitgram draw: unknown format '%s' (svg, png, pdf, html)\n",
-                format);
-        return EXIT_USAGE;
-    }
-    o->fmt = ug_output_format_from_path(o->out);
-    const char *dot = strrchr(o->out, '.'), *slash = strrchr(o->out, '/');
-    if (o->fmt == UG_OUT_SVG && dot && (!slash || dot > slash) &&
-        strcmp(dot, ".svg") && strcmp(dot, ".SVG")) {
-        fprintf(stderr, "unitgram draw: '%s': cannot tell the format from '%s'; "
-                        "use .svg, .png, .pdf or .html, or --format\n", o->out, dot);
-        return EXIT_USAGE;
-    }
-    return EXIT_OK;
-}
-
-static int option_value(int argc, char **argv, int *i, const char **v)
-{
-    if (*i + 1 >= argc) {
-        fprintf(stderr, "unitgram draw: %s needs a value\n%s", argv[*i], draw_help);
-        return EXIT_USAGE;
-    }
-    *v = argv[++*i];
-    return EXIT_OK;
-}
-
-static int parse_draw(int argc, char **argv, draw_opts *o)
-{
-    const char *format = NULL, *v;
-    int rc = EXIT_OK;
-    for (int i = 1; i < argc && !rc; i++) {
-        const char *a = argv[i];
-        if (!strcmp(a, "-h") || !strcmp(a, "--help")) {
-            fputs(draw_help, stdout);
-            return -1;
-        } else if (!strcmp(a, "-o") || !strcmp(a, "--output")) {
-            rc = option_value(argc, argv, &i, &o->out);
-        } else if (!strcmp(a, "-f") || !strcmp(a, "--format")) {
-            rc = option_value(argc, argv, &i, &format);
-        } else if (!strcmp(a, "--dpi") || !strcmp(a, "--scale")) {
-            if (!(rc = option_value(argc, argv, &i, &v)))
-                rc = number(a, v, a[2] == 'd' ? &o->dpi : &o->scale);
-        } else if (a[0] == '-' && a[1]) {
-            fprintf(stderr, "unitgram draw: unknown option '%s'\n%s", a, draw_help);
-            return EXIT_USAGE;
-        } else if (!o->layout) {
-            o->layout = a;
-        } else {
-            fprintf(stderr, "unitgram draw: one layout at a time ('%s')\n", a);
-            return EXIT_USAGE;
-        }
-    }
-    if (rc)
-        return rc;
-    if (!o->layout || !o->out) {
-        fprintf(stderr, "unitgram draw: %s\n%s", o->layout ? "missing -o OUT"
-                                                           : "missing LAYOUT", draw_help);
-        return EXIT_USAGE;
-    }
-    return pick_format(o, format);
-}
-
 /* A page file has a top-level `page:` key, which in block style starts a
 ** line; the loader refuses the wrong kind with a message saying so. */
 static bool is_page_file(const char *path)
 {
-    FILE *f = fopen(path, "r");
+    FILE *f = strcmp(path, "-") ? fopen(path, "r") : NULL;
     char line[256];
     bool page = false;
     while (f && !page && fgets(line, sizeof line, f))
@@ -153,79 +89,214 @@ static bool is_page_file(const char *path)
     return page;
 }
 
-/* The chart as the wanted format, in memory. */
-static ug_status chart_bytes(const loaded *l, const draw_opts *o, char **out,
-                             size_t *len, ug_error *err)
+/* ---- options (the new ones are read here; their work is elsewhere) ---- */
+
+static int parse_number(const char *v, double *out)
 {
-    ug_scene *scene = NULL;
-    char *svg = NULL, *desc = NULL;
-    size_t n = 0;
-    ug_status st = ug_scene_pack(l->chart, l->alloc, &scene, err);
-    if (!st)
-        st = ug_scene_svg(scene, &svg, &n, err);
-    if (st || o->fmt == UG_OUT_SVG) {
-        *out = svg, *len = n;
-    } else if (o->fmt == UG_OUT_HTML) {
+    char *end;
+    *out = strtod(v, &end);
+    return *v && !*end && *out >= 0 ? 0 : cli_usage("draw", "'%s' is not a number", v);
+}
+
+static int parse_factor(const char *opt, const char *v, double *out)
+{
+    if (parse_number(v, out))
+        return EXIT_USAGE;
+    if (!(*out > 0) || *out > 1e6)
+        return cli_usage("draw", "%s wants a positive number, not '%s'", opt, v);
+    return EXIT_OK;
+}
+
+static int draw_option(int argc, char **argv, int *i, cli_draw_opts *o)
+{
+    const char *v = NULL;
+    double num = 0;
+    int m;
+    if ((m = cli_option("draw", argc, argv, i, "--output", "-o", &o->out)))
+        return m < 0 ? EXIT_USAGE : 0;
+    if ((m = cli_option("draw", argc, argv, i, "--format", NULL, &o->format)))
+        return m < 0 ? EXIT_USAGE : 0;
+    if ((m = cli_option("draw", argc, argv, i, "--each-row", NULL, &o->each_row)))
+        return m < 0 ? EXIT_USAGE : 0;
+    if ((m = cli_option("draw", argc, argv, i, "--dpi", NULL, &v)))
+        return m < 0 ? EXIT_USAGE : parse_factor("--dpi", v, &o->dpi);
+    if ((m = cli_option("draw", argc, argv, i, "--scale", NULL, &v)))
+        return m < 0 ? EXIT_USAGE : parse_factor("--scale", v, &o->scale);
+    if ((m = cli_option("draw", argc, argv, i, "--glyph-dir", NULL, &v))) {
+        if (m > 0 && o->nglyph_dirs == CLI_MAX_DIRS)
+            return cli_usage("draw", "at most %d --glyph-dir folders", CLI_MAX_DIRS);
+        if (m > 0)
+            o->glyph_dirs[o->nglyph_dirs++] = v;
+        return m < 0 ? EXIT_USAGE : 0;
+    }
+    if ((m = cli_option("draw", argc, argv, i, "--watch-limit", NULL, &v))) {
+        int rc = m < 0 ? EXIT_USAGE : parse_number(v, &num);
+        o->watch_limit = (long)num;
+        return rc;
+    }
+    if ((m = cli_option("draw", argc, argv, i, "--watch-timeout", NULL, &v))) {
+        int rc = m < 0 ? EXIT_USAGE : parse_number(v, &num);
+        o->watch_timeout = num;
+        return rc;
+    }
+    if (cli_option("draw", argc, argv, i, "--watch", NULL, NULL))
+        return o->watch = true, 0;
+    if (cli_option("draw", argc, argv, i, "--quiet", "-q", NULL))
+        return o->quiet = true, 0;
+    return -1;
+}
+
+static int check_draw(const cli_draw_opts *o)
+{
+    if (!o->layout)
+        return cli_usage("draw", "missing the LAYOUT file");
+    if (!o->out)
+        return cli_usage("draw", "missing -o OUT (a file, or '-' for standard output)");
+    if (o->watch && o->each_row)
+        return cli_usage("draw", "--watch and --each-row do not go together");
+    if (o->watch && (!strcmp(o->layout, "-") || !strcmp(o->out, "-")))
+        return cli_usage("draw", "--watch needs a layout file and an output file, "
+                                 "not '-'");
+    if ((o->watch_limit || o->watch_timeout) && !o->watch)
+        return cli_usage("draw", "--watch-limit and --watch-timeout go with --watch");
+    if (o->each_row && !strstr(o->out, "{group}"))
+        return cli_usage("draw", "with --each-row, -o must contain {group} "
+                                 "(for instance 'out/{group}.svg')");
+    const char *fmt = cli_output_format(o->out, o->format);
+    if (!fmt)
+        return EXIT_USAGE;
+    if (strcmp(fmt, "svg") && o->each_row)
+        return cli_usage("draw", "--each-row writes SVG only ('%s' is %s)", o->out, fmt);
+    if (is_page_file(o->layout) && (o->each_row || o->watch))
+        return cli_usage("draw", "a page file is drawn once: no --each-row or --watch");
+    return EXIT_OK;
+}
+
+static int parse_draw(int argc, char **argv, cli_draw_opts *o)
+{
+    for (int i = 1; i < argc; i++) {
+        const char *a = argv[i];
+        int rc;
+        if (cli_is_help(a)) {
+            fputs(draw_help, stdout);
+            return -1;
+        } else if ((rc = draw_option(argc, argv, &i, o)) >= 0) {
+            if (rc)
+                return rc;
+        } else if (a[0] == '-' && a[1]) {
+            return cli_usage("draw", "unknown option '%s'", a);
+        } else if (!o->layout) {
+            o->layout = a;
+        } else {
+            return cli_usage("draw", "one layout at a time (found '%s' too)", a);
+        }
+    }
+    return check_draw(o);
+}
+
+/* ---- drawing ---- */
+
+static ug_output_format format_of(const cli_draw_opts *o)
+{
+    ug_output_format f = UG_OUT_SVG;
+    ug_output_format_parse(cli_output_format(o->out, o->format), &f);
+    return f;
+}
+
+/* The chart's SVG in the wanted format: *out is svg itself for SVG, else
+** new bytes (svg stays the caller's). */
+static ug_status convert(const loaded *l, const cli_draw_opts *o, char *svg,
+                         size_t len, char **out, size_t *out_len, ug_error *err)
+{
+    ug_output_format f = format_of(o);
+    char *desc = NULL;
+    ug_status st = UG_OK;
+    if (f == UG_OUT_SVG) {
+        *out = svg, *out_len = len;
+        return UG_OK;
+    }
+    if (f == UG_OUT_HTML) {
         const ug_allocation *allocs[1] = {l->alloc};
         if (!(st = ug_chart_describe(l->chart, l->alloc, &desc, NULL, err)))
-            st = ug_html_page(NULL, svg, n, desc, allocs, 1, out, len, err);
-        free(svg);
+            st = ug_html_page(NULL, svg, len, desc, allocs, 1, out, out_len, err);
     } else {
-        st = ug_render_svg(svg, n, o->fmt, o->dpi, o->scale, out, len, err);
-        free(svg);
+        st = ug_render_svg(svg, len, f, o->dpi > 0 ? o->dpi : 96,
+                           o->scale > 0 ? o->scale : 1, out, out_len, err);
     }
     free(desc);
-    ug_scene_free(scene);
     return st;
 }
 
-static int failed(const ug_error *err)
+static int draw_page(const cli_draw_opts *o)
 {
-    cli_report_error(err);
-    return err->status == UG_ENOMEM ? EXIT_OUTPUT : EXIT_INPUT;
-}
-
-static int draw_chart(const draw_opts *o, char **out, size_t *len, ug_error *err)
-{
-    loaded l;
-    int rc = load(o->layout, &l, err);
-    if (rc)
-        return rc;
-    if (chart_bytes(&l, o, out, len, err))
-        rc = failed(err);
-    unload(&l);
+    ug_error err = {0};
+    ug_page *page = NULL;
+    char *bytes = NULL;
+    size_t len = 0;
+    int rc = EXIT_OK;
+    if (ug_page_load(o->layout, NULL, &page, &err) ||
+        ug_page_draw(page, format_of(o), o->dpi > 0 ? o->dpi : 96,
+                     o->scale > 0 ? o->scale : 1, &bytes, &len, &err)) {
+        cli_report_error(&err);
+        rc = err.status == UG_ENOMEM ? EXIT_OUTPUT : EXIT_INPUT;
+    } else if (ug_write_file_atomic(o->out, bytes, len, &err)) {
+        cli_report_error(&err);
+        rc = EXIT_OUTPUT;
+    }
+    free(bytes);
+    ug_page_free(page);
     return rc;
 }
 
-static int draw_page(const draw_opts *o, char **out, size_t *len, ug_error *err)
+int cli_draw_one(const cli_draw_opts *o, char ***inputs)
 {
-    ug_page *page = NULL;
-    int rc = EXIT_OK;
-    if (ug_page_load(o->layout, NULL, &page, err) ||
-        ug_page_draw(page, o->fmt, o->dpi, o->scale, out, len, err))
-        rc = failed(err);
-    ug_page_free(page);
+    ug_error err = {0};
+    loaded l;
+    if (inputs)
+        *inputs = NULL;
+    int rc = load(o->layout, &l, &err);
+    if (rc)
+        return rc;
+    ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, NULL};
+    ug_scene *scene = NULL;
+    char *svg = NULL, *bytes = NULL;
+    size_t len = 0;
+    if (ug_scene_pack_with(l.chart, l.alloc, &popt, &scene, &err) ||
+        ug_scene_svg(scene, &svg, &len, &err) ||
+        convert(&l, o, svg, len, &bytes, &len, &err)) {
+        cli_report_error(&err);
+        rc = EXIT_INPUT;
+    } else {
+        cli_glyph_warnings(scene, l.chart);
+        if (ug_write_file_atomic(o->out, bytes, len, &err)) {
+            cli_report_error(&err);
+            rc = EXIT_OUTPUT;
+        }
+    }
+    if (inputs)
+        *inputs = ug_chart_inputs(l.chart, scene);
+    if (bytes != svg)
+        free(svg);
+    free(bytes);
+    ug_scene_free(scene);
+    unload(&l);
     return rc;
 }
 
 int cli_draw(int argc, char **argv)
 {
-    draw_opts o = {NULL, NULL, UG_OUT_SVG, 96, 1};
+    cli_draw_opts o;
+    memset(&o, 0, sizeof o);
     int rc = parse_draw(argc, argv, &o);
     if (rc)
         return rc < 0 ? EXIT_OK : rc;
-    ug_error err;
-    memset(&err, 0, sizeof err);
-    char *bytes = NULL;
-    size_t len = 0;
-    rc = is_page_file(o.layout) ? draw_page(&o, &bytes, &len, &err)
-                                : draw_chart(&o, &bytes, &len, &err);
-    if (!rc && ug_write_file_atomic(o.out, bytes, len, &err)) {
-        cli_report_error(&err);
-        rc = EXIT_OUTPUT;
-    }
-    free(bytes);
-    return rc;
+    if (o.each_row)
+        return cli_batch(&o);
+    if (o.watch)
+        return cli_watch(&o);
+    if (is_page_file(o.layout))
+        return draw_page(&o);
+    return cli_draw_one(&o, NULL);
 }
 
 static int describe_chart(const char *layout, char **text, size_t *len,
@@ -237,7 +308,7 @@ static int describe_chart(const char *layout, char **text, size_t *len,
         return rc;
     if (ug_chart_describe(l.chart, l.alloc, text, len, err)) {
         cli_report_error(err);
-        rc = EXIT_OUTPUT;
+        rc = cli_exit_for(err);
     }
     unload(&l);
     return rc;
@@ -249,8 +320,10 @@ static int describe_page(const char *layout, char **text, size_t *len,
     ug_page *page = NULL;
     int rc = EXIT_OK;
     if (ug_page_load(layout, NULL, &page, err) ||
-        ug_page_describe(page, text, len, err))
-        rc = failed(err);
+        ug_page_describe(page, text, len, err)) {
+        cli_report_error(err);
+        rc = cli_exit_for(err);
+    }
     ug_page_free(page);
     return rc;
 }
@@ -259,23 +332,17 @@ int cli_describe(int argc, char **argv)
 {
     const char *layout = NULL;
     for (int i = 1; i < argc; i++) {
-        if (!strcmp(argv[i], "-h") || !strcmp(argv[i], "--help")) {
+        if (cli_is_help(argv[i])) {
             fputs(describe_help, stdout);
             return EXIT_OK;
         }
-        if (argv[i][0] == '-' || layout) {
-            fprintf(stderr, "unitgram describe: unexpected '%s'\n%s", argv[i],
-                    describe_help);
-            return EXIT_USAGE;
-        }
+        if ((argv[i][0] == '-' && argv[i][1]) || layout)
+            return cli_usage("describe", "unexpected argument '%s'", argv[i]);
         layout = argv[i];
     }
-    if (!layout) {
-        fprintf(stderr, "unitgram describe: missing LAYOUT\n%s", describe_help);
-        return EXIT_USAGE;
-    }
-    ug_error err;
-    memset(&err, 0, sizeof err);
+    if (!layout)
+        return cli_usage("describe", "missing the LAYOUT file");
+    ug_error err = {0};
     char *text = NULL;
     size_t len = 0;
     int rc = is_page_file(layout) ? describe_page(layout, &text, &len, &err)

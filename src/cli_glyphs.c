@@ -23,17 +23,20 @@ static void help(FILE *to)
 {
     fprintf(to,
             "usage: unitgram glyphs [--glyph-dir DIR]... [--sheet FILE.svg]\n"
-            "       unitgram glyphs [--glyph-dir DIR]... --check GLYPH...\n\n"
-            "Lists the glyph library: each glyph's name and keywords (a chart names\n"
-            "a glyph with `glyph: NAME`).\n\n"
-            "  --glyph-dir DIR  also look for NAME.svg in DIR (after the library,\n"
-            "                   the installed glyphs and UNITGRAM_GLYPH_PATH)\n"
-            "  --sheet FILE     write a contact sheet: every glyph drawn with its name\n"
-            "  --check GLYPH    load a glyph as a layout in the current folder would\n"
-            "                   (a name or a path such as ./icons/boat.svg); print what\n"
-            "                   sanitizing removed and its inked area\n"
-            "  --help           this text\n\n"
-            "exit codes: 0 success, 1 bad glyph or index, 2 usage, 4 output not written\n");
+            "       unitgram glyphs [--glyph-dir DIR]... --check GLYPH...\n"
+            "\n"
+            "List the glyph library: each glyph's name and keywords (a chart names\n"
+            "a glyph with `glyph: NAME`).\n"
+            "\n"
+            "options:\n"
+            "  --glyph-dir DIR       also look for NAME.svg in DIR (after the library,\n"
+            "                        the installed glyphs and UNITGRAM_GLYPH_PATH)\n"
+            "  --sheet FILE          write a contact sheet: every glyph with its name\n"
+            "  --check GLYPH         load a glyph as a layout in the current folder\n"
+            "                        would (a name or a path such as ./icons/boat.svg);\n"
+            "                        print what sanitizing removed and its inked area\n"
+            "  -h, --help            show this help\n"
+            "\n" CLI_EXIT_CODES);
 }
 
 static int parse(int argc, char **argv, options *o)
@@ -46,8 +49,7 @@ static int parse(int argc, char **argv, options *o)
             return -1;
         } else if (!next && (!strcmp(a, "--glyph-dir") || !strcmp(a, "--sheet") ||
                              !strcmp(a, "--check"))) {
-            fprintf(stderr, "unitgram glyphs: %s needs a value\n", a);
-            return EXIT_USAGE;
+            return cli_usage("glyphs", "%s needs a value", a);
         } else if (!strcmp(a, "--glyph-dir") && o->ndirs < MAX_DIRS) {
             o->dirs[o->ndirs++] = argv[++i];
         } else if (!strcmp(a, "--sheet")) {
@@ -55,8 +57,7 @@ static int parse(int argc, char **argv, options *o)
         } else if (!strcmp(a, "--check") && o->ncheck < MAX_DIRS) {
             o->check[o->ncheck++] = argv[++i];
         } else {
-            fprintf(stderr, "unitgram glyphs: unexpected argument '%s' (see --help)\n", a);
-            return EXIT_USAGE;
+            return cli_usage("glyphs", "unexpected argument '%s'", a);
         }
     }
     return EXIT_OK;
@@ -103,7 +104,9 @@ static int check(const options *o)
         }
         for (char *line = warnings; *line;) {
             size_t n = strcspn(line, "\n");
-            fprintf(stderr, "%s: warning: %.*s\n", o->check[i], (int)n, line);
+            ug_error w = {.where = {o->check[i], 0, 0}};
+            snprintf(w.msg, sizeof w.msg, "%.*s", (int)n, line);
+            cli_diag("warning", &w);
             line += n + (line[n] == '\n');
         }
         printf("%s: ok, inked area %.3f of the unit box\n", o->check[i], ink);

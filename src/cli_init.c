@@ -9,30 +9,33 @@
 static void help(FILE *to)
 {
     fprintf(to,
-            "usage: unitgram init [--page] [-o FILE]\n\n"
+            "usage: unitgram init [--page] [-o FILE]\n"
+            "\n"
             "Write a commented starter layout that draws as it is.\n"
-            "  --page       a one-page handout file instead of a chart\n"
-            "  -o FILE      where to write (default: standard output); an existing\n"
-            "               file is never overwritten\n");
+            "\n"
+            "options:\n"
+            "  --page                a one-page handout file instead of a chart\n"
+            "  -o, --output FILE     where to write (default: standard output); an\n"
+            "                        existing file is never overwritten (exit 4)\n"
+            "  -h, --help            show this help\n"
+            "\n" CLI_EXIT_CODES);
 }
 
 int cli_init(int argc, char **argv)
 {
-    int page = 0;
+    int page = 0, m;
     const char *out = "-";
     for (int i = 1; i < argc; i++) {
-        if (!strcmp(argv[i], "--help") || !strcmp(argv[i], "-h")) {
+        if (cli_is_help(argv[i])) {
             help(stdout);
             return EXIT_OK;
         } else if (!strcmp(argv[i], "--page")) {
             page = 1;
-        } else if ((!strcmp(argv[i], "-o") || !strcmp(argv[i], "--output")) &&
-                   i + 1 < argc) {
-            out = argv[++i];
+        } else if ((m = cli_option("init", argc, argv, &i, "--output", "-o", &out))) {
+            if (m < 0)
+                return EXIT_USAGE;
         } else {
-            fprintf(stderr, "unitgram init: unexpected argument '%s'\n", argv[i]);
-            help(stderr);
-            return EXIT_USAGE;
+            return cli_usage("init", "unexpected argument '%s'", argv[i]);
         }
     }
     FILE *existing = strcmp(out, "-") ? fopen(out, "r") : NULL;

@@ -16,12 +16,12 @@ static void help(FILE *to)
             "\n"
             "Print how the chart's counts become whole icons: per category the\n"
             "count, the exact quota, the icons drawn, the value they show and the\n"
-            "difference from the count.\n"
+            "difference from the count. LAYOUT '-' reads standard input.\n"
             "\n"
-            "  --format FORMAT  text (default), csv or json\n"
-            "  -h, --help       show this help\n"
-            "\n"
-            "exit codes: 0 success, 1 bad input, 2 usage\n");
+            "options:\n"
+            "  --format FORMAT       text (default), csv or json\n"
+            "  -h, --help            show this help\n"
+            "\n" CLI_EXIT_CODES);
 }
 
 static int parse_format(const char *s, ug_report_format *fmt)
@@ -39,9 +39,7 @@ static int parse_format(const char *s, ug_report_format *fmt)
 
 static int usage_error(const char *msg, const char *arg)
 {
-    fprintf(stderr, "unitgram tally: %s%s%s\n", msg, arg ? " " : "", arg ? arg : "");
-    fprintf(stderr, "usage: unitgram tally LAYOUT [--format text|csv|json]\n");
-    return EXIT_USAGE;
+    return cli_usage("tally", "%s%s%s", msg, arg ? " " : "", arg ? arg : "");
 }
 
 static int run(const char *layout, ug_report_format fmt)
@@ -52,8 +50,9 @@ static int run(const char *layout, ug_report_format fmt)
     char *report = NULL;
     size_t len = 0;
     int rc = EXIT_OK;
-    if (ug_chart_load(layout, NULL, &chart, &err) ||
-        ug_chart_allocate(chart, &alloc, &err) ||
+    if ((rc = cli_load_chart(layout, &chart)))
+        return rc;
+    if (ug_chart_allocate(chart, &alloc, &err) ||
         ug_allocation_report(alloc, fmt, &report, &len, &err)) {
         cli_report_error(&err);
         rc = cli_exit_for(&err);

@@ -38,6 +38,7 @@
 #include <unistd.h>
 
 #include "glyph.h"
+#include "svg.h"
 
 #define SVG_NS "http://www.w3.org/2000/svg"
 
@@ -191,20 +192,6 @@ static int kept_kind(const char *name)
     return -1;
 }
 
-static void escape_attr(ug_buf *b, const char *v)
-{
-    for (; *v; v++) {
-        if (*v == '&')
-            ug_buf_puts(b, "&amp;");
-        else if (*v == '<')
-            ug_buf_puts(b, "&lt;");
-        else if (*v == '"')
-            ug_buf_puts(b, "&quot;");
-        else
-            ug_buf_add(b, v, 1);
-    }
-}
-
 /* ---- rebuilding the drawing ----------------------------------------------- */
 
 typedef struct {
@@ -286,7 +273,7 @@ static void copy_attributes(rebuild *r, xmlNode *n)
         int kind = a->ns ? -1 : kept_kind((const char *)a->name);
         if (kind >= 0 && value_ok(v, (value_kind)kind)) {
             ug_buf_printf(r->b, " %s=\"", (const char *)a->name);
-            escape_attr(r->b, v);
+            svg_escape(r->b, v);
             ug_buf_puts(r->b, "\"");
         } else {
             note_attribute(r, a, v);

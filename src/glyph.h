@@ -39,8 +39,8 @@ typedef struct {
 /* The inked-area band the library is drawn to (the artist's, stated in
 ** tests/suite_glyph_art.sh), so glyphs side by side look about as heavy;
 ** a user glyph outside it is not an error. */
-#define GLYPH_BAND_LOW 0.22
-#define GLYPH_BAND_HIGH 0.55
+#define GLYPH_BAND_LOW 0.25
+#define GLYPH_BAND_HIGH 0.50
 #define GLYPH_INK_SIZE 64 /* pixels per side of the inked-area rendering */
 #define GLYPH_MAX_BYTES (1u << 20)
 #define GLYPH_MAX_DEPTH 32

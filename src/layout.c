@@ -16,6 +16,8 @@
 #include <yaml.h>
 
 #include "colorparse.h"
+#include "audit.h"
+#include "color.h"
 #include "layout.h"
 
 /* A list or mapping longer than this is refused while parsing, before any
@@ -806,10 +808,23 @@ static const key_rule suppress_keys[] = {
     {.name = NULL},
 };
 
+/* `small-count`: a number, or the name of a published agency rule (audit.h). */
+static ug_status key_small_count(loader *l, void *base, const layout_node *v)
+{
+    ug_chart *c = base;
+    if (v->kind == LAYOUT_SCALAR && audit_small_count_preset(v->text))
+        return read_text(l, v, false, &c->audit.small_count_preset);
+    if (v->kind == LAYOUT_SCALAR && ug_dec_parse(v->text, v->len, &c->audit.small_count))
+        return ug_fail(l->err, UG_ESCHEMA, v->mark,
+                       "'small-count' expects a number or one of cms, cdc-wonder, "
+                       "nhs-hes (found '%s')", v->text);
+    return read_dec(l, v, &c->audit.small_count);
+}
+
 static const key_rule audit_keys[] = {
     {.name = "rounding-tolerance", .kind = K_FN, .fn = key_tolerance,
      .flag = CH(audit.has_tolerance)},
-    {.name = "small-count", .kind = K_DEC, .off = CH(audit.small_count),
+    {.name = "small-count", .kind = K_FN, .fn = key_small_count,
      .flag = CH(audit.has_small_count)},
     {.name = "ignore", .kind = K_LIST, .off = CH(audit.ignore)},
     {.name = NULL},
@@ -881,35 +896,30 @@ static const key_rule chart_keys[] = {
 
 /* ---- chart checks after the walk ---------------------------------------- */
 
-/* Okabe & Ito, "Color Universal Design" (black left out: it is the ink);
-** Paul Tol, "Colour Schemes" SRON/EPS/TN/09-002, bright and muted. */
-static const unsigned long okabe_ito[] = {0xE69F00, 0x56B4E9, 0x009E73, 0xF0E442,
-                                          0x0072B2, 0xD55E00, 0xCC79A7};
-static const unsigned long tol_bright[] = {0x4477AA, 0xEE6677, 0x228833, 0xCCBB44,
-                                           0x66CCEE, 0xAA3377, 0xBBBBBB};
-static const unsigned long tol_muted[] = {0xCC6677, 0x332288, 0xDDCC77,
-                                          0x117733, 0x88CCEE, 0x882255,
-                                          0x44AA99, 0x999933, 0xAA4499};
-
-/* Categories without a colour take the palette in order, wrapping around. */
+/* Categories without a colour take the palette (src/color.c) in order,
+** wrapping around — but the colours that reach the 3:1 non-text contrast of
+** WCAG 2.1 SC 1.4.11 against this chart's background come first, so a chart
+** that names no colours passes the audit's contrast rule as far as its palette
+** allows (Okabe-Ito on white: green, blue, vermillion, purple, then the rest). */
 static void assign_colors(ug_chart *c)
 {
-    const unsigned long *pal = okabe_ito;
-    size_t n = sizeof okabe_ito / sizeof okabe_ito[0], next = 0;
-    if (c->style.palette == UG_PALETTE_TOL_BRIGHT)
-        pal = tol_bright, n = sizeof tol_bright / sizeof tol_bright[0];
-    else if (c->style.palette == UG_PALETTE_TOL_MUTED)
-        pal = tol_muted, n = sizeof tol_muted / sizeof tol_muted[0];
-    for (size_t i = 0; i < c->ncats; i++) {
-        ug_color *col = &c->cats[i].color;
+    size_t n = color_palette_size(c->style.palette), next = 0;
+    ug_color order[16];
+    for (int pass = 0; pass < 2; pass++)
+        for (size_t k = 0; k < n && k < 16; k++) {
+            ug_color col = color_palette_at(c->style.palette, k);
+            bool passes = color_contrast_passes(
+                color_contrast(col, c->style.background), COLOR_WCAG_NON_TEXT);
+            if (passes == (pass == 0))
+                order[next++] = col;
+        }
+    for (size_t i = 0, used = 0; i < c->ncats; i++) {
         if (c->cats[i].color_given)
             continue;
-        unsigned long v = pal[next++ % n];
-        col->r = (unsigned char)(v >> 16);
-        col->g = (unsigned char)(v >> 8 & 0xFF);
-        col->b = (unsigned char)(v & 0xFF);
-        col->set = true;
-        col->mark = c->cats[i].mark;
+        ug_color col = order[used++ % next];
+        col.set = true;
+        col.mark = c->cats[i].mark;
+        c->cats[i].color = col;
     }
 }
 

@@ -28,9 +28,8 @@ static void usage(FILE *to)
     for (size_t i = 0; i < sizeof commands / sizeof commands[0]; i++)
         fprintf(to, "  %-10s %s\n", commands[i].name, commands[i].summary);
     fprintf(to, "  %-10s %s\n", "help", "show help for a command");
-    fprintf(to, "\n'unitgram COMMAND --help' shows a command's options.\n"
-                "exit codes: 0 success, 1 bad input, 2 usage, 3 audit failure "
-                "under --strict, 4 output could not be written\n");
+    fprintf(to, "\n'unitgram help COMMAND' (or 'unitgram COMMAND --help') shows a "
+                "command's options;\n'unitgram --version' the version.\n\n" CLI_EXIT_CODES);
 }
 
 static const command *find(const char *name)

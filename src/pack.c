@@ -19,6 +19,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "glyph_cache.h"
 #include "pack.h"
 #include "text.h"
 
@@ -38,6 +39,7 @@ typedef struct {
     const ug_allocation *a;
     ug_scene *s;
     ug_error *err;
+    const ug_pack_options *opt; /* never NULL */
     ug_status st; /* first failure; later placing is skipped */
     size_t cap_icons, cap_texts, cap_holders, cap_rects, cap_swatches;
     double size, gap, pitch, left, right;
@@ -597,10 +599,11 @@ static size_t glyph_index(packer *p, size_t i)
     for (size_t k = 0; k < s->nglyphs; k++)
         if (strcmp(s->glyphs[k]->name, ref) == 0)
             return k;
-    glyph_search search = {NULL, 0, p->c->dir};
+    glyph_search search = {p->opt->glyph_dirs, p->opt->nglyph_dirs, p->c->dir};
     ug_glyph *g = NULL;
     ug_mark where = cat->glyph.text ? cat->glyph.mark : cat->mark;
-    if ((p->st = glyph_load(ref, &search, where, &g, p->err)))
+    if ((p->st = glyph_cache_load(p->opt->glyph_cache, ref, &search, where, &g,
+                                  p->err)))
         return 0;
     s->glyphs[s->nglyphs] = g;
     return s->nglyphs++;
@@ -706,12 +709,21 @@ static void set_desc(packer *p)
 ug_status ug_scene_pack(const ug_chart *c, const ug_allocation *a, ug_scene **out,
                         ug_error *err)
 {
+    return ug_scene_pack_with(c, a, NULL, out, err);
+}
+
+ug_status ug_scene_pack_with(const ug_chart *c, const ug_allocation *a,
+                             const ug_pack_options *opt, ug_scene **out,
+                             ug_error *err)
+{
+    static const ug_pack_options defaults = {NULL, 0, NULL};
     *out = NULL;
     packer p;
     memset(&p, 0, sizeof p);
     p.c = c;
     p.a = a;
     p.err = err;
+    p.opt = opt ? opt : &defaults;
     if (!(p.s = ug_calloc(1, sizeof *p.s)))
         return ug_fail(err, UG_ENOMEM, ug_mark_file(c->path), "out of memory");
     setup(&p);

@@ -163,21 +163,6 @@ static void csv_field(ug_buf *b, const char *s)
     ug_buf_puts(b, "\"");
 }
 
-static void json_string(ug_buf *b, const char *s)
-{
-    ug_buf_puts(b, "\"");
-    for (; *s; s++) {
-        unsigned char ch = (unsigned char)*s;
-        if (ch == '"' || ch == '\\')
-            ug_buf_printf(b, "\\%c", ch);
-        else if (ch < 0x20)
-            ug_buf_printf(b, "\\u%04x", ch);
-        else
-            ug_buf_add(b, s, 1);
-    }
-    ug_buf_puts(b, "\"");
-}
-
 static const char *or_empty(const char *s) { return s ? s : ""; }
 
 static const char *group_name(const ug_chart *c, size_t g)
@@ -258,9 +243,9 @@ static void report_json(const ug_allocation *a, ug_buf *b)
             row_text t;
             describe_share(alloc_at(a, g, i), &t);
             ug_buf_puts(b, "  {\"group\": ");
-            json_string(b, group_name(c, g));
+            ug_buf_json_string(b, group_name(c, g));
             ug_buf_puts(b, ", \"category\": ");
-            json_string(b, or_empty(c->cats[i].label.text));
+            ug_buf_json_string(b, or_empty(c->cats[i].label.text));
             ug_buf_printf(b,
                           ", \"count\": %s, \"quota\": %s, \"icons\": %s, "
                           "\"shown\": %s, \"difference\": %s}%s\n",

@@ -5,18 +5,24 @@ _unitgram()
     cur=${COMP_WORDS[COMP_CWORD]}
     prev=${COMP_WORDS[COMP_CWORD-1]}
     cmd=${COMP_WORDS[1]}
+    if [ "$COMP_CWORD" -eq 2 ] && [ "$cmd" = help ]; then
+        COMPREPLY=($(compgen -W "draw tally audit describe glyphs init" -- "$cur"))
+        return
+    fi
     if [ "$COMP_CWORD" -eq 1 ]; then
         COMPREPLY=($(compgen -W "draw tally audit describe glyphs init help --help --version" -- "$cur"))
         return
     fi
     case $prev in
-        -o|--output|--each-row|--sheet)
+        --watch-limit|--watch-timeout)
+            return ;;
+        -o|--output|--each-row|--sheet|--check)
             COMPREPLY=($(compgen -f -- "$cur")); return ;;
         --glyph-dir)
             COMPREPLY=($(compgen -d -- "$cur")); return ;;
         --format)
             case $cmd in
-                draw) COMPREPLY=($(compgen -W "svg png pdf html" -- "$cur")) ;;
+                draw) COMPREPLY=($(compgen -W "svg" -- "$cur")) ;;
                 *) COMPREPLY=($(compgen -W "text csv json" -- "$cur")) ;;
             esac
             return ;;
@@ -24,11 +30,12 @@ _unitgram()
     case $cur in
         -*)
             case $cmd in
-                draw) COMPREPLY=($(compgen -W "-o --output --format --dpi --scale --each-row --watch --glyph-dir --max-icons --strict --help" -- "$cur")) ;;
-                tally) COMPREPLY=($(compgen -W "--format --max-icons --help" -- "$cur")) ;;
-                audit) COMPREPLY=($(compgen -W "--strict --format --help" -- "$cur")) ;;
-                glyphs) COMPREPLY=($(compgen -W "--sheet --glyph-dir --help" -- "$cur")) ;;
-                init) COMPREPLY=($(compgen -W "--page -o --help" -- "$cur")) ;;
+                draw) COMPREPLY=($(compgen -W "-o --output --format --glyph-dir --each-row --quiet --watch --watch-limit --watch-timeout --help" -- "$cur")) ;;
+                tally) COMPREPLY=($(compgen -W "--format --help" -- "$cur")) ;;
+                audit) COMPREPLY=($(compgen -W "--strict --help" -- "$cur")) ;;
+                describe) COMPREPLY=($(compgen -W "--help" -- "$cur")) ;;
+                glyphs) COMPREPLY=($(compgen -W "--sheet --check --glyph-dir --help" -- "$cur")) ;;
+                init) COMPREPLY=($(compgen -W "--page -o --output --help" -- "$cur")) ;;
                 *) COMPREPLY=($(compgen -W "--help" -- "$cur")) ;;
             esac ;;
         *)

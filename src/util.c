@@ -236,6 +236,21 @@ void ug_buf_printf(ug_buf *b, const char *fmt, ...)
     b->len += (size_t)n;
 }
 
+void ug_buf_json_string(ug_buf *b, const char *s)
+{
+    ug_buf_puts(b, "\"");
+    for (; *s; s++) {
+        unsigned char ch = (unsigned char)*s;
+        if (ch == '"' || ch == '\\')
+            ug_buf_printf(b, "\\%c", ch);
+        else if (ch < 0x20)
+            ug_buf_printf(b, "\\u%04x", ch);
+        else
+            ug_buf_add(b, s, 1);
+    }
+    ug_buf_puts(b, "\"");
+}
+
 ug_status ug_buf_take(ug_buf *b, char **out, size_t *len, ug_error *err)
 {
     *out = NULL;
@@ -281,6 +296,12 @@ static ug_status write_stdout(const void *data, size_t len, ug_error *err)
 ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
                                ug_error *err)
 {
+    return ug_write_file_atomic_sync(path, data, len, true, err);
+}
+
+ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t len,
+                                    int sync, ug_error *err)
+{
     if (strcmp(path, "-") == 0)
         return write_stdout(data, len, err);
     size_t n = strlen(path);
@@ -296,7 +317,7 @@ ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
         return UG_EIO;
     }
     int saved = 0;
-    bool ok = write_all(fd, data, len) == UG_OK && fsync(fd) == 0;
+    bool ok = write_all(fd, data, len) == UG_OK && (!sync || fsync(fd) == 0);
     if (!ok)
         saved = errno;
     /* mkstemp creates 0600; a chart is a document meant to be shared. */

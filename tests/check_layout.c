@@ -189,8 +189,10 @@ START_TEST(test_defaults)
     ck_assert(!c->audit.has_tolerance);
     assert_dec(c->audit.tolerance_percent, "10");
     assert_dec(c->audit.small_count, "10");
-    ck_assert_uint_eq(rgb_of(&c->cats[0].color), 0xE69F00);
-    ck_assert_uint_eq(rgb_of(&c->cats[1].color), 0x56B4E9);
+    /* Okabe-Ito colours reaching 3:1 on white (WCAG 2.1 SC 1.4.11) come
+    ** first: bluish green 3.42:1, then blue 5.19:1; orange (2.25:1) later. */
+    ck_assert_uint_eq(rgb_of(&c->cats[0].color), 0x009E73);
+    ck_assert_uint_eq(rgb_of(&c->cats[1].color), 0x0072B2);
     ck_assert_uint_eq(c->limits.max_file_bytes, UG_DEFAULT_MAX_FILE);
     ck_assert_uint_eq(c->limits.max_icons, UG_DEFAULT_MAX_ICONS);
     ug_chart_free(c);
@@ -253,6 +255,23 @@ START_TEST(test_strings)
         ck_assert_uint_eq(err.where.column, t->column);
     }
     ck_assert_msg(strstr(err.msg, t->msg), "case %d: '%s'", _i, err.msg);
+}
+END_TEST
+
+/* `audit: small-count` takes a number or an agency preset name (REFERENCES.md
+** §7: CMS cell size suppression policy, CDC WONDER, NHS Digital HES). */
+START_TEST(test_small_count_preset)
+{
+    static const char text[] = "title: t\nform: rows\nicon-value: 1\n"
+                               "audit: {small-count: cdc-wonder}\n"
+                               "categories: [{label: A, count: 3}]\n";
+    ug_error err = {0};
+    ug_chart *c = NULL;
+    ck_assert_int_eq(ug_chart_load_string(text, strlen(text), "mem.yaml", NULL, &c, &err),
+                     UG_OK);
+    ck_assert_str_eq(c->audit.small_count_preset.text, "cdc-wonder");
+    ck_assert_uint_eq(c->audit.small_count_preset.mark.line, 4);
+    ug_chart_free(c);
 }
 END_TEST
 
@@ -432,6 +451,7 @@ static Suite *suite(void)
     tcase_add_test(t, test_full_chart);
     tcase_add_test(t, test_defaults);
     tcase_add_loop_test(t, test_strings, 0, sizeof strings / sizeof strings[0]);
+    tcase_add_test(t, test_small_count_preset);
     tcase_add_test(t, test_file_size_limit);
     tcase_add_test(t, test_alias_bomb);
     tcase_add_test(t, test_page);

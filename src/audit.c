@@ -1,0 +1,807 @@
+/*
+** Audit stage: a chart and its allocation -> findings a reader of the
+** picture would want fixed before it is published.
+**
+** Each rule has a stable name of our own, a severity, the place in the layout
+** it is about, a plain message and, where one can be computed, a fix:
+**   honesty        vanished-category (a positive count drawn as no icon),
+**                  rounding-difference (shown value off by more than
+**                  audit.rounding-tolerance, default 10 %), total-mismatch;
+**   privacy        small-count (positive counts under audit.small-count,
+**                  default 10, or an agency preset), derivable-suppression
+**                  (one suppressed cell in a group whose total is shown);
+**   accessibility  low-contrast-icon (WCAG 2.1 SC 1.4.11, 3:1),
+**                  low-contrast-text (SC 1.4.3, 4.5:1), confusable-colors,
+**                  too-many-categories, missing-title / -source / -unit-label.
+** Errors are what makes the picture wrong (an icon missing, a total that
+** does not add up, a suppressed cell that can be worked out); the rest are
+** warnings.
+**
+** Confusable colours: two categories are confusable when their CIEDE2000
+** difference is under AUDIT_MIN_DELTA_E (8) for normal vision or any of the
+** three simulated dichromacies. No published threshold exists for telling
+** categorical colours apart after simulation; 8 is unitgram's own choice,
+** set so that the three published CVD-safe palettes (Okabe-Ito, Tol bright,
+** Tol muted) pass in full, their closest pair being about 8.7.
+*/
+#include <math.h>
+#include <stdarg.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "alloc.h"
+#include "audit.h"
+#include "glyph.h"
+#include "color.h"
+
+struct ug_findings {
+    ug_finding *items;
+    size_t n, cap;
+};
+
+typedef struct {
+    const ug_chart *c;
+    const ug_allocation *a;
+    ug_findings *f;
+    ug_error *err;
+} audit_ctx;
+
+static const char *const rule_names[] = {
+    "vanished-category", "rounding-difference", "total-mismatch",
+    "small-count", "derivable-suppression", "low-contrast-icon",
+    "low-contrast-text", "confusable-colors", "too-many-categories",
+    "missing-title", "missing-source", "missing-unit-label", "glyph-weight",
+};
+
+/* REFERENCES.md §7. */
+static const audit_small_preset presets[] = {
+    {"cms", 11, false, "CMS cell size suppression policy: cells of 1 to 10"},
+    {"cdc-wonder", 10, true, "CDC WONDER: sub-national counts of 0 to 9"},
+    {"nhs-hes", 8, false, "NHS Digital HES disclosure control: counts of 1 to 7"},
+};
+
+#define COUNT(a) (sizeof(a) / sizeof((a)[0]))
+
+const audit_small_preset *audit_small_count_preset(const char *name)
+{
+    for (size_t i = 0; name && i < COUNT(presets); i++)
+        if (!strcmp(presets[i].name, name))
+            return &presets[i];
+    return NULL;
+}
+
+bool audit_rule_known(const char *name)
+{
+    for (size_t i = 0; name && i < COUNT(rule_names); i++)
+        if (!strcmp(rule_names[i], name))
+            return true;
+    return false;
+}
+
+const char *ug_severity_name(ug_severity s)
+{
+    return s == UG_SEVERITY_ERROR ? "error" : s == UG_SEVERITY_WARNING ? "warning" : "note";
+}
+
+/* ---- the findings list --------------------------------------------------- */
+
+static bool ignored(const ug_chart *c, const char *rule)
+{
+    for (size_t i = 0; i < c->audit.ignore.n; i++)
+        if (c->audit.ignore.items[i].text &&
+            !strcmp(c->audit.ignore.items[i].text, rule))
+            return true;
+    return false;
+}
+
+static ug_status oom(audit_ctx *x)
+{
+    return ug_fail(x->err, UG_ENOMEM, ug_mark_file(x->c->path), "out of memory");
+}
+
+/* Add a finding unless the layout ignores its rule. fix may be NULL. */
+static ug_status add(audit_ctx *x, const char *rule, ug_severity sev, ug_mark where,
+                     const char *fix, const char *fmt, ...) UG_PRINTF(6, 7);
+
+static ug_status add(audit_ctx *x, const char *rule, ug_severity sev, ug_mark where,
+                     const char *fix, const char *fmt, ...)
+{
+    if (ignored(x->c, rule))
+        return UG_OK;
+    ug_findings *f = x->f;
+    if (f->n == f->cap) {
+        size_t cap = f->cap ? 2 * f->cap : 8;
+        ug_finding *items = ug_realloc(f->items, cap * sizeof *items);
+        if (!items)
+            return oom(x);
+        f->items = items;
+        f->cap = cap;
+    }
+    char msg[1024];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    va_end(ap);
+    const char *file = where.file ? where.file : x->c->path;
+    ug_finding *it = &f->items[f->n];
+    *it = (ug_finding){rule, sev, where, ug_strdup(msg), fix ? ug_strdup(fix) : NULL};
+    it->where.file = file ? ug_strdup(file) : NULL;
+    f->n++; /* counted before checking, so ug_findings_free releases partial copies */
+    if (!it->message || (fix && !it->fix) || (file && !it->where.file))
+        return oom(x);
+    return UG_OK;
+}
+
+void ug_findings_free(ug_findings *f)
+{
+    if (!f)
+        return;
+    for (size_t i = 0; i < f->n; i++) {
+        ug_free((char *)f->items[i].message);
+        ug_free((char *)f->items[i].fix);
+        ug_free((char *)f->items[i].where.file);
+    }
+    ug_free(f->items);
+    ug_free(f);
+}
+
+size_t ug_findings_count(const ug_findings *f)
+{
+    return f ? f->n : 0;
+}
+
+size_t ug_findings_count_severity(const ug_findings *f, ug_severity at_least)
+{
+    size_t n = 0;
+    for (size_t i = 0; f && i < f->n; i++)
+        n += f->items[i].severity >= at_least;
+    return n;
+}
+
+const ug_finding *ug_findings_at(const ug_findings *f, size_t i)
+{
+    return f && i < f->n ? &f->items[i] : NULL;
+}
+
+/* ---- naming things in messages ------------------------------------------ */
+
+static const char *cat_name(const ug_chart *c, size_t i)
+{
+    return c->cats[i].label.text ? c->cats[i].label.text : c->cats[i].id;
+}
+
+static const char *unit(const ug_chart *c)
+{
+    return c->unit_label.text ? c->unit_label.text : "counted";
+}
+
+/* " in North ward" for grouped charts, "" otherwise. */
+static const char *in_group(const ug_chart *c, size_t g, char *buf, size_t n)
+{
+    if (!c->groups.n)
+        return "";
+    snprintf(buf, n, " in %s", c->groups.items[g].text ? c->groups.items[g].text : "?");
+    return buf;
+}
+
+static ug_mark count_mark(const ug_chart *c, size_t i, size_t g)
+{
+    return c->cats[i].count_marks ? c->cats[i].count_marks[g] : c->cats[i].mark;
+}
+
+static ug_mark file_start(const ug_chart *c)
+{
+    return (ug_mark){c->path, 1, 1};
+}
+
+/* ---- missing title, source, unit label ---------------------------------- */
+
+static ug_status check_labels(audit_ctx *x)
+{
+    const ug_chart *c = x->c;
+    ug_status st = UG_OK;
+    if (!c->title.text)
+        st = add(x, "missing-title", UG_SEVERITY_WARNING, file_start(c),
+                 "title: <what the chart shows, where and when>",
+                 "the chart has no title; a reader cannot tell what is counted");
+    if (!st && !c->source.n)
+        st = add(x, "missing-source", UG_SEVERITY_WARNING, file_start(c),
+                 "source: <who counted, and when>",
+                 "the chart names no source for its counts");
+    if (!st && !c->unit_label.text)
+        st = add(x, "missing-unit-label", UG_SEVERITY_WARNING, file_start(c),
+                 "unit-label: <what one icon counts, e.g. households>",
+                 "the chart does not say what is counted, so its key cannot say "
+                 "what one icon stands for");
+    return st;
+}
+
+/* ---- stated total --------------------------------------------------------- */
+
+static ug_dec chart_sum(const ug_chart *c)
+{
+    ug_dec sum = {0};
+    for (size_t i = 0; i < c->ncats; i++)
+        sum.v += alloc_sum(c->cats[i].counts, chart_ngroups(c)).v;
+    return sum;
+}
+
+static ug_status check_total(audit_ctx *x)
+{
+    const ug_chart *c = x->c;
+    if (!c->has_total)
+        return UG_OK;
+    ug_dec sum = chart_sum(c);
+    if (sum.v == c->total.v)
+        return UG_OK;
+    char t[48], s[48], fix[128];
+    ug_dec_format(c->total, t);
+    ug_dec_format(sum, s);
+    snprintf(fix, sizeof fix, "total: %s (or correct the counts)", s);
+    return add(x, "total-mismatch", UG_SEVERITY_ERROR, c->total_mark, fix,
+               "the stated total is %s but the counts add up to %s", t, s);
+}
+
+/* ---- vanished categories and rounding differences ------------------------ */
+
+static bool suppressed(const ug_chart *c, ug_dec count)
+{
+    return c->has_suppress && count.v > 0 && count.v < c->suppress_below.v;
+}
+
+static ug_dec tolerance(const ug_chart *c)
+{
+    if (c->audit.has_tolerance)
+        return c->audit.tolerance_percent;
+    return (ug_dec){AUDIT_TOLERANCE_PERCENT * UG_DEC_SCALE};
+}
+
+typedef enum { SHARE_OK, SHARE_VANISHED, SHARE_ROUNDED } share_verdict;
+
+/* |shown - count| > tolerance% of count, in exact integers: the difference
+** is diff / (shown_den * 10^6) and the tolerance tol.v / 10^6 percent. */
+static share_verdict judge(const ug_chart *c, const alloc_share *s)
+{
+    if (s->count.v == 0 || suppressed(c, s->count))
+        return SHARE_OK;
+    if (s->icons == 0 && !s->partial)
+        return SHARE_VANISHED;
+    ug_i128 diff = s->shown_num - s->count.v * s->shown_den;
+    if (diff < 0)
+        diff = -diff;
+    if (diff * 100 * UG_DEC_SCALE > tolerance(c).v * s->count.v * s->shown_den)
+        return SHARE_ROUNDED;
+    return SHARE_OK;
+}
+
+/* Would every group pass under this rule? Rules needing more icons than the
+** chart's limit do not count as passing. */
+static bool rule_passes(const ug_chart *c, const alloc_rule *r, alloc_share *tmp)
+{
+    ug_dec *column = ug_malloc((c->ncats ? c->ncats : 1) * sizeof *column);
+    bool ok = column != NULL;
+    for (size_t g = 0; ok && g < chart_ngroups(c); g++) {
+        for (size_t i = 0; i < c->ncats; i++)
+            column[i] = c->cats[i].counts[g];
+        long n;
+        ug_error scratch = {0};
+        ok = alloc_apportion(column, c->ncats, r, tmp, &n, ug_mark_file(NULL),
+                             &scratch) == UG_OK;
+        for (size_t i = 0; ok && i < c->ncats; i++)
+            ok = judge(c, &tmp[i]) == SHARE_OK;
+    }
+    ug_free(column);
+    return ok;
+}
+
+static ug_dec largest_count(const ug_chart *c)
+{
+    ug_dec m = {0};
+    for (size_t i = 0; i < c->ncats; i++)
+        for (size_t g = 0; g < chart_ngroups(c); g++)
+            if (c->cats[i].counts[g].v > m.v)
+                m = c->cats[i].counts[g];
+    return m;
+}
+
+static long icon_limit(const ug_chart *c)
+{
+    return c->limits.max_icons ? (long)c->limits.max_icons : UG_DEFAULT_MAX_ICONS;
+}
+
+/* Whether some group would need more icons than the limit at value v. */
+static bool too_many_icons(const ug_chart *c, ug_dec v)
+{
+    for (size_t g = 0; g < chart_ngroups(c); g++) {
+        ug_dec total = {0};
+        for (size_t i = 0; i < c->ncats; i++)
+            total.v += c->cats[i].counts[g].v;
+        if (alloc_icons_for_value(total, v) > icon_limit(c))
+            return true;
+    }
+    return false;
+}
+
+/* The largest nice icon value (1, 2, 2.5, 5 x 10^k) under which every
+** category stays visible and within the tolerance. */
+static bool best_value(const ug_chart *c, const alloc_rule *base, alloc_share *tmp,
+                       ug_dec *out)
+{
+    alloc_rule r = *base;
+    r.partial = false;
+    r.max_icons = icon_limit(c);
+    ug_dec top = largest_count(c), v = {0};
+    bool found = false;
+    for (;;) {
+        ug_dec next = alloc_next_nice(v);
+        if (next.v == v.v || next.v > top.v)
+            break;
+        v = r.value = next;
+        if (!too_many_icons(c, v) && rule_passes(c, &r, tmp)) {
+            *out = v;
+            found = true;
+        }
+    }
+    return found;
+}
+
+/* Waffles by cells: the fewest nice cell counts above the present one. */
+static bool best_cells(const ug_chart *c, const alloc_rule *base, alloc_share *tmp,
+                       long *out)
+{
+    alloc_rule r = *base;
+    ug_dec v = {(ug_i128)base->cells * UG_DEC_SCALE};
+    for (;;) {
+        v = alloc_next_nice(v);
+        if (v.v / UG_DEC_SCALE > icon_limit(c))
+            return false;
+        r.cells = (long)(v.v / UG_DEC_SCALE);
+        if (rule_passes(c, &r, tmp)) {
+            *out = r.cells;
+            return true;
+        }
+    }
+}
+
+static ug_status rounding_fix(audit_ctx *x, char *fix, size_t n)
+{
+    const ug_chart *c = x->c;
+    alloc_share *tmp = ug_calloc(c->ncats ? c->ncats : 1, sizeof *tmp);
+    if (!tmp)
+        return oom(x);
+    char t[48], v[48];
+    ug_dec_format(tolerance(c), t);
+    ug_dec value;
+    long cells;
+    if (x->a->rule.by_cells && best_cells(c, &x->a->rule, tmp, &cells))
+        snprintf(fix, n, "cells: %ld keeps every category visible and within %s %%",
+                 cells, t);
+    else if (!x->a->rule.by_cells && best_value(c, &x->a->rule, tmp, &value))
+        snprintf(fix, n, "icon-value: %s keeps every category visible and within %s %%",
+                 ug_dec_format(value, v), t);
+    else if (c->form == UG_FORM_ROWS)
+        snprintf(fix, n, "rounding: partial");
+    else
+        snprintf(fix, n, "form: rows with rounding: partial");
+    ug_free(tmp);
+    return UG_OK;
+}
+
+static ug_status report_share(audit_ctx *x, size_t i, size_t g, share_verdict v,
+                              const char *fix)
+{
+    const ug_chart *c = x->c;
+    const alloc_share *s = alloc_at(x->a, g, i);
+    char cnt[48], shown[64], buf[256];
+    ug_dec_format(s->count, cnt);
+    ug_ratio_format(s->shown_num, s->shown_den * UG_DEC_SCALE, 2, shown);
+    const char *grp = in_group(c, g, buf, sizeof buf);
+    if (v == SHARE_VANISHED)
+        return add(x, "vanished-category", UG_SEVERITY_ERROR, count_mark(c, i, g), fix,
+                   "'%s'%s has %s %s but gets no icon, so it disappears from the "
+                   "picture", cat_name(c, i), grp, cnt, unit(c));
+    char tol[48];
+    return add(x, "rounding-difference", UG_SEVERITY_WARNING, count_mark(c, i, g), fix,
+               "'%s'%s has %s %s but its icons show %s, more than %s %% off",
+               cat_name(c, i), grp, cnt, unit(c), shown,
+               ug_dec_format(tolerance(c), tol));
+}
+
+static ug_status check_rounding(audit_ctx *x)
+{
+    char fix[256] = "";
+    ug_status st = UG_OK;
+    for (size_t g = 0; !st && g < x->a->ngroups; g++)
+        for (size_t i = 0; !st && i < x->a->ncats; i++) {
+            share_verdict v = judge(x->c, alloc_at(x->a, g, i));
+            if (v == SHARE_OK)
+                continue;
+            if (!fix[0] && (st = rounding_fix(x, fix, sizeof fix)))
+                break;
+            st = report_share(x, i, g, v, fix);
+        }
+    return st;
+}
+
+/* ---- small counts and derivable suppression ------------------------------ */
+
+static ug_status check_small(audit_ctx *x)
+{
+    const ug_chart *c = x->c;
+    const audit_small_preset *p = audit_small_count_preset(c->audit.small_count_preset.text);
+    ug_dec below = {AUDIT_SMALL_COUNT * UG_DEC_SCALE};
+    if (p)
+        below.v = p->below * UG_DEC_SCALE;
+    else if (c->audit.has_small_count)
+        below = c->audit.small_count;
+    char b[48], cnt[48], grp[256], fix[128], rule[160];
+    ug_dec_format(below, b);
+    snprintf(fix, sizeof fix, "suppress: {below: %s}", b);
+    snprintf(rule, sizeof rule, "%s", p ? p->rule : "");
+    ug_status st = UG_OK;
+    for (size_t i = 0; !st && i < c->ncats; i++)
+        for (size_t g = 0; !st && g < chart_ngroups(c); g++) {
+            ug_dec v = c->cats[i].counts[g];
+            bool zero_ok = !(p && p->zero_too);
+            if ((v.v == 0 && zero_ok) || v.v >= below.v || suppressed(c, v))
+                continue;
+            st = add(x, "small-count", UG_SEVERITY_WARNING, count_mark(c, i, g), fix,
+                     "'%s'%s is %s %s, under %s%s%s: so few can identify people",
+                     cat_name(c, i), in_group(c, g, grp, sizeof grp),
+                     ug_dec_format(v, cnt), unit(c), b, p ? "; " : "", rule);
+        }
+    return st;
+}
+
+/* The smallest shown (unsuppressed, positive) count in group g other than
+** category skip; SIZE_MAX when there is none. */
+static size_t next_smallest(const ug_chart *c, size_t g, size_t skip)
+{
+    size_t best = SIZE_MAX;
+    for (size_t i = 0; i < c->ncats; i++) {
+        ug_dec v = c->cats[i].counts[g];
+        if (i == skip || v.v == 0 || suppressed(c, v))
+            continue;
+        if (best == SIZE_MAX || v.v < c->cats[best].counts[g].v)
+            best = i;
+    }
+    return best;
+}
+
+/* The picture never prints an exact sum that contains a hidden count (it says
+** "more than 62" instead, src/describe.c), but the other counts in the group
+** are exact: wherever the group's total is published elsewhere — a ward's
+** population, last quarter's report — total minus the shown counts gives the
+** hidden one away. Disclosure practice calls for a second, complementary
+** suppression (CMS cell size suppression policy: no cell of 1-10 may be
+** derivable from totals, REFERENCES.md §7). A warning, since only the author
+** knows whether such a total is out there. */
+static ug_status check_derivable(audit_ctx *x)
+{
+    const ug_chart *c = x->c;
+    if (!c->has_suppress || (!c->groups.n && !c->has_total))
+        return UG_OK;
+    ug_status st = UG_OK;
+    for (size_t g = 0; !st && g < chart_ngroups(c); g++) {
+        size_t n = 0, which = 0;
+        for (size_t i = 0; i < c->ncats; i++)
+            if (suppressed(c, c->cats[i].counts[g]))
+                n++, which = i;
+        if (n != 1)
+            continue;
+        size_t other = next_smallest(c, g, which);
+        char fix[512], grp[256];
+        if (other != SIZE_MAX)
+            snprintf(fix, sizeof fix, "also hide '%s'%s (the next smallest), or make "
+                     "sure the group's total is published nowhere", cat_name(c, other),
+                     in_group(c, g, grp, sizeof grp));
+        else
+            snprintf(fix, sizeof fix, "make sure the group's total is published nowhere");
+        st = add(x, "derivable-suppression", UG_SEVERITY_WARNING, count_mark(c, which, g),
+                 fix, "'%s'%s is the only hidden count there and the other counts "
+                 "are exact, so a total published anywhere else gives it away",
+                 cat_name(c, which), in_group(c, g, grp, sizeof grp));
+    }
+    return st;
+}
+
+/* ---- colours ------------------------------------------------------------- */
+
+static ug_color style_color(ug_color c, unsigned hex)
+{
+    return c.set ? c : color_rgb((hex >> 16) & 255, (hex >> 8) & 255, hex & 255);
+}
+
+/* The colour a category is drawn in: its own, or the palette's. */
+static ug_color cat_color(const ug_chart *c, size_t i)
+{
+    if (c->cats[i].color.set)
+        return c->cats[i].color;
+    return color_palette_at(c->style.palette, i);
+}
+
+static ug_mark color_mark(const ug_chart *c, size_t i)
+{
+    return c->cats[i].color_given ? c->cats[i].color.mark : c->cats[i].mark;
+}
+
+static ug_status contrast_finding(audit_ctx *x, const char *rule, ug_mark where,
+                                  const char *what, ug_color fg, ug_color bg,
+                                  double threshold, const char *criterion)
+{
+    double r = color_contrast(fg, bg);
+    if (color_contrast_passes(r, threshold))
+        return UG_OK;
+    char h[8], hb[8], hs[8], fix[128];
+    ug_color shade;
+    bool fixable = color_shade_for_contrast(fg, bg, threshold, &shade);
+    if (fixable)
+        snprintf(fix, sizeof fix, "color: \"%s\" (%.2f:1)", color_format_hex(shade, hs),
+                 color_contrast(shade, bg));
+    return add(x, rule, UG_SEVERITY_WARNING, where, fixable ? fix : NULL,
+               "%s %s has contrast %.2f:1 against the background %s; %s asks for "
+               "at least %g:1", what, color_format_hex(fg, h), r,
+               color_format_hex(bg, hb), criterion, threshold);
+}
+
+static ug_status check_contrast(audit_ctx *x)
+{
+    const ug_chart *c = x->c;
+    ug_color bg = style_color(c->style.background, 0xffffff);
+    ug_color ink = style_color(c->style.ink, 0x222222);
+    ug_status st = contrast_finding(x, "low-contrast-text",
+                                    c->style.ink.set ? c->style.ink.mark : file_start(c),
+                                    "the text colour", ink, bg, COLOR_WCAG_TEXT,
+                                    "WCAG 2.1 SC 1.4.3 (AA, normal text)");
+    for (size_t i = 0; !st && i < c->ncats; i++) {
+        char what[300];
+        snprintf(what, sizeof what, "the icon colour of '%s'", cat_name(c, i));
+        st = contrast_finding(x, "low-contrast-icon", color_mark(c, i), what,
+                              cat_color(c, i), bg, COLOR_WCAG_NON_TEXT,
+                              "WCAG 2.1 SC 1.4.11 (non-text contrast)");
+    }
+    return st;
+}
+
+/* Lab of every category colour under every vision: lab[v * n + i]. */
+static ug_status category_labs(audit_ctx *x, color_lab **out)
+{
+    size_t n = x->c->ncats;
+    ug_color *sim = ug_malloc((n ? n : 1) * COLOR_VISION_COUNT * sizeof *sim);
+    *out = ug_malloc((n ? n : 1) * COLOR_VISION_COUNT * sizeof **out);
+    ug_status st = (!sim || !*out) ? oom(x) : UG_OK;
+    for (size_t v = 0; !st && v < COLOR_VISION_COUNT; v++)
+        for (size_t i = 0; i < n; i++)
+            sim[v * n + i] = color_simulate(cat_color(x->c, i), (color_vision)v);
+    if (!st)
+        st = color_to_lab(sim, n * COLOR_VISION_COUNT, *out, x->err);
+    ug_free(sim);
+    if (st) {
+        ug_free(*out);
+        *out = NULL;
+    }
+    return st;
+}
+
+/* Suggest a palette colour for category j that stands apart from the rest. */
+static ug_status replacement(audit_ctx *x, size_t j, char *fix, size_t n)
+{
+    const ug_chart *c = x->c;
+    ug_color *others = ug_malloc((c->ncats ? c->ncats : 1) * sizeof *others);
+    if (!others)
+        return oom(x);
+    size_t k = 0;
+    for (size_t i = 0; i < c->ncats; i++)
+        if (i != j)
+            others[k++] = cat_color(c, i);
+    ug_color bg = style_color(c->style.background, 0xffffff);
+    color_pick pick;
+    ug_status st = color_best_replacement(c->style.palette, others, k, &bg, &pick, x->err);
+    char h[8];
+    fix[0] = '\0';
+    if (!st && pick.found)
+        snprintf(fix, n, "color: \"%s\" (%s; smallest difference then %.1f)",
+                 color_format_hex(pick.color, h), color_palette_name(c->style.palette),
+                 pick.min_de);
+    ug_free(others);
+    return st;
+}
+
+/* Category j against every earlier one: one finding for its closest pair,
+** so a long chart gives at most one finding (and one palette search) per
+** category. */
+static ug_status confusable_with_earlier(audit_ctx *x, const color_lab *lab, size_t j)
+{
+    size_t n = x->c->ncats, worst = 0, other = 0;
+    double d = INFINITY;
+    for (size_t i = 0; i < j; i++)
+        for (size_t v = 0; v < COLOR_VISION_COUNT; v++) {
+            double e = color_delta_e00(lab[v * n + i], lab[v * n + j]);
+            if (e < d)
+                d = e, worst = v, other = i;
+        }
+    if (d >= AUDIT_MIN_DELTA_E)
+        return UG_OK;
+    char fix[160], hi[8], hj[8];
+    ug_status st = replacement(x, j, fix, sizeof fix);
+    if (st)
+        return st;
+    return add(x, "confusable-colors", UG_SEVERITY_WARNING, color_mark(x->c, j),
+               fix[0] ? fix : NULL,
+               "'%s' (%s) and '%s' (%s) differ by CIEDE2000 %.1f under %s; unitgram "
+               "asks for at least %g (its own threshold)",
+               cat_name(x->c, other), color_format_hex(cat_color(x->c, other), hi),
+               cat_name(x->c, j), color_format_hex(cat_color(x->c, j), hj), d,
+               color_vision_name((color_vision)worst), AUDIT_MIN_DELTA_E);
+}
+
+static ug_status check_confusable(audit_ctx *x)
+{
+    if (ignored(x->c, "confusable-colors"))
+        return UG_OK; /* the pairwise search is the audit's costliest part */
+    color_lab *lab;
+    ug_status st = category_labs(x, &lab);
+    for (size_t j = 1; !st && j < x->c->ncats; j++)
+        st = confusable_with_earlier(x, lab, j);
+    ug_free(lab);
+    return st;
+}
+
+static ug_status check_category_count(audit_ctx *x)
+{
+    const ug_chart *c = x->c;
+    if (c->ncats <= AUDIT_MAX_CATEGORIES)
+        return UG_OK;
+    return add(x, "too-many-categories", UG_SEVERITY_WARNING, c->categories_mark,
+               "combine the smallest categories into one, e.g. 'Other'",
+               "%zu categories are more than a reader can hold while reading the "
+               "picture (unitgram's limit is %d, common practice)", c->ncats,
+               AUDIT_MAX_CATEGORIES);
+}
+
+/* ---- glyph weight ------------------------------------------------------- */
+
+/* Glyphs that differ a lot in inked area pull the eye to the heavier category
+** and make equal counts look unequal. A factor of 2 is unitgram's own limit
+** (common practice, no source); the library's glyphs all lie within 0.25-0.50
+** of their box, well inside it. */
+#define AUDIT_MAX_INK_RATIO 2.0
+
+static ug_status category_ink(audit_ctx *x, size_t i, double *ink)
+{
+    const ug_category *cat = &x->c->cats[i];
+    glyph_search search = {NULL, 0, x->c->dir};
+    ug_mark where = cat->glyph.text ? cat->glyph.mark : cat->mark;
+    ug_glyph *g = NULL;
+    ug_status st = glyph_load(cat->glyph.text ? cat->glyph.text : "square", &search,
+                              where, &g, x->err);
+    if (!st)
+        *ink = g->ink;
+    glyph_free(g);
+    return st;
+}
+
+static ug_status check_glyph_weight(audit_ctx *x)
+{
+    const ug_chart *c = x->c;
+    size_t light = 0, heavy = 0;
+    double lo = 2, hi = -1, ink;
+    for (size_t i = 0; i < c->ncats; i++) {
+        ug_status st = category_ink(x, i, &ink);
+        if (st)
+            return st;
+        if (ink < lo)
+            lo = ink, light = i;
+        if (ink > hi)
+            hi = ink, heavy = i;
+    }
+    if (c->ncats < 2 || hi <= AUDIT_MAX_INK_RATIO * lo)
+        return UG_OK;
+    const ug_category *cat = &c->cats[light];
+    char fix[256];
+    snprintf(fix, sizeof fix, "a glyph for '%s' that covers at least %.0f%% of its box "
+             "(half of '%s')", cat_name(c, light), 50 * hi + 0.5, cat_name(c, heavy));
+    return add(x, "glyph-weight", UG_SEVERITY_WARNING,
+               cat->glyph.text ? cat->glyph.mark : cat->mark, fix,
+               "the glyph of '%s' inks %.0f%% of its box and that of '%s' %.0f%%: more "
+               "than %.0fx apart, so equal counts will not look equal",
+               cat_name(c, light), 100 * lo, cat_name(c, heavy), 100 * hi,
+               AUDIT_MAX_INK_RATIO);
+}
+
+/* ---- the audit ------------------------------------------------------------ */
+
+static ug_status check_ignore_list(audit_ctx *x)
+{
+    const ug_text_list *l = &x->c->audit.ignore;
+    for (size_t i = 0; i < l->n; i++)
+        if (!audit_rule_known(l->items[i].text))
+            return ug_fail(x->err, UG_ESCHEMA, l->items[i].mark,
+                           "audit.ignore names '%s', which is not an audit rule",
+                           l->items[i].text ? l->items[i].text : "");
+    return UG_OK;
+}
+
+ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_error *err)
+{
+    static ug_status (*const checks[])(audit_ctx *) = {
+        check_labels, check_total, check_rounding, check_small, check_derivable,
+        check_category_count, check_contrast, check_confusable, check_glyph_weight,
+    };
+    audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err};
+    ug_allocation *a = NULL;
+    ug_status st = x.f ? check_ignore_list(&x) : oom(&x);
+    if (!st)
+        st = ug_chart_allocate(chart, &a, err);
+    x.a = a;
+    for (size_t i = 0; !st && i < COUNT(checks); i++)
+        st = checks[i](&x);
+    ug_allocation_free(a);
+    if (st) {
+        ug_findings_free(x.f);
+        x.f = NULL;
+    }
+    *out = x.f;
+    return st;
+}
+
+/* ---- output ----------------------------------------------------------------- */
+
+static void text_finding(ug_buf *b, const ug_finding *it)
+{
+    if (it->where.line)
+        ug_buf_printf(b, "%s:%u:%u: ", it->where.file ? it->where.file : "-",
+                      it->where.line, it->where.column);
+    else
+        ug_buf_printf(b, "%s: ", it->where.file ? it->where.file : "-");
+    ug_buf_printf(b, "%s: %s [%s]\n", ug_severity_name(it->severity), it->message,
+                  it->rule);
+    if (it->fix)
+        ug_buf_printf(b, "    fix: %s\n", it->fix);
+}
+
+static void json_finding(ug_buf *b, const ug_finding *it, bool last)
+{
+    ug_buf_puts(b, "    {\"rule\": ");
+    ug_buf_json_string(b, it->rule);
+    ug_buf_printf(b, ", \"severity\": \"%s\", \"file\": ", ug_severity_name(it->severity));
+    ug_buf_json_string(b, it->where.file ? it->where.file : "");
+    ug_buf_printf(b, ", \"line\": %u, \"column\": %u, \"message\": ", it->where.line,
+                  it->where.column);
+    ug_buf_json_string(b, it->message);
+    ug_buf_puts(b, ", \"fix\": ");
+    if (it->fix)
+        ug_buf_json_string(b, it->fix);
+    else
+        ug_buf_puts(b, "null");
+    ug_buf_puts(b, last ? "}\n" : "},\n");
+}
+
+ug_status ug_findings_format(const ug_findings *f, ug_report_format fmt, char **out,
+                             size_t *len, ug_error *err)
+{
+    *out = NULL;
+    if (fmt != UG_REPORT_TEXT && fmt != UG_REPORT_JSON)
+        return ug_fail(err, UG_ESCHEMA, ug_mark_file(NULL),
+                       "audit findings are written as text or JSON");
+    size_t ne = ug_findings_count_severity(f, UG_SEVERITY_ERROR);
+    size_t nw = ug_findings_count_severity(f, UG_SEVERITY_WARNING) - ne;
+    size_t nn = ug_findings_count(f) - ne - nw;
+    ug_buf b;
+    ug_buf_init(&b);
+    if (fmt == UG_REPORT_JSON)
+        ug_buf_puts(&b, "{\n  \"findings\": [\n");
+    for (size_t i = 0; i < ug_findings_count(f); i++) {
+        if (fmt == UG_REPORT_JSON)
+            json_finding(&b, &f->items[i], i + 1 == f->n);
+        else
+            text_finding(&b, &f->items[i]);
+    }
+    if (fmt == UG_REPORT_JSON)
+        ug_buf_printf(&b, "  ],\n  \"errors\": %zu, \"warnings\": %zu, \"notes\": %zu\n}\n",
+                      ne, nw, nn);
+    else
+        ug_buf_printf(&b, "%zu error%s, %zu warning%s, %zu note%s\n", ne,
+                      ne == 1 ? "" : "s", nw, nw == 1 ? "" : "s", nn, nn == 1 ? "" : "s");
+    return ug_buf_take(&b, out, len, err);
+}

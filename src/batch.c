@@ -1,0 +1,293 @@
+/*
+** Batch stage: one template layout + a wide CSV table -> one single-group
+** chart per row, all sharing one icon value and one icon size.
+**
+** The template is loaded as an ordinary chart and then given the CSV as its
+** data with every row a group, so the CSV is read, checked and blamed
+** (file:line:col) by the same code as a layout's own `data:`. The icon value
+** is resolved once on that many-group chart — `auto` looks at the largest
+** row of all — and pinned on every row's chart, so the charts of a batch can
+** be compared icon for icon. A row's chart is a shallow view of the
+** template: its counts point into the template's columns.
+*/
+#include <stdlib.h>
+#include <string.h>
+
+#include "alloc.h"
+#include "batch.h"
+#include "layout.h"
+
+#define SLUG_MAX 64
+
+struct ug_batch {
+    ug_chart *tmpl;          /* one group per CSV row */
+    bool pin;                /* the rows share rule.value */
+    ug_dec value;
+    char (*slugs)[SLUG_MAX + 8];
+    ug_chart row;            /* the current row's chart, a view of tmpl */
+    ug_category *cats;       /* row.cats */
+    char *title, *subtitle;  /* the current row's texts, {group} replaced */
+};
+
+/* ---- names ---------------------------------------------------------------- */
+
+/* Latin-1 letters with accents (U+00C0..U+00FF) -> their base letter, so
+** "Ünïcode" becomes "unicode"; '\0' for the few with none (×, ÷). */
+static char latin1_base(unsigned long cp)
+{
+    static const char map[] = "aaaaaaaceeeeiiiidnooooo\0ouuuuyts"  /* C0..DF */
+                              "aaaaaaaceeeeiiiidnooooo\0ouuuuyty"; /* E0..FF */
+    return cp >= 0xC0 && cp <= 0xFF ? map[cp - 0xC0] : 0;
+}
+
+/* One UTF-8 character at s: its code point (0xFFFD beyond Latin-1 or when
+** malformed) and its length in bytes. */
+static size_t utf8_next(const unsigned char *s, unsigned long *cp)
+{
+    size_t n = s[0] < 0x80 ? 1 : s[0] >= 0xF0 ? 4 : s[0] >= 0xE0 ? 3 : s[0] >= 0xC0 ? 2 : 1;
+    for (size_t k = 1; k < n; k++)
+        if ((s[k] & 0xC0) != 0x80)
+            n = 1; /* a malformed sequence: step one byte */
+    *cp = n == 1 ? (s[0] < 0x80 ? s[0] : 0xFFFD)
+        : n == 2 ? ((unsigned long)(s[0] & 0x1F) << 6) | (s[1] & 0x3F) : 0xFFFD;
+    return n;
+}
+
+size_t batch_slug(const char *name, char *buf, size_t size)
+{
+    size_t n = 0;
+    bool dash = false; /* a '-' is owed before the next kept character */
+    for (const unsigned char *s = (const unsigned char *)name; *s && n + 2 < size;) {
+        unsigned long cp;
+        s += utf8_next(s, &cp);
+        char ch = cp < 0x80 ? (char)cp : latin1_base(cp);
+        if (ch >= 'A' && ch <= 'Z')
+            ch = (char)(ch - 'A' + 'a');
+        bool keep = (ch >= 'a' && ch <= 'z') || (ch >= '0' && ch <= '9') || ch == '_';
+        if (!keep) {
+            dash = n > 0;
+            continue;
+        }
+        if (dash)
+            buf[n++] = '-';
+        dash = false;
+        buf[n++] = ch;
+    }
+    buf[n] = '\0';
+    return n;
+}
+
+/* ---- opening ---------------------------------------------------------------- */
+
+/* The first field of the CSV's header line (quotes undone), for the default
+** group column; the delimiters are the ones the data reader detects. */
+static char *first_header_field(const char *text, size_t len)
+{
+    size_t i = len >= 3 && !memcmp(text, "\xEF\xBB\xBF", 3) ? 3 : 0;
+    char *out = ug_malloc(len - i + 1);
+    size_t n = 0;
+    if (!out)
+        return NULL;
+    bool quoted = i < len && text[i] == '"';
+    for (i += quoted; i < len; i++) {
+        char ch = text[i];
+        if (quoted && ch == '"' && i + 1 < len && text[i + 1] == '"')
+            i++;
+        else if (quoted && ch == '"')
+            break;
+        else if (!quoted && strchr(",;\t\r\n", ch))
+            break;
+        out[n++] = ch;
+    }
+    out[n] = '\0';
+    return out;
+}
+
+static ug_status default_group_column(ug_chart *t, ug_error *err)
+{
+    char *text = NULL, *name = NULL;
+    size_t len = 0;
+    ug_status st = layout_read_file(t->data.file, t->limits.max_file_bytes,
+                                    ug_mark_file(t->data.file), &text, &len, err);
+    if (!st && !(name = first_header_field(text, len)))
+        st = ug_fail(err, UG_ENOMEM, ug_mark_file(t->data.file), "out of memory");
+    if (!st && !(t->data.group_column.text = ug_arena_strdup(&t->arena, name)))
+        st = ug_fail(err, UG_ENOMEM, ug_mark_file(t->data.file), "out of memory");
+    t->data.group_column.mark = ug_mark_file(t->data.file);
+    ug_free(name);
+    ug_free(text);
+    return st;
+}
+
+/* Give the template the CSV as its data, one group per row. */
+static ug_status take_csv(ug_chart *t, const char *csv, ug_error *err)
+{
+    if (t->data.category_column.text)
+        return ug_fail(err, UG_ESCHEMA, t->data.category_column.mark,
+                       "a batch reads a wide table (one row per chart, one column "
+                       "per category); remove 'category-column' and 'count-column'");
+    t->data.present = true;
+    t->data.file = ug_arena_strdup(&t->arena, csv);
+    if (!t->data.file)
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(csv), "out of memory");
+    t->data.file_text = (ug_text){t->data.file, ug_mark_file(t->path)};
+    memset(&t->groups, 0, sizeof t->groups);
+    for (size_t i = 0; i < t->ncats; i++) {
+        t->cats[i].counts = NULL;
+        t->cats[i].count_marks = NULL;
+    }
+    ug_status st = t->data.group_column.text ? UG_OK : default_group_column(t, err);
+    return st ? st : data_load(t, err);
+}
+
+static ug_status make_slugs(ug_batch *b, ug_error *err)
+{
+    const ug_text_list *g = &b->tmpl->groups;
+    b->slugs = ug_calloc(g->n ? g->n : 1, sizeof *b->slugs);
+    if (!b->slugs)
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(b->tmpl->path), "out of memory");
+    for (size_t i = 0; i < g->n; i++) {
+        if (!batch_slug(g->items[i].text, b->slugs[i], SLUG_MAX + 1))
+            snprintf(b->slugs[i], sizeof b->slugs[i], "row-%zu", i + 1);
+        for (size_t k = 0; k < i; k++)
+            if (!strcmp(b->slugs[k], b->slugs[i]))
+                return ug_fail(err, UG_EDATA, g->items[i].mark,
+                               "rows '%s' and '%s' (line %u) would both be drawn to "
+                               "the file name '%s'; rename one of them",
+                               g->items[i].text, g->items[k].text,
+                               g->items[k].mark.line, b->slugs[i]);
+    }
+    return UG_OK;
+}
+
+static ug_status share_value(ug_batch *b, ug_error *err)
+{
+    alloc_rule rule;
+    ug_status st = alloc_rule_for_chart(b->tmpl, &rule, err);
+    if (st || rule.by_cells)
+        return st;
+    b->pin = true;
+    b->value = rule.value;
+    return UG_OK;
+}
+
+ug_status ug_batch_open(const char *template_path, const char *csv_path,
+                        const ug_limits *limits, ug_batch **out, ug_error *err)
+{
+    *out = NULL;
+    ug_batch *b = ug_calloc(1, sizeof *b);
+    if (!b)
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(template_path), "out of memory");
+    ug_status st = ug_chart_load(template_path, limits, &b->tmpl, err);
+    if (!st)
+        st = take_csv(b->tmpl, csv_path, err);
+    if (!st && !(b->cats = ug_calloc(b->tmpl->ncats, sizeof *b->cats)))
+        st = ug_fail(err, UG_ENOMEM, ug_mark_file(template_path), "out of memory");
+    if (!st)
+        st = make_slugs(b, err);
+    if (!st)
+        st = share_value(b, err);
+    if (st) {
+        ug_batch_free(b);
+        return st;
+    }
+    *out = b;
+    return UG_OK;
+}
+
+void ug_batch_free(ug_batch *b)
+{
+    if (!b)
+        return;
+    ug_chart_free(b->tmpl);
+    ug_free(b->slugs);
+    ug_free(b->cats);
+    ug_free(b->title);
+    ug_free(b->subtitle);
+    ug_free(b);
+}
+
+size_t ug_batch_count(const ug_batch *b) { return b->tmpl->groups.n; }
+
+const char *ug_batch_name(const ug_batch *b, size_t i)
+{
+    return i < ug_batch_count(b) ? b->tmpl->groups.items[i].text : NULL;
+}
+
+const char *ug_batch_slug(const ug_batch *b, size_t i)
+{
+    return i < ug_batch_count(b) ? b->slugs[i] : NULL;
+}
+
+/* ---- a row's chart and file name -------------------------------------------- */
+
+/* s with every "{group}" replaced by with; NULL when out of memory. */
+static char *replace_group(const char *s, const char *with)
+{
+    ug_buf b;
+    ug_buf_init(&b);
+    for (const char *hit; (hit = strstr(s, "{group}")); s = hit + 7) {
+        ug_buf_add(&b, s, (size_t)(hit - s));
+        ug_buf_puts(&b, with);
+    }
+    ug_buf_add(&b, s, strlen(s) + 1);
+    if (b.failed) {
+        ug_buf_free(&b);
+        return NULL;
+    }
+    return b.data;
+}
+
+ug_status ug_batch_path(const ug_batch *b, size_t i, const char *pattern,
+                        char **out, ug_error *err)
+{
+    if (i >= ug_batch_count(b))
+        return ug_fail(err, UG_ELIMIT, ug_mark_file(b->tmpl->path),
+                       "row %zu of %zu does not exist", i + 1, ug_batch_count(b));
+    *out = replace_group(pattern, b->slugs[i]);
+    return *out ? UG_OK : ug_fail(err, UG_ENOMEM, ug_mark_file(pattern), "out of memory");
+}
+
+/* Replace {group} in one of the row's texts; the copy lives in *keep. */
+static ug_status row_text(ug_text *t, const char *name, char **keep, ug_error *err)
+{
+    ug_free(*keep);
+    *keep = NULL;
+    if (!t->text || !strstr(t->text, "{group}"))
+        return UG_OK;
+    if (!(*keep = replace_group(t->text, name)))
+        return ug_fail(err, UG_ENOMEM, t->mark, "out of memory");
+    t->text = *keep;
+    return UG_OK;
+}
+
+ug_status ug_batch_chart(ug_batch *b, size_t i, const ug_chart **out, ug_error *err)
+{
+    *out = NULL;
+    const ug_chart *t = b->tmpl;
+    if (i >= ug_batch_count(b))
+        return ug_fail(err, UG_ELIMIT, ug_mark_file(t->path),
+                       "row %zu of %zu does not exist", i + 1, ug_batch_count(b));
+    ug_chart *r = &b->row;
+    *r = *t;
+    memset(&r->arena, 0, sizeof r->arena); /* never freed: the template owns it */
+    memset(&r->groups, 0, sizeof r->groups);
+    for (size_t c = 0; c < t->ncats; c++) {
+        b->cats[c] = t->cats[c];
+        b->cats[c].counts = t->cats[c].counts + i;
+        b->cats[c].count_marks = t->cats[c].count_marks + i;
+    }
+    r->cats = b->cats;
+    if (b->pin) {
+        r->has_icon_value = true;
+        r->icon_value_auto = false;
+        r->icon_value = b->value;
+    }
+    const char *name = t->groups.items[i].text;
+    ug_status st = row_text(&r->title, name, &b->title, err);
+    if (!st)
+        st = row_text(&r->subtitle, name, &b->subtitle, err);
+    if (!st)
+        *out = r;
+    return st;
+}

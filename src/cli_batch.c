@@ -1,0 +1,145 @@
+/*
+** `unitgram draw TEMPLATE --each-row COUNTS.csv -o 'out/{group}.svg'`: one
+** chart per CSV row through ug_batch_*. Every file name is worked out (and
+** checked for collisions by the library) before the first file is written;
+** glyphs are loaded once for the whole batch through one glyph cache.
+*/
+/* sync(2) is not in POSIX.1-2008 base; glibc declares it with _DEFAULT_SOURCE. */
+#define _DEFAULT_SOURCE
+#include <errno.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include "cli.h"
+
+#define PROGRESS_AFTER 0.5 /* seconds before a progress bar is worth showing */
+
+/* mkdir -p for the folders above path (the output pattern may name any). */
+static int make_parents(const char *path)
+{
+    char *p = strdup(path);
+    int rc = p ? 0 : -1;
+    for (char *s = p ? strchr(p + 1, '/') : NULL; s && !rc; s = strchr(s + 1, '/')) {
+        *s = '\0';
+        if (mkdir(p, 0777) != 0 && errno != EEXIST)
+            rc = -1;
+        *s = '/';
+    }
+    if (rc)
+        fprintf(stderr, "%s: error: cannot create its folder: %s\n", path,
+                strerror(errno));
+    free(p);
+    return rc;
+}
+
+static void progress(size_t done, size_t total, double start, bool *shown)
+{
+    if (!*shown && (cli_now() - start < PROGRESS_AFTER || !isatty(STDERR_FILENO)))
+        return;
+    *shown = true;
+    int width = 30, fill = (int)(width * done / (total ? total : 1));
+    fprintf(stderr, "\r[%.*s%*s] %zu/%zu", fill, "##############################",
+            width - fill, "", done, total);
+    if (done == total)
+        fputc('\n', stderr);
+    fflush(stderr);
+}
+
+/* Draw row i of the batch to path; returns an exit code. */
+static int draw_row(ug_batch *b, size_t i, const char *path,
+                    const ug_pack_options *popt, bool warn)
+{
+    ug_error err = {0};
+    const ug_chart *chart = NULL;
+    ug_allocation *alloc = NULL;
+    ug_scene *scene = NULL;
+    char *svg = NULL;
+    size_t len = 0;
+    int rc = EXIT_OK;
+    if (ug_batch_chart(b, i, &chart, &err) || ug_chart_allocate(chart, &alloc, &err) ||
+        ug_scene_pack_with(chart, alloc, popt, &scene, &err) ||
+        ug_scene_svg(scene, &svg, &len, &err)) {
+        cli_report_error(&err);
+        rc = EXIT_INPUT;
+    } else {
+        if (warn)
+            cli_glyph_warnings(scene, chart);
+        if (make_parents(path))
+            rc = EXIT_OUTPUT;
+        else if (ug_write_file_atomic_sync(path, svg, len, 0, &err)) {
+            cli_report_error(&err);
+            rc = EXIT_OUTPUT;
+        }
+    }
+    free(svg);
+    ug_scene_free(scene);
+    ug_allocation_free(alloc);
+    return rc;
+}
+
+/* Every row's output path, worked out before anything is written. */
+static char **all_paths(const ug_batch *b, const char *pattern)
+{
+    size_t n = ug_batch_count(b);
+    char **paths = calloc(n + 1, sizeof *paths);
+    ug_error err = {0};
+    for (size_t i = 0; paths && i < n; i++)
+        if (ug_batch_path(b, i, pattern, &paths[i], &err)) {
+            cli_report_error(&err);
+            for (size_t k = 0; k < i; k++)
+                free(paths[k]);
+            free(paths);
+            return NULL;
+        }
+    return paths;
+}
+
+static int run(ug_batch *b, char **paths, const cli_draw_opts *o,
+               ug_glyph_cache *cache)
+{
+    ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, cache};
+    size_t n = ug_batch_count(b), drawn = 0;
+    double start = cli_now();
+    bool shown = false;
+    int rc = EXIT_OK;
+    for (size_t i = 0; i < n; i++) {
+        int r = draw_row(b, i, paths[i], &popt, i == 0);
+        if (r && !rc)
+            rc = r; /* keep going: one bad row should not hide the others */
+        drawn += r == EXIT_OK;
+        if (!o->quiet)
+            progress(i + 1, n, start, &shown);
+    }
+    sync(); /* once for the whole batch (see ug_write_file_atomic_sync) */
+    if (!o->quiet) {
+        const char *slash = strrchr(o->out, '/');
+        fprintf(stderr, "drew %zu chart%s to %.*s in %.1f s\n", drawn,
+                drawn == 1 ? "" : "s", slash ? (int)(slash - o->out + 1) : 2,
+                slash ? o->out : "./", cli_now() - start);
+    }
+    return rc;
+}
+
+int cli_batch(const cli_draw_opts *o)
+{
+    ug_error err = {0};
+    ug_batch *b = NULL;
+    ug_glyph_cache *cache = NULL;
+    if (ug_batch_open(o->layout, o->each_row, NULL, &b, &err) ||
+        ug_glyph_cache_new(&cache, &err)) {
+        cli_report_error(&err);
+        ug_batch_free(b);
+        return cli_exit_for(&err);
+    }
+    char **paths = all_paths(b, o->out);
+    int rc = paths ? run(b, paths, o, cache) : EXIT_INPUT;
+    for (size_t i = 0; paths && paths[i]; i++)
+        free(paths[i]);
+    free(paths);
+    ug_glyph_cache_free(cache);
+    ug_batch_free(b);
+    return rc;
+}
