@@ -178,6 +178,51 @@ ug_status ug_batch_path(const ug_batch *batch, size_t i, const char *pattern,
 ug_status ug_batch_chart(ug_batch *batch, size_t i, const ug_chart **out,
                          ug_error *err);
 
+/* ---- output: PNG, PDF and a web page (src/raster.c, src/html.c) -------- */
+
+typedef enum { UG_OUT_SVG, UG_OUT_PNG, UG_OUT_PDF, UG_OUT_HTML } ug_output_format;
+
+/* The format a file name asks for by its extension (.svg .png .pdf .html .htm,
+** any case); SVG for anything else, "-" included. */
+ug_output_format ug_output_format_from_path(const char *path);
+/* "svg", "png", "pdf", "html" (any case) -> 0 and *out; -1 for anything else. */
+int ug_output_format_parse(const char *name, ug_output_format *out);
+const char *ug_output_format_name(ug_output_format fmt);
+
+/* Render SVG bytes as PNG, PDF or (a checked copy of) SVG; fmt must not be
+** UG_OUT_HTML (see ug_html_page). The SVG's size is in CSS px, 96 per inch:
+** a PNG is px * dpi/96 * scale pixels a side (at most 100 megapixels), a PDF
+** page px * 0.75 * scale points (dpi does not apply). *out is malloc'd. */
+ug_status ug_render_svg(const char *svg, size_t len, ug_output_format fmt,
+                        double dpi, double scale, char **out, size_t *out_len,
+                        ug_error *err);
+/* The same, written to path only once the render has succeeded (atomically,
+** through ug_write_file_atomic). */
+ug_status ug_render_svg_file(const char *svg, size_t len, ug_output_format fmt,
+                             double dpi, double scale, const char *path,
+                             ug_error *err);
+
+/* One self-contained web page: the SVG inline, the description in a
+** paragraph and, as the picture's text alternative, one data table per
+** allocation (a row per group and category: count, icons, shown value).
+** title NULL: the first chart's title; description NULL: the first chart's
+** stated description, or none. No scripts, no external files. */
+ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
+                       const char *description,
+                       const ug_allocation *const *allocs, size_t nallocs,
+                       char **out, size_t *len, ug_error *err);
+
+/* A one-page handout (FORMAT.md §2) in any output format: the page's charts
+** and text blocks on its column grid, sources at the foot. Content that does
+** not fit is an error naming the panel and the missing height; nothing is
+** shrunk. The web page holds the page's picture and one table per chart. */
+ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
+                       double scale, char **out, size_t *len, ug_error *err);
+/* The handout's description (its SVG's <desc>): every chart's description in
+** reading order. *out is malloc'd and NUL-ended. */
+ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
+                           ug_error *err);
+
 /* ---- the glyph library ------------------------------------------------ */
 
 /* Every glyph the search path offers (the project's glyphs/, the installed

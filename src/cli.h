@@ -83,6 +83,7 @@ typedef struct {
     long watch_limit;        /* redraws before exiting; 0: no limit */
     double watch_timeout;    /* seconds before exiting; 0: no limit */
     bool quiet;              /* no progress bar or summary */
+    double dpi, scale;       /* PNG and PDF (raster.c); 0: 96 dpi, scale 1 */
 } cli_draw_opts;
 
 /* Output format from --format or the file's extension: "svg", "png", "pdf",

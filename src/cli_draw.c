@@ -1,7 +1,8 @@
 /*
-** `unitgram draw LAYOUT -o OUT.svg` and `unitgram describe LAYOUT`: load,
-** allocate, pack, write. The output is written atomically, so a failure
-** leaves any earlier picture as it was. Batches (--each-row) and --watch
+** `unitgram draw LAYOUT -o OUT` and `unitgram describe LAYOUT`: load,
+** allocate, pack, write SVG, PNG, PDF or a web page; a page file (one with a
+** `page:` key) becomes a one-page handout. The output is rendered in memory
+** and written atomically, so a failure leaves any earlier picture as it was. Batches (--each-row) and --watch
 ** live in cli_batch.c and cli_watch.c; this file only reads their options.
 */
 #include <stdio.h>
@@ -14,13 +15,17 @@ static const char draw_help[] =
     "usage: unitgram draw LAYOUT -o OUT [OPTIONS]\n"
     "       unitgram draw TEMPLATE --each-row COUNTS.csv -o 'DIR/{group}.svg'\n"
     "\n"
-    "Draw the chart a layout file describes. LAYOUT '-' reads the layout from\n"
-    "standard input (relative paths in it start from the current folder).\n"
+    "Draw the chart (or the one-page handout) a layout file describes. LAYOUT\n"
+    "'-' reads the layout from standard input (relative paths in it start from\n"
+    "the current folder).\n"
     "\n"
     "options:\n"
     "  -o, --output FILE     where to write; '-' writes to standard output\n"
-    "  --format FORMAT       svg (default for '-'); otherwise the extension of\n"
-    "                        FILE decides\n"
+    "  --format FORMAT       svg, png, pdf or html; svg is the default for '-',\n"
+    "                        otherwise the extension of FILE decides\n"
+    "  --dpi N               PNG resolution in pixels per inch (default 96, one\n"
+    "                        pixel per CSS px); PDF and SVG are vector\n"
+    "  --scale N             enlarge PNG and PDF by N (default 1)\n"
     "  --glyph-dir DIR       also look for glyphs in DIR (repeatable)\n"
     "  --each-row CSV        draw one chart per row of CSV: the row's group-column\n"
     "                        value (or first column) names it and replaces {group}\n"
@@ -41,7 +46,8 @@ static const char describe_help[] =
     "usage: unitgram describe LAYOUT\n"
     "\n"
     "Print the chart's plain-language description (its alt text, the same text\n"
-    "the SVG carries in <desc>). LAYOUT '-' reads standard input.\n"
+    "the SVG carries in <desc>; for a handout page, every chart's in turn).\n"
+    "LAYOUT '-' reads standard input.\n"
     "\n"
     "options:\n"
     "  --max-icons N, --max-input-bytes N   the limits, as for draw\n"
@@ -73,6 +79,20 @@ static int load(const char *path, loaded *l, ug_error *err)
     return EXIT_OK;
 }
 
+/* A page file has a top-level `page:` key, which in block style starts a
+** line; the loader refuses the wrong kind with a message saying so. */
+static bool is_page_file(const char *path)
+{
+    FILE *f = strcmp(path, "-") ? fopen(path, "r") : NULL;
+    char line[256];
+    bool page = false;
+    while (f && !page && fgets(line, sizeof line, f))
+        page = strncmp(line, "page:", 5) == 0 || strncmp(line, "page :", 6) == 0;
+    if (f)
+        fclose(f);
+    return page;
+}
+
 /* ---- options (the new ones are read here; their work is elsewhere) ---- */
 
 static int parse_number(const char *v, double *out)
@@ -80,6 +100,15 @@ static int parse_number(const char *v, double *out)
     char *end;
     *out = strtod(v, &end);
     return *v && !*end && *out >= 0 ? 0 : cli_usage("draw", "'%s' is not a number", v);
+}
+
+static int parse_factor(const char *opt, const char *v, double *out)
+{
+    if (parse_number(v, out))
+        return EXIT_USAGE;
+    if (!(*out > 0) || *out > 1e6)
+        return cli_usage("draw", "%s wants a positive number, not '%s'", opt, v);
+    return EXIT_OK;
 }
 
 static int draw_option(int argc, char **argv, int *i, cli_draw_opts *o)
@@ -95,6 +124,10 @@ static int draw_option(int argc, char **argv, int *i, cli_draw_opts *o)
         return m < 0 ? EXIT_USAGE : 0;
     if ((m = cli_option("draw", argc, argv, i, "--each-row", NULL, &o->each_row)))
         return m < 0 ? EXIT_USAGE : 0;
+    if ((m = cli_option("draw", argc, argv, i, "--dpi", NULL, &v)))
+        return m < 0 ? EXIT_USAGE : parse_factor("--dpi", v, &o->dpi);
+    if ((m = cli_option("draw", argc, argv, i, "--scale", NULL, &v)))
+        return m < 0 ? EXIT_USAGE : parse_factor("--scale", v, &o->scale);
     if ((m = cli_option("draw", argc, argv, i, "--glyph-dir", NULL, &v))) {
         if (m > 0 && o->nglyph_dirs == CLI_MAX_DIRS)
             return cli_usage("draw", "at most %d --glyph-dir folders", CLI_MAX_DIRS);
@@ -138,9 +171,10 @@ static int check_draw(const cli_draw_opts *o)
     const char *fmt = cli_output_format(o->out, o->format);
     if (!fmt)
         return EXIT_USAGE;
-    if (strcmp(fmt, "svg"))
-        return cli_usage("draw", "'%s': only SVG output is available in this build; "
-                                 "%s is not yet", o->out, fmt);
+    if (strcmp(fmt, "svg") && o->each_row)
+        return cli_usage("draw", "--each-row writes SVG only ('%s' is %s)", o->out, fmt);
+    if (is_page_file(o->layout) && (o->each_row || o->watch))
+        return cli_usage("draw", "a page file is drawn once: no --each-row or --watch");
     return EXIT_OK;
 }
 
@@ -168,6 +202,58 @@ static int parse_draw(int argc, char **argv, cli_draw_opts *o)
 
 /* ---- drawing ---- */
 
+static ug_output_format format_of(const cli_draw_opts *o)
+{
+    ug_output_format f = UG_OUT_SVG;
+    ug_output_format_parse(cli_output_format(o->out, o->format), &f);
+    return f;
+}
+
+/* The chart's SVG in the wanted format: *out is svg itself for SVG, else
+** new bytes (svg stays the caller's). */
+static ug_status convert(const loaded *l, const cli_draw_opts *o, char *svg,
+                         size_t len, char **out, size_t *out_len, ug_error *err)
+{
+    ug_output_format f = format_of(o);
+    char *desc = NULL;
+    ug_status st = UG_OK;
+    if (f == UG_OUT_SVG) {
+        *out = svg, *out_len = len;
+        return UG_OK;
+    }
+    if (f == UG_OUT_HTML) {
+        const ug_allocation *allocs[1] = {l->alloc};
+        if (!(st = ug_chart_describe(l->chart, l->alloc, &desc, NULL, err)))
+            st = ug_html_page(NULL, svg, len, desc, allocs, 1, out, out_len, err);
+    } else {
+        st = ug_render_svg(svg, len, f, o->dpi > 0 ? o->dpi : 96,
+                           o->scale > 0 ? o->scale : 1, out, out_len, err);
+    }
+    free(desc);
+    return st;
+}
+
+static int draw_page(const cli_draw_opts *o)
+{
+    ug_error err = {0};
+    ug_page *page = NULL;
+    char *bytes = NULL;
+    size_t len = 0;
+    int rc = EXIT_OK;
+    if (ug_page_load(o->layout, NULL, &page, &err) ||
+        ug_page_draw(page, format_of(o), o->dpi > 0 ? o->dpi : 96,
+                     o->scale > 0 ? o->scale : 1, &bytes, &len, &err)) {
+        cli_report_error(&err);
+        rc = err.status == UG_ENOMEM ? EXIT_OUTPUT : EXIT_INPUT;
+    } else if (ug_write_file_atomic(o->out, bytes, len, &err)) {
+        cli_report_error(&err);
+        rc = EXIT_OUTPUT;
+    }
+    free(bytes);
+    ug_page_free(page);
+    return rc;
+}
+
 int cli_draw_one(const cli_draw_opts *o, char ***inputs)
 {
     ug_error err = {0};
@@ -179,22 +265,25 @@ int cli_draw_one(const cli_draw_opts *o, char ***inputs)
         return rc;
     ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, NULL};
     ug_scene *scene = NULL;
-    char *svg = NULL;
+    char *svg = NULL, *bytes = NULL;
     size_t len = 0;
     if (ug_scene_pack_with(l.chart, l.alloc, &popt, &scene, &err) ||
-        ug_scene_svg(scene, &svg, &len, &err)) {
+        ug_scene_svg(scene, &svg, &len, &err) ||
+        convert(&l, o, svg, len, &bytes, &len, &err)) {
         cli_report_error(&err);
         rc = EXIT_INPUT;
     } else {
         cli_glyph_warnings(scene, l.chart);
-        if (ug_write_file_atomic(o->out, svg, len, &err)) {
+        if (ug_write_file_atomic(o->out, bytes, len, &err)) {
             cli_report_error(&err);
             rc = EXIT_OUTPUT;
         }
     }
     if (inputs)
         *inputs = ug_chart_inputs(l.chart, scene);
-    free(svg);
+    if (bytes != svg)
+        free(svg);
+    free(bytes);
     ug_scene_free(scene);
     unload(&l);
     return rc;
@@ -211,7 +300,38 @@ int cli_draw(int argc, char **argv)
         return cli_batch(&o);
     if (o.watch)
         return cli_watch(&o);
+    if (is_page_file(o.layout))
+        return draw_page(&o);
     return cli_draw_one(&o, NULL);
+}
+
+static int describe_chart(const char *layout, char **text, size_t *len,
+                          ug_error *err)
+{
+    loaded l;
+    int rc = load(layout, &l, err);
+    if (rc)
+        return rc;
+    if (ug_chart_describe(l.chart, l.alloc, text, len, err)) {
+        cli_report_error(err);
+        rc = cli_exit_for(err);
+    }
+    unload(&l);
+    return rc;
+}
+
+static int describe_page(const char *layout, char **text, size_t *len,
+                         ug_error *err)
+{
+    ug_page *page = NULL;
+    int rc = EXIT_OK;
+    if (ug_page_load(layout, NULL, &page, err) ||
+        ug_page_describe(page, text, len, err)) {
+        cli_report_error(err);
+        rc = cli_exit_for(err);
+    }
+    ug_page_free(page);
+    return rc;
 }
 
 int cli_describe(int argc, char **argv)
@@ -234,21 +354,15 @@ int cli_describe(int argc, char **argv)
     if (!layout)
         return cli_usage("describe", "missing the LAYOUT file");
     ug_error err = {0};
-    loaded l;
-    int rc = load(layout, &l, &err);
-    if (rc)
-        return rc;
     char *text = NULL;
     size_t len = 0;
-    if (ug_chart_describe(l.chart, l.alloc, &text, &len, &err)) {
-        cli_report_error(&err);
-        rc = cli_exit_for(&err);
-    } else if (fwrite(text, 1, len, stdout) != len || fputc('\n', stdout) == EOF ||
-               fflush(stdout)) {
+    int rc = is_page_file(layout) ? describe_page(layout, &text, &len, &err)
+                                  : describe_chart(layout, &text, &len, &err);
+    if (!rc && (fwrite(text, 1, len, stdout) != len || fputc('\n', stdout) == EOF ||
+                fflush(stdout))) {
         fprintf(stderr, "unitgram describe: could not write the description\n");
         rc = EXIT_OUTPUT;
     }
     free(text);
-    unload(&l);
     return rc;
 }

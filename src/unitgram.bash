@@ -22,7 +22,7 @@ _unitgram()
             COMPREPLY=($(compgen -d -- "$cur")); return ;;
         --format)
             case $cmd in
-                draw) COMPREPLY=($(compgen -W "svg" -- "$cur")) ;;
+                draw) COMPREPLY=($(compgen -W "svg png pdf html" -- "$cur")) ;;
                 *) COMPREPLY=($(compgen -W "text csv json" -- "$cur")) ;;
             esac
             return ;;
@@ -30,7 +30,7 @@ _unitgram()
     case $cur in
         -*)
             case $cmd in
-                draw) COMPREPLY=($(compgen -W "-o --output --format --glyph-dir --each-row --quiet --watch --watch-limit --watch-timeout --max-icons --max-input-bytes --help" -- "$cur")) ;;
+                draw) COMPREPLY=($(compgen -W "-o --output --format --dpi --scale --glyph-dir --each-row --quiet --watch --watch-limit --watch-timeout --max-icons --max-input-bytes --help" -- "$cur")) ;;
                 tally) COMPREPLY=($(compgen -W "--format --max-icons --max-input-bytes --help" -- "$cur")) ;;
                 audit) COMPREPLY=($(compgen -W "--strict --help" -- "$cur")) ;;
                 describe) COMPREPLY=($(compgen -W "--max-icons --max-input-bytes --help" -- "$cur")) ;;

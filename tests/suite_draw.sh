@@ -45,8 +45,8 @@ grep -qE '(^|[^0-9.,])7([^0-9.,]|$)|347|627|2,147|2147' "$T/suppressed.svg" \
   || fail "describe does not say 'fewer than 10'"
 
 # exit codes: usage 2 (no file written), bad input 1, output not written 4
-"$BIN" draw tests/data/draw/suppressed.yaml -o "$T/chart.png" 2>/dev/null
-[ $? -eq 2 ] && [ ! -e "$T/chart.png" ] || fail "PNG request should exit 2 and write nothing"
+"$BIN" draw tests/data/draw/suppressed.yaml -o "$T/chart.jpeg" 2>/dev/null
+[ $? -eq 2 ] && [ ! -e "$T/chart.jpeg" ] || fail "an unknown format should exit 2 and write nothing"
 "$BIN" draw "$T/missing.yaml" -o "$T/m.svg" 2>/dev/null
 [ $? -eq 1 ] && [ ! -e "$T/m.svg" ] || fail "missing layout should exit 1"
 "$BIN" draw tests/data/draw/suppressed.yaml -o "$T/no/such/dir/x.svg" 2>/dev/null

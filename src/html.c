@@ -1,0 +1,178 @@
+/*
+** Web-page output: one self-contained HTML page holding the SVG inline, the
+** plain-language description, and a data table per chart as the picture's
+** text alternative (a screen reader can walk a table cell by cell; it cannot
+** count icons). No scripts, no external files: the page is one document that
+** can be mailed, archived or opened from a USB stick.
+**
+** The page is also well-formed XML (uppercase DOCTYPE, self-closed void
+** elements), which HTML parsers accept and which lets tests parse it strictly.
+*/
+#include <string.h>
+#include <strings.h>
+
+#include "alloc.h"
+#include "raster.h"
+
+static void esc(ug_buf *b, const char *s)
+{
+    for (; *s; s++) {
+        switch (*s) {
+        case '&': ug_buf_puts(b, "&amp;"); break;
+        case '<': ug_buf_puts(b, "&lt;"); break;
+        case '>': ug_buf_puts(b, "&gt;"); break;
+        case '"': ug_buf_puts(b, "&quot;"); break;
+        default: ug_buf_add(b, s, 1);
+        }
+    }
+}
+
+/* ---- the SVG ------------------------------------------------------------- */
+
+static bool has_script(const char *s, size_t n)
+{
+    for (size_t i = 0; i + 7 <= n; i++)
+        if (s[i] == '<' && strncasecmp(s + i + 1, "script", 6) == 0)
+            return true;
+    return false;
+}
+
+/* ---- the table ----------------------------------------------------------- */
+
+/* num/den rounded half-up to two places, trailing zeros dropped: a table
+** cell for readers, where the report gives the full six places. */
+static const char *short_number(ug_i128 num, ug_i128 den, char *buf)
+{
+    ug_ratio_format(num, den, 2, buf);
+    size_t n = strlen(buf);
+    if (n >= 3 && strcmp(buf + n - 3, ".00") == 0)
+        buf[n - 3] = '\0';
+    else if (buf[n - 1] == '0' && strchr(buf, '.'))
+        buf[n - 1] = '\0';
+    return buf;
+}
+
+static void caption(ug_buf *b, const ug_allocation *a)
+{
+    const ug_chart *c = a->chart;
+    char v[64];
+    ug_buf_puts(b, "<caption>");
+    esc(b, c->title.text ? c->title.text : "Chart");
+    if (a->rule.by_cells) {
+        if (a->rule.cells == 100)
+            ug_buf_puts(b, " (each square = 1% of the total");
+        else
+            ug_buf_printf(b, " (each square = 1/%ld of the total", a->rule.cells);
+    } else {
+        ug_buf_printf(b, " (each icon = %s", ug_dec_format(a->rule.value, v));
+    }
+    if (c->unit_label.text) {
+        ug_buf_puts(b, " ");
+        esc(b, c->unit_label.text);
+    }
+    ug_buf_puts(b, ")</caption>\n");
+}
+
+static void head_row(ug_buf *b, bool groups)
+{
+    ug_buf_puts(b, "<thead><tr>");
+    if (groups)
+        ug_buf_puts(b, "<th scope=\"col\">Group</th>");
+    ug_buf_puts(b, "<th scope=\"col\">Category</th><th scope=\"col\">Count</th>"
+                   "<th scope=\"col\">Icons</th><th scope=\"col\">Shown value</th>"
+                   "</tr></thead>\n");
+}
+
+static void body_row(ug_buf *b, const ug_allocation *a, size_t g, size_t i)
+{
+    const ug_chart *c = a->chart;
+    const alloc_share *s = alloc_at(a, g, i);
+    char count[48], icons[64], shown[64];
+    ug_buf_puts(b, "<tr>");
+    if (c->groups.n) {
+        ug_buf_puts(b, "<td>");
+        esc(b, c->groups.items[g].text);
+        ug_buf_puts(b, "</td>");
+    }
+    ug_buf_puts(b, "<th scope=\"row\">");
+    esc(b, c->cats[i].label.text);
+    if (s->partial)
+        short_number(s->quota_num, s->quota_den, icons);
+    else
+        snprintf(icons, sizeof icons, "%ld", s->icons);
+    ug_buf_printf(b, "</th><td>%s</td><td>%s</td><td>%s</td></tr>\n",
+                  ug_dec_format(s->count, count), icons,
+                  short_number(s->shown_num, s->shown_den * UG_DEC_SCALE, shown));
+}
+
+static void table(ug_buf *b, const ug_allocation *a)
+{
+    ug_buf_puts(b, "<table>\n");
+    caption(b, a);
+    head_row(b, a->chart->groups.n > 0);
+    ug_buf_puts(b, "<tbody>\n");
+    for (size_t g = 0; g < a->ngroups; g++)
+        for (size_t i = 0; i < a->ncats; i++)
+            body_row(b, a, g, i);
+    ug_buf_puts(b, "</tbody>\n</table>\n");
+}
+
+/* ---- the page ------------------------------------------------------------ */
+
+static const char page_css[] =
+    "body{font-family:'DejaVu Sans',sans-serif;color:#222;background:#fff;"
+    "margin:2em auto;max-width:60em;padding:0 1em}"
+    "svg{max-width:100%;height:auto}"
+    "table{border-collapse:collapse;margin:1.5em 0}"
+    "caption{text-align:left;font-weight:bold;padding-bottom:.4em}"
+    "th,td{border:1px solid #767676;padding:.25em .6em}"
+    "td{text-align:right}thead th{background:#eee}"
+    "tbody th{text-align:left;font-weight:normal}";
+
+static void page_head(ug_buf *b, const char *title)
+{
+    ug_buf_puts(b, "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n"
+                   "<meta charset=\"utf-8\"/>\n"
+                   "<meta name=\"viewport\" content=\"width=device-width\"/>\n"
+                   "<title>");
+    esc(b, title);
+    ug_buf_printf(b, "</title>\n<style>%s</style>\n</head>\n<body>\n<main>\n<h1>",
+                  page_css);
+    esc(b, title);
+    ug_buf_puts(b, "</h1>\n");
+}
+
+ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
+                       const char *description,
+                       const ug_allocation *const *allocs, size_t nallocs,
+                       char **out, size_t *len, ug_error *err)
+{
+    *out = NULL;
+    const ug_chart *first = nallocs ? allocs[0]->chart : NULL;
+    size_t at = raster_svg_body(svg, svg_len);
+    if (svg_len - at < 4 || memcmp(svg + at, "<svg", 4) != 0)
+        return ug_fail(err, UG_ERENDER, ug_mark_file(NULL),
+                       "the picture for the web page is not an <svg> element");
+    if (has_script(svg + at, svg_len - at))
+        return ug_fail(err, UG_ERENDER, ug_mark_file(NULL),
+                       "the picture for the web page contains a script");
+    if (!title)
+        title = first && first->title.text ? first->title.text : "Chart";
+    if (!description && first)
+        description = first->description.text;
+    ug_buf b;
+    ug_buf_init(&b);
+    page_head(&b, title);
+    ug_buf_puts(&b, "<figure>\n");
+    ug_buf_add(&b, svg + at, svg_len - at);
+    ug_buf_puts(&b, "\n</figure>\n");
+    if (description && *description) {
+        ug_buf_puts(&b, "<p>");
+        esc(&b, description);
+        ug_buf_puts(&b, "</p>\n");
+    }
+    for (size_t k = 0; k < nallocs; k++)
+        table(&b, allocs[k]);
+    ug_buf_puts(&b, "</main>\n</body>\n</html>\n");
+    return ug_buf_take(&b, out, len, err);
+}

@@ -1,0 +1,640 @@
+/*
+** Page stage: a handout page (FORMAT.md §2) -> one scene the size of the
+** sheet. Panels are laid on a column grid in reading order; the page title
+** sits at the top and the sources of every panel are collected at the foot.
+** Nothing is shrunk to fit: content that does not fit is an error saying
+** which panel and by how much, because a silently smaller icon would break
+** the shared scale readers compare across panels.
+*/
+#include <assert.h>
+#include <math.h>
+#include <string.h>
+
+#include "pack.h"
+#include "page.h"
+#include "raster.h"
+#include "svg.h"
+#include "text.h"
+
+double page_span_width(const page_grid *g, long span)
+{
+    double inner = g->width - 2 * g->margin;
+    double col = (inner - (double)(g->columns - 1) * g->gutter) / (double)g->columns;
+    return col * (double)span + g->gutter * (double)(span - 1);
+}
+
+/* Finish a row: every panel in it starts at y; returns the next row's y. */
+static double close_row(const page_grid *g, page_box *out, size_t from,
+                        size_t to, double y)
+{
+    double tallest = 0;
+    for (size_t i = from; i < to; i++)
+        if (out[i].h > tallest)
+            tallest = out[i].h;
+    return y + tallest + g->gutter;
+}
+
+size_t page_place(const page_grid *g, const long *spans, const double *heights,
+                  size_t n, page_box *out, double *over)
+{
+    double y = g->top;
+    long used = 0;
+    size_t row = 0;
+    *over = 0;
+    for (size_t i = 0; i < n; i++) {
+        assert(spans[i] >= 1 && spans[i] <= g->columns);
+        if (used + spans[i] > g->columns) {
+            y = close_row(g, out, row, i, y);
+            row = i;
+            used = 0;
+        }
+        /* whole pixels, so icons drawn on whole pixels stay sharp at 96 dpi */
+        out[i].x = round(g->margin + (double)used * (page_span_width(g, 1) + g->gutter));
+        out[i].y = ceil(y);
+        out[i].w = page_span_width(g, spans[i]);
+        out[i].h = heights[i];
+        used += spans[i];
+    }
+    size_t first = n;
+    for (size_t i = 0; i < n; i++) {
+        double past = out[i].y + out[i].h - g->bottom;
+        if (past > 1e-9 && first == n)
+            first = i;
+        if (past > *over)
+            *over = past;
+    }
+    return first;
+}
+
+/* ---- composing the page -------------------------------------------------- */
+
+#define PAGE_TITLE_PX 26.0
+#define PAGE_TEXT_PX 15.0
+#define PAGE_SOURCE_PX 12.0
+#define PAGE_GUTTER 16.0  /* between columns, rows and blocks */
+
+typedef struct {
+    const ug_page *p;
+    page_result *r;
+    ug_error *err;
+    const char *font;
+    scene_rgb ink, paper;
+    page_grid g;
+    char **svgs;          /* one per panel; NULL for text */
+    text_block *texts;    /* one per panel; n == 0 for charts */
+    text_block title, foot;
+    long *spans;
+    double *heights;
+    page_box *boxes;
+    page_box *crops;      /* the part of each chart's canvas shown */
+    ug_buf desc;
+} composer;
+
+static ug_status nomem(composer *k)
+{
+    return ug_fail(k->err, UG_ENOMEM, ug_mark_file(k->p->path), "out of memory");
+}
+
+static double mm(double px) { return px / PAGE_PX_PER_MM; }
+
+/* The name a message uses for panel i: its chart file, or its number. */
+static void panel_name(const ug_page *p, size_t i, char *buf, size_t size)
+{
+    const ug_panel *pn = &p->panels[i];
+    if (pn->kind == UG_PANEL_CHART && pn->chart_file.text)
+        snprintf(buf, size, "panel %zu (%s)", i + 1, pn->chart_file.text);
+    else
+        snprintf(buf, size, "panel %zu (%s)", i + 1,
+                 pn->kind == UG_PANEL_TEXT ? "text" : "inline chart");
+}
+
+/* ---- shared scale -------------------------------------------------------- */
+
+/* The icon value a chart would choose for itself (`icon-value: auto`). */
+static ug_status own_value(const ug_chart *c, ug_dec *v, ug_error *err)
+{
+    ug_chart probe = *c; /* a shallow copy: only read, never freed */
+    alloc_rule rule;
+    probe.has_icon_value = true;
+    probe.icon_value_auto = true;
+    ug_status st = alloc_rule_for_chart(&probe, &rule, err);
+    *v = rule.value;
+    return st;
+}
+
+/* shared-scale: the loader has refused charts that state different values or
+** sizes; here every chart takes the one stated, and when none is stated the
+** largest value any chart would choose, so that every chart still fits. A
+** waffle cut into `cells` shares of its own total has no icon value to share. */
+static ug_status share_scale(composer *k)
+{
+    ug_chart *cs = k->r->charts;
+    const ug_chart *value = NULL, *size = NULL;
+    ug_dec v = {0};
+    for (size_t i = 0; i < k->p->npanels; i++) {
+        const ug_chart *c = k->p->panels[i].chart;
+        if (!c)
+            continue;
+        if (c->form == UG_FORM_WAFFLE && c->has_cells)
+            return ug_fail(k->err, UG_ESCHEMA, c->cells_mark,
+                           "shared-scale: a waffle of %ld cells shows shares of its "
+                           "own total, which cannot share one icon value with the "
+                           "other charts; state icon-value instead of cells",
+                           c->cells);
+        if (c->has_icon_value && !c->icon_value_auto && !value)
+            value = c;
+        if (c->icon_mark.line && !size)
+            size = c;
+        ug_dec own;
+        ug_status st = value ? UG_OK : own_value(c, &own, k->err);
+        if (st)
+            return st;
+        if (!value && own.v > v.v)
+            v = own;
+    }
+    if (value)
+        v = value->icon_value;
+    for (size_t i = 0; i < k->p->npanels; i++) {
+        if (!k->p->panels[i].chart)
+            continue;
+        cs[i].has_icon_value = true;
+        cs[i].icon_value_auto = false;
+        cs[i].icon_value = v;
+        if (size) {
+            cs[i].icon_size = size->icon_size;
+            cs[i].icon_gap = size->icon_gap;
+        }
+    }
+    return UG_OK;
+}
+
+/* ---- panels ----------------------------------------------------------------- */
+
+/* The box every mark of a scene lies in: the chart without its own margin,
+** which on a page the gutters replace. */
+static page_box content_box(const ug_scene *s)
+{
+    double x0 = s->width, y0 = s->height, x1 = 0, y1 = 0;
+#define GROW(a, b, c, d) \
+    (x0 = fmin(x0, a), y0 = fmin(y0, b), x1 = fmax(x1, c), y1 = fmax(y1, d))
+    for (size_t i = 0; i < s->ntexts; i++) {
+        double a, b, c, d;
+        scene_text_box(&s->texts[i], &a, &b, &c, &d);
+        GROW(a, b, c, d);
+    }
+    for (size_t i = 0; i < s->nicons; i++)
+        GROW(s->icons[i].x, s->icons[i].y, s->icons[i].x + s->icon_size,
+             s->icons[i].y + s->icon_size);
+    for (size_t i = 0; i < s->nswatches; i++)
+        GROW(s->swatches[i].x, s->swatches[i].y, s->swatches[i].x + s->icon_size,
+             s->swatches[i].y + s->icon_size);
+    for (size_t i = 0; i < s->nholders; i++)
+        GROW(s->holders[i].x, s->holders[i].y, s->holders[i].x + s->holders[i].w,
+             s->holders[i].y + s->holders[i].h);
+    for (size_t i = 0; i < s->nrects; i++)
+        GROW(s->rects[i].x, s->rects[i].y, s->rects[i].x + s->rects[i].w,
+             s->rects[i].y + s->rects[i].h);
+#undef GROW
+    if (x1 <= x0 || y1 <= y0)
+        return (page_box){0, 0, s->width, s->height};
+    x0 = floor(x0), y0 = floor(y0);
+    return (page_box){x0, y0, ceil(x1) - x0, ceil(y1) - y0};
+}
+
+/* Pack chart i for a column `room` px wide. The packer keeps a margin on
+** each side of its canvas; the panel drops it, so a second pass widens the
+** canvas by the two margins to let the content use the whole column. Should
+** the content then outgrow the column, the first pass stands. */
+static ug_status pack_panel(composer *k, size_t i, const ug_allocation *a,
+                            double room, ug_scene **s)
+{
+    ug_chart *c = &k->r->charts[i];
+    ug_scene *wide = NULL;
+    c->style.width = room;
+    ug_status st = ug_scene_pack(c, a, s, k->err);
+    if (st)
+        return st;
+    double spare = 2 * floor(content_box(*s).x);
+    if (spare <= 0 || ug_scene_width(*s) > room + 0.5)
+        return UG_OK;
+    c->style.width = room + spare;
+    if ((st = ug_scene_pack(c, a, &wide, k->err)))
+        return st;
+    if (content_box(wide).w > room + 0.5) {
+        ug_scene_free(wide);
+        return UG_OK;
+    }
+    ug_scene_free(*s);
+    *s = wide;
+    return UG_OK;
+}
+
+/* The page's description is its charts' descriptions, in reading order. */
+static ug_status describe_panel(composer *k, const ug_chart *c,
+                                const ug_allocation *a)
+{
+    char *d = NULL;
+    ug_status st = ug_chart_describe(c, a, &d, NULL, k->err);
+    if (st)
+        return st;
+    ug_buf_printf(&k->desc, "%s%s", k->desc.len ? " " : "", d);
+    ug_free(d);
+    return k->desc.failed ? nomem(k) : UG_OK;
+}
+
+static ug_status chart_panel(composer *k, size_t i)
+{
+    ug_chart *c = &k->r->charts[i];
+    ug_allocation *a = NULL;
+    ug_scene *s = NULL;
+    char name[160];
+    /* whole px: a browser lays a nested <svg> out on whole pixels and would
+    ** scale a chart whose canvas is a fraction wider than its slot */
+    double room = floor(page_span_width(&k->g, k->spans[i]));
+    c->source.n = 0; /* collected at the foot of the page */
+    ug_status st = ug_chart_allocate(c, &a, k->err);
+    if (st)
+        return st;
+    k->r->allocs[k->r->nallocs++] = a;
+    if ((st = describe_panel(k, c, a)) || (st = pack_panel(k, i, a, room, &s)))
+        return st;
+    k->crops[i] = content_box(s);
+    k->heights[i] = k->crops[i].h;
+    if (k->crops[i].w > room + 0.5) {
+        panel_name(k->p, i, name, sizeof name);
+        st = ug_fail(k->err, UG_ELIMIT, k->p->panels[i].mark,
+                     "%s needs %.1f mm of width but its column is %.1f mm wide; "
+                     "give it a larger span, use fewer columns or smaller icons",
+                     name, mm(k->crops[i].w), mm(room));
+    } else {
+        st = ug_scene_svg(s, &k->svgs[i], NULL, k->err);
+    }
+    ug_scene_free(s);
+    return st;
+}
+
+static double block_height(const text_block *t)
+{
+    return t->n ? t->ascent + t->descent + (double)(t->n - 1) * t->pitch : 0;
+}
+
+/* A text block is paragraphs separated by blank lines; a single line break
+** is only where the source file wrapped, so it becomes a space and the
+** paragraph is wrapped again to its column. */
+static void join_lines(char *s)
+{
+    for (char *p = s; (p = strchr(p, '\n')); p++) {
+        if (p[1] == '\n') {
+            for (p++; p[1] == '\n'; p++)
+                ;
+            continue;
+        }
+        if (p[1] != '\0')
+            *p = ' ';
+    }
+}
+
+static ug_status text_panel(composer *k, size_t i)
+{
+    text_font f = {k->font, PAGE_TEXT_PX, false};
+    char *clean = text_clean(k->p->panels[i].text.text ? k->p->panels[i].text.text : "");
+    if (!clean)
+        return nomem(k);
+    join_lines(clean);
+    ug_status st = text_wrap(&f, clean, page_span_width(&k->g, k->spans[i]),
+                             &k->texts[i], k->err);
+    ug_free(clean);
+    k->heights[i] = block_height(&k->texts[i]);
+    return st;
+}
+
+/* ---- title, foot and grid ------------------------------------------------------ */
+
+static bool listed(const ug_buf *b, const char *line)
+{
+    size_t n = strlen(line);
+    for (const char *at = b->data; at && (at = strstr(at, line)); at++)
+        if ((at == b->data || at[-1] == '\n') && (at[n] == '\n' || at[n] == '\0'))
+            return true;
+    return false;
+}
+
+static void add_sources(ug_buf *b, const ug_text_list *l)
+{
+    for (size_t i = 0; i < l->n; i++) {
+        char *line = NULL;
+        size_t len = strlen(l->items[i].text) + 16;
+        if (!(line = ug_malloc(len))) {
+            b->failed = true;
+            return;
+        }
+        snprintf(line, len, "Source: %s", l->items[i].text);
+        if (!listed(b, line))
+            ug_buf_printf(b, "%s%s", b->len ? "\n" : "", line);
+        ug_free(line);
+    }
+}
+
+/* Every source the page and its charts name, once each, one to a line. */
+static ug_status foot(composer *k)
+{
+    ug_buf b;
+    ug_buf_init(&b);
+    add_sources(&b, &k->p->source);
+    for (size_t i = 0; i < k->p->npanels; i++)
+        if (k->p->panels[i].chart)
+            add_sources(&b, &k->p->panels[i].chart->source);
+    char *text;
+    ug_status st = ug_buf_take(&b, &text, NULL, k->err);
+    if (st)
+        return st;
+    text_font f = {k->font, PAGE_SOURCE_PX, false};
+    st = text_wrap(&f, text, k->g.width - 2 * k->g.margin, &k->foot, k->err);
+    ug_free(text);
+    return st;
+}
+
+static ug_status title(composer *k)
+{
+    text_font f = {k->font, PAGE_TITLE_PX, true};
+    char *clean = text_clean(k->p->title.text ? k->p->title.text : "");
+    if (!clean)
+        return nomem(k);
+    ug_status st = text_wrap(&f, clean, k->g.width - 2 * k->g.margin, &k->title,
+                             k->err);
+    ug_free(clean);
+    return st;
+}
+
+static void set_grid(composer *k)
+{
+    const ug_page *p = k->p;
+    k->g = (page_grid){p->width, p->height, p->margin, PAGE_GUTTER,
+                       p->columns > 0 ? p->columns : 1, p->margin,
+                       p->height - p->margin};
+}
+
+static void fit_header_and_foot(composer *k)
+{
+    double t = block_height(&k->title), f = block_height(&k->foot);
+    k->g.top += t > 0 ? t + PAGE_GUTTER : 0;
+    k->g.bottom -= f > 0 ? f + PAGE_GUTTER : 0;
+}
+
+/* ---- writing the page ------------------------------------------------------------ */
+
+static void num_attr(ug_buf *b, const char *name, double v, const char *unit)
+{
+    char t[32];
+    svg_number(v, t);
+    ug_buf_printf(b, " %s=\"%s%s\"", name, t, unit);
+}
+
+static void text_lines(ug_buf *b, const text_block *t, double x, double top,
+                       double px, bool bold)
+{
+    for (size_t i = 0; i < t->n; i++) {
+        if (!t->lines[i][0])
+            continue;
+        ug_buf_puts(b, "<text");
+        num_attr(b, "x", x, "");
+        num_attr(b, "y", top + t->ascent + (double)i * t->pitch, "");
+        num_attr(b, "font-size", px, "");
+        ug_buf_puts(b, bold ? " font-weight=\"bold\">" : ">");
+        svg_escape(b, t->lines[i]);
+        ug_buf_puts(b, "</text>\n");
+    }
+}
+
+/* A chart's own SVG, cropped to `crop` and placed at box: an outer <svg>
+** whose viewBox is the crop holds the chart's document unchanged, so no
+** icon is scaled. The chart's ids (glyph symbols, clip paths, title and
+** description) get a per-panel prefix so two charts never share one; the
+** SVG writer escapes every quote in text, so these quoted patterns occur
+** only in attributes. */
+static void nest(ug_buf *b, const char *svg, size_t panel, const page_box *box,
+                 const page_box *crop)
+{
+    static const char *const refs[] = {" id=\"", "href=\"#", "\"url(#",
+                                       "aria-labelledby=\"", "aria-describedby=\""};
+    size_t len = strlen(svg), run = raster_svg_body(svg, len);
+    char prefix[32], v[4][32];
+    snprintf(prefix, sizeof prefix, "p%zu-", panel + 1);
+    ug_buf_puts(b, "<svg");
+    num_attr(b, "x", box->x, "");
+    num_attr(b, "y", box->y, "");
+    num_attr(b, "width", crop->w, "");
+    num_attr(b, "height", crop->h, "");
+    svg_number(crop->x, v[0]);
+    svg_number(crop->y, v[1]);
+    svg_number(crop->w, v[2]);
+    svg_number(crop->h, v[3]);
+    ug_buf_printf(b, " viewBox=\"%s %s %s %s\">\n", v[0], v[1], v[2], v[3]);
+    for (size_t i = run; i < len; i++)
+        for (size_t r = 0; r < sizeof refs / sizeof refs[0]; r++) {
+            size_t n = strlen(refs[r]);
+            if (len - i >= n && memcmp(svg + i, refs[r], n) == 0) {
+                ug_buf_add(b, svg + run, i + n - run);
+                ug_buf_puts(b, prefix);
+                run = i + n;
+                i += n - 1;
+                break;
+            }
+        }
+    ug_buf_add(b, svg + run, len - run);
+    ug_buf_puts(b, "</svg>\n");
+}
+
+static void color_attr(ug_buf *b, const char *name, scene_rgb c)
+{
+    ug_buf_printf(b, " %s=\"#%02x%02x%02x\"", name, c.r, c.g, c.b);
+}
+
+static void page_head(composer *k, ug_buf *b)
+{
+    const ug_page *p = k->p;
+    ug_buf_puts(b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
+                   "<svg xmlns=\"http://www.w3.org/2000/svg\"");
+    /* stated in mm, so the sheet is exact whatever rounding the px carry */
+    num_attr(b, "width", mm(p->width), "mm");
+    num_attr(b, "height", mm(p->height), "mm");
+    char w[32], h[32];
+    svg_number(k->g.width, w);
+    svg_number(k->g.height, h);
+    ug_buf_printf(b, " viewBox=\"0 0 %s %s\"", w, h);
+    ug_buf_puts(b, " aria-labelledby=\"page-title\" aria-describedby=\"page-desc\""
+                   " font-family=\"");
+    svg_escape(b, k->font);
+    ug_buf_puts(b, "\">\n<title id=\"page-title\">");
+    svg_escape(b, p->title.text ? p->title.text : "Handout");
+    ug_buf_puts(b, "</title>\n<desc id=\"page-desc\">");
+    svg_escape(b, k->r->desc);
+    ug_buf_puts(b, "</desc>\n<rect");
+    num_attr(b, "width", k->g.width, "");
+    num_attr(b, "height", k->g.height, "");
+    color_attr(b, "fill", k->paper);
+    ug_buf_puts(b, "/>\n");
+}
+
+static ug_status write_page(composer *k)
+{
+    ug_buf b;
+    ug_buf_init(&b);
+    page_head(k, &b);
+    ug_buf_puts(&b, "<g");
+    color_attr(&b, "fill", k->ink);
+    ug_buf_puts(&b, ">\n");
+    text_lines(&b, &k->title, k->g.margin, k->g.margin, PAGE_TITLE_PX, true);
+    for (size_t i = 0; i < k->p->npanels; i++)
+        text_lines(&b, &k->texts[i], k->boxes[i].x, k->boxes[i].y, PAGE_TEXT_PX, false);
+    text_lines(&b, &k->foot, k->g.margin,
+               k->g.height - k->g.margin - block_height(&k->foot), PAGE_SOURCE_PX,
+               false);
+    ug_buf_puts(&b, "</g>\n");
+    for (size_t i = 0; i < k->p->npanels; i++)
+        if (k->svgs[i])
+            nest(&b, k->svgs[i], i, &k->boxes[i], &k->crops[i]);
+    ug_buf_puts(&b, "</svg>\n");
+    return ug_buf_take(&b, &k->r->svg, &k->r->len, k->err);
+}
+
+/* ---- the stage ------------------------------------------------------------------ */
+
+static ug_status overflow(composer *k, size_t i, double over)
+{
+    char name[160];
+    panel_name(k->p, i, name, sizeof name);
+    return ug_fail(k->err, UG_ELIMIT, k->p->panels[i].mark,
+                   "the content does not fit on the page: %s ends %.1f mm below "
+                   "the room above the sources, and the page needs %.1f mm more; "
+                   "use a larger page, more columns, fewer panels or smaller icons "
+                   "(nothing is shrunk to fit)",
+                   name, mm(k->boxes[i].y + k->boxes[i].h - k->g.bottom), mm(over));
+}
+
+static ug_status set_up(composer *k)
+{
+    const ug_page *p = k->p;
+    size_t n = p->npanels;
+    const ug_chart *first = NULL;
+    for (size_t i = 0; i < n && !first; i++)
+        first = p->panels[i].chart;
+    k->font = first && first->style.font ? first->style.font : "DejaVu Sans";
+    k->ink = first && first->style.ink.set
+                 ? (scene_rgb){first->style.ink.r, first->style.ink.g, first->style.ink.b}
+                 : (scene_rgb){0x22, 0x22, 0x22};
+    k->paper = (scene_rgb){0xff, 0xff, 0xff};
+    k->r->charts = ug_calloc(n, sizeof *k->r->charts);
+    k->r->allocs = ug_calloc(n, sizeof *k->r->allocs);
+    k->svgs = ug_calloc(n, sizeof *k->svgs);
+    k->texts = ug_calloc(n, sizeof *k->texts);
+    k->spans = ug_calloc(n, sizeof *k->spans);
+    k->heights = ug_calloc(n, sizeof *k->heights);
+    k->boxes = ug_calloc(n, sizeof *k->boxes);
+    k->crops = ug_calloc(n, sizeof *k->crops);
+    if (!k->r->charts || !k->r->allocs || !k->svgs || !k->texts || !k->spans ||
+        !k->heights || !k->boxes || !k->crops)
+        return nomem(k);
+    set_grid(k);
+    for (size_t i = 0; i < n; i++) {
+        k->spans[i] = p->panels[i].span < 1 ? 1 : p->panels[i].span;
+        if (k->spans[i] > k->g.columns)
+            k->spans[i] = k->g.columns; /* the loader refuses this; stay safe */
+        if (p->panels[i].chart)
+            k->r->charts[i] = *p->panels[i].chart;
+    }
+    return p->shared_scale ? share_scale(k) : UG_OK;
+}
+
+static ug_status compose(composer *k)
+{
+    ug_status st;
+    if ((st = set_up(k)) || (st = title(k)) || (st = foot(k)))
+        return st;
+    fit_header_and_foot(k);
+    for (size_t i = 0; i < k->p->npanels; i++)
+        if ((st = k->p->panels[i].chart ? chart_panel(k, i) : text_panel(k, i)))
+            return st;
+    double over;
+    size_t bad = page_place(&k->g, k->spans, k->heights, k->p->npanels, k->boxes,
+                            &over);
+    if (bad < k->p->npanels)
+        return overflow(k, bad, over);
+    if ((st = ug_buf_take(&k->desc, &k->r->desc, NULL, k->err)))
+        return st;
+    return write_page(k);
+}
+
+ug_status page_compose(const ug_page *page, page_result *out, ug_error *err)
+{
+    composer k;
+    memset(&k, 0, sizeof k);
+    memset(out, 0, sizeof *out);
+    k.p = page;
+    k.r = out;
+    k.err = err;
+    ug_status st = compose(&k);
+    for (size_t i = 0; k.svgs && i < page->npanels; i++) {
+        ug_free(k.svgs[i]);
+        text_block_free(&k.texts[i]);
+    }
+    ug_free(k.svgs);
+    ug_free(k.texts);
+    ug_free(k.spans);
+    ug_free(k.heights);
+    ug_free(k.boxes);
+    ug_free(k.crops);
+    text_block_free(&k.title);
+    text_block_free(&k.foot);
+    ug_buf_free(&k.desc);
+    if (st)
+        page_result_free(out);
+    return st;
+}
+
+void page_result_free(page_result *r)
+{
+    if (!r)
+        return;
+    for (size_t i = 0; i < r->nallocs; i++)
+        ug_allocation_free(r->allocs[i]);
+    ug_free(r->allocs);
+    ug_free(r->charts); /* shallow copies: their strings belong to the page */
+    ug_free(r->svg);
+    ug_free(r->desc);
+    memset(r, 0, sizeof *r);
+}
+
+ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
+                       double scale, char **out, size_t *len, ug_error *err)
+{
+    page_result r;
+    *out = NULL;
+    ug_status st = page_compose(page, &r, err);
+    if (st)
+        return st;
+    if (fmt == UG_OUT_HTML)
+        st = ug_html_page(page->title.text, r.svg, r.len, "",
+                          (const ug_allocation *const *)r.allocs, r.nallocs, out, len,
+                          err);
+    else
+        st = ug_render_svg(r.svg, r.len, fmt, dpi, scale, out, len, err);
+    page_result_free(&r);
+    return st;
+}
+
+ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
+                           ug_error *err)
+{
+    page_result r;
+    *out = NULL;
+    ug_status st = page_compose(page, &r, err);
+    if (st)
+        return st;
+    *out = r.desc;
+    if (len)
+        *len = strlen(r.desc);
+    r.desc = NULL;
+    page_result_free(&r);
+    return UG_OK;
+}

@@ -1,0 +1,335 @@
+/*
+** Raster stage: SVG bytes -> PNG or PDF bytes.
+**
+** librsvg parses the SVG the svg stage wrote and draws it onto a cairo
+** surface: an image surface for PNG, a PDF surface for PDF. The SVG's size is
+** in CSS px (96 per inch); a PNG gets px * dpi/96 * scale pixels a side, a
+** PDF page gets px * 0.75 * scale points a side (72 pt per inch), so a chart
+** 800 px wide prints 8 1/3 inches wide at scale 1 whatever the dpi.
+**
+** Both writers stream into a ug_buf; nothing here touches a file except
+** ug_render_svg_file, which renders completely first and only then writes
+** through ug_write_file_atomic, so a failed render leaves the old file alone.
+** Output is deterministic: cairo's PNG writer adds no time stamp, and the
+** PDF's creation date, the only varying bytes, is dropped.
+*/
+#include <assert.h>
+#include <cairo-pdf.h>
+#include <cairo.h>
+#include <librsvg/rsvg.h>
+#include <math.h>
+#include <string.h>
+#include <strings.h>
+
+#include "raster.h"
+
+/* ---- formats ------------------------------------------------------------- */
+
+static const char *const format_names[] = {"svg", "png", "pdf", "html"};
+
+const char *ug_output_format_name(ug_output_format f)
+{
+    return (unsigned)f < 4 ? format_names[f] : "svg";
+}
+
+int ug_output_format_parse(const char *name, ug_output_format *out)
+{
+    for (unsigned i = 0; i < 4; i++)
+        if (strcasecmp(name, format_names[i]) == 0) {
+            *out = (ug_output_format)i;
+            return 0;
+        }
+    if (strcasecmp(name, "htm") == 0) {
+        *out = UG_OUT_HTML;
+        return 0;
+    }
+    return -1;
+}
+
+ug_output_format ug_output_format_from_path(const char *path)
+{
+    const char *dot = strrchr(path, '.');
+    const char *slash = strrchr(path, '/');
+    ug_output_format f = UG_OUT_SVG;
+    if (dot && (!slash || dot > slash))
+        ug_output_format_parse(dot + 1, &f);
+    return f;
+}
+
+/* ---- the <svg> element of a document --------------------------------------- */
+
+static size_t skip_space(const char *s, size_t i, size_t n)
+{
+    while (i < n && (s[i] == ' ' || s[i] == '\t' || s[i] == '\r' || s[i] == '\n'))
+        i++;
+    return i;
+}
+
+/* Index just past `end` at or after i, or n when it is missing. */
+static size_t past(const char *s, size_t i, size_t n, const char *end)
+{
+    size_t k = strlen(end);
+    for (; i + k <= n; i++)
+        if (memcmp(s + i, end, k) == 0)
+            return i + k;
+    return n;
+}
+
+size_t raster_svg_body(const char *s, size_t n)
+{
+    size_t i = skip_space(s, 0, n);
+    for (;;) {
+        if (n - i >= 5 && memcmp(s + i, "<?xml", 5) == 0)
+            i = past(s, i, n, "?>");
+        else if (n - i >= 4 && memcmp(s + i, "<!--", 4) == 0)
+            i = past(s, i, n, "-->");
+        else if (n - i >= 9 && strncasecmp(s + i, "<!DOCTYPE", 9) == 0)
+            i = past(s, i, n, memchr(s + i, '[', n - i) ? "]>" : ">");
+        else
+            return i;
+        i = skip_space(s, i, n);
+    }
+}
+
+/* ---- reading the SVG ------------------------------------------------------ */
+
+static ug_status svg_error(ug_error *err, GError *gerr, const char *what)
+{
+    ug_fail(err, UG_ERENDER, ug_mark_file(NULL), "%s: %s", what,
+            gerr && gerr->message ? gerr->message : "unknown librsvg error");
+    if (gerr)
+        g_error_free(gerr);
+    return UG_ERENDER;
+}
+
+/* Lengths in the SVG are read at 96 dpi whatever the output resolution:
+** the output size is chosen by the viewport, not by librsvg's dpi. */
+static ug_status open_svg(const char *svg, size_t len, RsvgHandle **out,
+                          ug_error *err)
+{
+    GError *gerr = NULL;
+    *out = rsvg_handle_new_from_data((const guint8 *)svg, len, &gerr);
+    if (!*out)
+        return svg_error(err, gerr, "the SVG could not be read");
+    rsvg_handle_set_dpi(*out, RASTER_CSS_DPI);
+    return UG_OK;
+}
+
+static ug_status handle_size(RsvgHandle *h, double *w, double *h_out,
+                             ug_error *err)
+{
+    gboolean has_w, has_h, has_vb;
+    RsvgLength lw, lh;
+    RsvgRectangle vb;
+    if (!rsvg_handle_get_intrinsic_size_in_pixels(h, w, h_out)) {
+        /* No absolute width/height: fall back on the viewBox, in px. */
+        rsvg_handle_get_intrinsic_dimensions(h, &has_w, &lw, &has_h, &lh,
+                                             &has_vb, &vb);
+        if (!has_vb)
+            return ug_fail(err, UG_ERENDER, ug_mark_file(NULL),
+                           "the SVG states no size (no width, height or viewBox)");
+        *w = vb.width;
+        *h_out = vb.height;
+    }
+    if (!(*w > 0 && *h_out > 0 && isfinite(*w) && isfinite(*h_out)))
+        return ug_fail(err, UG_ERENDER, ug_mark_file(NULL),
+                       "the SVG's size is empty (%g x %g px)", *w, *h_out);
+    return UG_OK;
+}
+
+ug_status raster_svg_size(const char *svg, size_t len, double *w, double *h,
+                          ug_error *err)
+{
+    RsvgHandle *handle;
+    ug_status st = open_svg(svg, len, &handle, err);
+    if (st)
+        return st;
+    st = handle_size(handle, w, h, err);
+    g_object_unref(handle);
+    return st;
+}
+
+/* ---- output sizes -------------------------------------------------------- */
+
+static ug_status check_factors(double dpi, double scale, ug_error *err)
+{
+    if (!(isfinite(dpi) && dpi > 0))
+        return ug_fail(err, UG_ESCHEMA, ug_mark_file(NULL),
+                       "dpi must be a positive number (got %g)", dpi);
+    if (!(isfinite(scale) && scale > 0))
+        return ug_fail(err, UG_ESCHEMA, ug_mark_file(NULL),
+                       "scale must be a positive number (got %g)", scale);
+    return UG_OK;
+}
+
+/* Whole pixels covering the picture; the small slack keeps 312.5000000001
+** (float noise on an exact product) from growing a pixel. */
+static double pixels(double px, double factor)
+{
+    return ceil(px * factor - 1e-6);
+}
+
+static ug_status png_size(double w, double h, double dpi, double scale,
+                          int *pw, int *ph, ug_error *err)
+{
+    double f = dpi / RASTER_CSS_DPI * scale;
+    double x = pixels(w, f), y = pixels(h, f);
+    if (x < 1)
+        x = 1;
+    if (y < 1)
+        y = 1;
+    if (x > RASTER_MAX_SIDE || y > RASTER_MAX_SIDE || x * y > RASTER_MAX_PIXELS)
+        return ug_fail(err, UG_ELIMIT, ug_mark_file(NULL),
+                       "a %.0f x %.0f pixel PNG (%.1f megapixels) is over the "
+                       "limit of %.0f megapixels and %.0f pixels a side; lower "
+                       "--dpi or --scale",
+                       x, y, x * y / 1e6, RASTER_MAX_PIXELS / 1e6, RASTER_MAX_SIDE);
+    *pw = (int)x;
+    *ph = (int)y;
+    return UG_OK;
+}
+
+static ug_status pdf_size(double w, double h, double scale, double *pw,
+                          double *ph, ug_error *err)
+{
+    *pw = w * RASTER_PT_PER_PX * scale;
+    *ph = h * RASTER_PT_PER_PX * scale;
+    if (*pw > RASTER_MAX_PAGE_PT || *ph > RASTER_MAX_PAGE_PT)
+        return ug_fail(err, UG_ELIMIT, ug_mark_file(NULL),
+                       "a %.0f x %.0f pt PDF page is larger than the %.0f pt a "
+                       "side PDF readers must accept; lower --scale",
+                       *pw, *ph, RASTER_MAX_PAGE_PT);
+    return UG_OK;
+}
+
+/* ---- drawing ------------------------------------------------------------- */
+
+static cairo_status_t to_buf(void *closure, const unsigned char *data,
+                             unsigned int length)
+{
+    ug_buf *b = closure;
+    ug_buf_add(b, (const char *)data, length);
+    return b->failed ? CAIRO_STATUS_NO_MEMORY : CAIRO_STATUS_SUCCESS;
+}
+
+/* Draw the whole document scaled into a w x h viewport on the surface. */
+static ug_status draw(RsvgHandle *handle, cairo_surface_t *s, double w, double h,
+                      ug_error *err)
+{
+    GError *gerr = NULL;
+    RsvgRectangle viewport = {0, 0, w, h};
+    cairo_t *cr = cairo_create(s);
+    gboolean ok = rsvg_handle_render_document(handle, cr, &viewport, &gerr);
+    cairo_status_t cs = cairo_status(cr);
+    cairo_destroy(cr);
+    if (!ok)
+        return svg_error(err, gerr, "the SVG could not be drawn");
+    if (cs)
+        return ug_fail(err, UG_ERENDER, ug_mark_file(NULL), "cairo: %s",
+                       cairo_status_to_string(cs));
+    return UG_OK;
+}
+
+static ug_status surface_done(cairo_surface_t *s, const ug_buf *b, ug_error *err)
+{
+    cairo_status_t cs = cairo_surface_status(s);
+    if (b->failed || cs == CAIRO_STATUS_NO_MEMORY)
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(NULL), "out of memory");
+    if (cs)
+        return ug_fail(err, UG_ERENDER, ug_mark_file(NULL), "cairo: %s",
+                       cairo_status_to_string(cs));
+    return UG_OK;
+}
+
+static ug_status render_png(RsvgHandle *handle, double w, double h, double dpi,
+                            double scale, ug_buf *b, ug_error *err)
+{
+    int pw = 0, ph = 0;
+    ug_status st = png_size(w, h, dpi, scale, &pw, &ph, err);
+    if (st)
+        return st;
+    cairo_surface_t *s = cairo_image_surface_create(CAIRO_FORMAT_ARGB32, pw, ph);
+    if ((st = surface_done(s, b, err)))
+        goto out;
+    double f = dpi / RASTER_CSS_DPI * scale;
+    if ((st = draw(handle, s, w * f, h * f, err)))
+        goto out;
+    cairo_surface_flush(s);
+    cairo_status_t cs = cairo_surface_write_to_png_stream(s, to_buf, b);
+    if ((st = surface_done(s, b, err)))
+        goto out;
+    if (cs)
+        st = ug_fail(err, b->failed ? UG_ENOMEM : UG_ERENDER, ug_mark_file(NULL),
+                     "PNG: %s", cairo_status_to_string(cs));
+out:
+    cairo_surface_destroy(s);
+    return st;
+}
+
+static ug_status render_pdf(RsvgHandle *handle, double w, double h, double scale,
+                            ug_buf *b, ug_error *err)
+{
+    double pw = 0, ph = 0;
+    ug_status st = pdf_size(w, h, scale, &pw, &ph, err);
+    if (st)
+        return st;
+    cairo_surface_t *s = cairo_pdf_surface_create_for_stream(to_buf, b, pw, ph);
+    if ((st = surface_done(s, b, err)))
+        goto out;
+    /* The creation date is the only byte that changes run to run. */
+    cairo_pdf_surface_set_metadata(s, CAIRO_PDF_METADATA_CREATE_DATE, "");
+    if ((st = draw(handle, s, pw, ph, err)))
+        goto out;
+    cairo_surface_finish(s);
+    st = surface_done(s, b, err);
+out:
+    cairo_surface_destroy(s);
+    return st;
+}
+
+ug_status ug_render_svg(const char *svg, size_t len, ug_output_format fmt,
+                        double dpi, double scale, char **out, size_t *out_len,
+                        ug_error *err)
+{
+    *out = NULL;
+    if (out_len)
+        *out_len = 0;
+    assert(fmt == UG_OUT_SVG || fmt == UG_OUT_PNG || fmt == UG_OUT_PDF);
+    ug_status st = check_factors(dpi, scale, err);
+    if (st)
+        return st;
+    RsvgHandle *handle;
+    double w, h;
+    if ((st = open_svg(svg, len, &handle, err)))
+        return st;
+    ug_buf b;
+    ug_buf_init(&b);
+    if ((st = handle_size(handle, &w, &h, err)))
+        goto out;
+    if (fmt == UG_OUT_PNG)
+        st = render_png(handle, w, h, dpi, scale, &b, err);
+    else if (fmt == UG_OUT_PDF)
+        st = render_pdf(handle, w, h, scale, &b, err);
+    else
+        ug_buf_add(&b, svg, len); /* read above, so known to be a valid SVG */
+    if (!st)
+        st = ug_buf_take(&b, out, out_len, err);
+out:
+    ug_buf_free(&b);
+    g_object_unref(handle);
+    return st;
+}
+
+ug_status ug_render_svg_file(const char *svg, size_t len, ug_output_format fmt,
+                             double dpi, double scale, const char *path,
+                             ug_error *err)
+{
+    char *bytes;
+    size_t n;
+    ug_status st = ug_render_svg(svg, len, fmt, dpi, scale, &bytes, &n, err);
+    if (st)
+        return st;
+    st = ug_write_file_atomic(path, bytes, n, err);
+    ug_free(bytes);
+    return st;
+}
