@@ -122,6 +122,11 @@ int cli_limit_option(const char *cmd, int argc, char **argv, int *i)
     return 0;
 }
 
+const ug_limits *cli_limits(void)
+{
+    return &limits;
+}
+
 /* Reads at most one byte past the input limit: the loader then refuses the
 ** text as too large, and an endless stream costs no more than the limit. */
 static char *read_stdin(size_t *len)

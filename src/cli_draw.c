@@ -240,7 +240,7 @@ static int draw_page(const cli_draw_opts *o)
     char *bytes = NULL;
     size_t len = 0;
     int rc = EXIT_OK;
-    if (ug_page_load(o->layout, NULL, &page, &err) ||
+    if (ug_page_load(o->layout, cli_limits(), &page, &err) ||
         ug_page_draw(page, format_of(o), o->dpi > 0 ? o->dpi : 96,
                      o->scale > 0 ? o->scale : 1, &bytes, &len, &err)) {
         cli_report_error(&err);
@@ -325,7 +325,7 @@ static int describe_page(const char *layout, char **text, size_t *len,
 {
     ug_page *page = NULL;
     int rc = EXIT_OK;
-    if (ug_page_load(layout, NULL, &page, err) ||
+    if (ug_page_load(layout, cli_limits(), &page, err) ||
         ug_page_describe(page, text, len, err)) {
         cli_report_error(err);
         rc = cli_exit_for(err);
