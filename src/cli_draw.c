@@ -8,6 +8,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 
 #include "cli.h"
 
@@ -80,13 +81,18 @@ static int load(const char *path, loaded *l, ug_error *err)
 }
 
 /* A page file has a top-level `page:` key, which in block style starts a
-** line; the loader refuses the wrong kind with a message saying so. */
+** line; the loader refuses the wrong kind with a message saying so.
+** Only a regular file is looked at, and no further than the input limit: a
+** FIFO or a device is left for the loader to refuse. */
 static bool is_page_file(const char *path)
 {
-    FILE *f = strcmp(path, "-") ? fopen(path, "r") : NULL;
+    struct stat sb;
+    bool regular = strcmp(path, "-") && stat(path, &sb) == 0 && S_ISREG(sb.st_mode);
+    FILE *f = regular ? fopen(path, "r") : NULL;
+    size_t max = cli_limits()->max_file_bytes ? cli_limits()->max_file_bytes : (4u << 20);
     char line[256];
     bool page = false;
-    while (f && !page && fgets(line, sizeof line, f))
+    while (f && !page && ftell(f) <= (long)max && fgets(line, sizeof line, f))
         page = strncmp(line, "page:", 5) == 0 || strncmp(line, "page :", 6) == 0;
     if (f)
         fclose(f);
