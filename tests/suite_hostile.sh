@@ -8,7 +8,8 @@
 #    librsvg renders, and that holds no active content (no script, style,
 #    foreignObject, image, a or iframe element; no on* attribute; no href or
 #    url() leaving the document; no javascript:; no DTD, entity or
-#    processing instruction).
+#    processing instruction); the same layout drawn to PNG and PDF exits 0,
+#    or 1 with a message (a page too large to rasterize).
 # Which of the two each file must give is listed in tests/data/hostile/EXPECT.
 #
 # Caps per input (stated in README "Guarantees and limits"): 10 s wall clock
@@ -150,7 +151,15 @@ while read -r name want; do
   case "$rc" in
     0) drawn=$((drawn + 1))
        [ "$want" = draw ] || fail "$name: drew, but EXPECT says $want"
-       check_drawn "$name" out.svg ;;
+       check_drawn "$name" out.svg
+       # The rasterizer takes the same scene: PNG and PDF end as cleanly.
+       for ext in png pdf; do
+         capped "$BIN" draw "$f" -o "out.$ext" 2> err2.txt
+         rc=$?
+         [ "$rc" = 0 ] || [ "$rc" = 1 ] \
+           || fail "$name: draw to .$ext exit $rc: $(head -c 300 err2.txt)"
+         [ "$rc" = 1 ] && [ ! -s err2.txt ] && fail "$name: .$ext refused without a message"
+       done ;;
     1) refused=$((refused + 1))
        [ "$want" = error ] || fail "$name: refused, but EXPECT says $want: $(head -c 300 err.txt)"
        [ -e out.svg ] && fail "$name: refused but wrote out.svg"
