@@ -44,6 +44,7 @@ typedef struct {
     const ug_allocation *a;
     ug_findings *f;
     ug_error *err;
+    const ug_pack_options *opt; /* where glyphs are found; may be NULL */
 } audit_ctx;
 
 static const char *const rule_names[] = {
@@ -670,7 +671,8 @@ static ug_status check_category_count(audit_ctx *x)
 static ug_status category_ink(audit_ctx *x, size_t i, double *ink)
 {
     const ug_category *cat = &x->c->cats[i];
-    glyph_search search = {NULL, 0, x->c->dir};
+    glyph_search search = {x->opt ? x->opt->glyph_dirs : NULL,
+                           x->opt ? x->opt->nglyph_dirs : 0, x->c->dir};
     ug_mark where = cat->glyph.text ? cat->glyph.mark : cat->mark;
     ug_glyph *g = NULL;
     ug_status st = glyph_load(cat->glyph.text ? cat->glyph.text : "square", &search,
@@ -724,11 +726,17 @@ static ug_status check_ignore_list(audit_ctx *x)
 
 ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_error *err)
 {
+    return ug_chart_audit_with(chart, NULL, out, err);
+}
+
+ug_status ug_chart_audit_with(const ug_chart *chart, const ug_pack_options *opt,
+                              ug_findings **out, ug_error *err)
+{
     static ug_status (*const checks[])(audit_ctx *) = {
         check_labels, check_total, check_rounding, check_small, check_derivable,
         check_category_count, check_contrast, check_confusable, check_glyph_weight,
     };
-    audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err};
+    audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt};
     ug_allocation *a = NULL;
     ug_status st = x.f ? check_ignore_list(&x) : oom(&x);
     if (!st)

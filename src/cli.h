@@ -63,6 +63,10 @@ bool cli_is_help(const char *arg);
 /* Load a chart; "-" reads standard input (named "<stdin>", relative paths
 ** from the current folder). Errors are printed; returns an exit code. */
 int cli_load_chart(const char *path, ug_chart **out);
+/* Audit the chart and print each finding on stderr as a diagnostic with its
+** fix as a note. Returns EXIT_AUDIT when strict and any finding is a warning
+** or an error, EXIT_INPUT when the audit could not run, else EXIT_OK. */
+int cli_print_audit(const ug_chart *chart, const ug_pack_options *opt, bool strict);
 /* Print each glyph sanitizer warning of a packed scene. */
 void cli_glyph_warnings(const ug_scene *scene, const ug_chart *chart);
 
@@ -80,6 +84,7 @@ typedef struct {
     double watch_timeout;    /* seconds before exiting; 0: no limit */
     bool quiet;              /* no progress bar or summary */
     double dpi, scale;       /* PNG and PDF (raster.c); 0: 96 dpi, scale 1 */
+    bool strict;             /* audit findings stop the drawing (exit 3) */
 } cli_draw_opts;
 
 /* Output format from --format or the file's extension: "svg", "png", "pdf",

@@ -126,6 +126,33 @@ int cli_load_chart(const char *path, ug_chart **out)
     return EXIT_OK;
 }
 
+static void print_finding(const ug_finding *f)
+{
+    ug_error diag = {0};
+    diag.where = f->where;
+    snprintf(diag.msg, sizeof diag.msg, "%s [%s]", f->message, f->rule);
+    cli_diag(ug_severity_name(f->severity), &diag);
+    if (f->fix) {
+        snprintf(diag.msg, sizeof diag.msg, "fix: %s", f->fix);
+        cli_diag("note", &diag);
+    }
+}
+
+int cli_print_audit(const ug_chart *chart, const ug_pack_options *opt, bool strict)
+{
+    ug_error err = {0};
+    ug_findings *f = NULL;
+    if (ug_chart_audit_with(chart, opt, &f, &err)) {
+        cli_report_error(&err);
+        return cli_exit_for(&err);
+    }
+    for (size_t i = 0; i < ug_findings_count(f); i++)
+        print_finding(ug_findings_at(f, i));
+    bool failed = strict && ug_findings_count_severity(f, UG_SEVERITY_WARNING) > 0;
+    ug_findings_free(f);
+    return failed ? EXIT_AUDIT : EXIT_OK;
+}
+
 void cli_glyph_warnings(const ug_scene *scene, const ug_chart *chart)
 {
     ug_error err = {0}, *w = NULL;

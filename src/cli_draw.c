@@ -31,6 +31,8 @@ static const char draw_help[] =
     "                        value (or first column) names it and replaces {group}\n"
     "                        in -o and in the template's title and subtitle; all\n"
     "                        charts share one icon value and one icon size\n"
+    "  --strict              audit findings (printed as warnings on every draw)\n"
+    "                        stop the drawing: nothing is written, exit 3\n"
     "  --quiet               no progress bar or summary line (--each-row)\n"
     "  --watch               redraw whenever the layout, its CSV or a glyph file\n"
     "                        changes; a broken edit keeps the last good picture\n"
@@ -141,6 +143,8 @@ static int draw_option(int argc, char **argv, int *i, cli_draw_opts *o)
     }
     if (cli_option("draw", argc, argv, i, "--watch", NULL, NULL))
         return o->watch = true, 0;
+    if (cli_option("draw", argc, argv, i, "--strict", NULL, NULL))
+        return o->strict = true, 0;
     if (cli_option("draw", argc, argv, i, "--quiet", "-q", NULL))
         return o->quiet = true, 0;
     return -1;
@@ -266,8 +270,8 @@ int cli_draw_one(const cli_draw_opts *o, char ***inputs)
         convert(&l, o, svg, len, &bytes, &len, &err)) {
         cli_report_error(&err);
         rc = EXIT_INPUT;
-    } else {
-        cli_glyph_warnings(scene, l.chart);
+    } else if (cli_glyph_warnings(scene, l.chart),
+               (rc = cli_print_audit(l.chart, &popt, o->strict)) == EXIT_OK) {
         if (ug_write_file_atomic(o->out, bytes, len, &err)) {
             cli_report_error(&err);
             rc = EXIT_OUTPUT;

@@ -30,7 +30,7 @@ _unitgram()
     case $cur in
         -*)
             case $cmd in
-                draw) COMPREPLY=($(compgen -W "-o --output --format --dpi --scale --glyph-dir --each-row --quiet --watch --watch-limit --watch-timeout --help" -- "$cur")) ;;
+                draw) COMPREPLY=($(compgen -W "-o --output --format --dpi --scale --glyph-dir --each-row --quiet --watch --watch-limit --watch-timeout --strict --help" -- "$cur")) ;;
                 tally) COMPREPLY=($(compgen -W "--format --help" -- "$cur")) ;;
                 audit) COMPREPLY=($(compgen -W "--strict --help" -- "$cur")) ;;
                 describe) COMPREPLY=($(compgen -W "--help" -- "$cur")) ;;
