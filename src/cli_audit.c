@@ -17,7 +17,9 @@ static const char audit_help[] =
     "(small counts) and accessibility (contrast, colours colour-blind readers\n"
     "cannot tell apart, missing title, source or unit). Each finding names its\n"
     "rule, its place in the layout and a computed fix; `audit: ignore: [RULE]`\n"
-    "in the layout leaves a rule out. LAYOUT '-' reads standard input.\n"
+    "in the layout leaves a rule out. A page file audits every chart on it, and\n"
+    "charts that count the same thing must share one scale. LAYOUT '-' reads\n"
+    "standard input.\n"
     "\n"
     "options:\n"
     "  --strict              exit 3 when there is any warning or error\n"
@@ -69,10 +71,19 @@ int cli_audit(int argc, char **argv)
     ug_findings *f = NULL;
     char *text = NULL;
     size_t len = 0;
+    ug_page *page = NULL;
     ug_report_format fmt = strcmp(a.format, "json") ? UG_REPORT_TEXT : UG_REPORT_JSON;
-    if ((rc = cli_load_chart(a.layout, &chart)))
+    if (cli_is_page_file(a.layout)) {
+        if (ug_page_load(a.layout, NULL, &page, &err) ||
+            ug_page_audit(page, NULL, &f, &err))
+            goto failed;
+    } else if ((rc = cli_load_chart(a.layout, &chart))) {
         return rc;
-    if (ug_chart_audit(chart, &f, &err) || ug_findings_format(f, fmt, &text, &len, &err)) {
+    } else if (ug_chart_audit(chart, &f, &err)) {
+        goto failed;
+    }
+    if (ug_findings_format(f, fmt, &text, &len, &err)) {
+failed:
         cli_report_error(&err);
         rc = cli_exit_for(&err);
         goto out;
@@ -84,5 +95,6 @@ out:
     free(text);
     ug_findings_free(f);
     ug_chart_free(chart);
+    ug_page_free(page);
     return rc;
 }

@@ -103,6 +103,19 @@ static char *read_stdin(size_t *len)
     return buf;
 }
 
+/* A page file has a top-level `page:` key; a quick look saves loading it twice. */
+bool cli_is_page_file(const char *path)
+{
+    FILE *f = strcmp(path, "-") ? fopen(path, "r") : NULL;
+    char line[256];
+    bool page = false;
+    while (f && !page && fgets(line, sizeof line, f))
+        page = strncmp(line, "page:", 5) == 0 || strncmp(line, "page :", 6) == 0;
+    if (f)
+        fclose(f);
+    return page;
+}
+
 int cli_load_chart(const char *path, ug_chart **out)
 {
     ug_error err = {0};
@@ -146,6 +159,11 @@ int cli_print_audit(const ug_chart *chart, const ug_pack_options *opt, bool stri
         cli_report_error(&err);
         return cli_exit_for(&err);
     }
+    return cli_print_findings(f, strict);
+}
+
+int cli_print_findings(ug_findings *f, bool strict)
+{
     for (size_t i = 0; i < ug_findings_count(f); i++)
         print_finding(ug_findings_at(f, i));
     bool failed = strict && ug_findings_count_severity(f, UG_SEVERITY_WARNING) > 0;

@@ -79,18 +79,6 @@ static int load(const char *path, loaded *l, ug_error *err)
 
 /* A page file has a top-level `page:` key, which in block style starts a
 ** line; the loader refuses the wrong kind with a message saying so. */
-static bool is_page_file(const char *path)
-{
-    FILE *f = strcmp(path, "-") ? fopen(path, "r") : NULL;
-    char line[256];
-    bool page = false;
-    while (f && !page && fgets(line, sizeof line, f))
-        page = strncmp(line, "page:", 5) == 0 || strncmp(line, "page :", 6) == 0;
-    if (f)
-        fclose(f);
-    return page;
-}
-
 /* ---- options (the new ones are read here; their work is elsewhere) ---- */
 
 static int parse_number(const char *v, double *out)
@@ -171,7 +159,7 @@ static int check_draw(const cli_draw_opts *o)
         return EXIT_USAGE;
     if (strcmp(fmt, "svg") && o->each_row)
         return cli_usage("draw", "--each-row writes SVG only ('%s' is %s)", o->out, fmt);
-    if (is_page_file(o->layout) && (o->each_row || o->watch))
+    if (cli_is_page_file(o->layout) && (o->each_row || o->watch))
         return cli_usage("draw", "a page file is drawn once: no --each-row or --watch");
     return EXIT_OK;
 }
@@ -238,11 +226,16 @@ static int draw_page(const cli_draw_opts *o)
     char *bytes = NULL;
     size_t len = 0;
     int rc = EXIT_OK;
+    ug_findings *f = NULL;
+    ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, NULL};
     if (ug_page_load(o->layout, NULL, &page, &err) ||
         ug_page_draw(page, format_of(o), o->dpi > 0 ? o->dpi : 96,
-                     o->scale > 0 ? o->scale : 1, &bytes, &len, &err)) {
+                     o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
+        ug_page_audit(page, &popt, &f, &err)) {
         cli_report_error(&err);
         rc = err.status == UG_ENOMEM ? EXIT_OUTPUT : EXIT_INPUT;
+    } else if ((rc = cli_print_findings(f, o->strict)) != EXIT_OK) {
+        /* the audit stopped the drawing: nothing is written */
     } else if (ug_write_file_atomic(o->out, bytes, len, &err)) {
         cli_report_error(&err);
         rc = EXIT_OUTPUT;
@@ -298,7 +291,7 @@ int cli_draw(int argc, char **argv)
         return cli_batch(&o);
     if (o.watch)
         return cli_watch(&o);
-    if (is_page_file(o.layout))
+    if (cli_is_page_file(o.layout))
         return draw_page(&o);
     return cli_draw_one(&o, NULL);
 }
@@ -349,7 +342,7 @@ int cli_describe(int argc, char **argv)
     ug_error err = {0};
     char *text = NULL;
     size_t len = 0;
-    int rc = is_page_file(layout) ? describe_page(layout, &text, &len, &err)
+    int rc = cli_is_page_file(layout) ? describe_page(layout, &text, &len, &err)
                                   : describe_chart(layout, &text, &len, &err);
     if (!rc && (fwrite(text, 1, len, stdout) != len || fputc('\n', stdout) == EOF ||
                 fflush(stdout))) {
