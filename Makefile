@@ -31,7 +31,7 @@ SAN_ENV    = G_SLICE=always-malloc ASAN_OPTIONS=detect_leaks=1:abort_on_error=0 
 
 DEBIAN_PACKAGES = build-essential pkg-config libyaml-dev librsvg2-dev libcairo2-dev \
   libpango1.0-dev liblcms2-dev libxml2-dev libcsv-dev check librsvg2-bin \
-  libxml2-utils poppler-utils fonts-dejavu-core
+  libxml2-utils poppler-utils fonts-dejavu-core valgrind
 
 # ---- sources ----------------------------------------------------------------
 LIB_SRC  = $(filter-out src/main.c src/cli_%.c,$(wildcard src/*.c))
@@ -57,6 +57,7 @@ all: $(BIN) $(LIB)
 deps:
 	@if pkg-config --exists $(PKGS) check && [ -f /usr/include/csv.h ] \
 	    && command -v rsvg-convert >/dev/null && command -v xmllint >/dev/null \
+	    && command -v valgrind >/dev/null \
 	    && fc-list | grep -q DejaVuSans; then :; else \
 	  echo "unitgram: installing build packages with apt-get"; \
 	  SUDO=; [ "$$(id -u)" = 0 ] || SUDO=sudo; \

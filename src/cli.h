@@ -60,6 +60,12 @@ int cli_option(const char *cmd, int argc, char **argv, int *i, const char *lng,
 /* "-h" or "--help". */
 bool cli_is_help(const char *arg);
 
+/* --max-icons N and --max-input-bytes N (also --opt=N): the limits every
+** later cli_load_chart uses. Returns 1 when argv[*i] was one of them (and
+** steps *i past its value), 0 when it was not, -1 after a usage error. */
+int cli_limit_option(const char *cmd, int argc, char **argv, int *i);
+/* Those limits, for loaders other than cli_load_chart (page files). */
+const ug_limits *cli_limits(void);
 /* Load a chart; "-" reads standard input (named "<stdin>", relative paths
 ** from the current folder). Errors are printed; returns an exit code. */
 int cli_load_chart(const char *path, ug_chart **out);

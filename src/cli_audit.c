@@ -74,7 +74,7 @@ int cli_audit(int argc, char **argv)
     ug_page *page = NULL;
     ug_report_format fmt = strcmp(a.format, "json") ? UG_REPORT_TEXT : UG_REPORT_JSON;
     if (cli_is_page_file(a.layout)) {
-        if (ug_page_load(a.layout, NULL, &page, &err) ||
+        if (ug_page_load(a.layout, cli_limits(), &page, &err) ||
             ug_page_audit(page, NULL, &f, &err))
             goto failed;
     } else if ((rc = cli_load_chart(a.layout, &chart))) {

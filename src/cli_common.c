@@ -3,7 +3,9 @@
 ** codes, option reading, and loading a chart from a file or standard input.
 */
 #include <stdarg.h>
+#include <errno.h>
 #include <stdio.h>
+#include <sys/stat.h>
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
@@ -86,11 +88,55 @@ int cli_option(const char *cmd, int argc, char **argv, int *i, const char *lng,
 }
 
 /* Standard input, whole, into a malloc'd buffer. */
+/* Set by --max-icons and --max-input-bytes; zeros are the library's defaults. */
+static ug_limits limits;
+
+/* A whole number of at least 1 with nothing after it. */
+static bool parse_count(const char *s, size_t *out)
+{
+    if (!s || *s < '0' || *s > '9')
+        return false;
+    char *end;
+    errno = 0;
+    unsigned long long v = strtoull(s, &end, 10);
+    if (errno || *end || v == 0 || v > (size_t)-1)
+        return false;
+    *out = (size_t)v;
+    return true;
+}
+
+int cli_limit_option(const char *cmd, int argc, char **argv, int *i)
+{
+    static const char *const names[] = {"--max-icons", "--max-input-bytes"};
+    for (int k = 0; k < 2; k++) {
+        const char *v = NULL;
+        int m = cli_option(cmd, argc, argv, i, names[k], NULL, &v);
+        if (m < 0)
+            return -1;
+        if (m == 0)
+            continue;
+        if (parse_count(v, k ? &limits.max_file_bytes : &limits.max_icons))
+            return 1;
+        cli_usage(cmd, "%s expects a whole number of at least 1 (found '%s')", names[k], v);
+        return -1;
+    }
+    return 0;
+}
+
+const ug_limits *cli_limits(void)
+{
+    return &limits;
+}
+
+/* Reads at most one byte past the input limit: the loader then refuses the
+** text as too large, and an endless stream costs no more than the limit. */
 static char *read_stdin(size_t *len)
 {
+    size_t max = limits.max_file_bytes ? limits.max_file_bytes
+                                       : (4u << 20); /* the library's default */
     size_t cap = 1 << 16, n = 0;
     char *buf = malloc(cap);
-    for (size_t got; buf && (got = fread(buf + n, 1, cap - n, stdin)) > 0;) {
+    for (size_t got; buf && n <= max && (got = fread(buf + n, 1, cap - n, stdin)) > 0;) {
         n += got;
         if (n == cap) {
             char *grown = cap < ((size_t)1 << 30) ? realloc(buf, cap *= 2) : NULL;
@@ -103,13 +149,19 @@ static char *read_stdin(size_t *len)
     return buf;
 }
 
-/* A page file has a top-level `page:` key; a quick look saves loading it twice. */
+/* A page file has a top-level `page:` key, which in block style starts a
+** line; the loader refuses the wrong kind with a message saying so.
+** Only a regular file is looked at, and no further than the input limit: a
+** FIFO or a device is left for the loader to refuse. */
 bool cli_is_page_file(const char *path)
 {
-    FILE *f = strcmp(path, "-") ? fopen(path, "r") : NULL;
+    struct stat sb;
+    bool regular = strcmp(path, "-") && stat(path, &sb) == 0 && S_ISREG(sb.st_mode);
+    FILE *f = regular ? fopen(path, "r") : NULL;
+    size_t max = cli_limits()->max_file_bytes ? cli_limits()->max_file_bytes : (4u << 20);
     char line[256];
     bool page = false;
-    while (f && !page && fgets(line, sizeof line, f))
+    while (f && !page && ftell(f) <= (long)max && fgets(line, sizeof line, f))
         page = strncmp(line, "page:", 5) == 0 || strncmp(line, "page :", 6) == 0;
     if (f)
         fclose(f);
@@ -127,10 +179,10 @@ int cli_load_chart(const char *path, ug_chart **out)
             fprintf(stderr, "<stdin>: error: could not read standard input\n");
             return EXIT_INPUT;
         }
-        st = ug_chart_load_string(text, len, "<stdin>", NULL, out, &err);
+        st = ug_chart_load_string(text, len, "<stdin>", &limits, out, &err);
         free(text);
     } else {
-        st = ug_chart_load(path, NULL, out, &err);
+        st = ug_chart_load(path, &limits, out, &err);
     }
     if (st) {
         cli_report_error(&err);

@@ -8,6 +8,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 
 #include "cli.h"
 
@@ -38,6 +39,9 @@ static const char draw_help[] =
     "                        changes; a broken edit keeps the last good picture\n"
     "  --watch-limit N       with --watch: exit after N redraws\n"
     "  --watch-timeout SECS  with --watch: exit after SECS seconds\n"
+    "  --max-icons N         refuse charts of more than N icons (default 100000)\n"
+    "  --max-input-bytes N   refuse layout or CSV files larger than N bytes\n"
+    "                        (default 4194304)\n"
     "  -h, --help            show this help\n"
     "\n" CLI_EXIT_CODES;
 
@@ -49,6 +53,7 @@ static const char describe_help[] =
     "LAYOUT '-' reads standard input.\n"
     "\n"
     "options:\n"
+    "  --max-icons N, --max-input-bytes N   the limits, as for draw\n"
     "  -h, --help            show this help\n"
     "\n" CLI_EXIT_CODES;
 
@@ -77,8 +82,6 @@ static int load(const char *path, loaded *l, ug_error *err)
     return EXIT_OK;
 }
 
-/* A page file has a top-level `page:` key, which in block style starts a
-** line; the loader refuses the wrong kind with a message saying so. */
 /* ---- options (the new ones are read here; their work is elsewhere) ---- */
 
 static int parse_number(const char *v, double *out)
@@ -102,6 +105,8 @@ static int draw_option(int argc, char **argv, int *i, cli_draw_opts *o)
     const char *v = NULL;
     double num = 0;
     int m;
+    if ((m = cli_limit_option("draw", argc, argv, i)))
+        return m < 0 ? EXIT_USAGE : 0;
     if ((m = cli_option("draw", argc, argv, i, "--output", "-o", &o->out)))
         return m < 0 ? EXIT_USAGE : 0;
     if ((m = cli_option("draw", argc, argv, i, "--format", NULL, &o->format)))
@@ -228,7 +233,7 @@ static int draw_page(const cli_draw_opts *o)
     int rc = EXIT_OK;
     ug_findings *f = NULL;
     ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, NULL};
-    if (ug_page_load(o->layout, NULL, &page, &err) ||
+    if (ug_page_load(o->layout, cli_limits(), &page, &err) ||
         ug_page_draw(page, format_of(o), o->dpi > 0 ? o->dpi : 96,
                      o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
         ug_page_audit(page, &popt, &f, &err)) {
@@ -316,7 +321,7 @@ static int describe_page(const char *layout, char **text, size_t *len,
 {
     ug_page *page = NULL;
     int rc = EXIT_OK;
-    if (ug_page_load(layout, NULL, &page, err) ||
+    if (ug_page_load(layout, cli_limits(), &page, err) ||
         ug_page_describe(page, text, len, err)) {
         cli_report_error(err);
         rc = cli_exit_for(err);
@@ -333,6 +338,11 @@ int cli_describe(int argc, char **argv)
             fputs(describe_help, stdout);
             return EXIT_OK;
         }
+        int m = cli_limit_option("describe", argc, argv, &i);
+        if (m < 0)
+            return EXIT_USAGE;
+        if (m)
+            continue;
         if ((argv[i][0] == '-' && argv[i][1]) || layout)
             return cli_usage("describe", "unexpected argument '%s'", argv[i]);
         layout = argv[i];

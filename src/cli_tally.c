@@ -20,6 +20,7 @@ static void help(FILE *to)
             "\n"
             "options:\n"
             "  --format FORMAT       text (default), csv or json\n"
+            "  --max-icons N, --max-input-bytes N   the limits, as for draw\n"
             "  -h, --help            show this help\n"
             "\n" CLI_EXIT_CODES);
 }
@@ -76,6 +77,11 @@ int cli_tally(int argc, char **argv)
             help(stdout);
             return EXIT_OK;
         }
+        int m = cli_limit_option("tally", argc, argv, &i);
+        if (m < 0)
+            return EXIT_USAGE;
+        if (m)
+            continue;
         if (!strcmp(a, "--format") || !strncmp(a, "--format=", 9)) {
             const char *v = a[8] == '=' ? a + 9 : i + 1 < argc ? argv[++i] : NULL;
             if (!v)

@@ -6,13 +6,16 @@
 ** table of the keys it may hold. Counts from CSV files are read by data.c.
 */
 #include <assert.h>
+#include <ctype.h>
 #include <errno.h>
+#include <fcntl.h>
 #include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
 #include <sys/stat.h>
+#include <unistd.h>
 #include <yaml.h>
 
 #include "colorparse.h"
@@ -31,10 +34,15 @@ ug_status layout_read_file(const char *path, size_t max, ug_mark at,
                            char **text, size_t *len, ug_error *err)
 {
     *text = NULL;
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return ug_fail(err, UG_EIO, at, "cannot read '%s': %s", path,
-                       strerror(errno));
+    /* Non-blocking, so a FIFO is refused below instead of waiting for a writer. */
+    int fd = open(path, O_RDONLY | O_NONBLOCK | O_CLOEXEC);
+    FILE *f = fd < 0 ? NULL : fdopen(fd, "rb");
+    if (!f) {
+        int e = errno;
+        if (fd >= 0)
+            close(fd);
+        return ug_fail(err, UG_EIO, at, "cannot read '%s': %s", path, strerror(e));
+    }
     struct stat st;
     ug_status rc = UG_OK;
     char *buf = NULL;
@@ -44,7 +52,8 @@ ug_status layout_read_file(const char *path, size_t max, ug_mark at,
     }
     if ((unsigned long long)st.st_size > max) {
         rc = ug_fail(err, UG_ELIMIT, at,
-                     "'%s' is larger than the limit of %zu bytes", path, max);
+                     "'%s' is larger than the limit of %zu bytes "
+                     "(raise it with --max-input-bytes)", path, max);
         goto out;
     }
     size_t size = (size_t)st.st_size;
@@ -830,13 +839,23 @@ static const key_rule audit_keys[] = {
     {.name = NULL},
 };
 
+/* A family name goes into a font-family attribute and a CSS font stack, so
+** it keeps to the characters family names use: ';', quotes or "url(" there
+** would be CSS, not a name. Non-ASCII letters (already checked UTF-8) pass. */
 static ug_status key_font(loader *l, void *base, const layout_node *v)
 {
     ug_text t;
     ug_status st = read_text(l, v, false, &t);
-    if (!st)
-        ((ug_chart *)base)->style.font = t.text;
-    return st;
+    if (st)
+        return st;
+    for (const unsigned char *p = (const unsigned char *)t.text; *p; p++)
+        if (*p < 0x80 && !isalnum(*p) && !strchr(" -_.,", *p))
+            return ug_fail(l->err, UG_ESCHEMA, v->mark,
+                           "'font' expects a font family name such as DejaVu Sans "
+                           "(letters, digits, spaces, '-', '_', '.', ','); found '%c'",
+                           *p);
+    ((ug_chart *)base)->style.font = t.text;
+    return UG_OK;
 }
 
 static const key_rule style_keys[] = {
@@ -1209,7 +1228,8 @@ static ug_status from_text(void *model, fill_fn fill, bool page, const char *pat
 {
     if (len > lim->max_file_bytes)
         return ug_fail(err, UG_ELIMIT, ug_mark_file(path),
-                       "larger than the limit of %zu bytes", lim->max_file_bytes);
+                       "larger than the limit of %zu bytes (raise it with "
+                       "--max-input-bytes)", lim->max_file_bytes);
     ug_arena tree = {0};
     layout_node *root;
     ug_status st = layout_parse(text, len, path, &tree, &root, err);
@@ -1388,10 +1408,14 @@ static ug_status read_panel(loader *l, ug_panel *panel, const layout_node *v)
     return UG_OK;
 }
 
+/* A printed page holds a handful of panels; each may load a chart file of up
+** to the input limit, so the count bounds the memory one page file can ask for. */
+#define MAX_PANELS 48
+
 static ug_status key_panels(loader *l, void *base, const layout_node *v)
 {
     ug_page *p = base;
-    ug_status st = want_list(l, v, UG_MAX_CATEGORIES, "panels (chart: or text:)");
+    ug_status st = want_list(l, v, MAX_PANELS, "panels (chart: or text:)");
     if (st)
         return st;
     if (!(p->panels = arena_array(l->arena, v->n, sizeof *p->panels)))

@@ -52,6 +52,24 @@ ug_status alloc_rule_for_chart(const ug_chart *c, alloc_rule *rule, ug_error *er
     return UG_OK;
 }
 
+/* The icon limit holds for the whole chart, not each group: a thousand groups
+** each just under it would otherwise ask the packer for 10^8 icons. */
+static ug_status check_chart_icons(const ug_allocation *a, size_t upto, ug_mark where,
+                                   ug_error *err)
+{
+    long limit = a->rule.max_icons > 0 && a->rule.max_icons < ALLOC_MAX_ICONS
+                     ? a->rule.max_icons : ALLOC_MAX_ICONS;
+    long sum = 0;
+    for (size_t g = 0; g <= upto; g++)
+        sum += a->group_icons[g];
+    if (sum <= limit)
+        return UG_OK;
+    return ug_fail(err, UG_ELIMIT, where,
+                   "the groups up to here need %ld icons, more than %ld, the limit "
+                   "for a chart; state a larger icon value or raise the limit "
+                   "(--max-icons)", sum, limit);
+}
+
 static ug_status fill_groups(ug_allocation *a, const ug_chart *c, ug_dec *column,
                              ug_error *err)
 {
@@ -63,6 +81,9 @@ static ug_status fill_groups(ug_allocation *a, const ug_chart *c, ug_dec *column
         ug_status st = alloc_apportion(column, c->ncats, &a->rule,
                                        &a->shares[g * c->ncats],
                                        &a->group_icons[g], where, err);
+        if (st)
+            return st;
+        st = check_chart_icons(a, g, where, err);
         if (st)
             return st;
     }
@@ -151,13 +172,17 @@ static void describe_share(const alloc_share *s, row_text *t)
         strcpy(t->rel, "0.0");
 }
 
+/* A label that starts like a formula (=, +, -, @, tab, CR) would run as one
+** when the report is opened in a spreadsheet: such a cell gets a leading
+** apostrophe, as OWASP's "CSV Injection" page advises. */
 static void csv_field(ug_buf *b, const char *s)
 {
-    if (!strpbrk(s, ",\"\r\n")) {
+    bool formula = *s && strchr("=+-@\t\r", *s);
+    if (!formula && !strpbrk(s, ",\"\r\n")) {
         ug_buf_puts(b, s);
         return;
     }
-    ug_buf_puts(b, "\"");
+    ug_buf_puts(b, formula ? "\"'" : "\"");
     for (; *s; s++)
         ug_buf_add(b, *s == '"' ? "\"\"" : s, *s == '"' ? 2 : 1);
     ug_buf_puts(b, "\"");

@@ -291,6 +291,31 @@ static ug_status write_stdout(const void *data, size_t len, ug_error *err)
     return UG_OK;
 }
 
+/* An existing device or FIFO (/dev/null, a named pipe) is written in place:
+** renaming a temporary file over it would replace the device node itself. A
+** folder is refused. Returns UG_OK with *done false for anything else. */
+static ug_status write_special(const char *path, const void *data, size_t len,
+                               bool *done, ug_error *err)
+{
+    struct stat sb;
+    *done = false;
+    if (stat(path, &sb) != 0 || S_ISREG(sb.st_mode))
+        return UG_OK;
+    *done = true;
+    if (S_ISDIR(sb.st_mode))
+        return ug_fail(err, UG_EIO, ug_mark_file(path),
+                       "cannot write output: it is a folder");
+    int fd = open(path, O_WRONLY | O_CLOEXEC);
+    bool ok = fd >= 0 && write_all(fd, data, len) == UG_OK;
+    int saved = errno;
+    if (fd >= 0 && close(fd) != 0 && ok) {
+        ok = false;
+        saved = errno;
+    }
+    return ok ? UG_OK : ug_fail(err, UG_EIO, ug_mark_file(path),
+                                "cannot write output: %s", strerror(saved));
+}
+
 /* The temporary file sits beside the target so rename(2) stays on one file
 ** system and is atomic; readers see the old picture or the new, never half. */
 ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
@@ -304,6 +329,10 @@ ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t l
 {
     if (strcmp(path, "-") == 0)
         return write_stdout(data, len, err);
+    bool done;
+    ug_status special = write_special(path, data, len, &done, err);
+    if (done)
+        return special;
     size_t n = strlen(path);
     char *tmp = ug_malloc(n + 16);
     if (!tmp)

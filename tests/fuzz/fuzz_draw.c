@@ -1,0 +1,138 @@
+/*
+** libFuzzer harness: the whole draw pipeline, layout bytes in, SVG out
+** (load, allocate, pack, write). Invariants: a failure carries a message; a
+** success is an SVG that libxml2 parses without fetching anything and that
+** holds no active content — no <script>, no <foreignObject>, no on*
+** attribute, no href leaving the document, no javascript: anywhere.
+**
+** The layout is named as if it lay in tests/data/good/ (UG_FUZZ_BASE
+** overrides), so the seeds' CSV files and relative glyph paths resolve when
+** the fuzzer runs from the repository root, as `make fuzz` runs it.
+*/
+#include <ctype.h>
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
+#include <strings.h>
+
+#include <libxml/parser.h>
+#include <libxml/tree.h>
+
+#include "unitgram.h"
+
+int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
+
+/* A value that, with spaces and control characters removed as browsers do,
+** starts a javascript: (or vbscript:/data:) URL, or holds one anywhere. */
+static bool bad_value(const xmlChar *v)
+{
+    char flat[4096];
+    size_t n = 0;
+    for (const xmlChar *p = v; *p && n + 1 < sizeof flat; p++)
+        if (*p > ' ')
+            flat[n++] = (char)tolower(*p);
+    flat[n] = '\0';
+    return strstr(flat, "javascript:") || strstr(flat, "vbscript:");
+}
+
+static bool bad_href(const xmlChar *v)
+{
+    while (*v && isspace(*v))
+        v++;
+    return *v != '#'; /* only references inside the document */
+}
+
+/* url(...) is allowed only as url(#id): a paint or clip inside the document. */
+static bool bad_url(const xmlChar *v)
+{
+    for (const char *p = (const char *)v; (p = strstr(p, "url(")) != NULL; p++) {
+        const char *q = p + 4;
+        while (*q == ' ' || *q == '"' || *q == '\'')
+            q++;
+        if (*q != '#')
+            return true;
+    }
+    return false;
+}
+
+static bool bad_attr(const xmlAttr *a)
+{
+    const char *name = (const char *)a->name;
+    xmlChar *v = xmlNodeGetContent((const xmlNode *)a);
+    bool bad = !v || bad_value(v) || !strncasecmp(name, "on", 2) ||
+               (!strcasecmp(name, "href") && bad_href(v)) ||
+               bad_url(v);
+    xmlFree(v);
+    return bad;
+}
+
+static bool bad_node(const xmlNode *n)
+{
+    for (; n; n = n->next) {
+        if (n->type == XML_ELEMENT_NODE) {
+            const char *name = (const char *)n->name;
+            if (!strcasecmp(name, "script") || !strcasecmp(name, "foreignObject") ||
+                !strcasecmp(name, "iframe") || !strcasecmp(name, "image") ||
+                !strcasecmp(name, "a") || !strcasecmp(name, "style"))
+                return true;
+            for (const xmlAttr *a = n->properties; a; a = a->next)
+                if (bad_attr(a))
+                    return true;
+        } else if (n->type == XML_ENTITY_REF_NODE || n->type == XML_PI_NODE ||
+                   n->type == XML_DTD_NODE) {
+            return true;
+        } else if (n->type == XML_TEXT_NODE && n->content && bad_value(n->content) &&
+                   n->parent && strcasecmp((const char *)n->parent->name, "title") &&
+                   strcasecmp((const char *)n->parent->name, "desc") &&
+                   strcasecmp((const char *)n->parent->name, "text")) {
+            return true; /* visible text may say anything; nothing else may */
+        }
+        if (bad_node(n->children))
+            return true;
+    }
+    return false;
+}
+
+static void check_svg(const char *svg, size_t len)
+{
+    xmlDocPtr doc = xmlReadMemory(svg, (int)len, "fuzz.svg", NULL,
+                                  XML_PARSE_NONET | XML_PARSE_NOERROR |
+                                      XML_PARSE_NOWARNING);
+    if (!doc)
+        abort(); /* not well-formed */
+    xmlNodePtr root = xmlDocGetRootElement(doc);
+    if (!root || strcmp((const char *)root->name, "svg") || doc->intSubset ||
+        bad_node(root))
+        abort();
+    xmlFreeDoc(doc);
+}
+
+int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
+{
+    const char *base = getenv("UG_FUZZ_BASE");
+    ug_error err = {0};
+    ug_chart *chart = NULL;
+    ug_allocation *alloc = NULL;
+    ug_scene *scene = NULL;
+    char *svg = NULL;
+    size_t len = 0;
+    ug_limits limits = {0, 5000}; /* keep each run short */
+    ug_status st = ug_chart_load_string((const char *)data, size,
+                                        base ? base : "tests/data/good/fuzz.yaml",
+                                        &limits, &chart, &err);
+    if (!st)
+        st = ug_chart_allocate(chart, &alloc, &err);
+    if (!st)
+        st = ug_scene_pack(chart, alloc, &scene, &err);
+    if (!st)
+        st = ug_scene_svg(scene, &svg, &len, &err);
+    if (st && !err.msg[0])
+        abort(); /* a failure must say why */
+    if (!st)
+        check_svg(svg, len);
+    free(svg);
+    ug_scene_free(scene);
+    ug_allocation_free(alloc);
+    ug_chart_free(chart);
+    return 0;
+}

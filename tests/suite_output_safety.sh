@@ -1,0 +1,168 @@
+#!/usr/bin/env bash
+# Output safety: a failed run never loses the previous output. For every kind
+# of failure (bad layout, bad CSV, a chart over the icon cap, an input over the
+# size cap, a write that fails part-way, an unwritable folder, a folder in the
+# way) the old file keeps its exact bytes and no temporary file is left beside
+# it. A successful run replaces the file by rename (a hard link to the old
+# file keeps the old bytes), leaves a device node a device, and replaces a
+# symlink at the output path rather than writing through it. Batches
+# (--each-row) never write outside their output folder.
+# usage: bash tests/suite_output_safety.sh build/unitgram
+set -u
+BIN=$(cd "$(dirname "$1")" && pwd)/$(basename "$1")
+ROOT=$(cd "$(dirname "$0")/.." && pwd)
+T=$(mktemp -d)
+trap 'chmod -R u+w "$T" 2>/dev/null; rm -rf "$T"' EXIT
+chmod 755 "$T"
+fails=0 checks=0
+fail() { echo "FAIL: $*"; fails=$((fails + 1)); }
+
+GOOD=$ROOT/layouts/pantry.yaml
+H=$ROOT/tests/data/hostile
+mkdir -p "$T/out"
+OLD='<svg xmlns="http://www.w3.org/2000/svg"><!-- the previous picture --></svg>'
+
+# Only out.svg may be in the folder: no temporary file left behind.
+only_old() { # only_old WHAT
+  checks=$((checks + 1))
+  [ "$(cat "$T/out/out.svg")" = "$OLD" ] || fail "$1: the old output changed"
+  [ "$(ls -A "$T/out")" = out.svg ] || fail "$1: left behind: $(ls -A "$T/out" | tr '\n' ' ')"
+}
+
+# expect_fail WHAT EXIT-CODE ARGS...: the run fails with that code, old file intact.
+expect_fail() {
+  local what=$1 want=$2
+  shift 2
+  printf '%s' "$OLD" > "$T/out/out.svg"
+  "$BIN" "$@" 2> "$T/err.txt" > /dev/null
+  local rc=$?
+  [ "$rc" = "$want" ] || fail "$what: exit $rc, expected $want ($(head -c 200 "$T/err.txt"))"
+  [ -s "$T/err.txt" ] || fail "$what: failed without a message"
+  only_old "$what"
+}
+
+O=$T/out/out.svg
+expect_fail "bad layout" 1 draw "$ROOT/tests/data/bad/count_negative.yaml" -o "$O"
+expect_fail "bad CSV" 1 draw "$H/csv_ragged.yaml" -o "$O"
+expect_fail "CSV with a NUL byte" 1 draw "$H/csv_nul.yaml" -o "$O"
+expect_fail "missing layout" 1 draw "$T/none.yaml" -o "$O"
+expect_fail "binary layout" 1 draw "$H/bin_random.yaml" -o "$O"
+expect_fail "over the icon cap" 1 draw "$H/num_icons_over_cap.yaml" -o "$O"
+expect_fail "over --max-icons" 1 draw "$GOOD" --max-icons 10 -o "$O"
+expect_fail "over --max-input-bytes" 1 draw "$GOOD" --max-input-bytes 64 -o "$O"
+expect_fail "bad --max-icons" 2 draw "$GOOD" --max-icons 0 -o "$O"
+expect_fail "hostile glyph file" 1 draw "$H/glyph_xxe_passwd.yaml" -o "$O"
+
+# A write that fails part-way: a 1 KiB file-size limit (SIGXFSZ ignored, so
+# write(2) returns EFBIG) against a chart of several KiB.
+printf '%s' "$OLD" > "$O"
+(trap '' XFSZ; ulimit -f 1; exec "$BIN" draw "$GOOD" -o "$O") 2> "$T/err.txt"
+rc=$?
+[ "$rc" = 4 ] || fail "short write: exit $rc, expected 4"
+only_old "short write"
+
+# An unwritable folder. root ignores permissions, so there the run drops to
+# nobody (setpriv); without either, say so.
+printf '%s' "$OLD" > "$O"
+chmod 555 "$T/out"
+if [ "$(id -u)" != 0 ]; then
+  "$BIN" draw "$GOOD" -o "$O" 2> "$T/err.txt"; rc=$?
+elif command -v setpriv >/dev/null; then
+  chmod 644 "$O"
+  setpriv --reuid=65534 --regid=65534 --clear-groups "$BIN" draw "$GOOD" -o "$O" \
+    2> "$T/err.txt"; rc=$?
+else
+  echo "skip: unwritable folder (root without setpriv)"; rc=4
+fi
+chmod 755 "$T/out"
+[ "$rc" = 4 ] || fail "unwritable folder: exit $rc, expected 4"
+only_old "unwritable folder"
+
+# A folder where the output should go: refused, the folder untouched.
+mkdir "$T/out/dir.svg"
+"$BIN" draw "$GOOD" -o "$T/out/dir.svg" 2>/dev/null; rc=$?
+checks=$((checks + 1))
+[ "$rc" = 4 ] && [ -d "$T/out/dir.svg" ] && [ -z "$(ls -A "$T/out/dir.svg")" ] \
+  || fail "folder as output: exit $rc"
+rmdir "$T/out/dir.svg"
+only_old "folder as output"
+
+# Success replaces by rename: a hard link to the old file keeps the old bytes,
+# the new file is complete, readable by others (umask 022) and nothing is left.
+printf '%s' "$OLD" > "$O"
+ln "$O" "$T/hardlink.svg"
+(umask 022; "$BIN" draw "$GOOD" -o "$O") || fail "good draw failed"
+checks=$((checks + 1))
+[ "$(cat "$T/hardlink.svg")" = "$OLD" ] || fail "the old file was rewritten in place"
+xmllint --noout "$O" || fail "the new output does not parse"
+[ "$(stat -c %a "$O")" = 644 ] || fail "new output mode $(stat -c %a "$O"), expected 644"
+[ "$(ls -A "$T/out")" = out.svg ] || fail "success left behind: $(ls -A "$T/out")"
+
+# A symlink at the output path is replaced; the file it pointed to is untouched.
+printf '%s' "$OLD" > "$T/target.svg"
+ln -sf ../target.svg "$O"
+"$BIN" draw "$GOOD" -o "$O" || fail "draw over a symlink failed"
+checks=$((checks + 1))
+[ "$(cat "$T/target.svg")" = "$OLD" ] || fail "wrote through the symlink"
+[ -f "$O" ] && [ ! -L "$O" ] || fail "the symlink was not replaced"
+
+# A device node stays a device (root only: mknod).
+if [ "$(id -u)" = 0 ]; then
+  mknod "$T/null.svg" c 1 3
+  "$BIN" draw "$GOOD" -o "$T/null.svg" || fail "draw to a null device failed"
+  checks=$((checks + 1))
+  [ -c "$T/null.svg" ] || fail "the device node was replaced by a file"
+fi
+
+# Batches (--each-row): whatever a row's name says, every file lands inside
+# the output folder; a symlink planted there is replaced, not followed; and a
+# batch that fails keeps the folder's earlier files byte for byte.
+B=$T/batch
+mkdir -p "$B/work"
+cat > "$B/work/tmpl.yaml" <<'YAML'
+title: "Card holders in {group}"
+source: Branch report (demo data)
+unit-label: card holders
+icon-value: 1
+categories:
+  - {label: Adults, glyph: square, column: adults, count: 1}
+  - {label: Children, glyph: circle, column: children, count: 1}
+YAML
+{ printf 'name,adults,children\n'
+  for n in .. ../../escape /etc/passwd-x ./. a/../../b '..\\..\\win' '%2e%2e%2fenc' \
+           '．．／wide' '~root' '$HOME' '`id`' '-rf' '<script>' 'nul.svg' \
+           "$(head -c 300 /dev/zero | tr '\0' 'n')"; do
+    printf '"%s",3,2\n' "$n"
+  done; } > "$B/work/rows.csv"
+mkdir -p "$B/work/out"
+ln -s ../../victim.svg "$B/work/out/north.svg"
+printf '%s' "$OLD" > "$B/victim.svg"
+printf 'name,adults,children\nNorth,1,1\n' > "$B/work/north.csv"
+before=$(cd "$B" && find . -path ./work/out -prune -o -print | sort)
+(cd "$B/work" && "$BIN" draw tmpl.yaml --each-row rows.csv -o 'out/{group}.svg' --quiet \
+   && "$BIN" draw tmpl.yaml --each-row north.csv -o 'out/{group}.svg' --quiet) \
+  2> "$T/err.txt" || fail "batch: exit $? ($(head -c 300 "$T/err.txt"))"
+after=$(cd "$B" && find . -path ./work/out -prune -o -print | sort)
+checks=$((checks + 1))
+[ "$before" = "$after" ] || fail "batch wrote outside its folder: $(diff <(echo "$before") \
+  <(echo "$after") | grep '^>' | tr '\n' ' ')"
+[ "$(cat "$B/victim.svg")" = "$OLD" ] || fail "batch wrote through a planted symlink"
+[ -f "$B/work/out/north.svg" ] && [ ! -L "$B/work/out/north.svg" ] \
+  || fail "batch did not replace the planted symlink"
+[ "$(find "$B/work/out" -mindepth 1 -type d | wc -l)" = 0 ] \
+  || fail "batch made folders inside its output folder"
+ls -A "$B/work/out" | grep -q 'tmp' && fail "batch left temporary files"
+# A failing batch (one row over the icon cap) leaves the earlier files alone.
+sum_before=$(cd "$B/work/out" && cat -- * | cksum)
+printf 'name,adults,children\nNorth,200000,1\n' > "$B/work/north.csv"
+(cd "$B/work" && "$BIN" draw tmpl.yaml --each-row north.csv -o 'out/{group}.svg' --quiet) \
+  2> "$T/err.txt"
+rc=$?
+checks=$((checks + 1))
+[ "$rc" = 1 ] || fail "over-the-cap batch: exit $rc, expected 1"
+[ "$(cd "$B/work/out" && cat -- * | cksum)" = "$sum_before" ] \
+  || fail "a failed batch changed earlier files"
+ls -A "$B/work/out" | grep -q 'tmp' && fail "a failed batch left temporary files"
+
+echo "suite_output_safety: $checks checks, $fails failures"
+[ "$fails" = 0 ]
