@@ -266,6 +266,13 @@ typedef struct ug_findings ug_findings;
 /* Check a chart; rules named in the layout's audit.ignore are left out.
 ** The findings own copies of everything they show (the chart may go first). */
 ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_error *err);
+/* Every chart of a page file, plus the page's own rule: charts counting the
+** same thing side by side must share icon value and size (page-scale-mismatch). */
+ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
+                        ug_findings **out, ug_error *err);
+/* The same, finding glyphs as ug_scene_pack_with does (opt may be NULL). */
+ug_status ug_chart_audit_with(const ug_chart *chart, const ug_pack_options *opt,
+                              ug_findings **out, ug_error *err);
 size_t ug_findings_count(const ug_findings *f);
 /* How many findings have at least this severity. */
 size_t ug_findings_count_severity(const ug_findings *f, ug_severity at_least);

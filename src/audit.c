@@ -28,6 +28,7 @@
 #include <stdarg.h>
 #include <stdio.h>
 #include <string.h>
+#include <strings.h>
 
 #include "alloc.h"
 #include "audit.h"
@@ -44,6 +45,7 @@ typedef struct {
     const ug_allocation *a;
     ug_findings *f;
     ug_error *err;
+    const ug_pack_options *opt; /* where glyphs are found; may be NULL */
 } audit_ctx;
 
 static const char *const rule_names[] = {
@@ -51,6 +53,7 @@ static const char *const rule_names[] = {
     "small-count", "derivable-suppression", "low-contrast-icon",
     "low-contrast-text", "confusable-colors", "too-many-categories",
     "missing-title", "missing-source", "missing-unit-label", "glyph-weight",
+    "page-scale-mismatch",
 };
 
 /* REFERENCES.md §7. */
@@ -670,7 +673,8 @@ static ug_status check_category_count(audit_ctx *x)
 static ug_status category_ink(audit_ctx *x, size_t i, double *ink)
 {
     const ug_category *cat = &x->c->cats[i];
-    glyph_search search = {NULL, 0, x->c->dir};
+    glyph_search search = {x->opt ? x->opt->glyph_dirs : NULL,
+                           x->opt ? x->opt->nglyph_dirs : 0, x->c->dir};
     ug_mark where = cat->glyph.text ? cat->glyph.mark : cat->mark;
     ug_glyph *g = NULL;
     ug_status st = glyph_load(cat->glyph.text ? cat->glyph.text : "square", &search,
@@ -724,25 +728,118 @@ static ug_status check_ignore_list(audit_ctx *x)
 
 ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_error *err)
 {
+    return ug_chart_audit_with(chart, NULL, out, err);
+}
+
+/* Every chart rule on one chart, adding to x->f. */
+static ug_status audit_one(audit_ctx *x)
+{
     static ug_status (*const checks[])(audit_ctx *) = {
         check_labels, check_total, check_rounding, check_small, check_derivable,
         check_category_count, check_contrast, check_confusable, check_glyph_weight,
     };
-    audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err};
     ug_allocation *a = NULL;
-    ug_status st = x.f ? check_ignore_list(&x) : oom(&x);
+    ug_status st = check_ignore_list(x);
     if (!st)
-        st = ug_chart_allocate(chart, &a, err);
-    x.a = a;
+        st = ug_chart_allocate(x->c, &a, x->err);
+    x->a = a;
     for (size_t i = 0; !st && i < COUNT(checks); i++)
-        st = checks[i](&x);
+        st = checks[i](x);
     ug_allocation_free(a);
-    if (st) {
-        ug_findings_free(x.f);
-        x.f = NULL;
-    }
-    *out = x.f;
+    x->a = NULL;
     return st;
+}
+
+static ug_status finish(audit_ctx *x, ug_status st, ug_findings **out)
+{
+    if (st) {
+        ug_findings_free(x->f);
+        x->f = NULL;
+    }
+    *out = x->f;
+    return st;
+}
+
+ug_status ug_chart_audit_with(const ug_chart *chart, const ug_pack_options *opt,
+                              ug_findings **out, ug_error *err)
+{
+    audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt};
+    return finish(&x, x.f ? audit_one(&x) : oom(&x), out);
+}
+
+/* ---- page files ----------------------------------------------------------- */
+
+/* What one icon of a chart means and how big it is drawn, for comparing
+** charts on one page. */
+typedef struct {
+    const ug_chart *c;
+    alloc_rule rule;
+} scale_of;
+
+static bool same_unit(const ug_chart *a, const ug_chart *b)
+{
+    return a->unit_label.text && b->unit_label.text &&
+           strcasecmp(a->unit_label.text, b->unit_label.text) == 0;
+}
+
+static bool same_scale(const scale_of *a, const scale_of *b)
+{
+    if (a->c->icon_size != b->c->icon_size)
+        return false;
+    if (a->rule.by_cells || b->rule.by_cells)
+        return a->rule.by_cells == b->rule.by_cells; /* shares: size is all */
+    return a->rule.value.v == b->rule.value.v;
+}
+
+/* Charts of the same thing side by side invite comparing their icons, which
+** is honest only when an icon means the same and is drawn the same size
+** (Neurath's rule, REFERENCES.md §6, carried across a page). Charts counting
+** different things are not meant to be compared icon for icon. */
+static ug_status check_page_scale(audit_ctx *x, const scale_of *s, size_t n)
+{
+    for (size_t j = 1; j < n; j++)
+        for (size_t i = 0; i < j; i++) {
+            if (!same_unit(s[i].c, s[j].c) || same_scale(&s[i], &s[j]))
+                continue;
+            char vi[48], vj[48];
+            x->c = s[j].c;
+            return add(x, "page-scale-mismatch", UG_SEVERITY_WARNING,
+                       s[j].c->categories_mark,
+                       "shared-scale: true (one icon value and one icon size for the page)",
+                       "'%s' and '%s' both count %s but draw them at different scales "
+                       "(%s at %g px against %s at %g px)",
+                       s[i].c->title.text ? s[i].c->title.text : "(untitled)",
+                       s[j].c->title.text ? s[j].c->title.text : "(untitled)",
+                       s[j].c->unit_label.text,
+                       s[i].rule.by_cells ? "shares" : ug_dec_format(s[i].rule.value, vi),
+                       s[i].c->icon_size,
+                       s[j].rule.by_cells ? "shares" : ug_dec_format(s[j].rule.value, vj),
+                       s[j].c->icon_size);
+        }
+    return UG_OK;
+}
+
+ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
+                        ug_findings **out, ug_error *err)
+{
+    audit_ctx x = {NULL, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt};
+    scale_of *scales = ug_calloc(page->npanels ? page->npanels : 1, sizeof *scales);
+    size_t n = 0;
+    ug_status st = x.f && scales ? UG_OK : UG_ENOMEM;
+    if (st)
+        ug_fail(err, st, ug_mark_file(page->path), "out of memory");
+    for (size_t i = 0; !st && i < page->npanels; i++) {
+        if (page->panels[i].kind != UG_PANEL_CHART)
+            continue;
+        x.c = page->panels[i].chart;
+        st = audit_one(&x);
+        if (!st && !(st = alloc_rule_for_chart(x.c, &scales[n].rule, err)))
+            scales[n++].c = x.c;
+    }
+    if (!st && !page->shared_scale)
+        st = check_page_scale(&x, scales, n);
+    ug_free(scales);
+    return finish(&x, st, out);
 }
 
 /* ---- output ----------------------------------------------------------------- */

@@ -69,6 +69,14 @@ const ug_limits *cli_limits(void);
 /* Load a chart; "-" reads standard input (named "<stdin>", relative paths
 ** from the current folder). Errors are printed; returns an exit code. */
 int cli_load_chart(const char *path, ug_chart **out);
+/* Audit the chart and print each finding on stderr as a diagnostic with its
+** fix as a note. Returns EXIT_AUDIT when strict and any finding is a warning
+** or an error, EXIT_INPUT when the audit could not run, else EXIT_OK. */
+int cli_print_audit(const ug_chart *chart, const ug_pack_options *opt, bool strict);
+/* Does the layout file look like a page file (a `page:` key at the top)? */
+bool cli_is_page_file(const char *path);
+/* Print findings as cli_print_audit does; returns the same exit codes. */
+int cli_print_findings(ug_findings *f, bool strict);
 /* Print each glyph sanitizer warning of a packed scene. */
 void cli_glyph_warnings(const ug_scene *scene, const ug_chart *chart);
 
@@ -86,6 +94,7 @@ typedef struct {
     double watch_timeout;    /* seconds before exiting; 0: no limit */
     bool quiet;              /* no progress bar or summary */
     double dpi, scale;       /* PNG and PDF (raster.c); 0: 96 dpi, scale 1 */
+    bool strict;             /* audit findings stop the drawing (exit 3) */
 } cli_draw_opts;
 
 /* Output format from --format or the file's extension: "svg", "png", "pdf",

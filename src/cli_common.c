@@ -5,6 +5,7 @@
 #include <stdarg.h>
 #include <errno.h>
 #include <stdio.h>
+#include <sys/stat.h>
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
@@ -148,6 +149,25 @@ static char *read_stdin(size_t *len)
     return buf;
 }
 
+/* A page file has a top-level `page:` key, which in block style starts a
+** line; the loader refuses the wrong kind with a message saying so.
+** Only a regular file is looked at, and no further than the input limit: a
+** FIFO or a device is left for the loader to refuse. */
+bool cli_is_page_file(const char *path)
+{
+    struct stat sb;
+    bool regular = strcmp(path, "-") && stat(path, &sb) == 0 && S_ISREG(sb.st_mode);
+    FILE *f = regular ? fopen(path, "r") : NULL;
+    size_t max = cli_limits()->max_file_bytes ? cli_limits()->max_file_bytes : (4u << 20);
+    char line[256];
+    bool page = false;
+    while (f && !page && ftell(f) <= (long)max && fgets(line, sizeof line, f))
+        page = strncmp(line, "page:", 5) == 0 || strncmp(line, "page :", 6) == 0;
+    if (f)
+        fclose(f);
+    return page;
+}
+
 int cli_load_chart(const char *path, ug_chart **out)
 {
     ug_error err = {0};
@@ -169,6 +189,38 @@ int cli_load_chart(const char *path, ug_chart **out)
         return cli_exit_for(&err);
     }
     return EXIT_OK;
+}
+
+static void print_finding(const ug_finding *f)
+{
+    ug_error diag = {0};
+    diag.where = f->where;
+    snprintf(diag.msg, sizeof diag.msg, "%s [%s]", f->message, f->rule);
+    cli_diag(ug_severity_name(f->severity), &diag);
+    if (f->fix) {
+        snprintf(diag.msg, sizeof diag.msg, "fix: %s", f->fix);
+        cli_diag("note", &diag);
+    }
+}
+
+int cli_print_audit(const ug_chart *chart, const ug_pack_options *opt, bool strict)
+{
+    ug_error err = {0};
+    ug_findings *f = NULL;
+    if (ug_chart_audit_with(chart, opt, &f, &err)) {
+        cli_report_error(&err);
+        return cli_exit_for(&err);
+    }
+    return cli_print_findings(f, strict);
+}
+
+int cli_print_findings(ug_findings *f, bool strict)
+{
+    for (size_t i = 0; i < ug_findings_count(f); i++)
+        print_finding(ug_findings_at(f, i));
+    bool failed = strict && ug_findings_count_severity(f, UG_SEVERITY_WARNING) > 0;
+    ug_findings_free(f);
+    return failed ? EXIT_AUDIT : EXIT_OK;
 }
 
 void cli_glyph_warnings(const ug_scene *scene, const ug_chart *chart)

@@ -32,6 +32,8 @@ static const char draw_help[] =
     "                        value (or first column) names it and replaces {group}\n"
     "                        in -o and in the template's title and subtitle; all\n"
     "                        charts share one icon value and one icon size\n"
+    "  --strict              audit findings (printed as warnings on every draw)\n"
+    "                        stop the drawing: nothing is written, exit 3\n"
     "  --quiet               no progress bar or summary line (--each-row)\n"
     "  --watch               redraw whenever the layout, its CSV or a glyph file\n"
     "                        changes; a broken edit keeps the last good picture\n"
@@ -78,25 +80,6 @@ static int load(const char *path, loaded *l, ug_error *err)
         return cli_exit_for(err);
     }
     return EXIT_OK;
-}
-
-/* A page file has a top-level `page:` key, which in block style starts a
-** line; the loader refuses the wrong kind with a message saying so.
-** Only a regular file is looked at, and no further than the input limit: a
-** FIFO or a device is left for the loader to refuse. */
-static bool is_page_file(const char *path)
-{
-    struct stat sb;
-    bool regular = strcmp(path, "-") && stat(path, &sb) == 0 && S_ISREG(sb.st_mode);
-    FILE *f = regular ? fopen(path, "r") : NULL;
-    size_t max = cli_limits()->max_file_bytes ? cli_limits()->max_file_bytes : (4u << 20);
-    char line[256];
-    bool page = false;
-    while (f && !page && ftell(f) <= (long)max && fgets(line, sizeof line, f))
-        page = strncmp(line, "page:", 5) == 0 || strncmp(line, "page :", 6) == 0;
-    if (f)
-        fclose(f);
-    return page;
 }
 
 /* ---- options (the new ones are read here; their work is elsewhere) ---- */
@@ -153,6 +136,8 @@ static int draw_option(int argc, char **argv, int *i, cli_draw_opts *o)
     }
     if (cli_option("draw", argc, argv, i, "--watch", NULL, NULL))
         return o->watch = true, 0;
+    if (cli_option("draw", argc, argv, i, "--strict", NULL, NULL))
+        return o->strict = true, 0;
     if (cli_option("draw", argc, argv, i, "--quiet", "-q", NULL))
         return o->quiet = true, 0;
     return -1;
@@ -179,7 +164,7 @@ static int check_draw(const cli_draw_opts *o)
         return EXIT_USAGE;
     if (strcmp(fmt, "svg") && o->each_row)
         return cli_usage("draw", "--each-row writes SVG only ('%s' is %s)", o->out, fmt);
-    if (is_page_file(o->layout) && (o->each_row || o->watch))
+    if (cli_is_page_file(o->layout) && (o->each_row || o->watch))
         return cli_usage("draw", "a page file is drawn once: no --each-row or --watch");
     return EXIT_OK;
 }
@@ -246,11 +231,16 @@ static int draw_page(const cli_draw_opts *o)
     char *bytes = NULL;
     size_t len = 0;
     int rc = EXIT_OK;
+    ug_findings *f = NULL;
+    ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, NULL};
     if (ug_page_load(o->layout, cli_limits(), &page, &err) ||
         ug_page_draw(page, format_of(o), o->dpi > 0 ? o->dpi : 96,
-                     o->scale > 0 ? o->scale : 1, &bytes, &len, &err)) {
+                     o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
+        ug_page_audit(page, &popt, &f, &err)) {
         cli_report_error(&err);
         rc = err.status == UG_ENOMEM ? EXIT_OUTPUT : EXIT_INPUT;
+    } else if ((rc = cli_print_findings(f, o->strict)) != EXIT_OK) {
+        /* the audit stopped the drawing: nothing is written */
     } else if (ug_write_file_atomic(o->out, bytes, len, &err)) {
         cli_report_error(&err);
         rc = EXIT_OUTPUT;
@@ -278,8 +268,8 @@ int cli_draw_one(const cli_draw_opts *o, char ***inputs)
         convert(&l, o, svg, len, &bytes, &len, &err)) {
         cli_report_error(&err);
         rc = EXIT_INPUT;
-    } else {
-        cli_glyph_warnings(scene, l.chart);
+    } else if (cli_glyph_warnings(scene, l.chart),
+               (rc = cli_print_audit(l.chart, &popt, o->strict)) == EXIT_OK) {
         if (ug_write_file_atomic(o->out, bytes, len, &err)) {
             cli_report_error(&err);
             rc = EXIT_OUTPUT;
@@ -306,7 +296,7 @@ int cli_draw(int argc, char **argv)
         return cli_batch(&o);
     if (o.watch)
         return cli_watch(&o);
-    if (is_page_file(o.layout))
+    if (cli_is_page_file(o.layout))
         return draw_page(&o);
     return cli_draw_one(&o, NULL);
 }
@@ -362,7 +352,7 @@ int cli_describe(int argc, char **argv)
     ug_error err = {0};
     char *text = NULL;
     size_t len = 0;
-    int rc = is_page_file(layout) ? describe_page(layout, &text, &len, &err)
+    int rc = cli_is_page_file(layout) ? describe_page(layout, &text, &len, &err)
                                   : describe_chart(layout, &text, &len, &err);
     if (!rc && (fwrite(text, 1, len, stdout) != len || fputc('\n', stdout) == EOF ||
                 fflush(stdout))) {

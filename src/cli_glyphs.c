@@ -22,7 +22,7 @@ typedef struct {
 static void help(FILE *to)
 {
     fprintf(to,
-            "usage: unitgram glyphs [--glyph-dir DIR]... [--sheet FILE.svg]\n"
+            "usage: unitgram glyphs [--glyph-dir DIR]... [--sheet FILE]\n"
             "       unitgram glyphs [--glyph-dir DIR]... --check GLYPH...\n"
             "\n"
             "List the glyph library: each glyph's name and keywords (a chart names\n"
@@ -32,6 +32,7 @@ static void help(FILE *to)
             "  --glyph-dir DIR       also look for NAME.svg in DIR (after the library,\n"
             "                        the installed glyphs and UNITGRAM_GLYPH_PATH)\n"
             "  --sheet FILE          write a contact sheet: every glyph with its name\n"
+            "                        (.svg, .png or .pdf, by the extension)\n"
             "  --check GLYPH         load a glyph as a layout in the current folder\n"
             "                        would (a name or a path such as ./icons/boat.svg);\n"
             "                        print what sanitizing removed and its inked area\n"
@@ -82,9 +83,12 @@ static int sheet(const ug_glyph_library *lib, const char *path)
         return cli_exit_for(&err);
     }
     int rc = EXIT_OK;
-    if (ug_write_file_atomic(path, svg, len, &err)) {
+    ug_output_format fmt = ug_output_format_from_path(path);
+    if (fmt == UG_OUT_HTML) {
+        rc = cli_usage("glyphs", "a contact sheet is written as .svg, .png or .pdf");
+    } else if (ug_render_svg_file(svg, len, fmt, 96, 1, path, &err)) {
         cli_report_error(&err);
-        rc = EXIT_OUTPUT;
+        rc = err.status == UG_EIO ? EXIT_OUTPUT : EXIT_INPUT;
     }
     free(svg);
     return rc;

@@ -30,9 +30,9 @@ _unitgram()
     case $cur in
         -*)
             case $cmd in
-                draw) COMPREPLY=($(compgen -W "-o --output --format --dpi --scale --glyph-dir --each-row --quiet --watch --watch-limit --watch-timeout --max-icons --max-input-bytes --help" -- "$cur")) ;;
+                draw) COMPREPLY=($(compgen -W "-o --output --format --dpi --scale --glyph-dir --each-row --quiet --watch --watch-limit --watch-timeout --strict --max-icons --max-input-bytes --help" -- "$cur")) ;;
                 tally) COMPREPLY=($(compgen -W "--format --max-icons --max-input-bytes --help" -- "$cur")) ;;
-                audit) COMPREPLY=($(compgen -W "--strict --help" -- "$cur")) ;;
+                audit) COMPREPLY=($(compgen -W "--strict --format --help" -- "$cur")) ;;
                 describe) COMPREPLY=($(compgen -W "--max-icons --max-input-bytes --help" -- "$cur")) ;;
                 glyphs) COMPREPLY=($(compgen -W "--sheet --check --glyph-dir --help" -- "$cur")) ;;
                 init) COMPREPLY=($(compgen -W "--page -o --output --help" -- "$cur")) ;;

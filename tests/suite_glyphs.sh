@@ -35,6 +35,13 @@ if command -v rsvg-convert >/dev/null; then
     rsvg-convert "$T/sheet.svg" -o "$T/sheet.png" && ok "sheet renders (rsvg-convert)" \
         || bad "sheet renders"
 fi
+# The extension picks the format: a .png sheet is a PNG (its 8-byte signature,
+# PNG specification §5.2), a .pdf sheet a PDF.
+expect_rc "PNG sheet" 0 "$BIN" glyphs --glyph-dir "$D/lib-a" --sheet "$T/sheet-r.png"
+[ "$(head -c 8 "$T/sheet-r.png" | od -An -tx1 | tr -d ' \n')" = 89504e470d0a1a0a ] \
+    && ok "PNG sheet is a PNG" || bad "PNG sheet is a PNG"
+expect_rc "PDF sheet" 0 "$BIN" glyphs --glyph-dir "$D/lib-a" --sheet "$T/sheet-r.pdf"
+[ "$(head -c 5 "$T/sheet-r.pdf")" = "%PDF-" ] && ok "PDF sheet is a PDF" || bad "PDF sheet is a PDF"
 expect_rc "unwritable sheet" 4 "$BIN" glyphs --glyph-dir "$D/lib-a" --sheet /nonexistent/dir/s.svg
 
 # The project library, once its art is merged.
