@@ -24,6 +24,8 @@ static const char audit_help[] =
     "options:\n"
     "  --strict              exit 3 when there is any warning or error\n"
     "  --format FORMAT       text (default) or json\n"
+    "  --max-icons N         refuse a chart of more than N icons (default 100000)\n"
+    "  --max-input-bytes N   refuse input files larger than N bytes\n"
     "  -h, --help            show this help\n"
     "\n" CLI_EXIT_CODES;
 
@@ -40,6 +42,9 @@ static int parse(int argc, char **argv, audit_args *a)
         if (cli_is_help(argv[i])) {
             fputs(audit_help, stdout);
             return EXIT_OK;
+        } else if ((m = cli_limit_option("audit", argc, argv, &i))) {
+            if (m < 0)
+                return EXIT_USAGE;
         } else if (cli_option("audit", argc, argv, &i, "--strict", NULL, NULL)) {
             a->strict = true;
         } else if ((m = cli_option("audit", argc, argv, &i, "--format", NULL, &a->format))) {

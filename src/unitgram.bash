@@ -32,7 +32,7 @@ _unitgram()
             case $cmd in
                 draw) COMPREPLY=($(compgen -W "-o --output --format --dpi --scale --glyph-dir --each-row --quiet --watch --watch-limit --watch-timeout --strict --max-icons --max-input-bytes --help" -- "$cur")) ;;
                 tally) COMPREPLY=($(compgen -W "--format --max-icons --max-input-bytes --help" -- "$cur")) ;;
-                audit) COMPREPLY=($(compgen -W "--strict --format --help" -- "$cur")) ;;
+                audit) COMPREPLY=($(compgen -W "--strict --format --max-icons --max-input-bytes --help" -- "$cur")) ;;
                 describe) COMPREPLY=($(compgen -W "--max-icons --max-input-bytes --help" -- "$cur")) ;;
                 glyphs) COMPREPLY=($(compgen -W "--sheet --check --glyph-dir --help" -- "$cur")) ;;
                 init) COMPREPLY=($(compgen -W "--page -o --output --help" -- "$cur")) ;;

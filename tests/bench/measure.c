@@ -3,6 +3,7 @@
 ** line. Wall time from CLOCK_MONOTONIC, peak memory from the child's rusage,
 ** so the benchmark needs nothing beyond libc.
 */
+#define _DEFAULT_SOURCE /* wait4 */
 #define _POSIX_C_SOURCE 200809L
 #include <stdio.h>
 #include <stdlib.h>

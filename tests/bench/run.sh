@@ -6,8 +6,8 @@ build=${1:-build}
 bin=$build/unitgram
 work=$build/bench
 mkdir -p "$work"
-cc -O2 -o "$work/measure" tests/bench/measure.c
-cc -O2 -o "$work/printf_limit" tests/bench/printf_limit.c
+cc -O2 -Wall -Wextra -Werror -o "$work/measure" tests/bench/measure.c
+cc -O2 -Wall -Wextra -Werror -o "$work/printf_limit" tests/bench/printf_limit.c
 csv=$work/results.csv
 echo "case,icons,seconds,peak_kib,bytes,bytes_per_icon" > "$csv"
 
@@ -80,9 +80,11 @@ echo "startup-pantry,,$median,,," >> "$csv"
 
 # ---- the table --------------------------------------------------------------
 get() { awk -F, -v c="$1" -v n="$2" '$1==c && $2==n {print $3}' "$csv"; }
-slope() { # least-squares seconds per million icons over the sizes
-    awk -F, -v c="$1" '$1==c {x=$2/1e6; y=$3; n++; sx+=x; sy+=y; sxx+=x*x; sxy+=x*y}
-        END {printf "%.3f", (n*sxy-sx*sy)/(n*sxx-sx*sx)}' "$csv"; }
+slope() { # least-squares seconds per million icons over the sizes, and r^2
+    awk -F, -v c="$1" '$1==c {x=$2/1e6; y=$3; n++; sx+=x; sy+=y; sxx+=x*x; sxy+=x*y; syy+=y*y}
+        END {b=(n*sxy-sx*sy)/(n*sxx-sx*sx);
+             r=(n*sxy-sx*sy)/sqrt((n*sxx-sx*sx)*(n*syy-sy*sy));
+             printf "%.3f (r^2 %.4f)", b, r*r}' "$csv"; }
 column -s, -t "$csv"
 echo
 for form in rows waffle; do
