@@ -103,11 +103,11 @@ check-sanitized:
 	  CFLAGS="$(SAN_CFLAGS)" run-tests
 
 run-tests: $(BIN) $(TESTS) $(REF_DRIVERS)
-	@set -e; for t in $(TESTS); do \
-	  echo "== $$t"; (cd tests && $(CURDIR)/$$t); done
-	@set -e; for s in tests/suite_*.sh; do [ -f "$$s" ] || continue; \
-	  echo "== $$s"; bash "$$s" $(BIN); done
-	@echo "unitgram: all test suites passed"
+	@set -e; n=0; for t in $(TESTS); do \
+	  echo "== $$t"; (cd tests && $(CURDIR)/$$t); n=$$((n + 1)); done; \
+	for s in tests/suite_*.sh; do [ -f "$$s" ] || continue; \
+	  echo "== $$s"; bash "$$s" $(BIN); n=$$((n + 1)); done; \
+	echo "unitgram: all test suites passed"; echo "suites: $$n passed, 0 failed"
 
 # ---- fuzzing (libFuzzer, clang) --------------------------------------------
 FUZZ_SECONDS ?= 60
