@@ -45,12 +45,34 @@ for n in $sizes; do
     echo "printf-limit,$n,$s,$kib,$bytes,$(awk -v b=$bytes -v n=$n 'BEGIN{printf "%.1f", b/n}')" >> "$csv"
 done
 
-# The renderer: our PNG against rsvg-convert on the same SVG.
+# The renderer: our PNG against rsvg-convert on the same SVG, alternating,
+# median of 7 runs each (single runs of half a second vary by 20 % here).
+median() { sort -g | awk '{v[NR]=$1} END {print v[int((NR+1)/2)]}'; }
 n=10000
-read -r ours _ < <(measure "$bin" draw "$work/rows-$n.yaml" -o "$work/rows-$n.png" --max-icons $n)
-read -r theirs _ < <(measure rsvg-convert -o "$work/rows-$n-rsvg.png" "$work/rows-$n.svg")
+ours_runs=() theirs_runs=()
+for i in 1 2 3 4 5 6 7; do
+    read -r s _ < <(measure "$bin" draw "$work/rows-$n.yaml" -o "$work/rows-$n.png" --max-icons $n)
+    ours_runs+=("$s")
+    read -r s _ < <(measure rsvg-convert -o "$work/rows-$n-rsvg.png" "$work/rows-$n.svg")
+    theirs_runs+=("$s")
+done
+ours=$(printf '%s\n' "${ours_runs[@]}" | median)
+theirs=$(printf '%s\n' "${theirs_runs[@]}" | median)
 echo "png-unitgram,$n,$ours,,," >> "$csv"
 echo "png-rsvg-convert,$n,$theirs,,," >> "$csv"
+# Wall time on a shared 2-core machine moves by 10-20 % run to run; callgrind's
+# instruction counts do not, so the ratio is also given in instructions.
+instructions() {
+    valgrind --tool=callgrind --callgrind-out-file=/dev/null "$@" 2>&1 >/dev/null |
+        sed -n 's/.*Collected : \([0-9]*\).*/\1/p'
+}
+png_ratio_instr=n/a
+if command -v valgrind >/dev/null; then
+    a=$(instructions "$bin" draw "$work/rows-$n.yaml" -o "$work/rows-$n.png" --max-icons $n)
+    b=$(instructions rsvg-convert -o "$work/rows-$n-rsvg.png" "$work/rows-$n.svg")
+    png_ratio_instr=$(awk -v a="$a" -v b="$b" 'BEGIN{printf "%.3f", a/b}')
+    echo "png-instructions-ratio,$n,$png_ratio_instr,,," >> "$csv"
+fi
 
 # Batch: 1,000 charts from a 1,000-row CSV.
 {
@@ -75,7 +97,7 @@ for i in $(seq 1 21); do
     read -r s _ < <(measure "$bin" draw layouts/pantry.yaml -o "$work/pantry.svg")
     times+=("$s")
 done
-median=$(printf '%s\n' "${times[@]}" | sort -g | sed -n 11p)
+median=$(printf '%s\n' "${times[@]}" | median)
 echo "startup-pantry,,$median,,," >> "$csv"
 
 # ---- the table --------------------------------------------------------------
@@ -93,6 +115,6 @@ done
 big=1000000
 echo "1M icons to SVG: rows $(get rows $big) s, waffle $(get waffle $big) s;" \
      "ratio to printf loop: $(awk -v a="$(get rows $big)" -v b="$(get printf-limit $big)" 'BEGIN{printf "%.2f", a/b}')"
-echo "PNG vs rsvg-convert (10,000 icons): $(awk -v a="$ours" -v b="$theirs" 'BEGIN{printf "%.2f", a/b}')x"
+echo "PNG vs rsvg-convert (10,000 icons): wall $(awk -v a="$ours" -v b="$theirs" 'BEGIN{printf "%.2f", a/b}')x (medians of 7), instructions ${png_ratio_instr}x (callgrind)"
 echo "batch of 1,000 charts: $(get batch-1000 1000) s; start-up median: $median s"
 echo "results: $csv"
