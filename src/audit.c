@@ -33,6 +33,7 @@
 #include "alloc.h"
 #include "audit.h"
 #include "glyph.h"
+#include "glyph_cache.h"
 #include "color.h"
 
 struct ug_findings {
@@ -677,8 +678,9 @@ static ug_status category_ink(audit_ctx *x, size_t i, double *ink)
                            x->opt ? x->opt->nglyph_dirs : 0, x->c->dir};
     ug_mark where = cat->glyph.text ? cat->glyph.mark : cat->mark;
     ug_glyph *g = NULL;
-    ug_status st = glyph_load(cat->glyph.text ? cat->glyph.text : "square", &search,
-                              where, &g, x->err);
+    ug_status st = glyph_cache_load(x->opt ? x->opt->glyph_cache : NULL,
+                                    cat->glyph.text ? cat->glyph.text : "square",
+                                    &search, where, &g, x->err);
     if (!st)
         *ink = g->ink;
     glyph_free(g);

@@ -97,10 +97,35 @@ static char **all_paths(const ug_batch *b, const char *pattern)
     return paths;
 }
 
+/* The audit of every row, before anything is written: each finding's place
+** names the row's line in the CSV. Under --strict any finding stops the whole
+** batch, so a redraw from updated counts never half-publishes. */
+static int audit_rows(ug_batch *b, const ug_pack_options *popt, bool strict)
+{
+    int rc = EXIT_OK;
+    for (size_t i = 0; i < ug_batch_count(b); i++) {
+        ug_error err = {0};
+        const ug_chart *chart = NULL;
+        int r;
+        if (ug_batch_chart(b, i, &chart, &err)) {
+            cli_report_error(&err);
+            return cli_exit_for(&err);
+        }
+        if ((r = cli_print_audit(chart, popt, strict)) == EXIT_INPUT)
+            return r;
+        if (r && !rc)
+            rc = r;
+    }
+    return rc;
+}
+
 static int run(ug_batch *b, char **paths, const cli_draw_opts *o,
                ug_glyph_cache *cache)
 {
     ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, cache};
+    int audited = audit_rows(b, &popt, o->strict);
+    if (audited)
+        return audited;
     size_t n = ug_batch_count(b), drawn = 0;
     double start = cli_now();
     bool shown = false;

@@ -167,7 +167,12 @@ expect 1 "$BIN" draw "$T/tmpl.yaml" --each-row "$T/none.csv" -o "$T/n/{group}.sv
 printf 'name,children,adults\nOne,1,2\nTwo,3,4\n' > "$T/first.csv"
 expect 0 "$BIN" draw "$T/tmpl.yaml" --each-row "$T/first.csv" -o "$T/first/{group}.svg" --quiet
 [ "$(ls "$T/first" | tr '\n' ' ')" = "one.svg two.svg " ] || fail "first-column names"
-[ -s "$T/err" ] && fail "--quiet still printed: $(cat "$T/err")"
+# --quiet drops the progress bar and summary, never the audit's findings
+grep -q "^drew " "$T/err" && fail "--quiet still printed the summary: $(cat "$T/err")"
+grep -q "warning: .*\[small-count\]" "$T/err" || fail "batch rows were not audited"
+# --strict: every row is audited first; any finding stops the batch, nothing written
+(cd "$T" && expect 3 "$BIN" draw tmpl.yaml --each-row rows.csv -o 'strict/{group}.svg' --strict)
+[ -e "$T/strict" ] && fail "a strict batch with findings wrote files"
 
 # ---- init writes files that draw without edits
 expect 0 "$BIN" init -o "$T/start.yaml"
