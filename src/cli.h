@@ -75,7 +75,8 @@ int cli_load_chart(const char *path, ug_chart **out);
 int cli_print_audit(const ug_chart *chart, const ug_pack_options *opt, bool strict);
 /* Does the layout file look like a page file (a `page:` key at the top)? */
 bool cli_is_page_file(const char *path);
-/* Print findings as cli_print_audit does; returns the same exit codes. */
+/* Print findings as cli_print_audit does, then free them (f is taken over);
+** returns the same exit codes. */
 int cli_print_findings(ug_findings *f, bool strict);
 /* Print each glyph sanitizer warning of a packed scene. */
 void cli_glyph_warnings(const ug_scene *scene, const ug_chart *chart);
