@@ -143,4 +143,5 @@ def main():
         print(c)
 
 
-main()
+if __name__ == "__main__":
+    main()

@@ -62,8 +62,8 @@ for f in "${files[@]}"; do
     fi
 done
 
-"$PY" - "$dir" "$tmp" "$BAND_LO" "$BAND_HI" <<'PYEOF'
-import os, re, struct, sys, zlib
+UG_TESTS_DIR="$here" "$PY" - "$dir" "$tmp" "$BAND_LO" "$BAND_HI" <<'PYEOF'
+import os, re, sys
 import xml.etree.ElementTree as ET
 
 gdir, tmp, lo, hi = sys.argv[1], sys.argv[2], float(sys.argv[3]), float(sys.argv[4])
@@ -73,53 +73,19 @@ ALLOWED_FILL_ATTR = {'fill-rule', 'clip-rule'}
 NUM = re.compile(r'[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?')
 LICENCE = 'unitgram project (original work)'
 
+# The PNG reader is tests/colour_areas.py's (standard library only).
+sys.path.insert(0, os.environ['UG_TESTS_DIR'])
+from colour_areas import read_png  # noqa: E402
+
+
 def png_alpha(path):
     data = open(path, 'rb').read()
     if data[:8] != b'\x89PNG\r\n\x1a\n':
         raise ValueError('not a PNG')
-    pos, idat = 8, b''
-    w = h = ct = bpp = None
-    while pos < len(data):
-        ln, typ = struct.unpack('>I4s', data[pos:pos + 8])
-        body = data[pos + 8:pos + 8 + ln]
-        if typ == b'IHDR':
-            w, h, depth, ct, _, _, interlace = struct.unpack('>IIBBBBB', body)
-            if depth != 8 or interlace != 0 or ct not in (0, 2, 4, 6):
-                raise ValueError('unsupported PNG layout')
-            bpp = {0: 1, 2: 3, 4: 2, 6: 4}[ct]
-        elif typ == b'IDAT':
-            idat += body
-        elif typ == b'IEND':
-            break
-        pos += 12 + ln
-    raw = zlib.decompress(idat)
-    stride = w * bpp
-    prev = bytearray(stride)
-    rows, i = [], 0
-    for _ in range(h):
-        ftype = raw[i]
-        line = bytearray(raw[i + 1:i + 1 + stride])
-        i += 1 + stride
-        for x in range(stride):
-            a = line[x - bpp] if x >= bpp else 0
-            b = prev[x]
-            c = prev[x - bpp] if x >= bpp else 0
-            if ftype == 1:
-                line[x] = (line[x] + a) & 255
-            elif ftype == 2:
-                line[x] = (line[x] + b) & 255
-            elif ftype == 3:
-                line[x] = (line[x] + ((a + b) >> 1)) & 255
-            elif ftype == 4:
-                p = a + b - c
-                pa, pb, pc = abs(p - a), abs(p - b), abs(p - c)
-                pr = a if (pa <= pb and pa <= pc) else (b if pb <= pc else c)
-                line[x] = (line[x] + pr) & 255
-        rows.append(line)
-        prev = line
-    if ct in (4, 6):
-        return w, h, [[r[x * bpp + bpp - 1] for x in range(w)] for r in rows]
-    return w, h, [[255 - r[x * bpp] for x in range(w)] for r in rows]
+    w, h, bpp, px = read_png(data)
+    if bpp != 4:
+        raise ValueError('expected an RGBA PNG from rsvg-convert')
+    return w, h, [[px[(y * w + x) * 4 + 3] for x in range(w)] for y in range(h)]
 
 def structural_problems(path):
     probs = []
