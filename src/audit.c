@@ -799,26 +799,28 @@ static bool same_scale(const scale_of *a, const scale_of *b)
 ** different things are not meant to be compared icon for icon. */
 static ug_status check_page_scale(audit_ctx *x, const scale_of *s, size_t n)
 {
-    for (size_t j = 1; j < n; j++)
-        for (size_t i = 0; i < j; i++) {
-            if (!same_unit(s[i].c, s[j].c) || same_scale(&s[i], &s[j]))
-                continue;
-            char vi[48], vj[48];
-            x->c = s[j].c;
-            return add(x, "page-scale-mismatch", UG_SEVERITY_WARNING,
-                       s[j].c->categories_mark,
-                       "shared-scale: true (one icon value and one icon size for the page)",
-                       "'%s' and '%s' both count %s but draw them at different scales "
-                       "(%s at %g px against %s at %g px)",
-                       s[i].c->title.text ? s[i].c->title.text : "(untitled)",
-                       s[j].c->title.text ? s[j].c->title.text : "(untitled)",
-                       s[j].c->unit_label.text,
-                       s[i].rule.by_cells ? "shares" : ug_dec_format(s[i].rule.value, vi),
-                       s[i].c->icon_size,
-                       s[j].rule.by_cells ? "shares" : ug_dec_format(s[j].rule.value, vj),
-                       s[j].c->icon_size);
-        }
-    return UG_OK;
+    ug_status st = UG_OK;
+    for (size_t j = 1; j < n && !st; j++) {
+        size_t i = 0;
+        while (i < j && (!same_unit(s[i].c, s[j].c) || same_scale(&s[i], &s[j])))
+            i++;
+        if (i == j)
+            continue;
+        char vi[48], vj[48];
+        x->c = s[j].c; /* one finding per chart, against the first it differs from */
+        st = add(x, "page-scale-mismatch", UG_SEVERITY_WARNING, s[j].c->categories_mark,
+                 "shared-scale: true (one icon value and one icon size for the page)",
+                 "'%s' and '%s' both count %s but draw them at different scales "
+                 "(%s at %g px against %s at %g px)",
+                 s[i].c->title.text ? s[i].c->title.text : "(untitled)",
+                 s[j].c->title.text ? s[j].c->title.text : "(untitled)",
+                 s[j].c->unit_label.text,
+                 s[i].rule.by_cells ? "shares" : ug_dec_format(s[i].rule.value, vi),
+                 s[i].c->icon_size,
+                 s[j].rule.by_cells ? "shares" : ug_dec_format(s[j].rule.value, vj),
+                 s[j].c->icon_size);
+    }
+    return st;
 }
 
 ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
