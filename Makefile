@@ -113,7 +113,8 @@ run-tests: $(BIN) $(TESTS) $(REF_DRIVERS)
 FUZZ_SECONDS ?= 60
 FUZZ_SRC    = $(wildcard tests/fuzz/fuzz_*.c)
 FUZZ_BUILD  = build/fuzz
-FUZZ_CFLAGS = -O1 -g -fsanitize=fuzzer-no-link,address,undefined -fno-omit-frame-pointer
+FUZZ_CFLAGS = -O1 -g -fsanitize=fuzzer-no-link,address,undefined -fno-omit-frame-pointer \
+              -fno-sanitize-recover=undefined
 FUZZERS     = $(FUZZ_SRC:tests/fuzz/%.c=$(FUZZ_BUILD)/%)
 
 fuzz-build:
@@ -122,7 +123,7 @@ fuzz-build:
 
 $(FUZZ_BUILD)/fuzz_%: tests/fuzz/fuzz_%.c $(FUZZ_BUILD)/libunitgram.a
 	@echo "  LD  $@"
-	@clang $(STD) $(WARNINGS) -O1 -g -fsanitize=fuzzer,address,undefined \
+	@clang $(STD) $(WARNINGS) -O1 -g -fsanitize=fuzzer,address,undefined -fno-sanitize-recover=undefined \
 	  -Iinclude -Isrc $(PKG_CFLAGS) -o $@ $< $(FUZZ_BUILD)/libunitgram.a $(PKG_LIBS)
 
 # Each fuzzer runs FUZZ_SECONDS on its corpus (seeded from the tests); a crash

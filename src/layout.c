@@ -459,6 +459,10 @@ static bool parse_length(const char *s, size_t n, double *px)
     return true;
 }
 
+/* No length on a chart or page needs more than this (about 26 m); larger ones
+** would overflow the text layout's integer units (found by fuzz_draw). */
+#define LAYOUT_MAX_LENGTH_PX 100000.0
+
 static ug_status read_length(loader *l, const layout_node *n, bool positive,
                              double *out)
 {
@@ -470,6 +474,10 @@ static ug_status read_length(loader *l, const layout_node *n, bool positive,
                        "'%s' expects a %slength such as 24, 24px, 12mm, 0.5in "
                        "or 10pt (found '%s')",
                        l->key, positive ? "positive " : "", n->text);
+    if (*out > LAYOUT_MAX_LENGTH_PX)
+        return ug_fail(l->err, UG_ELIMIT, n->mark,
+                       "'%s' is longer than %.0fpx, the largest length allowed "
+                       "(found '%s')", l->key, LAYOUT_MAX_LENGTH_PX, n->text);
     return UG_OK;
 }
 
@@ -1344,6 +1352,7 @@ static bool custom_size(const char *s, double *w, double *h)
     while (*rest == ' ')
         rest++;
     return parse_length(s, n, w) && parse_length(rest, strlen(rest), h) && *w > 0 &&
+           *w <= LAYOUT_MAX_LENGTH_PX && *h <= LAYOUT_MAX_LENGTH_PX &&
            *h > 0;
 }
 

@@ -9,6 +9,7 @@
 ** the expensive part, and a batch of charts must pay it once.
 */
 #include <pango/pangocairo.h>
+#include <limits.h>
 #include <string.h>
 
 #include "text.h"
@@ -109,7 +110,9 @@ ug_status text_wrap(const text_font *f, const char *s, double max_width,
     memset(out, 0, sizeof *out);
     PangoLayout *l = layout_for(f, s);
     if (max_width > 0) {
-        pango_layout_set_width(l, (int)(max_width * PANGO_SCALE));
+        /* pango widths are ints in 1/1024 px: keep far from INT_MAX */
+        double cap = (double)(INT_MAX / PANGO_SCALE / 2);
+        pango_layout_set_width(l, (int)((max_width < cap ? max_width : cap) * PANGO_SCALE));
         pango_layout_set_wrap(l, PANGO_WRAP_WORD_CHAR);
     }
     set_metrics(l, out, f);
