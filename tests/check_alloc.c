@@ -10,6 +10,7 @@
 #include <string.h>
 
 #include "alloc.h"
+#include "check_run.h"
 
 #define MAXN 1000
 
@@ -695,9 +696,5 @@ static Suite *alloc_suite(void)
 
 int main(void)
 {
-    SRunner *sr = srunner_create(alloc_suite());
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(alloc_suite());
 }

@@ -9,6 +9,7 @@
 
 #include "audit.h"
 #include "color.h"
+#include "check_run.h"
 
 #define MAXC 10
 
@@ -571,9 +572,5 @@ static Suite *audit_suite(void)
 
 int main(void)
 {
-    SRunner *r = srunner_create(audit_suite());
-    srunner_run_all(r, CK_NORMAL);
-    int failed = srunner_ntests_failed(r);
-    srunner_free(r);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(audit_suite());
 }

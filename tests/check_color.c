@@ -7,6 +7,7 @@
 #include <stdlib.h>
 
 #include "color.h"
+#include "check_run.h"
 
 static ug_color hex(unsigned v)
 {
@@ -363,9 +364,5 @@ static Suite *color_suite(void)
 
 int main(void)
 {
-    SRunner *r = srunner_create(color_suite());
-    srunner_run_all(r, CK_NORMAL);
-    int failed = srunner_ntests_failed(r);
-    srunner_free(r);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(color_suite());
 }

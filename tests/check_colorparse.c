@@ -10,6 +10,7 @@
 #include <string.h>
 
 #include "colorparse.h"
+#include "check_run.h"
 
 typedef struct {
     const char *text;
@@ -143,9 +144,5 @@ static Suite *suite(void)
 
 int main(void)
 {
-    SRunner *r = srunner_create(suite());
-    srunner_run_all(r, CK_NORMAL);
-    int failed = srunner_ntests_failed(r);
-    srunner_free(r);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(suite());
 }

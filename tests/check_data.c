@@ -10,6 +10,7 @@
 #include <unistd.h>
 
 #include "model.h"
+#include "check_run.h"
 
 static char dir[64];
 static char layout_path[128], csv_path[128];
@@ -197,9 +198,5 @@ static Suite *suite(void)
 
 int main(void)
 {
-    SRunner *r = srunner_create(suite());
-    srunner_run_all(r, CK_NORMAL);
-    int failed = srunner_ntests_failed(r);
-    srunner_free(r);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(suite());
 }

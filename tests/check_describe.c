@@ -8,6 +8,7 @@
 
 #include "data/draw/fixture.h"
 #include "pack.h"
+#include "check_run.h"
 
 static char *describe(ug_chart *c)
 {
@@ -122,9 +123,5 @@ static Suite *describe_suite(void)
 
 int main(void)
 {
-    SRunner *r = srunner_create(describe_suite());
-    srunner_run_all(r, CK_NORMAL);
-    int failed = srunner_ntests_failed(r);
-    srunner_free(r);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(describe_suite());
 }

@@ -12,6 +12,7 @@
 #include <unistd.h>
 
 #include "glyph.h"
+#include "check_run.h"
 
 #define HOSTILE "data/glyphs/hostile"
 #define SHAPES "data/glyphs/shapes"
@@ -518,9 +519,5 @@ static Suite *glyph_suite(void)
 
 int main(void)
 {
-    SRunner *r = srunner_create(glyph_suite());
-    srunner_run_all(r, CK_NORMAL);
-    int failed = srunner_ntests_failed(r);
-    srunner_free(r);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(glyph_suite());
 }

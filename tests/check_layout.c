@@ -8,6 +8,7 @@
 #include <string.h>
 
 #include "model.h"
+#include "check_run.h"
 
 static ug_chart *load_ok(const char *path)
 {
@@ -464,9 +465,5 @@ static Suite *suite(void)
 
 int main(void)
 {
-    SRunner *r = srunner_create(suite());
-    srunner_run_all(r, CK_NORMAL);
-    int failed = srunner_ntests_failed(r);
-    srunner_free(r);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(suite());
 }

@@ -16,6 +16,7 @@
 #include <unistd.h>
 
 #include "pipeline_run.h"
+#include "check_run.h"
 
 #define HEAD "title: t\nsource: s\nunit-label: u\nform: rows\n"
 
@@ -217,9 +218,5 @@ int main(void)
     tcase_add_test(tc, test_fifo_refused);
     tcase_add_test(tc, test_fuzz_regressions);
     suite_add_tcase(s, tc);
-    SRunner *sr = srunner_create(s);
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(s);
 }

@@ -8,6 +8,7 @@
 
 #include "data/draw/fixture.h"
 #include "data/draw/invariants.h"
+#include "check_run.h"
 
 static const fx_cat pantry[] = {
     {"Families with children", "square", 0x0072B2, {"412"}, "Under 18 on the day"},
@@ -348,9 +349,5 @@ static Suite *pack_suite(void)
 
 int main(void)
 {
-    SRunner *r = srunner_create(pack_suite());
-    srunner_run_all(r, CK_NORMAL);
-    int failed = srunner_ntests_failed(r);
-    srunner_free(r);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(pack_suite());
 }

@@ -13,6 +13,7 @@
 
 #include "page.h"
 #include "xpath_check.h"
+#include "check_run.h"
 
 /* ---- whole pages: load a page file, compose it ----------------------------- */
 
@@ -451,9 +452,5 @@ static Suite *page_suite(void)
 
 int main(void)
 {
-    SRunner *sr = srunner_create(page_suite());
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(page_suite());
 }

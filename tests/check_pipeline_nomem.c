@@ -12,6 +12,7 @@
 #include <string.h>
 
 #include "pipeline_run.h"
+#include "check_run.h"
 
 /* Each case is a layout named as if it lay in `dir` (relative to tests/, where
 ** Check binaries run), so its CSV file and glyph paths resolve there. */
@@ -118,9 +119,5 @@ int main(void)
     tcase_add_loop_test(tc, test_every_allocation_failure_is_clean, 0,
                         (int)(sizeof cases / sizeof cases[0]));
     suite_add_tcase(s, tc);
-    SRunner *sr = srunner_create(s);
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(s);
 }

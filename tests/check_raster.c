@@ -23,6 +23,7 @@
 #include "alloc.h"
 #include "raster.h"
 #include "xpath_check.h"
+#include "check_run.h"
 
 /* Three squares of pure colours on white, every edge on a multiple of 8 px
 ** so that at 72, 96 and 300 dpi (factors 0.75, 1, 3.125) they cover whole
@@ -610,9 +611,5 @@ int main(int argc, char **argv)
 {
     if (argc == 3 && strcmp(argv[1], "--write") == 0)
         return write_files(argv[2]);
-    SRunner *sr = srunner_create(raster_suite());
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(raster_suite());
 }

@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "alloc.h"
+#include "check_run.h"
 
 /* ---- building a chart by hand -------------------------------------------- */
 
@@ -382,9 +383,5 @@ static Suite *report_suite(void)
 
 int main(void)
 {
-    SRunner *sr = srunner_create(report_suite());
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(report_suite());
 }

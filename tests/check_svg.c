@@ -13,6 +13,7 @@
 #include "data/draw/fixture.h"
 #include "pack.h"
 #include "svg.h"
+#include "check_run.h"
 
 typedef struct {
     double v;
@@ -343,9 +344,5 @@ static Suite *svg_suite(void)
 
 int main(void)
 {
-    SRunner *r = srunner_create(svg_suite());
-    srunner_run_all(r, CK_NORMAL);
-    int failed = srunner_ntests_failed(r);
-    srunner_free(r);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(svg_suite());
 }

@@ -8,6 +8,7 @@
 #include <string.h>
 
 #include "text.h"
+#include "check_run.h"
 
 /* librsvg lays out <text> itself; what it draws (the ink box it reports for
 ** the element, x = 10) must lie inside the width we measured and reserve, and
@@ -141,9 +142,5 @@ static Suite *text_suite(void)
 
 int main(void)
 {
-    SRunner *r = srunner_create(text_suite());
-    srunner_run_all(r, CK_NORMAL);
-    int failed = srunner_ntests_failed(r);
-    srunner_free(r);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(text_suite());
 }

@@ -8,6 +8,7 @@
 #include <unistd.h>
 
 #include "ug.h"
+#include "check_run.h"
 
 typedef struct {
     const char *text;
@@ -173,9 +174,5 @@ static Suite *util_suite(void)
 
 int main(void)
 {
-    SRunner *sr = srunner_create(util_suite());
-    srunner_run_all(sr, CK_NORMAL);
-    int failed = srunner_ntests_failed(sr);
-    srunner_free(sr);
-    return failed ? EXIT_FAILURE : EXIT_SUCCESS;
+    return check_run(util_suite());
 }
