@@ -557,6 +557,29 @@ static ug_status rebuild_root(ug_glyph *g, xmlNode *root, bool library,
     return st ? st : place(g, library, vb, where, err);
 }
 
+static void ignore_xml_message(void *ctx, const char *msg, ...)
+{
+    (void)ctx;
+    (void)msg;
+}
+
+/* libxml2 2.9 reports encoding and I/O errors through its generic handler
+** whatever XML_PARSE_NOERROR says, and that handler writes to stderr; the
+** caller gets the error from the context instead, so the handler is silenced
+** for this parse and put back after it. */
+static xmlDoc *read_quietly(xmlParserCtxt *ctxt, const char *text, size_t len,
+                            const char *path)
+{
+    xmlGenericErrorFunc saved = xmlGenericError;
+    void *saved_ctx = xmlGenericErrorContext;
+    xmlSetGenericErrorFunc(NULL, ignore_xml_message);
+    xmlDoc *doc = xmlCtxtReadMemory(ctxt, text, (int)len, path, NULL,
+                                    XML_PARSE_NONET | XML_PARSE_NOERROR |
+                                        XML_PARSE_NOWARNING | XML_PARSE_NOCDATA);
+    xmlSetGenericErrorFunc(saved_ctx, saved);
+    return doc;
+}
+
 static ug_status refuse_dtd(const ug_glyph *g, ug_mark where, ug_error *err)
 {
     return ug_fail(err, UG_ESCHEMA, where, "glyph file '%s' has a DTD (<!DOCTYPE>); DTDs "
@@ -575,9 +598,7 @@ static ug_status parse_svg(ug_glyph *g, const char *text, size_t len, bool libra
         return ug_fail(err, UG_ENOMEM, where, "out of memory");
     /* No XML_PARSE_NOENT, DTDLOAD or DTDATTR: entities stay unexpanded and no
     ** external subset is read; NONET forbids any network access. */
-    xmlDoc *doc = xmlCtxtReadMemory(ctxt, text, (int)len, g->path, NULL,
-                                    XML_PARSE_NONET | XML_PARSE_NOERROR |
-                                        XML_PARSE_NOWARNING | XML_PARSE_NOCDATA);
+    xmlDoc *doc = read_quietly(ctxt, text, len, g->path);
     ug_status st = UG_OK;
     xmlNode *root = doc ? xmlDocGetRootElement(doc) : NULL;
     for (xmlNode *n = doc ? doc->children : NULL; n; n = n->next)
