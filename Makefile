@@ -47,7 +47,7 @@ BIN      = $(BUILD)/unitgram
 
 LAYOUTS  = $(wildcard layouts/*.yaml)
 
-.PHONY: all deps check run-tests check-sanitized demo render-demo clean \
+.PHONY: FORCE all deps check run-tests check-sanitized demo render-demo clean \
         install uninstall bench fuzz fuzz-build
 
 all: $(BIN) $(LIB)
@@ -66,7 +66,17 @@ deps:
 	    $(DEBIAN_PACKAGES); fi
 
 # ---- build ------------------------------------------------------------------
-$(BUILD)/%.o: %.c
+# Objects depend on the flags they were compiled with: a changed CC or CFLAGS
+# (a sanitizer flag, say) rebuilds them instead of linking stale ones. The
+# stamp is rewritten only when the flags differ, so its date says when.
+FLAGS_STAMP = $(BUILD)/.flags
+$(FLAGS_STAMP): FORCE
+	$(shell mkdir -p $(BUILD))$(file >$@.new,$(CC) $(ALL_CFLAGS))
+	@cmp -s $@.new $@ && rm -f $@.new || mv -f $@.new $@
+
+FORCE:
+
+$(BUILD)/%.o: %.c $(FLAGS_STAMP)
 	@mkdir -p $(dir $@)
 	@echo "  CC  $<"
 	@$(CC) $(ALL_CFLAGS) -c $< -o $@
@@ -80,7 +90,7 @@ $(BIN): $(CLI_OBJ) $(LIB)
 	@echo "  LD  $@"
 	@$(CC) $(CFLAGS) -o $@ $(CLI_OBJ) $(LIB) $(PKG_LIBS)
 
-$(BUILD)/tests/%: tests/%.c $(LIB)
+$(BUILD)/tests/%: tests/%.c $(LIB) $(FLAGS_STAMP)
 	@mkdir -p $(dir $@)
 	@echo "  LD  $@"
 	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(CHECK_LIBS) $(PKG_LIBS)
