@@ -53,10 +53,16 @@ const char *ug_status_name(ug_status st);
 
 typedef struct ug_chart ug_chart;
 
+/* The caps a loader enforces. A value above its ceiling is refused with
+** UG_ELIMIT rather than quietly lowered. */
 typedef struct {
     size_t max_file_bytes;   /* 0 = default (4 MiB) */
-    size_t max_icons;        /* 0 = default (100 000) */
+    size_t max_icons;        /* 0 = default (100 000); at most UG_CEILING_ICONS */
+    size_t max_panels;       /* 0 = default (48); at most UG_CEILING_PANELS */
 } ug_limits;
+
+#define UG_CEILING_ICONS 10000000
+#define UG_CEILING_PANELS 1000
 
 ug_status ug_chart_load(const char *path, const ug_limits *limits,
                         ug_chart **out, ug_error *err);

@@ -26,6 +26,7 @@ static const char audit_help[] =
     "  --format FORMAT       text (default) or json\n"
     "  --max-icons N         refuse a chart of more than N icons (default 100000)\n"
     "  --max-input-bytes N   refuse input files larger than N bytes\n"
+    "  --max-panels N        refuse a page of more than N panels (default 48)\n"
     "  -h, --help            show this help\n"
     "\n" CLI_EXIT_CODES;
 

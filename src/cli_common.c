@@ -4,6 +4,7 @@
 */
 #include <stdarg.h>
 #include <errno.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <sys/stat.h>
 #include <stdlib.h>
@@ -87,19 +88,19 @@ int cli_option(const char *cmd, int argc, char **argv, int *i, const char *lng,
     return 1;
 }
 
-/* Standard input, whole, into a malloc'd buffer. */
-/* Set by --max-icons and --max-input-bytes; zeros are the library's defaults. */
+/* Set by --max-icons, --max-input-bytes and --max-panels; zeros are the
+** library's defaults. */
 static ug_limits limits;
 
-/* A whole number of at least 1 with nothing after it. */
-static bool parse_count(const char *s, size_t *out)
+/* A whole number from 1 to max with nothing after it. */
+static bool parse_count(const char *s, size_t max, size_t *out)
 {
     if (!s || *s < '0' || *s > '9')
         return false;
     char *end;
     errno = 0;
     unsigned long long v = strtoull(s, &end, 10);
-    if (errno || *end || v == 0 || v > (size_t)-1)
+    if (errno || *end || v == 0 || v > max)
         return false;
     *out = (size_t)v;
     return true;
@@ -107,17 +108,29 @@ static bool parse_count(const char *s, size_t *out)
 
 int cli_limit_option(const char *cmd, int argc, char **argv, int *i)
 {
-    static const char *const names[] = {"--max-icons", "--max-input-bytes"};
-    for (int k = 0; k < 2; k++) {
+    const struct {
+        const char *name;
+        size_t *value, max;
+    } caps[] = {
+        {"--max-icons", &limits.max_icons, UG_CEILING_ICONS},
+        {"--max-input-bytes", &limits.max_file_bytes, SIZE_MAX},
+        {"--max-panels", &limits.max_panels, UG_CEILING_PANELS},
+    };
+    for (size_t k = 0; k < sizeof caps / sizeof caps[0]; k++) {
         const char *v = NULL;
-        int m = cli_option(cmd, argc, argv, i, names[k], NULL, &v);
+        int m = cli_option(cmd, argc, argv, i, caps[k].name, NULL, &v);
         if (m < 0)
             return -1;
         if (m == 0)
             continue;
-        if (parse_count(v, k ? &limits.max_file_bytes : &limits.max_icons))
+        if (parse_count(v, caps[k].max, caps[k].value))
             return 1;
-        cli_usage(cmd, "%s expects a whole number of at least 1 (found '%s')", names[k], v);
+        if (caps[k].max == SIZE_MAX)
+            cli_usage(cmd, "%s expects a whole number of at least 1 (found '%s')",
+                      caps[k].name, v);
+        else
+            cli_usage(cmd, "%s expects a whole number from 1 to %zu (found '%s')",
+                      caps[k].name, caps[k].max, v);
         return -1;
     }
     return 0;
@@ -130,6 +143,7 @@ const ug_limits *cli_limits(void)
 
 /* Reads at most one byte past the input limit: the loader then refuses the
 ** text as too large, and an endless stream costs no more than the limit. */
+/* Standard input, whole, into a malloc'd buffer. */
 static char *read_stdin(size_t *len)
 {
     size_t max = limits.max_file_bytes ? limits.max_file_bytes

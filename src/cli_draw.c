@@ -39,9 +39,12 @@ static const char draw_help[] =
     "                        changes; a broken edit keeps the last good picture\n"
     "  --watch-limit N       with --watch: exit after N redraws\n"
     "  --watch-timeout SECS  with --watch: exit after SECS seconds\n"
-    "  --max-icons N         refuse charts of more than N icons (default 100000)\n"
+    "  --max-icons N         refuse charts of more than N icons (default 100000,\n"
+    "                        at most 10000000)\n"
     "  --max-input-bytes N   refuse layout or CSV files larger than N bytes\n"
     "                        (default 4194304)\n"
+    "  --max-panels N        refuse a page of more than N panels (default 48,\n"
+    "                        at most 1000)\n"
     "  -h, --help            show this help\n"
     "\n" CLI_EXIT_CODES;
 
@@ -53,7 +56,8 @@ static const char describe_help[] =
     "LAYOUT '-' reads standard input.\n"
     "\n"
     "options:\n"
-    "  --max-icons N, --max-input-bytes N   the limits, as for draw\n"
+    "  --max-icons N, --max-input-bytes N, --max-panels N\n"
+    "                        the limits, as for draw\n"
     "  -h, --help            show this help\n"
     "\n" CLI_EXIT_CODES;
 

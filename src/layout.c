@@ -10,6 +10,7 @@
 #include <errno.h>
 #include <fcntl.h>
 #include <stddef.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -1149,6 +1150,18 @@ static void resolve_limits(ug_limits *out, const ug_limits *in)
     out->max_file_bytes = in && in->max_file_bytes ? in->max_file_bytes
                                                    : UG_DEFAULT_MAX_FILE;
     out->max_icons = in && in->max_icons ? in->max_icons : UG_DEFAULT_MAX_ICONS;
+    out->max_panels = in && in->max_panels ? in->max_panels : UG_DEFAULT_MAX_PANELS;
+}
+
+static ug_status check_ceilings(const ug_limits *lim, const char *path, ug_error *err)
+{
+    if (lim->max_icons > UG_CEILING_ICONS)
+        return ug_fail(err, UG_ELIMIT, ug_mark_file(path), "an icon limit of %zu is "
+                       "above the ceiling of %d", lim->max_icons, UG_CEILING_ICONS);
+    if (lim->max_panels > UG_CEILING_PANELS)
+        return ug_fail(err, UG_ELIMIT, ug_mark_file(path), "a panel limit of %zu is "
+                       "above the ceiling of %d", lim->max_panels, UG_CEILING_PANELS);
+    return UG_OK;
 }
 
 static const layout_node *find_key(const layout_node *map, const char *key)
@@ -1234,13 +1247,16 @@ static ug_status from_text(void *model, fill_fn fill, bool page, const char *pat
                            const ug_limits *lim, const char *text, size_t len,
                            ug_error *err)
 {
+    ug_status st = check_ceilings(lim, path, err);
+    if (st)
+        return st;
     if (len > lim->max_file_bytes)
         return ug_fail(err, UG_ELIMIT, ug_mark_file(path),
                        "larger than the limit of %zu bytes (raise it with "
                        "--max-input-bytes)", lim->max_file_bytes);
     ug_arena tree = {0};
     layout_node *root;
-    ug_status st = layout_parse(text, len, path, &tree, &root, err);
+    st = layout_parse(text, len, path, &tree, &root, err);
     if (!st)
         st = check_root(root, path, page, err);
     if (!st)
@@ -1419,14 +1435,15 @@ static ug_status read_panel(loader *l, ug_panel *panel, const layout_node *v)
 
 /* A printed page holds a handful of panels; each may load a chart file of up
 ** to the input limit, so the count bounds the memory one page file can ask for. */
-#define MAX_PANELS 48
-
 static ug_status key_panels(loader *l, void *base, const layout_node *v)
 {
     ug_page *p = base;
-    ug_status st = want_list(l, v, MAX_PANELS, "panels (chart: or text:)");
+    ug_status st = want_list(l, v, SIZE_MAX, "panels (chart: or text:)");
     if (st)
         return st;
+    if (v->n > p->limits.max_panels)
+        return ug_fail(l->err, UG_ELIMIT, v->mark, "more than %zu panels (the limit; "
+                       "raise it with --max-panels)", p->limits.max_panels);
     if (!(p->panels = arena_array(l->arena, v->n, sizeof *p->panels)))
         return nomem(l, v);
     for (const layout_node *it = v->first; it; it = it->next) {

@@ -14,6 +14,7 @@
 #define UG_MAX_DEPTH 32        /* YAML nesting */
 #define UG_DEFAULT_MAX_FILE (4u << 20)
 #define UG_DEFAULT_MAX_ICONS 100000
+#define UG_DEFAULT_MAX_PANELS 48
 
 typedef enum { UG_FORM_ROWS, UG_FORM_WAFFLE } ug_form;
 typedef enum { UG_ROUND_WHOLE, UG_ROUND_PARTIAL } ug_rounding;

@@ -45,21 +45,63 @@ START_TEST(test_page_panels)
 {
     static const struct {
         int n;
+        size_t limit; /* 0: the default of 48 */
         ug_status want;
-    } rows[] = {{1, UG_OK}, {48, UG_OK}, {49, UG_ELIMIT}, {1000, UG_ELIMIT}};
+        const char *says;
+    } rows[] = {
+        {1, 0, UG_OK, NULL},           {48, 0, UG_OK, NULL},
+        {49, 0, UG_ELIMIT, "48 panels"}, {1000, 0, UG_ELIMIT, "48 panels"},
+        {49, 60, UG_OK, NULL},         {60, 60, UG_OK, NULL},
+        {61, 60, UG_ELIMIT, "60 panels"}, {2, 1, UG_ELIMIT, "1 panels"},
+    };
     for (size_t i = 0; i < sizeof rows / sizeof rows[0]; i++) {
         char *text = page_of(rows[i].n);
+        ug_limits limits = {.max_panels = rows[i].limit};
         ug_error err = {0};
         ug_page *p = NULL;
-        ug_status st = ug_page_load_string(text, strlen(text), "page.yaml", NULL, &p, &err);
+        ug_status st = ug_page_load_string(text, strlen(text), "page.yaml", &limits, &p,
+                                           &err);
         ck_assert_msg(st == rows[i].want, "%d panels: status %d", rows[i].n, st);
         if (st) {
             ck_assert_ptr_null(p);
-            ck_assert_ptr_nonnull(strstr(err.msg, "48 panels"));
+            ck_assert_ptr_nonnull(strstr(err.msg, rows[i].says));
+            ck_assert_ptr_nonnull(strstr(err.msg, "--max-panels"));
             ck_assert_uint_eq(err.where.line, 4); /* the list's first item */
         }
         ug_page_free(p);
         ug_free(text);
+    }
+}
+END_TEST
+
+/* A limit above its ceiling is refused, not quietly lowered to it. */
+START_TEST(test_limits_above_ceiling)
+{
+    const char *chart = HEAD "icon-value: 1\ncategories: [{label: A, count: 3}]\n";
+    static const struct {
+        ug_limits limits;
+        ug_status want;
+    } rows[] = {
+        {{.max_icons = UG_CEILING_ICONS}, UG_OK},
+        {{.max_icons = UG_CEILING_ICONS + 1}, UG_ELIMIT},
+        {{.max_panels = UG_CEILING_PANELS}, UG_OK},
+        {{.max_panels = UG_CEILING_PANELS + 1}, UG_ELIMIT},
+    };
+    for (size_t i = 0; i < sizeof rows / sizeof rows[0]; i++) {
+        ug_error err = {0};
+        ug_chart *c = NULL;
+        ug_status st = ug_chart_load_string(chart, strlen(chart), "c.yaml", &rows[i].limits,
+                                            &c, &err);
+        ck_assert_msg(st == rows[i].want, "row %zu: status %d", i, st);
+        if (st)
+            ck_assert_ptr_nonnull(strstr(err.msg, "above the ceiling"));
+        ug_chart_free(c);
+        char *page = page_of(2);
+        ug_page *p = NULL;
+        st = ug_page_load_string(page, strlen(page), "p.yaml", &rows[i].limits, &p, &err);
+        ck_assert_msg(st == rows[i].want, "page row %zu: status %d", i, st);
+        ug_page_free(p);
+        ug_free(page);
     }
 }
 END_TEST
@@ -98,7 +140,7 @@ START_TEST(test_icons_across_groups)
     };
     for (size_t i = 0; i < sizeof rows / sizeof rows[0]; i++) {
         char *text = groups_of(rows[i].groups, rows[i].each);
-        ug_limits lim = {0, rows[i].cap};
+        ug_limits lim = {.max_icons = rows[i].cap};
         ug_error err;
         ug_chart *c = NULL;
         ug_allocation *a = NULL;
@@ -140,7 +182,7 @@ START_TEST(test_input_bytes_reach_csv)
         ug_status want;
     } rows[] = {{0, UG_OK}, {-1, UG_ELIMIT}, {1000, UG_OK}};
     for (size_t i = 0; i < sizeof rows / sizeof rows[0]; i++) {
-        ug_limits lim = {(size_t)(size + rows[i].delta), 0};
+        ug_limits lim = {.max_file_bytes = (size_t)(size + rows[i].delta)};
         ug_error err = {0};
         ug_chart *c = NULL;
         ug_status st = ug_chart_load_string(text, strlen(text), name, &lim, &c, &err);
@@ -197,7 +239,7 @@ START_TEST(test_fuzz_regressions)
         size_t len = fread(buf, 1, sizeof buf, f);
         fclose(f);
         ug_error err;
-        ug_limits lim = {0, 5000};
+        ug_limits lim = {.max_icons = 5000};
         ug_status st = pipeline_run(buf, len, "data/good/fuzz.yaml", &lim, true, &err);
         ck_assert_msg(!st || err.msg[0], "%s: a failure without a message", path);
         n++;
@@ -213,6 +255,7 @@ int main(void)
     TCase *tc = tcase_create("core");
     tcase_set_timeout(tc, 60);
     tcase_add_test(tc, test_page_panels);
+    tcase_add_test(tc, test_limits_above_ceiling);
     tcase_add_test(tc, test_icons_across_groups);
     tcase_add_test(tc, test_input_bytes_reach_csv);
     tcase_add_test(tc, test_fifo_refused);

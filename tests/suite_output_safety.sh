@@ -51,6 +51,10 @@ expect_fail "over the icon cap" 1 draw "$H/num_icons_over_cap.yaml" -o "$O"
 expect_fail "over --max-icons" 1 draw "$GOOD" --max-icons 10 -o "$O"
 expect_fail "over --max-input-bytes" 1 draw "$GOOD" --max-input-bytes 64 -o "$O"
 expect_fail "bad --max-icons" 2 draw "$GOOD" --max-icons 0 -o "$O"
+expect_fail "--max-icons above its ceiling" 2 draw "$GOOD" --max-icons 10000001 -o "$O"
+expect_fail "page over --max-panels" 1 draw "$ROOT/layouts/handout.yaml" --max-panels 2 -o "$O"
+expect_fail "--max-panels above its ceiling" 2 draw "$ROOT/layouts/handout.yaml" \
+  --max-panels 1001 -o "$O"
 expect_fail "hostile glyph file" 1 draw "$H/glyph_xxe_passwd.yaml" -o "$O"
 
 # A write that fails part-way: a 1 KiB file-size limit (SIGXFSZ ignored, so

@@ -42,7 +42,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
     const char *layout = size && (data[0] & 1) ? long_form : wide;
     ug_error err = {0};
     ug_chart *chart = NULL;
-    ug_limits limits = {0, 20000};
+    ug_limits limits = {.max_icons = 20000};
     ug_status st = ug_chart_load_string(layout, strlen(layout), yaml, &limits, &chart, &err);
     if (st && !err.msg[0])
         abort();

@@ -143,7 +143,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
     ug_scene *scene = NULL;
     char *svg = NULL;
     size_t len = 0;
-    ug_limits limits = {0, 5000}; /* keep each run short */
+    ug_limits limits = {.max_icons = 5000}; /* keep each run short */
     ug_status st = ug_chart_load_string((const char *)data, size,
                                         base ? base : "tests/data/good/fuzz.yaml",
                                         &limits, &chart, &err);

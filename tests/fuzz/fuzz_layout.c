@@ -15,7 +15,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
     ug_error err = {0};
     ug_chart *chart = NULL;
-    ug_limits limits = {0, 20000};
+    ug_limits limits = {.max_icons = 20000};
     if (ug_chart_load_string((const char *)data, size, "fuzz.yaml", &limits, &chart, &err)) {
         if (!err.msg[0])
             abort(); /* a failure must say why */
