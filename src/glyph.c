@@ -762,16 +762,21 @@ static bool inside(const char *path, const char *dir)
     return strncmp(path, dir, n) == 0 && path[n] == '/';
 }
 
-/* The real file NAME.svg in dir, if there is one and it really is inside. */
-static char *find_in_dir(const char *dir, const char *name)
+/* The real file NAME.svg in dir into *out, if there is one and it really is
+** inside; *out stays NULL when there is none. Running out of memory is an
+** error of its own, never "no such glyph". */
+static ug_status find_in_dir(const char *dir, const char *name, char **out,
+                             ug_mark where, ug_error *err)
 {
     char candidate[PATH_MAX + 80], real_dir[PATH_MAX], real[PATH_MAX];
     struct stat sb;
     snprintf(candidate, sizeof candidate, "%s/%s.svg", dir, name);
     if (!realpath(dir, real_dir) || !realpath(candidate, real) || !inside(real, real_dir) ||
         stat(real, &sb) != 0 || !S_ISREG(sb.st_mode))
-        return NULL;
-    return ug_strdup(real);
+        return UG_OK;
+    if (!(*out = ug_strdup(real)))
+        return ug_fail(err, UG_ENOMEM, where, "out of memory");
+    return UG_OK;
 }
 
 static ug_status find_library(ug_glyph *g, const glyph_search *s, ug_mark where,
@@ -780,7 +785,7 @@ static ug_status find_library(ug_glyph *g, const glyph_search *s, ug_mark where,
     char **dirs = NULL;
     ug_status st = glyph_search_dirs(s, &dirs, err);
     for (size_t i = 0; !st && dirs[i] && !g->path; i++)
-        g->path = find_in_dir(dirs[i], g->name);
+        st = find_in_dir(dirs[i], g->name, &g->path, where, err);
     glyph_free_dirs(dirs);
     if (!st && !g->path)
         st = ug_fail(err, UG_ESCHEMA, where,

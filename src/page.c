@@ -218,8 +218,11 @@ static ug_status pack_panel(composer *k, size_t i, const ug_allocation *a,
     if (spare <= 0 || ug_scene_width(*s) > room + 0.5)
         return UG_OK;
     c->style.width = room + spare;
-    if ((st = ug_scene_pack(c, a, &wide, k->err)))
+    if ((st = ug_scene_pack(c, a, &wide, k->err))) {
+        ug_scene_free(*s); /* on failure the caller holds no scene */
+        *s = NULL;
         return st;
+    }
     if (content_box(wide).w > room + 0.5) {
         ug_scene_free(wide);
         return UG_OK;
@@ -574,10 +577,12 @@ ug_status page_compose(const ug_page *page, page_result *out, ug_error *err)
     k.r = out;
     k.err = err;
     ug_status st = compose(&k);
-    for (size_t i = 0; k.svgs && i < page->npanels; i++) {
+    /* Each array is checked on its own: set_up may have made some of them
+    ** and not the rest. */
+    for (size_t i = 0; k.svgs && i < page->npanels; i++)
         ug_free(k.svgs[i]);
+    for (size_t i = 0; k.texts && i < page->npanels; i++)
         text_block_free(&k.texts[i]);
-    }
     ug_free(k.svgs);
     ug_free(k.texts);
     ug_free(k.spans);

@@ -11,7 +11,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "pipeline_run.h"
+#include "ug.h"
 #include "check_run.h"
 
 /* Each case is a layout named as if it lay in `dir` (relative to tests/, where
@@ -80,34 +80,167 @@ static const nomem_case cases[] = {
      "  - {label: Bars, glyph: ./lib-a/test-bar.svg, count: 9}\n"},
 };
 
-/* One run of the pipeline, report and description included. */
-static ug_status pipeline(const nomem_case *c)
+/* One run of the whole chain on a chart: model, allocation, report,
+** description, scene, SVG, audit, web page and, for the first case, a PNG. */
+static ug_status chart_chain(const nomem_case *c, bool png, ug_error *err)
 {
-    ug_error err;
     char name[256];
     snprintf(name, sizeof name, "%s/nomem.yaml", c->dir);
-    ug_status st = pipeline_run(c->text, strlen(c->text), name, NULL, true, &err);
-    if (st)
-        ck_assert_msg(err.msg[0] != '\0', "%s: a failure without a message", c->what);
+    ug_chart *chart = NULL;
+    ug_allocation *a = NULL;
+    ug_scene *scene = NULL;
+    ug_findings *f = NULL;
+    char *svg = NULL, *report = NULL, *desc = NULL, *audit = NULL, *html = NULL,
+         *raster = NULL;
+    size_t svg_len = 0, n = 0;
+    memset(err, 0, sizeof *err);
+    ug_status st = ug_chart_load_string(c->text, strlen(c->text), name, NULL, &chart, err);
+    if (!st)
+        st = ug_chart_allocate(chart, &a, err);
+    if (!st)
+        st = ug_allocation_report(a, UG_REPORT_JSON, &report, NULL, err);
+    if (!st)
+        st = ug_chart_describe(chart, a, &desc, NULL, err);
+    if (!st)
+        st = ug_scene_pack(chart, a, &scene, err);
+    if (!st)
+        st = ug_scene_svg(scene, &svg, &svg_len, err);
+    if (!st)
+        st = ug_chart_audit(chart, &f, err);
+    if (!st)
+        st = ug_findings_format(f, UG_REPORT_JSON, &audit, NULL, err);
+    const ug_allocation *allocs[] = {a};
+    if (!st)
+        st = ug_html_page(NULL, svg, svg_len, desc, allocs, 1, &html, &n, err);
+    if (!st && png)
+        st = ug_render_svg(svg, svg_len, UG_OUT_PNG, 96, 1, &raster, &n, err);
+    ug_free(raster);
+    ug_free(html);
+    ug_free(audit);
+    ug_findings_free(f);
+    ug_free(svg);
+    ug_free(desc);
+    ug_free(report);
+    ug_scene_free(scene);
+    ug_allocation_free(a);
+    ug_chart_free(chart);
     return st;
 }
+
+/* The same for a one-page handout read from its file: the page as a web
+** page (its SVG composed inside), its description and its audit. */
+static ug_status page_chain(ug_error *err)
+{
+    ug_page *page = NULL;
+    ug_findings *f = NULL;
+    char *svg = NULL, *desc = NULL;
+    size_t n = 0;
+    memset(err, 0, sizeof *err);
+    ug_status st = ug_page_load("data/page/shared.yaml", NULL, &page, err);
+    if (!st)
+        st = ug_page_draw(page, UG_OUT_HTML, 96, 1, &svg, &n, err);
+    if (!st)
+        st = ug_page_describe(page, &desc, &n, err);
+    if (!st)
+        st = ug_page_audit(page, NULL, &f, err);
+    ug_findings_free(f);
+    ug_free(desc);
+    ug_free(svg);
+    ug_page_free(page);
+    return st;
+}
+
+/* One chart per CSV row (the --each-row batch): open, then every row's
+** chart packed and written. */
+static ug_status batch_chain(ug_error *err)
+{
+    ug_batch *b = NULL;
+    memset(err, 0, sizeof *err);
+    ug_status st = ug_batch_open("data/good/fromcsv.yaml", "data/good/wide.csv", NULL, &b,
+                                 err);
+    for (size_t i = 0; !st && i < ug_batch_count(b); i++) {
+        const ug_chart *c = NULL;
+        ug_allocation *a = NULL;
+        ug_scene *scene = NULL;
+        char *svg = NULL, *path = NULL;
+        st = ug_batch_chart(b, i, &c, err);
+        if (!st)
+            st = ug_batch_path(b, i, "out/{group}.svg", &path, err);
+        if (!st)
+            st = ug_chart_allocate(c, &a, err);
+        if (!st)
+            st = ug_scene_pack(c, a, &scene, err);
+        if (!st)
+            st = ug_scene_svg(scene, &svg, NULL, err);
+        free(path);
+        ug_free(svg);
+        ug_scene_free(scene);
+        ug_allocation_free(a);
+    }
+    ug_batch_free(b);
+    return st;
+}
+
+/* The glyph library of a test folder as `unitgram glyphs` shows it: every
+** glyph read, sanitized and laid out on a contact sheet. */
+static ug_status sheet_chain(ug_error *err)
+{
+    const char *dirs[] = {"data/glyphs/lib-a"};
+    ug_glyph_library *lib = NULL;
+    char *svg = NULL;
+    memset(err, 0, sizeof *err);
+    ug_status st = ug_glyph_library_open(dirs, 1, &lib, err);
+    if (!st)
+        st = ug_glyph_library_sheet_svg(lib, &svg, NULL, err);
+    ug_free(svg);
+    ug_glyph_library_free(lib);
+    return st;
+}
+
+/* Runs `chain` once freely, then once failing each allocation in turn. */
+#define FAIL_EACH_ALLOCATION(what, chain)                                                \
+    do {                                                                             \
+        ug_error err;                                                                \
+        ug_mem_fail_after(-1);                                                       \
+        ug_status first = (chain);                                                   \
+        long total = ug_mem_fail_after(-1);                                          \
+        ck_assert_msg(first == UG_OK, "%s: the case itself fails (%s)", what, err.msg); \
+        ck_assert_int_gt(total, 10);                                                 \
+        fprintf(stderr, "%s: %ld allocations, each failed in turn\n", what, total);  \
+        for (long n = 0; n < total; n++) {                                           \
+            ug_mem_fail_after(n);                                                    \
+            ug_status st = (chain);                                                  \
+            ug_mem_fail_after(-1);                                                   \
+            ck_assert_msg(st == UG_ENOMEM || st == UG_OK,                            \
+                          "%s: failing allocation %ld gave status %d (%s)", what, n, \
+                          st, err.msg);                                              \
+            ck_assert_msg(st == UG_OK || err.msg[0], "%s: allocation %ld failed "    \
+                          "without a message", what, n);                             \
+        }                                                                            \
+    } while (0)
 
 START_TEST(test_every_allocation_failure_is_clean)
 {
     const nomem_case *c = &cases[_i];
-    ug_mem_fail_after(-1);
-    ug_status first = pipeline(c);
-    long total = ug_mem_fail_after(-1);
-    ck_assert_msg(first == UG_OK, "%s: the case itself fails (status %d)", c->what, first);
-    ck_assert_int_gt(total, 10);
-    fprintf(stderr, "%s: %ld allocations, each failed in turn\n", c->what, total);
-    for (long n = 0; n < total; n++) {
-        ug_mem_fail_after(n);
-        ug_status st = pipeline(c);
-        ug_mem_fail_after(-1);
-        ck_assert_msg(st == UG_ENOMEM || st == UG_OK,
-                      "%s: failing allocation %ld gave status %d", c->what, n, st);
-    }
+    FAIL_EACH_ALLOCATION(c->what, chart_chain(c, _i == 0, &err));
+}
+END_TEST
+
+START_TEST(test_batch_allocation_failure_is_clean)
+{
+    FAIL_EACH_ALLOCATION("one chart per CSV row", batch_chain(&err));
+}
+END_TEST
+
+START_TEST(test_sheet_allocation_failure_is_clean)
+{
+    FAIL_EACH_ALLOCATION("glyph contact sheet", sheet_chain(&err));
+}
+END_TEST
+
+START_TEST(test_page_allocation_failure_is_clean)
+{
+    FAIL_EACH_ALLOCATION("handout page", page_chain(&err));
 }
 END_TEST
 
@@ -118,6 +251,9 @@ int main(void)
     tcase_set_timeout(tc, 300);
     tcase_add_loop_test(tc, test_every_allocation_failure_is_clean, 0,
                         (int)(sizeof cases / sizeof cases[0]));
+    tcase_add_test(tc, test_page_allocation_failure_is_clean);
+    tcase_add_test(tc, test_batch_allocation_failure_is_clean);
+    tcase_add_test(tc, test_sheet_allocation_failure_is_clean);
     suite_add_tcase(s, tc);
     return check_run(s);
 }
