@@ -1,6 +1,7 @@
 /*
 ** libFuzzer harness: the whole draw pipeline, layout bytes in, SVG out
-** (load, allocate, pack, write). Invariants: a failure carries a message; a
+** (load, allocate, pack, write, then audit); a page file goes through the
+** handout composer instead. Invariants: a failure carries a message; a
 ** success is an SVG that libxml2 parses without fetching anything and that
 ** holds no active content — no <script>, no <foreignObject>, no on*
 ** attribute, no href leaving the document, no javascript: anywhere.
@@ -134,19 +135,54 @@ static void check_svg(const char *svg, size_t len)
     xmlFreeDoc(doc);
 }
 
+/* The audit on a drawn chart or page: findings or an error that says why. */
+static void check_audit(ug_status st, ug_findings *f, const ug_error *err)
+{
+    if (st && !err->msg[0])
+        abort();
+    ug_findings_free(f);
+}
+
+/* A page file (a handout): every chart on it drawn into one SVG, and audited. */
+static void draw_page(const uint8_t *data, size_t size, const char *name,
+                      const ug_limits *limits)
+{
+    ug_error err = {0};
+    ug_page *page = NULL;
+    ug_findings *f = NULL;
+    char *svg = NULL;
+    size_t len = 0;
+    ug_status st = ug_page_load_string((const char *)data, size, name, limits, &page, &err);
+    if (!st)
+        st = ug_page_draw(page, UG_OUT_SVG, 96, 1, &svg, &len, &err);
+    if (st && !err.msg[0])
+        abort();
+    if (!st) {
+        check_svg(svg, len);
+        check_audit(ug_page_audit(page, NULL, &f, &err), f, &err);
+    }
+    free(svg);
+    ug_page_free(page);
+}
+
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
     const char *base = getenv("UG_FUZZ_BASE");
+    const char *name = base ? base : "tests/data/good/fuzz.yaml";
     ug_error err = {0};
     ug_chart *chart = NULL;
     ug_allocation *alloc = NULL;
     ug_scene *scene = NULL;
+    ug_findings *f = NULL;
     char *svg = NULL;
     size_t len = 0;
     ug_limits limits = {.max_icons = 5000}; /* keep each run short */
-    ug_status st = ug_chart_load_string((const char *)data, size,
-                                        base ? base : "tests/data/good/fuzz.yaml",
-                                        &limits, &chart, &err);
+    ug_status st = ug_chart_load_string((const char *)data, size, name, &limits, &chart,
+                                        &err);
+    if (st == UG_ESCHEMA && find(err.msg, "this is a page file")) {
+        draw_page(data, size, name, &limits);
+        return 0;
+    }
     if (!st)
         st = ug_chart_allocate(chart, &alloc, &err);
     if (!st)
@@ -155,8 +191,10 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
         st = ug_scene_svg(scene, &svg, &len, &err);
     if (st && !err.msg[0])
         abort(); /* a failure must say why */
-    if (!st)
+    if (!st) {
         check_svg(svg, len);
+        check_audit(ug_chart_audit(chart, &f, &err), f, &err);
+    }
     free(svg);
     ug_scene_free(scene);
     ug_allocation_free(alloc);
