@@ -145,6 +145,7 @@ fuzz: fuzz-build
 	  rc=0; G_SLICE=always-malloc ASAN_OPTIONS=detect_leaks=1 \
 	  LSAN_OPTIONS=suppressions=$(CURDIR)/tests/lsan.supp \
 	  $$f -max_total_time=$(FUZZ_SECONDS) -timeout=10 -rss_limit_mb=2048 \
+	    $$([ -f tests/fuzz/$$n.dict ] && echo -dict=tests/fuzz/$$n.dict) \
 	    -artifact_prefix=$(FUZZ_BUILD)/$$n- -print_final_stats=1 \
 	    $(FUZZ_BUILD)/corpus/$$n $$(cat tests/fuzz/$$n.seeds 2>/dev/null) \
 	    > $(FUZZ_BUILD)/$$n.log 2>&1 || rc=$$?; \
