@@ -11,7 +11,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "ug.h"
+#include "pipeline_run.h"
 #include "check_run.h"
 
 /* Each case is a layout named as if it lay in `dir` (relative to tests/, where
@@ -80,36 +80,17 @@ static const nomem_case cases[] = {
      "  - {label: Bars, glyph: ./lib-a/test-bar.svg, count: 9}\n"},
 };
 
-/* One run of the whole chain on a chart: model, allocation, report,
-** description, scene, SVG, audit, web page and, for the first case, a PNG. */
-static ug_status chart_chain(const nomem_case *c, bool png, ug_error *err)
+/* After the SVG: the audit, the web page and, when asked, a PNG. */
+static ug_status outputs(const ug_chart *chart, const ug_allocation *a, const char *svg,
+                         size_t svg_len, const char *desc, bool png, ug_error *err)
 {
-    char name[256];
-    snprintf(name, sizeof name, "%s/nomem.yaml", c->dir);
-    ug_chart *chart = NULL;
-    ug_allocation *a = NULL;
-    ug_scene *scene = NULL;
     ug_findings *f = NULL;
-    char *svg = NULL, *report = NULL, *desc = NULL, *audit = NULL, *html = NULL,
-         *raster = NULL;
-    size_t svg_len = 0, n = 0;
-    memset(err, 0, sizeof *err);
-    ug_status st = ug_chart_load_string(c->text, strlen(c->text), name, NULL, &chart, err);
-    if (!st)
-        st = ug_chart_allocate(chart, &a, err);
-    if (!st)
-        st = ug_allocation_report(a, UG_REPORT_JSON, &report, NULL, err);
-    if (!st)
-        st = ug_chart_describe(chart, a, &desc, NULL, err);
-    if (!st)
-        st = ug_scene_pack(chart, a, &scene, err);
-    if (!st)
-        st = ug_scene_svg(scene, &svg, &svg_len, err);
-    if (!st)
-        st = ug_chart_audit(chart, &f, err);
+    char *audit = NULL, *html = NULL, *raster = NULL;
+    size_t n = 0;
+    const ug_allocation *allocs[] = {a};
+    ug_status st = ug_chart_audit(chart, &f, err);
     if (!st)
         st = ug_findings_format(f, UG_REPORT_JSON, &audit, NULL, err);
-    const ug_allocation *allocs[] = {a};
     if (!st)
         st = ug_html_page(NULL, svg, svg_len, desc, allocs, 1, &html, &n, err);
     if (!st && png)
@@ -118,13 +99,28 @@ static ug_status chart_chain(const nomem_case *c, bool png, ug_error *err)
     ug_free(html);
     ug_free(audit);
     ug_findings_free(f);
-    ug_free(svg);
-    ug_free(desc);
-    ug_free(report);
-    ug_scene_free(scene);
-    ug_allocation_free(a);
-    ug_chart_free(chart);
     return st;
+}
+
+static ug_status outputs_svg(const ug_chart *chart, const ug_allocation *a, const char *svg,
+                             size_t svg_len, const char *desc, ug_error *err)
+{
+    return outputs(chart, a, svg, svg_len, desc, false, err);
+}
+
+static ug_status outputs_png(const ug_chart *chart, const ug_allocation *a, const char *svg,
+                             size_t svg_len, const char *desc, ug_error *err)
+{
+    return outputs(chart, a, svg, svg_len, desc, true, err);
+}
+
+/* One run of the whole chain on a chart: the pipeline, then its outputs. */
+static ug_status chart_chain(const nomem_case *c, bool png, ug_error *err)
+{
+    char name[256];
+    snprintf(name, sizeof name, "%s/nomem.yaml", c->dir);
+    return pipeline_run(c->text, strlen(c->text), name, NULL,
+                        png ? outputs_png : outputs_svg, err);
 }
 
 /* The same for a one-page handout read from its file: the page as a web
