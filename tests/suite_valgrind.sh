@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # The command-line client under valgrind (memcheck): every example layout
-# through draw, describe and tally, the hostile glyphs that sanitizing
+# through draw, describe, tally and audit; PNG, PDF and web-page output; a
+# batch of one chart per CSV row; the glyph sheet; the hostile glyphs that sanitizing
 # rewrites, and a few bad inputs that fail part-way (CSV, icon cap, glyph).
 # Any invalid read or write, use of uninitialised memory or definitely lost
 # block fails the suite (exit 99 from valgrind). tests/valgrind.supp hides
@@ -73,6 +74,17 @@ for f in csv_ragged csv_nul csv_unclosed_quote num_icons_over_cap groups_sum_ove
          bin_random utf8_surrogate truncated_flow; do
   vg 1 draw "$H/$f.yaml" -o "$T/out.svg"
 done
+# the other outputs, the audit, batches and the glyph library
+for ext in png pdf html; do
+  vg 0 draw layouts/pantry.yaml -o "$T/pantry.$ext"
+  vg 0 draw layouts/handout.yaml -o "$T/handout.$ext"
+done
+for f in layouts/*.yaml; do
+  vg 0 audit "$f" --format json
+done
+vg 0 draw layouts/wards.yaml --each-row layouts/wards.csv -o "$T/rows/{group}.svg"
+vg 0 glyphs --sheet "$T/sheet.svg"
+vg 0 glyphs --check house --check ./tests/data/hostile/glyphs/script.svg
 vg 1 draw tests/data/bad/csv_long_unknown.yaml -o "$T/out.svg"
 vg 4 draw layouts/pantry.yaml -o "$T/no/such/folder/out.svg"
 vg 2 draw layouts/pantry.yaml --max-icons nonsense -o "$T/out.svg"
