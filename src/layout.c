@@ -1442,8 +1442,8 @@ static ug_status key_panels(loader *l, void *base, const layout_node *v)
     if (st)
         return st;
     if (v->n > p->limits.max_panels)
-        return ug_fail(l->err, UG_ELIMIT, v->mark, "more than %zu panels (the limit; "
-                       "raise it with --max-panels)", p->limits.max_panels);
+        return ug_fail(l->err, UG_ELIMIT, v->mark, "%zu panels, more than the limit of %zu "
+                       "(raise it with --max-panels)", v->n, p->limits.max_panels);
     if (!(p->panels = arena_array(l->arena, v->n, sizeof *p->panels)))
         return nomem(l, v);
     for (const layout_node *it = v->first; it; it = it->next) {

@@ -50,9 +50,10 @@ START_TEST(test_page_panels)
         const char *says;
     } rows[] = {
         {1, 0, UG_OK, NULL},           {48, 0, UG_OK, NULL},
-        {49, 0, UG_ELIMIT, "48 panels"}, {1000, 0, UG_ELIMIT, "48 panels"},
+        {49, 0, UG_ELIMIT, "49 panels, more than the limit of 48"},
+        {1000, 0, UG_ELIMIT, "limit of 48"},
         {49, 60, UG_OK, NULL},         {60, 60, UG_OK, NULL},
-        {61, 60, UG_ELIMIT, "60 panels"}, {2, 1, UG_ELIMIT, "1 panels"},
+        {61, 60, UG_ELIMIT, "limit of 60"}, {2, 1, UG_ELIMIT, "limit of 1 "},
     };
     for (size_t i = 0; i < sizeof rows / sizeof rows[0]; i++) {
         char *text = page_of(rows[i].n);
