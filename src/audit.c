@@ -280,22 +280,34 @@ static share_verdict judge(const ug_chart *c, const alloc_share *s)
 
 /* Would every group pass under this rule? Rules needing more icons than the
 ** chart's limit do not count as passing. */
-static bool rule_passes(const ug_chart *c, const alloc_rule *r, alloc_share *tmp)
+/* Scratch space for trying other rules: a share per category and a column
+** of counts. */
+typedef struct {
+    alloc_share *shares;
+    ug_dec *column;
+} trial;
+
+/* Whether every category stays visible and within the tolerance under r, in
+** *passes. Only running out of memory is an error: a rule the allocator
+** refuses (too many icons, say) simply does not pass. */
+static ug_status rule_passes(const ug_chart *c, const alloc_rule *r, trial *t,
+                             bool *passes)
 {
-    ug_dec *column = ug_malloc((c->ncats ? c->ncats : 1) * sizeof *column);
-    bool ok = column != NULL;
-    for (size_t g = 0; ok && g < chart_ngroups(c); g++) {
+    *passes = true;
+    for (size_t g = 0; *passes && g < chart_ngroups(c); g++) {
         for (size_t i = 0; i < c->ncats; i++)
-            column[i] = c->cats[i].counts[g];
+            t->column[i] = c->cats[i].counts[g];
         long n;
         ug_error scratch = {0};
-        ok = alloc_apportion(column, c->ncats, r, tmp, &n, ug_mark_file(NULL),
-                             &scratch) == UG_OK;
-        for (size_t i = 0; ok && i < c->ncats; i++)
-            ok = judge(c, &tmp[i]) == SHARE_OK;
+        ug_status st = alloc_apportion(t->column, c->ncats, r, t->shares, &n,
+                                       ug_mark_file(NULL), &scratch);
+        if (st == UG_ENOMEM)
+            return st;
+        *passes = st == UG_OK;
+        for (size_t i = 0; *passes && i < c->ncats; i++)
+            *passes = judge(c, &t->shares[i]) == SHARE_OK;
     }
-    ug_free(column);
-    return ok;
+    return UG_OK;
 }
 
 static ug_dec largest_count(const ug_chart *c)
@@ -327,42 +339,49 @@ static bool too_many_icons(const ug_chart *c, ug_dec v)
 }
 
 /* The largest nice icon value (1, 2, 2.5, 5 x 10^k) under which every
-** category stays visible and within the tolerance. */
-static bool best_value(const ug_chart *c, const alloc_rule *base, alloc_share *tmp,
-                       ug_dec *out)
+** category stays visible and within the tolerance; *found false if none. */
+static ug_status best_value(const ug_chart *c, const alloc_rule *base, trial *t,
+                            ug_dec *out, bool *found)
 {
     alloc_rule r = *base;
     r.partial = false;
     r.max_icons = icon_limit(c);
     ug_dec top = largest_count(c), v = {0};
-    bool found = false;
+    *found = false;
     for (;;) {
         ug_dec next = alloc_next_nice(v);
         if (next.v == v.v || next.v > top.v)
-            break;
+            return UG_OK;
         v = r.value = next;
-        if (!too_many_icons(c, v) && rule_passes(c, &r, tmp)) {
+        bool passes = false;
+        if (!too_many_icons(c, v)) {
+            ug_status st = rule_passes(c, &r, t, &passes);
+            if (st)
+                return st;
+        }
+        if (passes) {
             *out = v;
-            found = true;
+            *found = true;
         }
     }
-    return found;
 }
 
 /* Waffles by cells: the fewest nice cell counts above the present one. */
-static bool best_cells(const ug_chart *c, const alloc_rule *base, alloc_share *tmp,
-                       long *out)
+static ug_status best_cells(const ug_chart *c, const alloc_rule *base, trial *t,
+                            long *out, bool *found)
 {
     alloc_rule r = *base;
     ug_dec v = {(ug_i128)base->cells * UG_DEC_SCALE};
+    *found = false;
     for (;;) {
         v = alloc_next_nice(v);
         if (v.v / UG_DEC_SCALE > icon_limit(c))
-            return false;
+            return UG_OK;
         r.cells = (long)(v.v / UG_DEC_SCALE);
-        if (rule_passes(c, &r, tmp)) {
+        ug_status st = rule_passes(c, &r, t, found);
+        if (st || *found) {
             *out = r.cells;
-            return true;
+            return st;
         }
     }
 }
@@ -370,24 +389,32 @@ static bool best_cells(const ug_chart *c, const alloc_rule *base, alloc_share *t
 static ug_status rounding_fix(audit_ctx *x, char *fix, size_t n)
 {
     const ug_chart *c = x->c;
-    alloc_share *tmp = ug_calloc(c->ncats ? c->ncats : 1, sizeof *tmp);
-    if (!tmp)
+    size_t k = c->ncats ? c->ncats : 1;
+    trial t = {ug_calloc(k, sizeof *t.shares), ug_calloc(k, sizeof *t.column)};
+    char tol[48], v[48];
+    ug_dec_format(tolerance(c), tol);
+    ug_dec value = {0};
+    long cells = 0;
+    bool found = false;
+    ug_status st = t.shares && t.column ? UG_OK : UG_ENOMEM;
+    if (!st && x->a->rule.by_cells)
+        st = best_cells(c, &x->a->rule, &t, &cells, &found);
+    else if (!st)
+        st = best_value(c, &x->a->rule, &t, &value, &found);
+    ug_free(t.shares);
+    ug_free(t.column);
+    if (st)
         return oom(x);
-    char t[48], v[48];
-    ug_dec_format(tolerance(c), t);
-    ug_dec value;
-    long cells;
-    if (x->a->rule.by_cells && best_cells(c, &x->a->rule, tmp, &cells))
+    if (found && x->a->rule.by_cells)
         snprintf(fix, n, "cells: %ld keeps every category visible and within %s %%",
-                 cells, t);
-    else if (!x->a->rule.by_cells && best_value(c, &x->a->rule, tmp, &value))
+                 cells, tol);
+    else if (found)
         snprintf(fix, n, "icon-value: %s keeps every category visible and within %s %%",
-                 ug_dec_format(value, v), t);
+                 ug_dec_format(value, v), tol);
     else if (c->form == UG_FORM_ROWS)
         snprintf(fix, n, "rounding: partial");
     else
         snprintf(fix, n, "form: rows with rounding: partial");
-    ug_free(tmp);
     return UG_OK;
 }
 

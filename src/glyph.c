@@ -104,7 +104,8 @@ static ug_glyph *glyph_new(const char *ref)
     return g;
 }
 
-/* One line per distinct removal; a failed allocation only loses a warning. */
+/* One line per distinct removal. Memory running out here is remembered, so
+** the load fails instead of quietly dropping the warning. */
 static void note_removed(ug_glyph *g, const char *fmt, ...) UG_PRINTF(2, 3);
 static void note_removed(ug_glyph *g, const char *fmt, ...)
 {
@@ -117,11 +118,15 @@ static void note_removed(ug_glyph *g, const char *fmt, ...)
         if (strcmp(g->removed[i], line) == 0)
             return;
     char **grown = ug_realloc(g->removed, (g->nremoved + 1) * sizeof *grown);
-    if (!grown)
+    if (!grown) {
+        g->notes_lost = true;
         return;
+    }
     g->removed = grown;
     if ((g->removed[g->nremoved] = ug_strdup(line)))
         g->nremoved++;
+    else
+        g->notes_lost = true;
 }
 
 /* "prefix:name" for namespaced nodes, so a warning says xlink:href. */
@@ -613,6 +618,8 @@ static ug_status parse_svg(ug_glyph *g, const char *text, size_t len, bool libra
                      g->path);
     else
         st = rebuild_root(g, root, library, where, err);
+    if (!st && g->notes_lost)
+        st = ug_fail(err, UG_ENOMEM, where, "out of memory");
     xmlFreeDoc(doc);
     xmlFreeParserCtxt(ctxt);
     return st;
@@ -728,7 +735,10 @@ ug_status glyph_search_dirs(const glyph_search *search, char ***out, ug_error *e
         dirs[k++] = ug_strdup(search->dirs[i]);
     for (size_t i = 0; i < k; i++)
         if (!dirs[i]) {
-            glyph_free_dirs(dirs);
+            /* freed one by one: glyph_free_dirs would stop at the gap */
+            for (size_t j = 0; j < k; j++)
+                ug_free(dirs[j]);
+            ug_free(dirs);
             return ug_fail(err, UG_ENOMEM, ug_mark_file(NULL), "out of memory");
         }
     *out = dirs;

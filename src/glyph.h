@@ -29,6 +29,7 @@ typedef struct {
     double ink;      /* covered fraction of the unit box (rendered at 64 x 64) */
     char **removed;  /* what sanitizing removed, one line each, for warnings */
     size_t nremoved;
+    bool notes_lost; /* memory ran out while noting a removal */
     char *path;      /* the file it was read from; NULL for a primitive */
 } ug_glyph;
 

@@ -42,6 +42,10 @@ char *ug_strndup(const char *s, size_t n);
 /* Fail every allocation after the next n successful ones; -1 turns it off.
 ** Returns how many allocations have been made since the last call. */
 long ug_mem_fail_after(long n);
+/* Fail only the allocation after the next n, then allow all again: a
+** failure the code swallows then shows as a run that succeeds with
+** different output. Returns as ug_mem_fail_after does. */
+long ug_mem_fail_once(long n);
 
 /* An arena owns the many small strings and arrays of one model: one free. */
 typedef struct ug_arena_block ug_arena_block;

@@ -73,14 +73,18 @@ const char *ug_status_name(ug_status st)
 
 static long allocs_left = -1; /* -1: never fail */
 static long allocs_made;
+static bool fail_just_one;
 
 static bool may_allocate(void)
 {
     allocs_made++;
     if (allocs_left < 0)
         return true;
-    if (allocs_left == 0)
+    if (allocs_left == 0) {
+        if (fail_just_one)
+            allocs_left = -1;
         return false;
+    }
     allocs_left--;
     return true;
 }
@@ -90,6 +94,14 @@ long ug_mem_fail_after(long n)
     long made = allocs_made;
     allocs_left = n;
     allocs_made = 0;
+    fail_just_one = false;
+    return made;
+}
+
+long ug_mem_fail_once(long n)
+{
+    long made = ug_mem_fail_after(n);
+    fail_just_one = true;
     return made;
 }
 

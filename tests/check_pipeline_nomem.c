@@ -7,6 +7,7 @@
 ** and curl's torture mode; common practice, no source for the exact scheme.)
 */
 #include <check.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -78,23 +79,72 @@ static const nomem_case cases[] = {
      "  - {label: Discs, glyph: ./shapes/disc-offset.svg, count: 23}\n"
      "  - {label: Rings, glyph: ./shapes/ring-evenodd.svg, count: 12.5}\n"
      "  - {label: Bars, glyph: ./lib-a/test-bar.svg, count: 9}\n"},
+    {"glyph files that sanitizing rewrites", "data/glyphs",
+     "title: Rewritten icons (demo data)\n"
+     "source: test\n"
+     "unit-label: boxes\n"
+     "form: rows\n"
+     "icon-value: 1\n"
+     "categories:\n"
+     "  - {label: Styled, glyph: ./hostile/style-attribute.svg, count: 3}\n"
+     "  - {label: Scripted, glyph: ./hostile/onload.svg, count: 2}\n"},
 };
 
-/* After the SVG: the audit, the web page and, when asked, a PNG. */
-static ug_status outputs(const ug_chart *chart, const ug_allocation *a, const char *svg,
-                         size_t svg_len, const char *desc, bool png, ug_error *err)
+/* What a run made, folded into one number (FNV-1a, 64 bits): a run that
+** succeeds while allocations fail must make exactly what a free run makes,
+** so that nothing is quietly dropped on the way. */
+static uint64_t made;
+
+static void note_made(const void *data, size_t n)
+{
+    const unsigned char *p = data;
+    for (size_t i = 0; p && i < n; i++)
+        made = (made ^ p[i]) * 0x100000001b3u;
+    made = (made ^ 0xff) * 0x100000001b3u; /* ends each piece */
+}
+
+static void note_text(const char *s)
+{
+    note_made(s, s ? strlen(s) : 0);
+}
+
+static ug_status note_warnings(const ug_scene *scene, const ug_chart *chart, ug_error *err)
+{
+    ug_error *w = NULL;
+    size_t n = 0;
+    ug_status st = ug_scene_glyph_warnings(scene, chart, &w, &n, err);
+    for (size_t i = 0; !st && i < n; i++)
+        note_text(w[i].msg);
+    free(w);
+    return st;
+}
+
+/* After the SVG: glyph warnings, the audit, the web page and, when asked, a
+** PNG. */
+static ug_status outputs(const ug_chart *chart, const ug_allocation *a,
+                         const ug_scene *scene, const char *svg, size_t svg_len,
+                         const char *desc, bool png, ug_error *err)
 {
     ug_findings *f = NULL;
     char *audit = NULL, *html = NULL, *raster = NULL;
     size_t n = 0;
     const ug_allocation *allocs[] = {a};
-    ug_status st = ug_chart_audit(chart, &f, err);
+    note_made(svg, svg_len);
+    note_text(desc);
+    ug_status st = note_warnings(scene, chart, err);
+    if (!st)
+        st = ug_chart_audit(chart, &f, err);
     if (!st)
         st = ug_findings_format(f, UG_REPORT_JSON, &audit, NULL, err);
     if (!st)
         st = ug_html_page(NULL, svg, svg_len, desc, allocs, 1, &html, &n, err);
+    if (!st)
+        note_made(html, n);
     if (!st && png)
         st = ug_render_svg(svg, svg_len, UG_OUT_PNG, 96, 1, &raster, &n, err);
+    if (!st && png)
+        note_made(raster, n);
+    note_text(audit);
     ug_free(raster);
     ug_free(html);
     ug_free(audit);
@@ -102,16 +152,18 @@ static ug_status outputs(const ug_chart *chart, const ug_allocation *a, const ch
     return st;
 }
 
-static ug_status outputs_svg(const ug_chart *chart, const ug_allocation *a, const char *svg,
-                             size_t svg_len, const char *desc, ug_error *err)
+static ug_status outputs_svg(const ug_chart *chart, const ug_allocation *a,
+                             const ug_scene *scene, const char *svg, size_t svg_len,
+                             const char *desc, ug_error *err)
 {
-    return outputs(chart, a, svg, svg_len, desc, false, err);
+    return outputs(chart, a, scene, svg, svg_len, desc, false, err);
 }
 
-static ug_status outputs_png(const ug_chart *chart, const ug_allocation *a, const char *svg,
-                             size_t svg_len, const char *desc, ug_error *err)
+static ug_status outputs_png(const ug_chart *chart, const ug_allocation *a,
+                             const ug_scene *scene, const char *svg, size_t svg_len,
+                             const char *desc, ug_error *err)
 {
-    return outputs(chart, a, svg, svg_len, desc, true, err);
+    return outputs(chart, a, scene, svg, svg_len, desc, true, err);
 }
 
 /* One run of the whole chain on a chart: the pipeline, then its outputs. */
@@ -136,9 +188,14 @@ static ug_status page_chain(ug_error *err)
     if (!st)
         st = ug_page_draw(page, UG_OUT_HTML, 96, 1, &svg, &n, err);
     if (!st)
+        note_made(svg, n);
+    if (!st)
         st = ug_page_describe(page, &desc, &n, err);
     if (!st)
         st = ug_page_audit(page, NULL, &f, err);
+    note_text(desc);
+    for (size_t i = 0; !st && i < ug_findings_count(f); i++)
+        note_text(ug_findings_at(f, i)->message);
     ug_findings_free(f);
     ug_free(desc);
     ug_free(svg);
@@ -168,6 +225,8 @@ static ug_status batch_chain(ug_error *err)
             st = ug_scene_pack(c, a, &scene, err);
         if (!st)
             st = ug_scene_svg(scene, &svg, NULL, err);
+        note_text(path);
+        note_text(svg);
         free(path);
         ug_free(svg);
         ug_scene_free(scene);
@@ -188,31 +247,45 @@ static ug_status sheet_chain(ug_error *err)
     ug_status st = ug_glyph_library_open(dirs, 1, &lib, err);
     if (!st)
         st = ug_glyph_library_sheet_svg(lib, &svg, NULL, err);
+    for (size_t i = 0; !st && i < ug_glyph_library_count(lib); i++)
+        note_text(ug_glyph_library_keywords(lib, i));
+    note_text(svg);
     ug_free(svg);
     ug_glyph_library_free(lib);
     return st;
 }
 
-/* Runs `chain` once freely, then once failing each allocation in turn. */
+/* Runs `chain` once freely, then once failing each allocation in turn, first
+** with every later allocation failing too, then with only that one failing:
+** each run fails cleanly with a message or makes exactly what the free run
+** made. */
 #define FAIL_EACH_ALLOCATION(what, chain)                                                \
     do {                                                                             \
         ug_error err;                                                                \
         ug_mem_fail_after(-1);                                                       \
+        made = 0xcbf29ce484222325u;                                                  \
         ug_status first = (chain);                                                   \
+        uint64_t want = made;                                                        \
         long total = ug_mem_fail_after(-1);                                          \
         ck_assert_msg(first == UG_OK, "%s: the case itself fails (%s)", what, err.msg); \
         ck_assert_int_gt(total, 10);                                                 \
         fprintf(stderr, "%s: %ld allocations, each failed in turn\n", what, total);  \
-        for (long n = 0; n < total; n++) {                                           \
-            ug_mem_fail_after(n);                                                    \
-            ug_status st = (chain);                                                  \
-            ug_mem_fail_after(-1);                                                   \
-            ck_assert_msg(st == UG_ENOMEM || st == UG_OK,                            \
-                          "%s: failing allocation %ld gave status %d (%s)", what, n, \
-                          st, err.msg);                                              \
-            ck_assert_msg(st == UG_OK || err.msg[0], "%s: allocation %ld failed "    \
-                          "without a message", what, n);                             \
-        }                                                                            \
+        for (int once = 0; once < 2; once++)                                         \
+            for (long n = 0; n < total; n++) {                                       \
+                (once ? ug_mem_fail_once : ug_mem_fail_after)(n);                    \
+                made = 0xcbf29ce484222325u;                                          \
+                ug_status st = (chain);                                              \
+                ug_mem_fail_after(-1);                                               \
+                ck_assert_msg(st == UG_ENOMEM || st == UG_OK,                        \
+                              "%s: failing allocation %ld%s gave status %d (%s)",    \
+                              what, n, once ? " alone" : "", st, err.msg);           \
+                ck_assert_msg(st == UG_OK || err.msg[0], "%s: allocation %ld%s "     \
+                              "failed without a message", what, n,                   \
+                              once ? " alone" : "");                                 \
+                ck_assert_msg(st != UG_OK || made == want, "%s: with allocation "    \
+                              "%ld%s failing the run succeeded but made something "  \
+                              "else", what, n, once ? " alone" : "");                \
+            }                                                                        \
     } while (0)
 
 START_TEST(test_every_allocation_failure_is_clean)

@@ -13,8 +13,8 @@
 
 /* Further stages run on a chart that drew; NULL for none. */
 typedef ug_status (*pipeline_more)(const ug_chart *chart, const ug_allocation *a,
-                                   const char *svg, size_t svg_len, const char *desc,
-                                   ug_error *err);
+                                   const ug_scene *scene, const char *svg, size_t svg_len,
+                                   const char *desc, ug_error *err);
 
 static ug_status pipeline_run(const char *text, size_t len, const char *name,
                               const ug_limits *lim, pipeline_more more, ug_error *err)
@@ -37,7 +37,7 @@ static ug_status pipeline_run(const char *text, size_t len, const char *name,
     if (!st)
         st = ug_scene_svg(scene, &svg, &svg_len, err);
     if (!st && more)
-        st = more(chart, a, svg, svg_len, desc, err);
+        st = more(chart, a, scene, svg, svg_len, desc, err);
     ug_free(svg);
     ug_free(desc);
     ug_free(report);
