@@ -1,10 +1,14 @@
 /*
-** Allocation failure: run the whole pipeline failing the Nth allocation, for
-** every N until a run succeeds. Each failure must be a clean UG_ENOMEM (or a
-** fully successful run) — never a crash — and under the sanitized pass of
-** `make check` LeakSanitizer proves that nothing leaks on any of the paths.
-** (The approach — fail each allocation in turn — follows Lua's memerr tests
-** and curl's torture mode; common practice, no source for the exact scheme.)
+** Allocation failure: run each pipeline (charts through audit, web page and
+** PNG; a handout page; a batch of rows; the glyph sheet) failing the Nth
+** allocation, for every N a free run makes — once with every later
+** allocation failing too, once with only the Nth failing. Each run must end
+** in a clean UG_ENOMEM with a message, or succeed and make exactly what the
+** free run made (so no failure is swallowed into a quietly different
+** result); under the sanitized pass of `make check` LeakSanitizer proves
+** that nothing leaks on any of the paths. (Failing each allocation in turn
+** follows Lua's memerr tests and curl's torture mode; common practice, no
+** source for the exact scheme.)
 */
 #include <check.h>
 #include <stdint.h>
