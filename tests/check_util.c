@@ -105,6 +105,31 @@ START_TEST(test_buf_out_of_memory_is_reported)
 }
 END_TEST
 
+/* The two failure modes the allocation-failure tests use: from the Nth
+** allocation on, or the Nth alone. */
+START_TEST(test_mem_fail_modes)
+{
+    void *p[4];
+    ug_mem_fail_after(1);
+    for (int i = 0; i < 4; i++)
+        p[i] = ug_malloc(8);
+    ck_assert_ptr_nonnull(p[0]);
+    ck_assert_ptr_null(p[1]);
+    ck_assert_ptr_null(p[2]);
+    ck_assert_ptr_null(p[3]);
+    ck_assert_int_eq(ug_mem_fail_once(1), 4); /* allocations made meanwhile */
+    for (int i = 0; i < 4; i++)
+        p[i] = ug_malloc(8);
+    ck_assert_int_eq(ug_mem_fail_after(-1), 4);
+    ck_assert_ptr_nonnull(p[0]);
+    ck_assert_ptr_null(p[1]);
+    ck_assert_ptr_nonnull(p[2]);
+    ck_assert_ptr_nonnull(p[3]);
+    for (int i = 0; i < 4; i++)
+        ug_free(p[i]);
+}
+END_TEST
+
 START_TEST(test_arena_zeroes_and_aligns)
 {
     ug_arena a = {0};
@@ -165,6 +190,7 @@ static Suite *util_suite(void)
     tcase_add_test(tc, test_ratio_format_half_up);
     tcase_add_test(tc, test_buf_grows_and_takes);
     tcase_add_test(tc, test_buf_out_of_memory_is_reported);
+    tcase_add_test(tc, test_mem_fail_modes);
     tcase_add_test(tc, test_arena_zeroes_and_aligns);
     tcase_add_test(tc, test_first_error_wins);
     tcase_add_test(tc, test_atomic_write_replaces_whole_file);
