@@ -242,7 +242,7 @@ static int draw_page(const cli_draw_opts *o)
                      o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
         ug_page_audit(page, &popt, &f, &err)) {
         cli_report_error(&err);
-        rc = err.status == UG_ENOMEM ? EXIT_OUTPUT : EXIT_INPUT;
+        rc = cli_exit_for(&err);
     } else if ((rc = cli_print_findings(f, o->strict)) != EXIT_OK) {
         /* the audit stopped the drawing: nothing is written */
     } else if (ug_write_file_atomic(o->out, bytes, len, &err)) {
