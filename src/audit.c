@@ -278,8 +278,6 @@ static share_verdict judge(const ug_chart *c, const alloc_share *s)
     return SHARE_OK;
 }
 
-/* Would every group pass under this rule? Rules needing more icons than the
-** chart's limit do not count as passing. */
 /* Scratch space for trying other rules: a share per category and a column
 ** of counts. */
 typedef struct {
@@ -287,9 +285,10 @@ typedef struct {
     ug_dec *column;
 } trial;
 
-/* Whether every category stays visible and within the tolerance under r, in
-** *passes. Only running out of memory is an error: a rule the allocator
-** refuses (too many icons, say) simply does not pass. */
+/* Whether every group passes under r (every category visible and within
+** the tolerance), in *passes. Only running out of memory is an error: a rule
+** the allocator refuses (more icons than the chart's limit, say) simply does
+** not pass. */
 static ug_status rule_passes(const ug_chart *c, const alloc_rule *r, trial *t,
                              bool *passes)
 {

@@ -141,9 +141,9 @@ const ug_limits *cli_limits(void)
     return &limits;
 }
 
-/* Reads at most one byte past the input limit: the loader then refuses the
-** text as too large, and an endless stream costs no more than the limit. */
-/* Standard input, whole, into a malloc'd buffer. */
+/* Standard input, whole, into a malloc'd buffer. Reads at most one byte past
+** the input limit: the loader then refuses the text as too large, and an
+** endless stream costs no more than the limit. */
 static char *read_stdin(size_t *len)
 {
     size_t max = limits.max_file_bytes ? limits.max_file_bytes
