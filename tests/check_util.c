@@ -117,6 +117,7 @@ START_TEST(test_mem_fail_modes)
     ck_assert_ptr_null(p[1]);
     ck_assert_ptr_null(p[2]);
     ck_assert_ptr_null(p[3]);
+    ug_free(p[0]);
     ck_assert_int_eq(ug_mem_fail_once(1), 4); /* allocations made meanwhile */
     for (int i = 0; i < 4; i++)
         p[i] = ug_malloc(8);
