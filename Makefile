@@ -16,7 +16,7 @@ WARNINGS  = -Wall -Wextra -Wshadow -Wstrict-prototypes -Wmissing-prototypes \
 STD       = -std=c11 -D_POSIX_C_SOURCE=200809L
 # Evaluated late (=) so that a make that has just installed packages sees them.
 PKG_CFLAGS = $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
-PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null) -lcsv -lm
+PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null) -lcsv -lglpk -lm
 CHECK_LIBS = $(shell pkg-config --libs check 2>/dev/null)
 DATADIR    = $(PREFIX)/share/unitgram
 ALL_CFLAGS = $(STD) $(WARNINGS) $(CFLAGS) -Iinclude -Isrc $(PKG_CFLAGS) -MMD -MP \
@@ -31,7 +31,7 @@ SAN_ENV    = G_SLICE=always-malloc ASAN_OPTIONS=detect_leaks=1:abort_on_error=0 
 
 DEBIAN_PACKAGES = build-essential pkg-config libyaml-dev librsvg2-dev libcairo2-dev \
   libpango1.0-dev liblcms2-dev libxml2-dev libcsv-dev check librsvg2-bin \
-  libxml2-utils poppler-utils fonts-dejavu-core valgrind
+  libxml2-utils poppler-utils fonts-dejavu-core valgrind libglpk-dev glpk-utils
 
 # ---- sources ----------------------------------------------------------------
 LIB_SRC  = $(filter-out src/main.c src/cli_%.c,$(wildcard src/*.c))
@@ -55,7 +55,7 @@ all: $(BIN) $(LIB)
 # ---- set-up -----------------------------------------------------------------
 # Installs only when something is missing; sudo only when not already root.
 deps:
-	@if pkg-config --exists $(PKGS) check && [ -f /usr/include/csv.h ] \
+	@if pkg-config --exists $(PKGS) check && [ -f /usr/include/csv.h ] && [ -f /usr/include/glpk.h ] \
 	    && command -v rsvg-convert >/dev/null && command -v xmllint >/dev/null \
 	    && command -v valgrind >/dev/null \
 	    && fc-list | grep -q DejaVuSans; then :; else \
