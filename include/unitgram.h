@@ -98,6 +98,18 @@ void ug_allocation_free(ug_allocation *a);
 /* The allocation report as text, CSV or JSON; *out is malloc'd, NUL-ended. */
 ug_status ug_allocation_report(const ug_allocation *a, ug_report_format fmt,
                                char **out, size_t *len, ug_error *err);
+/* The analyst's internal view: the allocation of every count as counted,
+** hidden ones included. Its report says first that it is not for
+** publication; never draw or publish it. */
+ug_status ug_chart_allocate_internal(const ug_chart *chart, ug_allocation **out,
+                                     ug_error *err);
+/* The published table as CSV (FORMAT.md §4): columns group, category, count
+** (the published count or a hidden cell's placeholder), icons, status (exact,
+** rounded, small, requested, complement, withheld, partial) and level (cell,
+** group total, category total, total); with n > 1 charts a first column
+** names the chart. Written from the published table only. */
+ug_status ug_table_csv(const ug_allocation *const *allocs, size_t n, char **out,
+                       size_t *len, ug_error *err);
 
 /* ---- the picture: allocation -> placed boxes -> SVG -------------------- */
 
@@ -186,12 +198,12 @@ ug_status ug_batch_chart(ug_batch *batch, size_t i, const ug_chart **out,
 
 /* ---- output: PNG, PDF and a web page (src/raster.c, src/html.c) -------- */
 
-typedef enum { UG_OUT_SVG, UG_OUT_PNG, UG_OUT_PDF, UG_OUT_HTML } ug_output_format;
+typedef enum { UG_OUT_SVG, UG_OUT_PNG, UG_OUT_PDF, UG_OUT_HTML, UG_OUT_CSV } ug_output_format;
 
-/* The format a file name asks for by its extension (.svg .png .pdf .html .htm,
+/* The format a file name asks for by its extension (.svg .png .pdf .html .htm .csv,
 ** any case); SVG for anything else, "-" included. */
 ug_output_format ug_output_format_from_path(const char *path);
-/* "svg", "png", "pdf", "html" (any case) -> 0 and *out; -1 for anything else. */
+/* "svg", "png", "pdf", "html", "csv" (any case) -> 0 and *out; -1 for anything else. */
 int ug_output_format_parse(const char *name, ug_output_format *out);
 const char *ug_output_format_name(ug_output_format fmt);
 

@@ -4,7 +4,7 @@
 #ifndef UG_ALLOC_H
 #define UG_ALLOC_H
 
-#include "model.h"
+#include "disclose.h"
 
 /* No rule may ask for more icons than this (see icon_ceiling in alloc.c). */
 #define ALLOC_MAX_ICONS 10000000L
@@ -28,6 +28,8 @@ typedef struct {
     ug_i128 rem;           /* quota_num mod quota_den */
     bool partial;          /* one more icon clipped to rem / quota_den */
     ug_i128 shown_num, shown_den; /* shown value, scaled by 10^6, as a ratio */
+    pub_status status;     /* from the published table: hidden cells have a
+                              count of 0 and no icons */
 } alloc_share;
 
 /* Apportion n counts under rule into out[0..n). *total_icons gets N. The mark
@@ -49,9 +51,12 @@ bool alloc_nice_value(ug_dec largest, long fit, ug_dec *out);
 /* The next nice value above v (for searching upward). */
 ug_dec alloc_next_nice(ug_dec v);
 
-/* The allocation of a whole chart: one apportionment per group. */
+/* The allocation of a whole chart: one apportionment per group, of the
+** published table only (a hidden cell is a count of 0). */
 struct ug_allocation {
     const ug_chart *chart;  /* borrowed: the chart outlives the allocation */
+    pub_table *pub;         /* owned: what the allocation was made from */
+    bool internal;          /* raw counts (alloc_internal): never published */
     alloc_rule rule;        /* the rule actually used (auto value resolved) */
     size_t ngroups, ncats;
     alloc_share *shares;    /* [group * ncats + category] */
@@ -67,8 +72,22 @@ static inline const alloc_share *alloc_at(const ug_allocation *a, size_t g, size
 /* Icons per line: `columns`, or 20 for rows and 10 for waffles. */
 long alloc_default_columns(const ug_chart *chart);
 
-/* Build the allocation rule a chart states (auto icon value resolved). */
+/* Build the allocation rule a chart states; an auto icon value is worked out
+** from the published table t. */
+ug_status alloc_rule_for_table(const ug_chart *chart, const pub_table *t,
+                               alloc_rule *rule, ug_error *err);
+/* The same for a chart's own published table (disclosed here). */
 ug_status alloc_rule_for_chart(const ug_chart *chart, alloc_rule *rule,
                                ug_error *err);
+
+/* The allocation of a published table, which it takes over (freed with it,
+** also on failure). */
+ug_status alloc_published(const ug_chart *c, pub_table *t, ug_allocation **out,
+                          ug_error *err);
+
+static inline bool alloc_hidden(const alloc_share *s)
+{
+    return pub_hidden(s->status);
+}
 
 #endif

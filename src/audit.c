@@ -9,7 +9,8 @@
 **                  audit.rounding-tolerance, default 10 %), total-mismatch;
 **   privacy        small-count (positive counts under audit.small-count,
 **                  default 10, or an agency preset), derivable-suppression
-**                  (one suppressed cell in a group whose total is shown);
+**                  (a hidden small count that the published cells and the
+**                  totals narrow, by the attacker's linear programs);
 **   accessibility  low-contrast-icon (WCAG 2.1 SC 1.4.11, 3:1),
 **                  low-contrast-text (SC 1.4.3, 4.5:1), confusable-colors,
 **                  too-many-categories, missing-title / -source / -unit-label.
@@ -248,11 +249,6 @@ static ug_status check_total(audit_ctx *x)
 
 /* ---- vanished categories and rounding differences ------------------------ */
 
-static bool suppressed(const ug_chart *c, ug_dec count)
-{
-    return c->has_suppress && count.v > 0 && count.v < c->suppress_below.v;
-}
-
 static ug_dec tolerance(const ug_chart *c)
 {
     if (c->audit.has_tolerance)
@@ -266,7 +262,7 @@ typedef enum { SHARE_OK, SHARE_VANISHED, SHARE_ROUNDED } share_verdict;
 ** is diff / (shown_den * 10^6) and the tolerance tol.v / 10^6 percent. */
 static share_verdict judge(const ug_chart *c, const alloc_share *s)
 {
-    if (s->count.v == 0 || suppressed(c, s->count))
+    if (s->count.v == 0 || alloc_hidden(s))
         return SHARE_OK;
     if (s->icons == 0 && !s->partial)
         return SHARE_VANISHED;
@@ -279,10 +275,12 @@ static share_verdict judge(const ug_chart *c, const alloc_share *s)
 }
 
 /* Scratch space for trying other rules: a share per category and a column
-** of counts. */
+** of counts, taken from the published table so that a suggested value can
+** never depend on a hidden count. */
 typedef struct {
     alloc_share *shares;
     ug_dec *column;
+    const pub_table *pub;
 } trial;
 
 /* Whether every group passes under r (every category visible and within
@@ -295,13 +293,15 @@ static ug_status rule_passes(const ug_chart *c, const alloc_rule *r, trial *t,
     *passes = true;
     for (size_t g = 0; *passes && g < chart_ngroups(c); g++) {
         for (size_t i = 0; i < c->ncats; i++)
-            t->column[i] = c->cats[i].counts[g];
+            t->column[i] = pub_at(t->pub, g, i)->value;
         long n;
         ug_error scratch = {0};
         ug_status st = alloc_apportion(t->column, c->ncats, r, t->shares, &n,
                                        ug_mark_file(NULL), &scratch);
         if (st == UG_ENOMEM)
             return st;
+        for (size_t i = 0; i < c->ncats; i++)
+            t->shares[i].status = pub_at(t->pub, g, i)->status;
         *passes = st == UG_OK;
         for (size_t i = 0; *passes && i < c->ncats; i++)
             *passes = judge(c, &t->shares[i]) == SHARE_OK;
@@ -309,13 +309,12 @@ static ug_status rule_passes(const ug_chart *c, const alloc_rule *r, trial *t,
     return UG_OK;
 }
 
-static ug_dec largest_count(const ug_chart *c)
+static ug_dec largest_count(const pub_table *t)
 {
     ug_dec m = {0};
-    for (size_t i = 0; i < c->ncats; i++)
-        for (size_t g = 0; g < chart_ngroups(c); g++)
-            if (c->cats[i].counts[g].v > m.v)
-                m = c->cats[i].counts[g];
+    for (size_t k = 0; k < t->ngroups * t->ncats; k++)
+        if (t->cells[k].value.v > m.v)
+            m = t->cells[k].value;
     return m;
 }
 
@@ -325,12 +324,12 @@ static long icon_limit(const ug_chart *c)
 }
 
 /* Whether some group would need more icons than the limit at value v. */
-static bool too_many_icons(const ug_chart *c, ug_dec v)
+static bool too_many_icons(const ug_chart *c, const pub_table *t, ug_dec v)
 {
-    for (size_t g = 0; g < chart_ngroups(c); g++) {
+    for (size_t g = 0; g < t->ngroups; g++) {
         ug_dec total = {0};
-        for (size_t i = 0; i < c->ncats; i++)
-            total.v += c->cats[i].counts[g].v;
+        for (size_t i = 0; i < t->ncats; i++)
+            total.v += pub_at(t, g, i)->value.v;
         if (alloc_icons_for_value(total, v) > icon_limit(c))
             return true;
     }
@@ -345,7 +344,7 @@ static ug_status best_value(const ug_chart *c, const alloc_rule *base, trial *t,
     alloc_rule r = *base;
     r.partial = false;
     r.max_icons = icon_limit(c);
-    ug_dec top = largest_count(c), v = {0};
+    ug_dec top = largest_count(t->pub), v = {0};
     *found = false;
     for (;;) {
         ug_dec next = alloc_next_nice(v);
@@ -353,7 +352,7 @@ static ug_status best_value(const ug_chart *c, const alloc_rule *base, trial *t,
             return UG_OK;
         v = r.value = next;
         bool passes = false;
-        if (!too_many_icons(c, v)) {
+        if (!too_many_icons(c, t->pub, v)) {
             ug_status st = rule_passes(c, &r, t, &passes);
             if (st)
                 return st;
@@ -389,7 +388,8 @@ static ug_status rounding_fix(audit_ctx *x, char *fix, size_t n)
 {
     const ug_chart *c = x->c;
     size_t k = c->ncats ? c->ncats : 1;
-    trial t = {ug_calloc(k, sizeof *t.shares), ug_calloc(k, sizeof *t.column)};
+    trial t = {ug_calloc(k, sizeof *t.shares), ug_calloc(k, sizeof *t.column),
+               x->a->pub};
     char tol[48], v[48];
     ug_dec_format(tolerance(c), tol);
     ug_dec value = {0};
@@ -455,83 +455,159 @@ static ug_status check_rounding(audit_ctx *x)
 
 /* ---- small counts and derivable suppression ------------------------------ */
 
+/* A YAML double-quoted scalar, so a fix can be pasted whatever the names hold. */
+static void yaml_quoted(ug_buf *b, const char *s)
+{
+    ug_buf_puts(b, "\"");
+    for (; *s; s++) {
+        if (*s == '"' || *s == '\\')
+            ug_buf_puts(b, "\\");
+        ug_buf_add(b, s, 1);
+    }
+    ug_buf_puts(b, "\"");
+}
+
+/* The chart's whole `suppress:` mapping with the changes a fix asks for, so
+** that pasting it over the old one keeps everything else the chart hides.
+** A label is kept only while the threshold it describes stays. */
+static char *suppress_fix(const ug_chart *c, ug_dec below, bool zeros_hide,
+                          bool complement_auto)
+{
+    ug_buf b;
+    ug_buf_init(&b);
+    char n[48];
+    bool same = c->has_suppress && c->suppress_below.v == below.v;
+    ug_buf_printf(&b, "suppress: {below: %s", ug_dec_format(below, n));
+    bool own_label = c->suppress_label.text
+                     && (c->suppress_label.mark.line != c->suppress_mark.line
+                         || c->suppress_label.mark.column != c->suppress_mark.column);
+    if (same && own_label) {
+        ug_buf_puts(&b, ", label: ");
+        yaml_quoted(&b, c->suppress_label.text);
+    }
+    if (zeros_hide)
+        ug_buf_puts(&b, ", zeros: hide");
+    if (!complement_auto)
+        ug_buf_puts(&b, ", complement: none");
+    if (c->has_suppress && c->suppress_margins == UG_MARGINS_HIDDEN)
+        ug_buf_puts(&b, ", margins: hidden");
+    for (size_t k = 0; c->has_suppress && k < c->nsuppress_cells; k++) {
+        const ug_cell_ref *r = &c->suppress_cells[k];
+        ug_buf_puts(&b, k ? ", {" : ", cells: [{");
+        if (r->group.text) {
+            ug_buf_puts(&b, "group: ");
+            yaml_quoted(&b, r->group.text);
+            ug_buf_puts(&b, ", ");
+        }
+        ug_buf_puts(&b, "category: ");
+        yaml_quoted(&b, r->category.text);
+        ug_buf_puts(&b, k + 1 == c->nsuppress_cells ? "}]" : "}");
+    }
+    ug_buf_puts(&b, "}");
+    char *out = NULL;
+    ug_error scratch = {0};
+    return ug_buf_take(&b, &out, NULL, &scratch) ? NULL : out;
+}
+
+static ug_dec small_threshold(const ug_chart *c, const audit_small_preset **p)
+{
+    *p = audit_small_count_preset(c->audit.small_count_preset.text);
+    if (*p)
+        return (ug_dec){(*p)->below * UG_DEC_SCALE};
+    if (c->audit.has_small_count)
+        return c->audit.small_count;
+    return (ug_dec){AUDIT_SMALL_COUNT * UG_DEC_SCALE};
+}
+
+/* Published counts under the threshold. Hidden cells are protected already
+** and rounded ones by their rounding; a zero is flagged only by a preset that
+** counts zeros as small, and then `zeros: hide` is the fix. */
 static ug_status check_small(audit_ctx *x)
 {
     const ug_chart *c = x->c;
-    const audit_small_preset *p = audit_small_count_preset(c->audit.small_count_preset.text);
-    ug_dec below = {AUDIT_SMALL_COUNT * UG_DEC_SCALE};
-    if (p)
-        below.v = p->below * UG_DEC_SCALE;
-    else if (c->audit.has_small_count)
-        below = c->audit.small_count;
-    char b[48], cnt[48], grp[256], fix[128], rule[160];
+    const audit_small_preset *p;
+    ug_dec below = small_threshold(c, &p);
+    bool zero_too = p && p->zero_too;
+    ug_dec keep = c->has_suppress && c->suppress_below.v > below.v ? c->suppress_below
+                                                                    : below;
+    bool zeros = zero_too || (c->has_suppress && c->suppress_zeros == UG_ZEROS_HIDE);
+    bool comp = !c->has_suppress || c->suppress_complement == UG_COMPLEMENT_AUTO;
+    char *fix = suppress_fix(c, keep, zeros, comp);
+    if (!fix)
+        return oom(x);
+    char b[48], cnt[48], grp[256];
     ug_dec_format(below, b);
-    snprintf(fix, sizeof fix, "suppress: {below: %s}", b);
-    snprintf(rule, sizeof rule, "%s", p ? p->rule : "");
     ug_status st = UG_OK;
     for (size_t i = 0; !st && i < c->ncats; i++)
         for (size_t g = 0; !st && g < chart_ngroups(c); g++) {
-            ug_dec v = c->cats[i].counts[g];
-            bool zero_ok = !(p && p->zero_too);
-            if ((v.v == 0 && zero_ok) || v.v >= below.v || suppressed(c, v))
+            const alloc_share *s = alloc_at(x->a, g, i);
+            ug_dec v = s->count;
+            if (s->status != PUB_EXACT || (v.v == 0 && !zero_too) || v.v >= below.v)
                 continue;
             st = add(x, "small-count", UG_SEVERITY_WARNING, count_mark(c, i, g), fix,
                      "'%s'%s is %s %s, under %s%s%s: so few can identify people",
                      cat_name(c, i), in_group(c, g, grp, sizeof grp),
-                     ug_dec_format(v, cnt), unit(c), b, p ? "; " : "", rule);
+                     ug_dec_format(v, cnt), unit(c), b, p ? "; " : "", p ? p->rule : "");
         }
+    ug_free(fix);
     return st;
 }
 
-/* The smallest shown (unsuppressed, positive) count in group g other than
-** category skip; SIZE_MAX when there is none. */
-static size_t next_smallest(const ug_chart *c, size_t g, size_t skip)
+static void interval_text(double v, char *buf, size_t n)
 {
-    size_t best = SIZE_MAX;
-    for (size_t i = 0; i < c->ncats; i++) {
-        ug_dec v = c->cats[i].counts[g];
-        if (i == skip || v.v == 0 || suppressed(c, v))
-            continue;
-        if (best == SIZE_MAX || v.v < c->cats[best].counts[g].v)
-            best = i;
-    }
-    return best;
+    if (isinf(v))
+        snprintf(buf, n, "any");
+    else
+        snprintf(buf, n, "%.6g", v);
 }
 
-/* The picture never prints an exact sum that contains a hidden count (it says
-** "more than 62" instead, src/describe.c), but the other counts in the group
-** are exact: wherever the group's total is published elsewhere — a ward's
-** population, last quarter's report — total minus the shown counts gives the
-** hidden one away. Disclosure practice calls for a second, complementary
-** suppression (CMS cell size suppression policy: no cell of 1-10 may be
-** derivable from totals, REFERENCES.md §7). A warning, since only the author
-** knows whether such a total is out there. */
-static ug_status check_derivable(audit_ctx *x)
+static ug_status report_narrowed(audit_ctx *x, const disclose_interval *iv)
 {
     const ug_chart *c = x->c;
-    if (!c->has_suppress || (!c->groups.n && !c->has_total))
+    size_t g = iv->cell / c->ncats, i = iv->cell % c->ncats;
+    bool comp = c->suppress_complement == UG_COMPLEMENT_AUTO;
+    char *fix = comp ? NULL : suppress_fix(c, c->suppress_below,
+                                           c->suppress_zeros == UG_ZEROS_HIDE, true);
+    if (!comp && !fix)
+        return oom(x);
+    char lo[32], hi[32], grp[256];
+    interval_text(iv->min, lo, sizeof lo);
+    interval_text(iv->max, hi, sizeof hi);
+    ug_status st = add(x, "derivable-suppression", UG_SEVERITY_ERROR, count_mark(c, i, g),
+                       fix ? fix : "suppress: {margins: hidden} only if no totals of "
+                                   "this table are published anywhere",
+                       "'%s'%s is hidden, but the published counts and the totals "
+                       "(assumed published elsewhere: margins: published) narrow it to "
+                       "%s to %s", cat_name(c, i), in_group(c, g, grp, sizeof grp), lo, hi);
+    ug_free(fix);
+    return st;
+}
+
+/* The attacker's linear programs (Hundepool et al. 2012, ch. 4, the audit of
+** a suppression pattern; src/disclose_audit.c): for each small hidden cell,
+** the least and greatest value any table consistent with what is public
+** allows. Protection holds when that covers the whole placeholder range. */
+static ug_status check_derivable(audit_ctx *x)
+{
+    const pub_table *t = x->a->pub;
+    if (!t->nsmall || !t->margins_published)
         return UG_OK;
-    ug_status st = UG_OK;
-    for (size_t g = 0; !st && g < chart_ngroups(c); g++) {
-        size_t n = 0, which = 0;
-        for (size_t i = 0; i < c->ncats; i++)
-            if (suppressed(c, c->cats[i].counts[g]))
-                n++, which = i;
-        if (n != 1)
-            continue;
-        size_t other = next_smallest(c, g, which);
-        char fix[512], grp[256];
-        if (other != SIZE_MAX)
-            snprintf(fix, sizeof fix, "also hide '%s'%s (the next smallest), or make "
-                     "sure the group's total is published nowhere", cat_name(c, other),
-                     in_group(c, g, grp, sizeof grp));
-        else
-            snprintf(fix, sizeof fix, "make sure the group's total is published nowhere");
-        st = add(x, "derivable-suppression", UG_SEVERITY_WARNING, count_mark(c, which, g),
-                 fix, "'%s'%s is the only hidden count there and the other counts "
-                 "are exact, so a total published anywhere else gives it away",
-                 cat_name(c, which), in_group(c, g, grp, sizeof grp));
-    }
+    disclose_grid g;
+    void *owned = NULL;
+    ug_status st = disclose_grid_of(x->c, t, &g, &owned, x->err);
+    if (st)
+        return st;
+    size_t n = 0;
+    disclose_interval *iv = ug_calloc(g.rows * g.cols, sizeof *iv);
+    if (!iv)
+        st = oom(x);
+    if (!st)
+        st = disclose_audit(&g, iv, &n, x->err);
+    for (size_t k = 0; !st && k < n; k++)
+        if (!disclose_interval_covers(&g, &iv[k]))
+            st = report_narrowed(x, &iv[k]);
+    ug_free(iv);
+    disclose_grid_release(owned);
     return st;
 }
 

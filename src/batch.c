@@ -135,6 +135,7 @@ static ug_status take_csv(ug_chart *t, const char *csv, ug_error *err)
     for (size_t i = 0; i < t->ncats; i++) {
         t->cats[i].counts = NULL;
         t->cats[i].count_marks = NULL;
+        t->cats[i].withheld = NULL;
     }
     ug_status st = t->data.group_column.text ? UG_OK : default_group_column(t, err);
     return st ? st : data_load(t, err);
@@ -276,6 +277,7 @@ ug_status ug_batch_chart(ug_batch *b, size_t i, const ug_chart **out, ug_error *
         b->cats[c] = t->cats[c];
         b->cats[c].counts = t->cats[c].counts + i;
         b->cats[c].count_marks = t->cats[c].count_marks + i;
+        b->cats[c].withheld = t->cats[c].withheld ? t->cats[c].withheld + i : NULL;
     }
     r->cats = b->cats;
     if (b->pin) {

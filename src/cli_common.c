@@ -259,16 +259,16 @@ static const char *extension(const char *path)
 
 const char *cli_output_format(const char *out, const char *given)
 {
-    static const char *const known[] = {"svg", "png", "pdf", "html", NULL};
+    static const char *const known[] = {"svg", "png", "pdf", "html", "csv", NULL};
     const char *want = given ? given : strcmp(out, "-") ? extension(out) : "svg";
     for (size_t i = 0; known[i]; i++)
         if (!strcasecmp(want, known[i]))
             return known[i];
     if (given)
-        cli_usage("draw", "unknown --format '%s' (svg, png, pdf or html)", given);
+        cli_usage("draw", "unknown --format '%s' (svg, png, pdf, html or csv)", given);
     else
         cli_usage("draw", "cannot tell the format of '%s' from its extension: "
-                          "name it .svg, .png, .pdf or .html, or give --format", out);
+                          "name it .svg, .png, .pdf, .html or .csv, or give --format", out);
     return NULL;
 }
 

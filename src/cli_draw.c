@@ -216,7 +216,10 @@ static ug_status convert(const loaded *l, const cli_draw_opts *o, char *svg,
         *out = svg, *out_len = len;
         return UG_OK;
     }
-    if (f == UG_OUT_HTML) {
+    if (f == UG_OUT_CSV) {
+        const ug_allocation *allocs[1] = {l->alloc};
+        st = ug_table_csv(allocs, 1, out, out_len, err);
+    } else if (f == UG_OUT_HTML) {
         const ug_allocation *allocs[1] = {l->alloc};
         if (!(st = ug_chart_describe(l->chart, l->alloc, &desc, NULL, err)))
             st = ug_html_page(NULL, svg, len, desc, allocs, 1, out, out_len, err);

@@ -1,7 +1,10 @@
 /*
-** `unitgram tally LAYOUT [--format text|csv|json]`: load a chart, allocate
-** its icons and print the allocation report (count, quota, icons, shown value
-** and difference per category). Nothing is drawn and no file is written.
+** `unitgram tally LAYOUT [--format text|csv|json] [--internal]`: load a chart,
+** allocate its icons and print the allocation report (count, quota, icons,
+** shown value and difference per category). By default it reports the
+** published table, hidden counts as their placeholders; --internal reports
+** every count as counted, under a first line saying it is not for
+** publication. Nothing is drawn and no file is written.
 */
 #include <stdio.h>
 #include <stdlib.h>
@@ -12,14 +15,17 @@
 static void help(FILE *to)
 {
     fprintf(to,
-            "usage: unitgram tally LAYOUT [--format text|csv|json]\n"
+            "usage: unitgram tally LAYOUT [--format text|csv|json] [--internal]\n"
             "\n"
             "Print how the chart's counts become whole icons: per category the\n"
             "count, the exact quota, the icons drawn, the value they show and the\n"
-            "difference from the count. LAYOUT '-' reads standard input.\n"
+            "difference from the count. Counts the chart hides (suppress, protect)\n"
+            "are shown as the chart shows them. LAYOUT '-' reads standard input.\n"
             "\n"
             "options:\n"
             "  --format FORMAT       text (default), csv or json\n"
+            "  --internal            every count as counted, hidden ones included:\n"
+            "                        for the analyst only, never for publication\n"
             "  --max-icons N, --max-input-bytes N   the limits, as for draw\n"
             "  -h, --help            show this help\n"
             "\n" CLI_EXIT_CODES);
@@ -43,7 +49,7 @@ static int usage_error(const char *msg, const char *arg)
     return cli_usage("tally", "%s%s%s", msg, arg ? " " : "", arg ? arg : "");
 }
 
-static int run(const char *layout, ug_report_format fmt)
+static int run(const char *layout, ug_report_format fmt, bool internal)
 {
     ug_error err = {0};
     ug_chart *chart = NULL;
@@ -53,7 +59,9 @@ static int run(const char *layout, ug_report_format fmt)
     int rc = EXIT_OK;
     if ((rc = cli_load_chart(layout, &chart)))
         return rc;
-    if (ug_chart_allocate(chart, &alloc, &err) ||
+    ug_status st = internal ? ug_chart_allocate_internal(chart, &alloc, &err)
+                            : ug_chart_allocate(chart, &alloc, &err);
+    if (st ||
         ug_allocation_report(alloc, fmt, &report, &len, &err)) {
         cli_report_error(&err);
         rc = cli_exit_for(&err);
@@ -71,6 +79,7 @@ int cli_tally(int argc, char **argv)
 {
     const char *layout = NULL;
     ug_report_format fmt = UG_REPORT_TEXT;
+    bool internal = false;
     for (int i = 1; i < argc; i++) {
         const char *a = argv[i];
         if (!strcmp(a, "-h") || !strcmp(a, "--help")) {
@@ -82,7 +91,9 @@ int cli_tally(int argc, char **argv)
             return EXIT_USAGE;
         if (m)
             continue;
-        if (!strcmp(a, "--format") || !strncmp(a, "--format=", 9)) {
+        if (!strcmp(a, "--internal")) {
+            internal = true;
+        } else if (!strcmp(a, "--format") || !strncmp(a, "--format=", 9)) {
             const char *v = a[8] == '=' ? a + 9 : i + 1 < argc ? argv[++i] : NULL;
             if (!v)
                 return usage_error("--format needs a value", NULL);
@@ -98,5 +109,5 @@ int cli_tally(int argc, char **argv)
     }
     if (!layout)
         return usage_error("missing the LAYOUT file", NULL);
-    return run(layout, fmt);
+    return run(layout, fmt, internal);
 }

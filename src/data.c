@@ -266,8 +266,26 @@ static ug_status alloc_counts(reader *r)
         c->cats[i].count_marks = ug_arena_alloc(&c->arena, ng * sizeof(ug_mark));
         if (!c->cats[i].counts || !c->cats[i].count_marks)
             return nomem(r);
+        if (c->data.hidden_marks.n
+            && !(c->cats[i].withheld = ug_arena_alloc(&c->arena, ng * sizeof(bool))))
+            return nomem(r);
     }
     return UG_OK;
+}
+
+/* A cell the source withheld ("*", "<10", ...): compared after trimming
+** spaces, since spreadsheets pad them. */
+static bool is_hidden_mark(const ug_text_list *marks, const char *field)
+{
+    size_t n = strlen(field);
+    while (n && field[n - 1] == ' ')
+        n--;
+    while (n && *field == ' ')
+        field++, n--;
+    for (size_t k = 0; k < marks->n; k++)
+        if (strlen(marks->items[k].text) == n && !memcmp(marks->items[k].text, field, n))
+            return true;
+    return false;
 }
 
 /* Read one count cell into category i, group g, refusing a second one. */
@@ -281,11 +299,16 @@ static ug_status put_count(reader *r, size_t i, size_t g, const row *w, size_t f
                        cat->id, r->c->groups.n ? " in group '" : "",
                        r->c->groups.n ? r->c->groups.items[g].text : "",
                        r->c->groups.n ? "'" : "", cat->count_marks[g].line);
+    cat->count_marks[g] = m;
+    if (is_hidden_mark(&r->c->data.hidden_marks, w->f[field])) {
+        cat->withheld[g] = true;
+        cat->counts[g] = (ug_dec){0};
+        return UG_OK;
+    }
     ug_dec_result res = ug_dec_parse(w->f[field], strlen(w->f[field]), &cat->counts[g]);
     if (res != UG_DEC_OK)
         return ug_fail(r->err, UG_EDATA, m, "%s (found '%s')", ug_dec_result_text(res),
                        w->f[field]);
-    cat->count_marks[g] = m;
     return UG_OK;
 }
 

@@ -12,18 +12,9 @@
 
 #include "pack.h"
 
-bool pack_suppressed(const ug_chart *c, ug_dec count)
+const char *pack_placeholder(const ug_allocation *a, pub_status s)
 {
-    return c->has_suppress && count.v > 0 && count.v < c->suppress_below.v;
-}
-
-const char *pack_suppress_label(const ug_chart *c, char *buf, size_t size)
-{
-    if (c->suppress_label.text)
-        return c->suppress_label.text;
-    char n[64];
-    snprintf(buf, size, "fewer than %s", pack_number(c->suppress_below, n));
-    return buf;
+    return pub_placeholder(a->pub, s);
 }
 
 char *pack_number(ug_dec d, char *buf)
@@ -48,80 +39,129 @@ void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b)
         ug_buf_printf(b, " %s", c->unit_label.text);
 }
 
-void pack_sum_phrase(const ug_chart *c, ug_dec visible, size_t nhidden, ug_buf *b)
-{
-    if (nhidden == 0) {
-        pack_count_phrase(c, visible, b);
-    } else if (visible.v > 0) {
-        ug_buf_puts(b, "more than ");
-        pack_count_phrase(c, visible, b);
-    } else {
-        ug_buf_puts(b, "fewer than ");
-        pack_count_phrase(c, (ug_dec){c->suppress_below.v * (ug_i128)nhidden}, b);
-    }
-}
+/* What is published of one line of the table (a group, a category or the
+** whole chart): its total when every cell in it is published; otherwise the
+** sum of the published cells as a lower bound, so no subtraction can reach a
+** hidden count. */
+typedef struct {
+    ug_dec visible;
+    size_t nhidden, nsmall;
+    bool maybe_zero; /* a hidden cell may be 0 (zeros hidden, withheld, ...) */
+} line_sum;
 
-static void add_cell(const ug_chart *c, ug_dec v, ug_dec *visible, size_t *nhidden)
+static void add_cell(const ug_allocation *a, size_t g, size_t i, line_sum *s)
 {
-    if (pack_suppressed(c, v))
-        ++*nhidden;
-    else
-        visible->v += v.v;
-}
-
-void pack_group_phrase(const ug_chart *c, size_t g, ug_buf *b)
-{
-    ug_dec visible = {0};
-    size_t nhidden = 0;
-    for (size_t gi = 0; gi < chart_ngroups(c); gi++)
-        if (g == SIZE_MAX || gi == g)
-            for (size_t i = 0; i < c->ncats; i++)
-                add_cell(c, c->cats[i].counts[gi], &visible, &nhidden);
-    pack_sum_phrase(c, visible, nhidden, b);
-}
-
-void pack_category_phrase(const ug_chart *c, size_t i, ug_buf *b)
-{
-    ug_dec visible = {0};
-    size_t nhidden = 0;
-    for (size_t g = 0; g < chart_ngroups(c); g++)
-        add_cell(c, c->cats[i].counts[g], &visible, &nhidden);
-    if (nhidden == 1 && visible.v == 0) {
-        char buf[64];
-        ug_buf_puts(b, pack_suppress_label(c, buf, sizeof buf));
+    const pub_cell *cell = pub_at(a->pub, g, i);
+    if (!pub_hidden(cell->status)) {
+        s->visible.v += cell->value.v;
         return;
     }
-    pack_sum_phrase(c, visible, nhidden, b);
+    s->nhidden++;
+    s->nsmall += cell->status == PUB_SMALL;
+    /* a complementary cell is never small, so never 0 */
+    s->maybe_zero = s->maybe_zero || cell->status == PUB_REQUESTED
+                    || cell->status == PUB_WITHHELD
+                    || (cell->status == PUB_SMALL && a->pub->zeros_hidden);
 }
 
-static ug_dec chart_total(const ug_chart *c)
+static bool any_status(const pub_table *t, pub_status st)
 {
-    ug_dec t = {0};
-    for (size_t i = 0; i < c->ncats; i++)
-        for (size_t g = 0; g < chart_ngroups(c); g++)
-            t.v += c->cats[i].counts[g].v;
-    return t;
+    for (size_t k = 0; k < t->ngroups * t->ncats; k++)
+        if (t->cells[k].status == st)
+            return true;
+    return false;
 }
 
-void pack_category_cell(const ug_chart *c, size_t g, size_t i, ug_buf *b)
+/* What was done to protect people, in the words the key and the description
+** share; empty when every count is published as counted. */
+void pack_disclosure_notes(const ug_allocation *a, ug_buf *b)
 {
-    ug_dec v = c->cats[i].counts[g];
-    if (pack_suppressed(c, v)) {
-        char buf[64];
-        ug_buf_puts(b, pack_suppress_label(c, buf, sizeof buf));
+    const pub_table *t = a->pub;
+    const char *unit = a->chart->unit_label.text;
+    char n[64];
+    if (t->rounded)
+        ug_buf_printf(b, "Counts are rounded to multiples of %s to protect privacy. ",
+                      pack_number(t->round_to, n));
+    if (any_status(t, PUB_SMALL) && t->below.v > 0)
+        ug_buf_printf(b, "Counts of %s%s%s%s are not shown (\u201c%s\u201d). ",
+                      t->zeros_hidden ? "0 to " : "1 to ",
+                      pack_number((ug_dec){t->below.v - UG_DEC_SCALE}, n),
+                      unit ? " " : "", unit ? unit : "", t->small_label);
+    if (any_status(t, PUB_COMPLEMENT))
+        ug_buf_printf(b, "Some larger counts are not shown either (\u201c%s\u201d), so "
+                         "that the small ones cannot be worked out from totals. ",
+                      t->other_label);
+    if (any_status(t, PUB_REQUESTED))
+        ug_buf_printf(b, "Counts marked \u201c%s\u201d are withheld. ", t->other_label);
+    if (any_status(t, PUB_WITHHELD))
+        ug_buf_printf(b, "Counts marked \u201c%s\u201d were withheld by the source. ",
+                      t->other_label);
+    if (t->nhidden && a->rule.by_cells)
+        ug_buf_puts(b, "Shares are of the counts shown. ");
+    if (!t->zeros_hidden && t->below.v > 0 && t->nhidden)
+        ug_buf_puts(b, "Zero counts are shown as 0. ");
+    if (b->len && b->data[b->len - 1] == ' ')
+        b->len--;
+}
+
+static void partial_phrase(const ug_allocation *a, const line_sum *s, ug_buf *b)
+{
+    const ug_chart *c = a->chart;
+    if (s->visible.v == 0 && s->nsmall == s->nhidden && a->pub->below.v > 0) {
+        ug_buf_puts(b, "fewer than ");
+        pack_count_phrase(c, (ug_dec){a->pub->below.v * (ug_i128)s->nhidden}, b);
+    } else if (s->visible.v == 0) {
+        ug_buf_puts(b, a->pub->other_label);
     } else {
-        char n[64];
-        ug_buf_puts(b, pack_number(v, n));
+        ug_buf_puts(b, a->pub->rounded ? "about " : s->maybe_zero ? "at least "
+                                                                 : "more than ");
+        pack_count_phrase(c, s->visible, b);
+        if (a->pub->rounded)
+            ug_buf_puts(b, " and more not shown");
     }
 }
 
-static bool any_hidden(const ug_chart *c)
+static void margin_phrase(const ug_allocation *a, const pub_cell *m, const line_sum *s,
+                          ug_buf *b)
 {
-    for (size_t i = 0; i < c->ncats; i++)
-        for (size_t g = 0; g < chart_ngroups(c); g++)
-            if (pack_suppressed(c, c->cats[i].counts[g]))
-                return true;
-    return false;
+    if (pub_hidden(m->status))
+        partial_phrase(a, s, b);
+    else
+        pack_count_phrase(a->chart, m->value, b);
+}
+
+void pack_group_phrase(const ug_allocation *a, size_t g, ug_buf *b)
+{
+    line_sum s = {0};
+    for (size_t gi = 0; gi < a->ngroups; gi++)
+        if (g == SIZE_MAX || gi == g)
+            for (size_t i = 0; i < a->ncats; i++)
+                add_cell(a, gi, i, &s);
+    margin_phrase(a, g == SIZE_MAX ? &a->pub->grand : &a->pub->group_totals[g], &s, b);
+}
+
+void pack_category_phrase(const ug_allocation *a, size_t i, ug_buf *b)
+{
+    line_sum s = {0};
+    for (size_t g = 0; g < a->ngroups; g++)
+        add_cell(a, g, i, &s);
+    const pub_cell *only = pub_at(a->pub, 0, i);
+    if (a->ngroups == 1 && pub_hidden(only->status)) {
+        ug_buf_puts(b, pack_placeholder(a, only->status));
+        return;
+    }
+    margin_phrase(a, &a->pub->cat_totals[i], &s, b);
+}
+
+void pack_category_cell(const ug_allocation *a, size_t g, size_t i, ug_buf *b)
+{
+    const pub_cell *cell = pub_at(a->pub, g, i);
+    if (pub_hidden(cell->status)) {
+        ug_buf_puts(b, pack_placeholder(a, cell->status));
+    } else {
+        char n[64];
+        ug_buf_puts(b, pack_number(cell->value, n));
+    }
 }
 
 /* 100 / cells as a percentage, at most two decimals: 1/200 -> 0.5 */
@@ -135,19 +175,20 @@ static void percent_text(long cells, char *buf)
     end[1] = '\0';
 }
 
-static void share_of_whole(const ug_chart *c, ug_buf *b)
+static void share_of_whole(const ug_allocation *a, ug_buf *b)
 {
+    const ug_chart *c = a->chart;
     const char *unit = c->unit_label.text;
-    if (c->groups.n)
-        ug_buf_printf(b, " of a group's %s", unit ? unit : "total");
-    else if (any_hidden(c))
-        ug_buf_printf(b, " of all %s counted", unit ? unit : "that was");
-    else if (unit) {
+    const char *shown = a->pub->nhidden ? " shown" : "";
+    if (c->groups.n) {
+        ug_buf_printf(b, " of a group's %s%s", unit ? unit : "total", shown);
+    } else if (unit) {
         ug_buf_puts(b, " of the ");
-        pack_count_phrase(c, chart_total(c), b);
+        pack_count_phrase(c, (ug_dec){a->group_totals[0].v}, b);
+        ug_buf_puts(b, shown);
     } else {
         char n[64];
-        ug_buf_printf(b, " of the total, %s", pack_number(chart_total(c), n));
+        ug_buf_printf(b, " of the total%s, %s", shown, pack_number(a->group_totals[0], n));
     }
 }
 
@@ -159,7 +200,7 @@ void pack_value_statement(const ug_chart *c, const ug_allocation *a,
         char pct[64];
         percent_text(a->rule.cells, pct);
         ug_buf_printf(b, "%s%%", pct);
-        share_of_whole(c, b);
+        share_of_whole(a, b);
         return;
     }
     pack_count_phrase(c, a->rule.value, b);
@@ -203,9 +244,8 @@ static void cell_phrase(const ug_chart *c, const ug_allocation *a, size_t g,
     const alloc_share *s = alloc_at(a, g, i);
     ug_buf_printf(b, "%s%s", c->cats[i].label.text ? c->cats[i].label.text
                                                   : c->cats[i].id, sep);
-    if (pack_suppressed(c, s->count)) {
-        char buf[64];
-        ug_buf_puts(b, pack_suppress_label(c, buf, sizeof buf));
+    if (alloc_hidden(s)) {
+        ug_buf_puts(b, pack_placeholder(a, s->status));
         return;
     }
     char n[64];
@@ -218,7 +258,7 @@ static void group_sentence(const ug_chart *c, const ug_allocation *a, size_t g,
                            ug_buf *b)
 {
     ug_buf_printf(b, " %s, ", c->groups.items[g].text);
-    pack_group_phrase(c, g, b);
+    pack_group_phrase(a, g, b);
     ug_buf_puts(b, " in all: ");
     for (size_t i = 0; i < c->ncats; i++)
         cell_phrase(c, a, g, i, " ", b), ug_buf_puts(b, i + 1 < c->ncats ? ", " : ".");
@@ -259,6 +299,15 @@ void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b)
         cell_phrase(c, a, 0, i, ": ", b);
         ug_buf_puts(b, ".");
     }
+    ug_buf notes;
+    ug_buf_init(&notes);
+    pack_disclosure_notes(a, &notes);
+    ug_buf_add(&notes, "", 1);
+    if (notes.failed)
+        b->failed = true;
+    else if (notes.data[0])
+        sentence(b, notes.data);
+    ug_buf_free(&notes);
     for (size_t i = 0; i < c->notes.n; i++)
         sentence(b, c->notes.items[i].text);
     list_sentences(b, &c->source, "Source: ");

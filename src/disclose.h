@@ -93,6 +93,13 @@ typedef struct {
     bool margins_published;     /* raw row, column and grand totals are public */
 } disclose_grid;
 
+/* The solvers' view of a chart's table t (raw counts from the model,
+** statuses and published values from t). The arrays belong to *owned, which
+** disclose_grid_release frees. */
+ug_status disclose_grid_of(const ug_chart *c, const pub_table *t, disclose_grid *g,
+                           void **owned, ug_error *err);
+void disclose_grid_release(void *owned);
+
 /* ---- disclose_audit.c: the attacker's linear programs ----------------------
 ** For each PUB_SMALL cell, the least and greatest value it can take in any
 ** table consistent with what is public: exact cells fixed, rounded cells within

@@ -96,6 +96,12 @@ static void body_row(ug_buf *b, const ug_allocation *a, size_t g, size_t i)
     }
     ug_buf_puts(b, "<th scope=\"row\">");
     esc(b, c->cats[i].label.text);
+    if (alloc_hidden(s)) {
+        ug_buf_puts(b, "</th><td>");
+        esc(b, pub_placeholder(a->pub, s->status));
+        ug_buf_puts(b, "</td><td></td><td></td></tr>\n");
+        return;
+    }
     if (s->partial)
         short_number(s->quota_num, s->quota_den, icons);
     else

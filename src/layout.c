@@ -820,9 +820,67 @@ static const key_rule icon_keys[] = {
     {.name = NULL},
 };
 
+static const char *const complements[] = {"auto", "none", NULL};
+static const char *const margin_kinds[] = {"published", "hidden", NULL};
+static const char *const zero_kinds[] = {"show", "hide", NULL};
+static const char *const protect_methods[] = {"controlled", "conventional", "random",
+                                              NULL};
+
+_Static_assert(sizeof(ug_complement) == sizeof(int) && sizeof(ug_zeros) == sizeof(int)
+                   && sizeof(ug_margins) == sizeof(int)
+                   && sizeof(ug_protect_method) == sizeof(int),
+               "enums are read through int");
+
+static const key_rule cell_ref_keys[] = {
+    {.name = "group", .kind = K_TEXT, .off = offsetof(ug_cell_ref, group)},
+    {.name = "category", .kind = K_TEXT, .off = offsetof(ug_cell_ref, category)},
+    {.name = NULL},
+};
+
+/* `suppress: cells:` — a list of {group, category}; names are checked against
+** the groups and categories once the counts are loaded (disclose.c). */
+static ug_status key_suppress_cells(loader *l, void *base, const layout_node *v)
+{
+    ug_chart *c = base;
+    ug_status st = want_list(l, v, (size_t)UG_MAX_GROUPS * 16, "{group, category} cells");
+    if (st)
+        return st;
+    c->suppress_cells = arena_array(l->arena, v->n, sizeof *c->suppress_cells);
+    if (!c->suppress_cells)
+        return nomem(l, v);
+    for (const layout_node *it = v->first; it; it = it->next) {
+        ug_cell_ref *ref = &c->suppress_cells[c->nsuppress_cells];
+        ref->mark = it->mark;
+        if ((st = walk_map(l, ref, it, cell_ref_keys)))
+            return st;
+        if (!ref->category.text)
+            return ug_fail(l->err, UG_ESCHEMA, it->mark,
+                           "each hidden cell names its 'category' (and its 'group' "
+                           "when the chart has groups)");
+        c->nsuppress_cells++;
+    }
+    return UG_OK;
+}
+
 static const key_rule suppress_keys[] = {
     {.name = "below", .kind = K_DEC, .off = CH(suppress_below)},
     {.name = "label", .kind = K_TEXT, .off = CH(suppress_label)},
+    {.name = "complement", .kind = K_ENUM, .off = CH(suppress_complement),
+     .choices = complements},
+    {.name = "margins", .kind = K_ENUM, .off = CH(suppress_margins),
+     .choices = margin_kinds},
+    {.name = "zeros", .kind = K_ENUM, .off = CH(suppress_zeros),
+     .mark = CH(suppress_zeros_mark), .choices = zero_kinds},
+    {.name = "cells", .kind = K_FN, .fn = key_suppress_cells},
+    {.name = NULL},
+};
+
+static const key_rule protect_keys[] = {
+    {.name = "round-to", .kind = K_DEC, .off = CH(protect.round_to)},
+    {.name = "method", .kind = K_ENUM, .off = CH(protect.method),
+     .choices = protect_methods},
+    {.name = "seed", .kind = K_LONG, .off = CH(protect.seed), .lo = 0,
+     .hi = 2147483647, .flag = CH(protect.has_seed)},
     {.name = NULL},
 };
 
@@ -881,6 +939,7 @@ static const key_rule data_keys[] = {
     {.name = "group-column", .kind = K_TEXT, .off = CH(data.group_column)},
     {.name = "category-column", .kind = K_TEXT, .off = CH(data.category_column)},
     {.name = "count-column", .kind = K_TEXT, .off = CH(data.count_column)},
+    {.name = "hidden-marks", .kind = K_LIST, .off = CH(data.hidden_marks)},
     {.name = NULL},
 };
 
@@ -912,6 +971,8 @@ static const key_rule chart_keys[] = {
      .flag = CH(has_total)},
     {.name = "suppress", .kind = K_MAP, .sub = suppress_keys,
      .mark = CH(suppress_mark), .flag = CH(has_suppress)},
+    {.name = "protect", .kind = K_MAP, .sub = protect_keys, .mark = CH(protect.mark),
+     .flag = CH(protect.present)},
     {.name = "audit", .kind = K_MAP, .sub = audit_keys, .mark = CH(audit.mark)},
     {.name = "style", .kind = K_MAP, .sub = style_keys, .mark = CH(style.mark)},
     {.name = "cells", .kind = K_LONG, .off = CH(cells), .lo = 1, .hi = 10000,
@@ -1114,6 +1175,27 @@ static ug_status check_data_spec(loader *l, ug_chart *c)
     return d->file ? UG_OK : ug_fail(l->err, UG_ENOMEM, d->file_text.mark, "out of memory");
 }
 
+/* suppress needs something to hide; protect a base and, for random rounding,
+** a seed, so that the same file always publishes the same table. */
+static ug_status check_protection(loader *l, const ug_chart *c)
+{
+    if (c->has_suppress && c->suppress_below.v == 0 && !c->nsuppress_cells
+        && c->suppress_zeros != UG_ZEROS_HIDE)
+        return ug_fail(l->err, UG_ESCHEMA, c->suppress_mark,
+                       "'suppress' needs 'below' (a count above zero), 'cells' or "
+                       "'zeros: hide'");
+    if (!c->protect.present)
+        return UG_OK;
+    if (c->protect.round_to.v <= 0)
+        return ug_fail(l->err, UG_ESCHEMA, c->protect.mark,
+                       "'protect' needs 'round-to', a base above zero such as 5");
+    if (c->protect.method == UG_PROTECT_RANDOM && !c->protect.has_seed)
+        return ug_fail(l->err, UG_ESCHEMA, c->protect.mark,
+                       "random rounding needs a 'seed' (a whole number) so that the "
+                       "same counts always publish the same table");
+    return UG_OK;
+}
+
 static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
 {
     ug_status st = check_form(l, c, root);
@@ -1125,10 +1207,9 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
     for (size_t i = 0; i < c->ncats; i++)
         if ((st = check_category(l, c, i)) || (st = check_counts(l, c, i)))
             return st;
-    if (c->has_suppress && c->suppress_below.v == 0)
-        return ug_fail(l->err, UG_ESCHEMA, c->suppress_mark,
-                       "'suppress' needs 'below', a count above zero");
-    if (c->has_suppress && !c->suppress_label.text) {
+    if ((st = check_protection(l, c)))
+        return st;
+    if (c->has_suppress && c->suppress_below.v > 0 && !c->suppress_label.text) {
         char num[48], label[80];
         snprintf(label, sizeof label, "fewer than %s",
                  ug_dec_format(c->suppress_below, num));

@@ -27,6 +27,15 @@ typedef enum { UG_ARRANGE_INLINE, UG_ARRANGE_SPLIT } ug_arrangement;
 typedef enum { UG_FILL_BY_ROW, UG_FILL_BY_COLUMN, UG_FILL_SNAKE } ug_fill;
 typedef enum { UG_START_TOP_LEFT, UG_START_BOTTOM_LEFT } ug_start;
 typedef enum { UG_PALETTE_OKABE_ITO, UG_PALETTE_TOL_BRIGHT, UG_PALETTE_TOL_MUTED } ug_palette;
+typedef enum { UG_COMPLEMENT_AUTO, UG_COMPLEMENT_NONE } ug_complement;
+typedef enum { UG_MARGINS_PUBLISHED, UG_MARGINS_HIDDEN } ug_margins;
+typedef enum { UG_ZEROS_SHOW, UG_ZEROS_HIDE } ug_zeros;
+typedef enum {
+    UG_PROTECT_CONTROLLED,
+    UG_PROTECT_CONVENTIONAL,
+    UG_PROTECT_RANDOM
+} ug_protect_method;
+
 
 typedef struct {
     unsigned char r, g, b;
@@ -38,6 +47,14 @@ typedef struct {
     const char *text; /* NULL when absent */
     ug_mark mark;
 } ug_text;
+
+/* One cell named in `suppress: cells:`; resolved against groups and
+** categories by the disclosure stage (which knows both after CSV loading). */
+typedef struct {
+    ug_text group;     /* NULL in a chart without groups */
+    ug_text category;  /* an id or a label */
+    ug_mark mark;
+} ug_cell_ref;
 
 typedef struct {
     ug_text *items;
@@ -55,6 +72,8 @@ typedef struct {
     ug_text column;       /* CSV column (wide tables) or category value (long) */
     ug_dec *counts;       /* one per group, or one without groups */
     ug_mark *count_marks; /* where each count came from (YAML or CSV cell) */
+    bool *withheld;       /* per group: the CSV cell was a hidden mark (the
+                             count is 0 and unknown); NULL when none is */
     ug_mark mark;         /* the category's mapping */
 } ug_category;
 
@@ -64,6 +83,7 @@ typedef struct {
     ug_text group_column;
     ug_text category_column; /* long tables */
     ug_text count_column;
+    ug_text_list hidden_marks; /* cell texts meaning "withheld at the source" */
     bool present;
 } ug_data_spec;
 
@@ -107,9 +127,24 @@ struct ug_chart {
     ug_mark total_mark;
 
     bool has_suppress;
-    ug_dec suppress_below;
+    ug_dec suppress_below;   /* 0: no threshold (only `cells` or `zeros`) */
     ug_text suppress_label;  /* default "fewer than N" */
     ug_mark suppress_mark;
+    ug_complement suppress_complement; /* default auto */
+    ug_margins suppress_margins;       /* default published */
+    ug_zeros suppress_zeros;           /* default show */
+    ug_mark suppress_zeros_mark;
+    ug_cell_ref *suppress_cells;       /* cells hidden whatever their count */
+    size_t nsuppress_cells;
+
+    struct {
+        bool present;
+        ug_dec round_to;       /* > 0 */
+        ug_protect_method method; /* default controlled */
+        long seed;             /* random: needs `seed` */
+        bool has_seed;
+        ug_mark mark;
+    } protect;
 
     struct {
         bool has_tolerance;

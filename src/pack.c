@@ -44,10 +44,9 @@ typedef struct {
     size_t cap_icons, cap_texts, cap_holders, cap_rects, cap_swatches;
     double size, gap, pitch, left, right;
     double y; /* top of the next block */
-    /* suppressed-count placeholder, one size for the chart */
-    const char *holder_label;
+    /* hidden-count placeholder, one size for the chart whatever it says */
+    bool holders;
     double holder_w, holder_h;
-    char holder_buf[96];
 } packer;
 
 static void fail(packer *p, ug_status st)
@@ -175,7 +174,8 @@ static void put_empty(packer *p, double x, double y)
 }
 
 /* The marked placeholder of a hidden count: dashed box plus its label. */
-static void put_holder(packer *p, double x, double y, size_t cat, size_t group)
+static void put_holder(packer *p, double x, double y, size_t cat, size_t group,
+                       const char *label)
 {
     scene_placeholder *h = PUSH(p, holders, nholders, cap_holders);
     if (!h)
@@ -183,7 +183,7 @@ static void put_holder(packer *p, double x, double y, size_t cat, size_t group)
     *h = (scene_placeholder){x, y, p->holder_w, p->holder_h, (unsigned)cat,
                              (unsigned)group};
     double lb = line_box(p, HOLDER_PX, false);
-    put_text(p, p->holder_label, x + p->holder_w / 2, y + (p->holder_h - lb) / 2, 0,
+    put_text(p, label, x + p->holder_w / 2, y + (p->holder_h - lb) / 2, 0,
              HOLDER_PX, false, SCENE_MIDDLE, true);
 }
 
@@ -250,9 +250,9 @@ typedef struct {
 static void right_text(packer *p, size_t g, size_t i, ug_buf *b)
 {
     if (p->c->arrangement == UG_ARRANGE_SPLIT)
-        pack_category_cell(p->c, g, i, b);
+        pack_category_cell(p->a, g, i, b);
     else
-        pack_group_phrase(p->c, g, b);
+        pack_group_phrase(p->a, g, b);
 }
 
 static double widest_side(packer *p, bool left)
@@ -286,7 +286,7 @@ static rows_frame rows_setup(packer *p)
     f.avail = p->right - (f.tw > 0 ? f.tw + COL_GAP : 0) - f.x0;
     f.cols = fit_columns(p, f.x0, f.avail);
     f.tx = fmax(slot_x(p, f.x0, f.cols - 1) + p->size, f.x0 + p->holder_w) + COL_GAP;
-    f.line_h = fmax(p->size, p->holder_label ? p->holder_h : 0);
+    f.line_h = fmax(p->size, p->holders ? p->holder_h : 0);
     f.band_gap = fmax(14, p->size * 0.75);
     return f;
 }
@@ -337,13 +337,13 @@ static void rows_category(packer *p, const rows_frame *f, rows_cursor *cur,
 {
     const alloc_share *sh = alloc_at(p->a, g, i);
     double dy = (f->line_h - p->size) / 2;
-    if (pack_suppressed(p->c, sh->count)) {
+    if (alloc_hidden(sh)) {
         long slots = (long)ceil((p->holder_w + p->gap) / p->pitch);
         slots = slots < 1 ? 1 : slots > f->cols ? f->cols : slots;
         if (cur->k > 0 && cur->k + slots > f->cols)
             new_line(p, f, cur);
         put_holder(p, slot_x(p, f->x0, cur->k), cur->top + (f->line_h - p->holder_h) / 2,
-                   i, g);
+                   i, g, pack_placeholder(p->a, sh->status));
         cur->k += slots;
         cur->fresh = false;
         return;
@@ -438,14 +438,10 @@ static void waffle_cells(packer *p, const waffle_frame *f, size_t g, double x0,
     long k = 0, col, row;
     for (size_t i = 0; i < p->c->ncats && !p->st; i++) {
         const alloc_share *sh = alloc_at(p->a, g, i);
-        bool hidden = pack_suppressed(p->c, sh->count);
         for (long j = 0; j < sh->icons && !p->st; j++, k++) {
             cell_at(p->c, f, k, &col, &row);
-            double x = x0 + (double)col * p->pitch, y = y0 + (double)row * p->pitch;
-            if (hidden)
-                put_empty(p, x, y);
-            else
-                put_icon(p, x, y, i, g, 1.0);
+            put_icon(p, x0 + (double)col * p->pitch, y0 + (double)row * p->pitch, i, g,
+                     1.0);
         }
     }
     for (; p->a->rule.by_cells && k < f->cells && !p->st; k++) {
@@ -463,7 +459,7 @@ static double panel_header(packer *p, const waffle_frame *f, size_t g, double x,
                            true, SCENE_START, place);
     ug_buf b;
     ug_buf_init(&b);
-    pack_group_phrase(p->c, g, &b);
+    pack_group_phrase(p->a, g, &b);
     text_size t = put_buf(p, &b, x, p->y + l.h + 4, f->w, SMALL_PX, false,
                           SCENE_START, place);
     return l.h + 4 + t.h + 10;
@@ -493,9 +489,9 @@ static void pack_waffle(packer *p)
 static void key_detail(packer *p, size_t i, ug_buf *b)
 {
     const ug_chart *c = p->c;
-    pack_category_phrase(c, i, b);
+    pack_category_phrase(p->a, i, b);
     const alloc_share *sh = alloc_at(p->a, 0, i);
-    if (c->groups.n || pack_suppressed(c, sh->count))
+    if (c->groups.n || alloc_hidden(sh))
         return;
     char n[64];
     ug_buf_printf(b, " \xc2\xb7 %s %s", pack_icons_text(sh, n),
@@ -547,6 +543,15 @@ static void pack_foot(packer *p)
     text_size ts = put_buf(p, &b, p->left, p->y, content_width(p), LABEL_PX, true,
                            SCENE_START, true);
     p->y += ts.h + 14;
+    ug_buf_init(&b);
+    pack_disclosure_notes(p->a, &b);
+    if (b.len || b.failed) {
+        ts = put_buf(p, &b, p->left, p->y, content_width(p), SMALL_PX, false,
+                     SCENE_START, true);
+        p->y += ts.h + 6;
+    } else {
+        ug_buf_free(&b);
+    }
     for (size_t i = 0; i < p->c->notes.n; i++)
         put_block(p, p->c->notes.items[i].text, SMALL_PX, false, 6);
     if (p->c->source.n) {
@@ -627,7 +632,7 @@ static void setup_categories(packer *p)
         ug_buf b;
         ug_buf_init(&b);
         ug_buf_printf(&b, "%s: ", cat_label(p->c, i));
-        pack_category_phrase(p->c, i, &b);
+        pack_category_phrase(p->a, i, &b);
         ug_buf_add(&b, "", 1);
         char *clean = b.failed ? NULL : text_clean(b.data);
         sc->title = clean ? ug_arena_strdup(&s->arena, clean) : NULL;
@@ -638,18 +643,21 @@ static void setup_categories(packer *p)
     }
 }
 
+/* One placeholder size for the chart, wide enough for either text, so that
+** which cells are hidden moves nothing but those cells. */
 static void setup_holder(packer *p)
 {
-    bool any = false;
-    for (size_t k = 0; k < p->a->ngroups * p->a->ncats; k++)
-        any = any || pack_suppressed(p->c, p->a->shares[k].count);
-    if (!any)
+    const pub_table *t = p->a->pub;
+    if (!t->nhidden)
         return;
-    p->holder_label = pack_suppress_label(p->c, p->holder_buf, sizeof p->holder_buf);
-    text_size ts = put_text(p, p->holder_label, 0, 0, 0, HOLDER_PX, false,
-                            SCENE_START, false);
-    p->holder_w = ts.w + 12;
-    p->holder_h = fmax(p->size, ts.line + 8);
+    p->holders = true;
+    const char *labels[] = {t->small_label, t->other_label};
+    for (size_t k = 0; k < 2; k++) {
+        text_size ts = put_text(p, labels[k], 0, 0, 0, HOLDER_PX, false, SCENE_START,
+                                false);
+        p->holder_w = fmax(p->holder_w, ts.w + 12);
+        p->holder_h = fmax(p->holder_h, fmax(p->size, ts.line + 8));
+    }
 }
 
 /* The canvas is style.width wide unless one icon line or one waffle panel

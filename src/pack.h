@@ -9,24 +9,23 @@
 #include "alloc.h"
 #include "scene.h"
 
-/* A count the layout asks to hide (`suppress: below: N`): positive and < N. */
-bool pack_suppressed(const ug_chart *c, ug_dec count);
-/* Its placeholder text: the layout's label or "fewer than N". */
-const char *pack_suppress_label(const ug_chart *c, char *buf, size_t size);
+/* The placeholder text of a hidden cell ("fewer than 10", "not shown"). */
+const char *pack_placeholder(const ug_allocation *a, pub_status s);
 /* 1234567.5 -> "1,234,567.5"; buf needs 64 bytes. */
 char *pack_number(ug_dec d, char *buf);
 /* "835 households", or without a unit "835". */
 void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b);
-/* A sum over some cells, none of which may leak a hidden count: the plain
-** total when nothing is hidden, otherwise "more than <visible sum>" (or
-** "fewer than <hidden cells x N>" when everything is hidden). */
-void pack_sum_phrase(const ug_chart *c, ug_dec visible, size_t nhidden, ug_buf *b);
-/* The sum phrase of group g (or of the whole chart when g == SIZE_MAX). */
-void pack_group_phrase(const ug_chart *c, size_t g, ug_buf *b);
-/* One cell's count as a number ("1,200"), or the label when hidden. */
-void pack_category_cell(const ug_chart *c, size_t g, size_t i, ug_buf *b);
-/* The sum phrase of category i over every group. */
-void pack_category_phrase(const ug_chart *c, size_t i, ug_buf *b);
+/* The total of group g (of the whole chart when g == SIZE_MAX) as published:
+** the number when every cell in it is published, else a bound from the
+** published cells ("more than 2,471 households") that reaches no hidden count. */
+void pack_group_phrase(const ug_allocation *a, size_t g, ug_buf *b);
+/* One cell's published count as a number ("1,200"), or its placeholder. */
+void pack_category_cell(const ug_allocation *a, size_t g, size_t i, ug_buf *b);
+/* The published total of category i over every group. */
+void pack_category_phrase(const ug_allocation *a, size_t i, ug_buf *b);
+/* Sentences saying what was hidden or rounded to protect people, shared by
+** the key and the description; nothing when every count is as counted. */
+void pack_disclosure_notes(const ug_allocation *a, ug_buf *b);
 /* "Each icon = 10 households" / "Each square = 1% of the 835 households";
 ** verb is "=" for the key and "is" for sentences. */
 void pack_value_statement(const ug_chart *c, const ug_allocation *a,

@@ -618,7 +618,10 @@ ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
     ug_status st = page_compose(page, &r, err);
     if (st)
         return st;
-    if (fmt == UG_OUT_HTML)
+    if (fmt == UG_OUT_CSV)
+        st = ug_table_csv((const ug_allocation *const *)r.allocs, r.nallocs, out, len,
+                          err);
+    else if (fmt == UG_OUT_HTML)
         st = ug_html_page(page->title.text, r.svg, r.len, "",
                           (const ug_allocation *const *)r.allocs, r.nallocs, out, len,
                           err);

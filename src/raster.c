@@ -25,16 +25,17 @@
 
 /* ---- formats ------------------------------------------------------------- */
 
-static const char *const format_names[] = {"svg", "png", "pdf", "html"};
+static const char *const format_names[] = {"svg", "png", "pdf", "html", "csv"};
+#define NFORMATS (sizeof format_names / sizeof *format_names)
 
 const char *ug_output_format_name(ug_output_format f)
 {
-    return (unsigned)f < 4 ? format_names[f] : "svg";
+    return (unsigned)f < NFORMATS ? format_names[f] : "svg";
 }
 
 int ug_output_format_parse(const char *name, ug_output_format *out)
 {
-    for (unsigned i = 0; i < 4; i++)
+    for (unsigned i = 0; i < NFORMATS; i++)
         if (strcasecmp(name, format_names[i]) == 0) {
             *out = (ug_output_format)i;
             return 0;

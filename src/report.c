@@ -7,13 +7,13 @@
 
 #include "alloc.h"
 
-static ug_dec largest_line(const ug_chart *c)
+static ug_dec largest_line(const ug_chart *c, const pub_table *t)
 {
     ug_dec best = {0};
-    for (size_t g = 0; g < chart_ngroups(c); g++) {
+    for (size_t g = 0; g < t->ngroups; g++) {
         ug_dec group = {0};
-        for (size_t i = 0; i < c->ncats; i++) {
-            ug_dec v = c->cats[i].counts[g];
+        for (size_t i = 0; i < t->ncats; i++) {
+            ug_dec v = pub_at(t, g, i)->value;
             group.v += v.v;
             if (c->arrangement == UG_ARRANGE_SPLIT && v.v > best.v)
                 best = v;
@@ -31,7 +31,8 @@ long alloc_default_columns(const ug_chart *c)
     return c->form == UG_FORM_WAFFLE ? 10 : 20;
 }
 
-ug_status alloc_rule_for_chart(const ug_chart *c, alloc_rule *rule, ug_error *err)
+ug_status alloc_rule_for_table(const ug_chart *c, const pub_table *t,
+                               alloc_rule *rule, ug_error *err)
 {
     memset(rule, 0, sizeof *rule);
     rule->method = c->method;
@@ -46,10 +47,20 @@ ug_status alloc_rule_for_chart(const ug_chart *c, alloc_rule *rule, ug_error *er
         rule->value = c->icon_value;
         return UG_OK;
     }
-    if (!alloc_nice_value(largest_line(c), alloc_default_columns(c), &rule->value))
+    if (!alloc_nice_value(largest_line(c, t), alloc_default_columns(c), &rule->value))
         return ug_fail(err, UG_EDATA, c->icon_value_mark,
                        "no icon value fits these counts on one line");
     return UG_OK;
+}
+
+ug_status alloc_rule_for_chart(const ug_chart *c, alloc_rule *rule, ug_error *err)
+{
+    pub_table *t = NULL;
+    ug_status st = disclose_chart(c, &t, err);
+    if (!st)
+        st = alloc_rule_for_table(c, t, rule, err);
+    pub_table_free(t);
+    return st;
 }
 
 /* The icon limit holds for the whole chart, not each group: a thousand groups
@@ -75,14 +86,16 @@ static ug_status fill_groups(ug_allocation *a, const ug_chart *c, ug_dec *column
 {
     for (size_t g = 0; g < a->ngroups; g++) {
         for (size_t i = 0; i < c->ncats; i++)
-            column[i] = c->cats[i].counts[g];
+            column[i] = pub_at(a->pub, g, i)->value;
         a->group_totals[g] = alloc_sum(column, c->ncats);
         ug_mark where = c->groups.n ? c->groups.items[g].mark : c->categories_mark;
-        ug_status st = alloc_apportion(column, c->ncats, &a->rule,
-                                       &a->shares[g * c->ncats],
+        alloc_share *row = &a->shares[g * c->ncats];
+        ug_status st = alloc_apportion(column, c->ncats, &a->rule, row,
                                        &a->group_icons[g], where, err);
         if (st)
             return st;
+        for (size_t i = 0; i < c->ncats; i++)
+            row[i].status = pub_at(a->pub, g, i)->status;
         st = check_chart_icons(a, g, where, err);
         if (st)
             return st;
@@ -90,15 +103,19 @@ static ug_status fill_groups(ug_allocation *a, const ug_chart *c, ug_dec *column
     return UG_OK;
 }
 
-ug_status ug_chart_allocate(const ug_chart *c, ug_allocation **out, ug_error *err)
+ug_status alloc_published(const ug_chart *c, pub_table *t, ug_allocation **out,
+                          ug_error *err)
 {
     *out = NULL;
     ug_allocation *a = ug_calloc(1, sizeof *a);
     ug_dec *column = ug_calloc(c->ncats, sizeof *column);
     ug_status st = UG_ENOMEM;
-    if (!a || !column)
+    if (!a || !column) {
+        pub_table_free(t);
         goto fail;
+    }
     a->chart = c;
+    a->pub = t;
     a->ngroups = chart_ngroups(c);
     a->ncats = c->ncats;
     a->shares = ug_calloc(a->ngroups * c->ncats, sizeof *a->shares);
@@ -106,7 +123,7 @@ ug_status ug_chart_allocate(const ug_chart *c, ug_allocation **out, ug_error *er
     a->group_totals = ug_calloc(a->ngroups, sizeof *a->group_totals);
     if (!a->shares || !a->group_icons || !a->group_totals)
         goto fail;
-    if ((st = alloc_rule_for_chart(c, &a->rule, err)))
+    if ((st = alloc_rule_for_table(c, t, &a->rule, err)))
         goto fail;
     if ((st = fill_groups(a, c, column, err)))
         goto fail;
@@ -121,6 +138,24 @@ fail:
     return st;
 }
 
+ug_status ug_chart_allocate(const ug_chart *c, ug_allocation **out, ug_error *err)
+{
+    pub_table *t = NULL;
+    *out = NULL;
+    ug_status st = disclose_chart(c, &t, err);
+    return st ? st : alloc_published(c, t, out, err);
+}
+
+ug_status ug_chart_allocate_internal(const ug_chart *c, ug_allocation **out, ug_error *err)
+{
+    pub_table *t = NULL;
+    *out = NULL;
+    ug_status st = disclose_internal(c, &t, err);
+    if (!st && !(st = alloc_published(c, t, out, err)))
+        (*out)->internal = true;
+    return st;
+}
+
 void ug_allocation_free(ug_allocation *a)
 {
     if (!a)
@@ -128,6 +163,7 @@ void ug_allocation_free(ug_allocation *a)
     ug_free(a->shares);
     ug_free(a->group_icons);
     ug_free(a->group_totals);
+    pub_table_free(a->pub);
     ug_free(a);
 }
 
@@ -135,6 +171,8 @@ void ug_allocation_free(ug_allocation *a)
 
 typedef struct {
     char count[48], quota[64], icons[64], shown[64], diff[64], rel[64];
+    const char *count_text; /* count, or a hidden cell's placeholder */
+    const char *status;
 } row_text;
 
 /* Rationals are printed rounded half-up to six places with trailing zeros
@@ -155,9 +193,16 @@ static char *trimmed_ratio(ug_i128 num, ug_i128 den, char *buf)
     return buf;
 }
 
-static void describe_share(const alloc_share *s, row_text *t)
+/* A hidden cell reports its placeholder and nothing computed from it. */
+static void describe_share(const ug_allocation *a, const alloc_share *s, row_text *t)
 {
-    ug_dec_format(s->count, t->count);
+    memset(t, 0, sizeof *t);
+    t->status = pub_status_name(s->status);
+    if (alloc_hidden(s)) {
+        t->count_text = pub_placeholder(a->pub, s->status);
+        return;
+    }
+    t->count_text = ug_dec_format(s->count, t->count);
     trimmed_ratio(s->quota_num, s->quota_den, t->quota);
     if (s->partial)
         trimmed_ratio(s->quota_num, s->quota_den, t->icons);
@@ -170,22 +215,6 @@ static void describe_share(const alloc_share *s, row_text *t)
         ug_ratio_format(diff * 100, s->shown_den * s->count.v, 1, t->rel);
     else
         strcpy(t->rel, "0.0");
-}
-
-/* A label that starts like a formula (=, +, -, @, tab, CR) would run as one
-** when the report is opened in a spreadsheet: such a cell gets a leading
-** apostrophe, as OWASP's "CSV Injection" page advises. */
-static void csv_field(ug_buf *b, const char *s)
-{
-    bool formula = *s && strchr("=+-@\t\r", *s);
-    if (!formula && !strpbrk(s, ",\"\r\n")) {
-        ug_buf_puts(b, s);
-        return;
-    }
-    ug_buf_puts(b, formula ? "\"'" : "\"");
-    for (; *s; s++)
-        ug_buf_add(b, *s == '"' ? "\"\"" : s, *s == '"' ? 2 : 1);
-    ug_buf_puts(b, "\"");
 }
 
 static const char *or_empty(const char *s) { return s ? s : ""; }
@@ -232,30 +261,34 @@ static void report_text(const ug_allocation *a, ug_buf *b)
                       "count", "quota", "icons", "shown", "difference", "rel %");
         for (size_t i = 0; i < a->ncats; i++) {
             row_text t;
-            describe_share(alloc_at(a, g, i), &t);
+            describe_share(a, alloc_at(a, g, i), &t);
             ug_buf_printf(b, "  %-24s %12s %12s %8s %12s %12s %8s\n",
-                          or_empty(c->cats[i].label.text), t.count, t.quota,
+                          or_empty(c->cats[i].label.text), t.count_text, t.quota,
                           t.icons, t.shown, t.diff, t.rel);
         }
+        const pub_cell *m = &a->pub->group_totals[g];
         ug_buf_printf(b, "  %-24s %12s %12s %8s\n", "total",
-                      ug_dec_format(a->group_totals[g], tot), "",
-                      total_icons(a, g, n));
+                      pub_hidden(m->status) ? a->pub->other_label
+                                            : ug_dec_format(m->value, tot),
+                      "", total_icons(a, g, n));
     }
 }
 
 static void report_csv(const ug_allocation *a, ug_buf *b)
 {
     const ug_chart *c = a->chart;
-    ug_buf_puts(b, "group,category,count,quota,icons,shown,difference\n");
+    ug_buf_puts(b, "group,category,count,quota,icons,shown,difference,status\n");
     for (size_t g = 0; g < a->ngroups; g++)
         for (size_t i = 0; i < a->ncats; i++) {
             row_text t;
-            describe_share(alloc_at(a, g, i), &t);
-            csv_field(b, group_name(c, g));
+            describe_share(a, alloc_at(a, g, i), &t);
+            ug_buf_csv_field(b, group_name(c, g));
             ug_buf_puts(b, ",");
-            csv_field(b, or_empty(c->cats[i].label.text));
-            ug_buf_printf(b, ",%s,%s,%s,%s,%s\n", t.count, t.quota, t.icons,
-                          t.shown, t.diff);
+            ug_buf_csv_field(b, or_empty(c->cats[i].label.text));
+            ug_buf_puts(b, ",");
+            ug_buf_csv_field(b, t.count_text);
+            ug_buf_printf(b, ",%s,%s,%s,%s,%s\n", t.quota, t.icons, t.shown, t.diff,
+                          t.status);
         }
 }
 
@@ -266,25 +299,39 @@ static void report_json(const ug_allocation *a, ug_buf *b)
     for (size_t g = 0; g < a->ngroups; g++)
         for (size_t i = 0; i < a->ncats; i++) {
             row_text t;
-            describe_share(alloc_at(a, g, i), &t);
+            describe_share(a, alloc_at(a, g, i), &t);
             ug_buf_puts(b, "  {\"group\": ");
             ug_buf_json_string(b, group_name(c, g));
             ug_buf_puts(b, ", \"category\": ");
             ug_buf_json_string(b, or_empty(c->cats[i].label.text));
-            ug_buf_printf(b,
-                          ", \"count\": %s, \"quota\": %s, \"icons\": %s, "
-                          "\"shown\": %s, \"difference\": %s}%s\n",
-                          t.count, t.quota, t.icons, t.shown, t.diff,
-                          g + 1 == a->ngroups && i + 1 == a->ncats ? "" : ",");
+            ug_buf_printf(b, ", \"status\": \"%s\"%s, \"count\": ", t.status,
+                          a->internal ? ", \"not-for-publication\": true" : "");
+            if (alloc_hidden(alloc_at(a, g, i))) {
+                ug_buf_json_string(b, t.count_text);
+                ug_buf_puts(b, ", \"quota\": null, \"icons\": 0, \"shown\": null, "
+                               "\"difference\": null}");
+            } else {
+                ug_buf_printf(b, "%s, \"quota\": %s, \"icons\": %s, \"shown\": %s, "
+                              "\"difference\": %s}", t.count, t.quota, t.icons, t.shown,
+                              t.diff);
+            }
+            ug_buf_puts(b, g + 1 == a->ngroups && i + 1 == a->ncats ? "\n" : ",\n");
         }
     ug_buf_puts(b, "]\n");
 }
+
+/* The analyst's view says first what it is, so that a pasted copy says so too. */
+static const char internal_banner[] =
+    "INTERNAL VIEW - NOT FOR PUBLICATION: every count as counted, hidden ones "
+    "included\n";
 
 ug_status ug_allocation_report(const ug_allocation *a, ug_report_format fmt,
                                char **out, size_t *len, ug_error *err)
 {
     ug_buf b;
     ug_buf_init(&b);
+    if (a->internal && fmt != UG_REPORT_JSON)
+        ug_buf_puts(&b, internal_banner);
     if (fmt == UG_REPORT_CSV)
         report_csv(a, &b);
     else if (fmt == UG_REPORT_JSON)

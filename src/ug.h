@@ -73,6 +73,8 @@ void ug_buf_puts(ug_buf *b, const char *s);
 void ug_buf_printf(ug_buf *b, const char *fmt, ...) UG_PRINTF(2, 3);
 /* s as a quoted JSON string (quotes, backslashes, control characters escaped). */
 void ug_buf_json_string(ug_buf *b, const char *s);
+/* One CSV field, quoted when needed and defused when it starts like a formula. */
+void ug_buf_csv_field(ug_buf *b, const char *s);
 /* Hand the bytes (NUL-ended) to the caller; the buffer is left empty. */
 ug_status ug_buf_take(ug_buf *b, char **out, size_t *len, ug_error *err);
 

@@ -248,6 +248,22 @@ void ug_buf_printf(ug_buf *b, const char *fmt, ...)
     b->len += (size_t)n;
 }
 
+/* A label that starts like a formula (=, +, -, @, tab, CR) would run as one
+** when a CSV file is opened in a spreadsheet: such a cell gets a leading
+** apostrophe, as OWASP's "CSV Injection" page advises. */
+void ug_buf_csv_field(ug_buf *b, const char *s)
+{
+    bool formula = *s && strchr("=+-@\t\r", *s);
+    if (!formula && !strpbrk(s, ",\"\r\n")) {
+        ug_buf_puts(b, s);
+        return;
+    }
+    ug_buf_puts(b, formula ? "\"'" : "\"");
+    for (; *s; s++)
+        ug_buf_add(b, *s == '"' ? "\"\"" : s, *s == '"' ? 2 : 1);
+    ug_buf_puts(b, "\"");
+}
+
 void ug_buf_json_string(ug_buf *b, const char *s)
 {
     ug_buf_puts(b, "\"");

@@ -60,7 +60,8 @@ static const char *inv_counts(const ug_chart *c, const ug_allocation *a,
     for (size_t g = 0; g < a->ngroups; g++)
         for (size_t k = 0; k < a->ncats; k++) {
             const alloc_share *sh = alloc_at(a, g, k);
-            long want = pack_suppressed(c, sh->count) ? 0 : sh->icons + (sh->partial ? 1 : 0);
+            (void)c;
+            long want = alloc_hidden(sh) ? 0 : sh->icons + (sh->partial ? 1 : 0);
             long got = 0;
             for (size_t i = 0; i < s->nicons; i++)
                 got += s->icons[i].cat == k && s->icons[i].group == g;
