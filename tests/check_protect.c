@@ -208,9 +208,26 @@ static bool same_output(const tab *a, const tab *b)
            memcmp(a->col, b->col, sizeof a->col) == 0 && a->grand.v == b->grand.v;
 }
 
+/* A hand-made table of whole counts (counts == NULL: all 0), nothing skipped. */
+static void whole_table(tab *t, size_t rows, size_t cols, const int *counts)
+{
+    memset(t, 0, sizeof *t);
+    t->rows = rows;
+    t->cols = cols;
+    for (size_t k = 0; counts && k < rows * cols; k++)
+        t->cells[k].v = counts[k] * U;
+}
+
 /* ---- properties on random tables -------------------------------------------- */
 
 #define NTABLES 3000
+
+/* What every method promises: adjacent values, skipped cells published as 0. */
+static void check_common(tab *t, ug_i128 base, int n)
+{
+    ck_assert_msg(each_value(t, adjacent_fn, &base), "table %d: not adjacent", n);
+    ck_assert_msg(skipped_are_zero(t), "table %d: a skipped cell is published", n);
+}
 
 START_TEST(test_random_tables_controlled)
 {
@@ -220,9 +237,8 @@ START_TEST(test_random_tables_controlled)
         ug_i128 base = random_table(&t, false, 6, 6);
         again = t;
         run_ok(&t, PROTECT_CONTROLLED, base, 0);
-        ck_assert_msg(each_value(&t, adjacent_fn, &base), "table %d: not adjacent", n);
+        check_common(&t, base, n);
         ck_assert_msg(additive(&t), "table %d: does not add up", n);
-        ck_assert_msg(skipped_are_zero(&t), "table %d: a skipped cell is published", n);
         run_ok(&again, PROTECT_CONTROLLED, base, 99);
         ck_assert_msg(same_output(&t, &again), "table %d: not deterministic", n);
         /* conventional rounding minimises each term alone: a lower bound */
@@ -240,9 +256,8 @@ START_TEST(test_random_tables_conventional)
         tab t;
         ug_i128 base = random_table(&t, false, 6, 6);
         run_ok(&t, PROTECT_CONVENTIONAL, base, 0);
-        ck_assert_msg(each_value(&t, adjacent_fn, &base), "table %d: not adjacent", n);
+        check_common(&t, base, n);
         ck_assert_msg(each_value(&t, conventional_fn, &base), "table %d: not nearest", n);
-        ck_assert_msg(skipped_are_zero(&t), "table %d: a skipped cell is published", n);
     }
 }
 END_TEST
@@ -255,8 +270,7 @@ START_TEST(test_random_tables_random)
         ug_i128 base = random_table(&t, false, 6, 6);
         again = t;
         run_ok(&t, PROTECT_RANDOM, base, (unsigned long long)n);
-        ck_assert_msg(each_value(&t, adjacent_fn, &base), "table %d: not adjacent", n);
-        ck_assert_msg(skipped_are_zero(&t), "table %d: a skipped cell is published", n);
+        check_common(&t, base, n);
         run_ok(&again, PROTECT_RANDOM, base, (unsigned long long)n);
         ck_assert_msg(same_output(&t, &again), "table %d: the seed does not reproduce", n);
     }
@@ -271,11 +285,9 @@ START_TEST(test_random_is_unbiased)
 {
     enum { N = 4000 };
     tab t;
-    memset(&t, 0, sizeof t);
+    whole_table(&t, 4, 5, NULL);
     lcg_state = 4;
     ug_i128 base = 5 * U / 2;
-    t.rows = 4;
-    t.cols = 5;
     for (size_t k = 0; k < 20; k++)
         t.cells[k].v = (ug_i128)below(30000000);
     double sum[20 + 4 + 5 + 1] = {0};
@@ -308,9 +320,7 @@ START_TEST(test_random_huge_base)
     enum { N = 4000 };
     ug_i128 base = (ug_i128)100000000000000 * U;
     tab t;
-    memset(&t, 0, sizeof t);
-    t.rows = 1;
-    t.cols = 2;
+    whole_table(&t, 1, 2, NULL);
     t.cells[0].v = base / 2;
     t.cells[1].v = 3 * base + 1;
     int ups = 0;
@@ -332,12 +342,7 @@ END_TEST
 ** (tbl-counts-sex-area), areas A, B, C by male, female, base 5. */
 static void handbook_table(tab *t)
 {
-    static const int v[] = {1, 0, 3, 3, 12, 20};
-    memset(t, 0, sizeof *t);
-    t->rows = 3;
-    t->cols = 2;
-    for (size_t k = 0; k < 6; k++)
-        t->cells[k].v = v[k] * U;
+    whole_table(t, 3, 2, (const int[]){1, 0, 3, 3, 12, 20});
 }
 
 /* A table printed in the handbook, cells then row totals, column totals and
@@ -422,11 +427,7 @@ START_TEST(test_handbook_base3_probabilities)
 {
     enum { N = 30000 };
     tab t;
-    memset(&t, 0, sizeof t);
-    t.rows = 1;
-    t.cols = 7;
-    for (size_t k = 0; k < 7; k++)
-        t.cells[k].v = (ug_i128)k * U;
+    whole_table(&t, 1, 7, (const int[]){0, 1, 2, 3, 4, 5, 6});
     int ups[7] = {0};
     for (unsigned long long seed = 0; seed < N; seed++) {
         run_ok(&t, PROTECT_RANDOM, 3 * U, seed);
@@ -593,12 +594,7 @@ END_TEST
 START_TEST(test_one_row)
 {
     tab t;
-    memset(&t, 0, sizeof t);
-    t.rows = 1;
-    t.cols = 3;
-    t.cells[0].v = 1 * U;
-    t.cells[1].v = 7 * U;
-    t.cells[2].v = 4 * U;
+    whole_table(&t, 1, 3, (const int[]){1, 7, 4});
     t.skip[1] = true;
     run_ok(&t, PROTECT_CONTROLLED, 3 * U, 0);
     /* 1 + 4 = 5 to base 3: (0, 3 | 3), (3, 3 | 6) and (0, 6 | 6) all cost 4 */
@@ -610,13 +606,9 @@ END_TEST
 START_TEST(test_all_skipped_and_multiples)
 {
     tab t;
-    memset(&t, 0, sizeof t);
-    t.rows = 2;
-    t.cols = 2;
-    for (size_t k = 0; k < 4; k++) {
-        t.cells[k].v = (ug_i128)(k + 1) * 5 * U;
+    whole_table(&t, 2, 2, (const int[]){5, 10, 15, 20});
+    for (size_t k = 0; k < 4; k++)
         t.skip[k] = true;
-    }
     for (int m = PROTECT_CONTROLLED; m <= PROTECT_RANDOM; m++) {
         run_ok(&t, (protect_method)m, 5 * U, 1);
         ck_assert(t.grand.v == 0 && t.row[0].v == 0 && t.col[1].v == 0 && t.out[3].v == 0);
