@@ -105,7 +105,7 @@ static ug_status table_init(table *t, size_t rows, size_t cols, ug_i128 base,
     ** below in range of size_t and of GLPK's int indices. */
     if (rows > UG_MAX_GROUPS || cols > UG_MAX_CATEGORIES)
         return ug_fail(err, UG_ELIMIT, where,
-                       "a table of %zu x %zu is larger than %d x %d, the most rounded",
+                       "a table of %zu x %zu is larger than %d x %d, the largest rounded",
                        rows, cols, UG_MAX_GROUPS, UG_MAX_CATEGORIES);
     t->ncell = rows * cols;
     t->nval = t->ncell + (rows > 1 ? rows + cols : 0) + 1;
