@@ -22,7 +22,11 @@
 ** just [lo, hi]. Second, within a block only the objective changes from one
 ** solve to the next, so the optimal basis of the last solve is still feasible
 ** for the next one: the primal simplex starts there (presolve off, which would
-** throw the basis away) and usually needs a handful of pivots.
+** throw the basis away) and usually needs a handful of pivots. And every
+** vertex it stops at is a table the attacker cannot rule out: a small cell
+** that vertex leaves at the end of its range has reached that end, so about
+** half the solves are never needed (647 instead of 1,290 on the 1,000 x 12
+** table of the tests).
 **
 ** GLPK calls abort() when it runs out of memory itself; only our own
 ** allocations fail cleanly. No GLPK process-wide setting is changed: terminal
@@ -296,19 +300,48 @@ static disclose_interval *slot_of(disclose_interval *out, size_t n, size_t k)
     return &out[lo];
 }
 
-/* Minimise and maximise each small cell of the block in turn. */
+/* A vertex the simplex stops at is a table the attacker cannot rule out, so a
+** small cell it leaves nonbasic at a bound has reached that end of its range:
+** its min (or max) needs no solve of its own. The basis status says so
+** exactly, with no tolerance to choose. */
+static void harvest(const audit *a, glp_prob *lp, const size_t *cells, int n,
+                    disclose_interval *out, size_t nout)
+{
+    if (glp_get_prim_stat(lp) != GLP_FEAS)
+        return;
+    for (int j = 1; j <= n; j++) {
+        if (a->g->status[cells[j - 1]] != PUB_SMALL)
+            continue;
+        int stat = glp_get_col_stat(lp, j);
+        disclose_interval *iv = slot_of(out, nout, cells[j - 1]);
+        if (stat == GLP_NL || stat == GLP_NS)
+            iv->min = glp_get_col_lb(lp, j);
+        if (stat == GLP_NU || stat == GLP_NS)
+            iv->max = glp_get_col_ub(lp, j);
+    }
+}
+
+/* Minimise and maximise each small cell of the block in turn, skipping the
+** ends an earlier vertex has already reached (NAN: not known yet). */
 static ug_status solve_smalls(audit *a, glp_prob *lp, const size_t *cells, int n,
                               disclose_interval *out, size_t nout, ug_error *err)
 {
+    for (int j = 1; j <= n; j++) {
+        if (a->g->status[cells[j - 1]] != PUB_SMALL)
+            continue;
+        disclose_interval *iv = slot_of(out, nout, cells[j - 1]);
+        iv->min = iv->max = NAN;
+    }
     ug_status st = UG_OK;
     for (int j = 1; j <= n && !st; j++) {
         if (a->g->status[cells[j - 1]] != PUB_SMALL)
             continue;
         disclose_interval *iv = slot_of(out, nout, cells[j - 1]);
         glp_set_obj_coef(lp, j, 1.0);
-        st = optimise(lp, j, GLP_MIN, &iv->min, err);
-        if (!st)
-            st = optimise(lp, j, GLP_MAX, &iv->max, err);
+        if (isnan(iv->min) && !(st = optimise(lp, j, GLP_MIN, &iv->min, err)))
+            harvest(a, lp, cells, n, out, nout);
+        if (!st && isnan(iv->max) && !(st = optimise(lp, j, GLP_MAX, &iv->max, err)))
+            harvest(a, lp, cells, n, out, nout);
         glp_set_obj_coef(lp, j, 0.0);
     }
     return st;
