@@ -478,10 +478,7 @@ static char *suppress_fix(const ug_chart *c, ug_dec below, bool zeros_hide,
     char n[48];
     bool same = c->has_suppress && c->suppress_below.v == below.v;
     ug_buf_printf(&b, "suppress: {below: %s", ug_dec_format(below, n));
-    bool own_label = c->suppress_label.text
-                     && (c->suppress_label.mark.line != c->suppress_mark.line
-                         || c->suppress_label.mark.column != c->suppress_mark.column);
-    if (same && own_label) {
+    if (same && c->suppress_label.text) {
         ug_buf_puts(&b, ", label: ");
         yaml_quoted(&b, c->suppress_label.text);
     }

@@ -98,7 +98,10 @@ void pack_disclosure_notes(const ug_allocation *a, ug_buf *b)
                       t->other_label);
     if (t->nhidden && a->rule.by_cells)
         ug_buf_puts(b, "Shares are of the counts shown. ");
-    if (!t->zeros_hidden && t->below.v > 0 && t->nhidden)
+    bool zero = false;
+    for (size_t k = 0; k < t->ngroups * t->ncats; k++)
+        zero = zero || (!pub_hidden(t->cells[k].status) && t->cells[k].value.v == 0);
+    if (zero && t->nsmall)
         ug_buf_puts(b, "Zero counts are shown as 0. ");
     if (b->len && b->data[b->len - 1] == ' ')
         b->len--;

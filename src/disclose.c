@@ -16,6 +16,7 @@
 **      published elsewhere (the handbook's usual assumption, Hundepool et al.
 **      2012 §4.2), which is why step 3 exists.
 */
+#include <stdio.h>
 #include <string.h>
 
 #include "disclose.h"
@@ -50,6 +51,18 @@ void pub_table_free(pub_table *t)
     ug_free(t);
 }
 
+/* The one place the placeholder's default wording lives. */
+static const char *default_small_label(const ug_chart *c, char *buf, size_t size)
+{
+    if (c->suppress_label.text)
+        return c->suppress_label.text;
+    if (!c->has_suppress || c->suppress_below.v <= 0)
+        return OTHER_LABEL;
+    char n[48];
+    snprintf(buf, size, "fewer than %s", ug_dec_format(c->suppress_below, n));
+    return buf;
+}
+
 static pub_table *new_table(const ug_chart *c)
 {
     pub_table *t = ug_calloc(1, sizeof *t);
@@ -60,8 +73,8 @@ static pub_table *new_table(const ug_chart *c)
     t->cells = ug_calloc(t->ngroups * t->ncats, sizeof *t->cells);
     t->group_totals = ug_calloc(t->ngroups, sizeof *t->group_totals);
     t->cat_totals = ug_calloc(t->ncats ? t->ncats : 1, sizeof *t->cat_totals);
-    t->small_label = c->suppress_label.text ? c->suppress_label.text : OTHER_LABEL;
     t->other_label = OTHER_LABEL;
+    t->small_label = default_small_label(c, t->small_default, sizeof t->small_default);
     if (!t->cells || !t->group_totals || !t->cat_totals) {
         pub_table_free(t);
         return NULL;

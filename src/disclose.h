@@ -50,8 +50,9 @@ typedef struct pub_table {
     bool zeros_hidden, margins_published, complement;
     bool rounded;
     ug_dec round_to;
-    const char *small_label; /* "fewer than 10" (the chart's arena or static) */
+    const char *small_label; /* the layout's label, or "fewer than 10" */
     const char *other_label; /* "not shown" */
+    char small_default[64];  /* small_label when the layout gives none */
 } pub_table;
 
 /* The published table of a chart. Fails with UG_EDATA at the cell's count when

@@ -1209,15 +1209,6 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
             return st;
     if ((st = check_protection(l, c)))
         return st;
-    if (c->has_suppress && c->suppress_below.v > 0 && !c->suppress_label.text) {
-        char num[48], label[80];
-        snprintf(label, sizeof label, "fewer than %s",
-                 ug_dec_format(c->suppress_below, num));
-        c->suppress_label.text = ug_arena_strdup(l->arena, label);
-        c->suppress_label.mark = c->suppress_mark;
-        if (!c->suppress_label.text)
-            return nomem(l, root);
-    }
     assign_colors(c);
     if (c->data.present && ((st = check_data_spec(l, c)) || (st = data_load(c, l->err))))
         return st;

@@ -102,10 +102,10 @@ static const cat_spec clubs[] = {
 START_TEST(test_csv_waffle_clubs)
 {
     expect_report(waffle(new_chart(NULL, 0, clubs, 3), 10), UG_REPORT_CSV,
-                  "group,category,count,quota,icons,shown,difference\n"
-                  ",Reading club,33,3.3,3,30,-3\n"
-                  ",Chess club,33,3.3,3,30,-3\n"
-                  ",Garden club,34,3.4,4,40,6\n");
+                  "group,category,count,quota,icons,shown,difference,status\n"
+                  ",Reading club,33,3.3,3,30,-3,exact\n"
+                  ",Chess club,33,3.3,3,30,-3,exact\n"
+                  ",Garden club,34,3.4,4,40,6,exact\n");
 }
 END_TEST
 
@@ -117,11 +117,11 @@ START_TEST(test_csv_repeating_decimals)
     static const cat_spec cats[] = {
         {"A", {"216"}}, {"B", {"310"}}, {"C", {"22"}}, {"D", {"32"}}};
     expect_report(waffle(new_chart(NULL, 0, cats, 4), 60), UG_REPORT_CSV,
-                  "group,category,count,quota,icons,shown,difference\n"
-                  ",A,216,22.344828,23,222.333333,6.333333\n"
-                  ",B,310,32.068966,32,309.333333,-0.666667\n"
-                  ",C,22,2.275862,2,19.333333,-2.666667\n"
-                  ",D,32,3.310345,3,29,-3\n");
+                  "group,category,count,quota,icons,shown,difference,status\n"
+                  ",A,216,22.344828,23,222.333333,6.333333,exact\n"
+                  ",B,310,32.068966,32,309.333333,-0.666667,exact\n"
+                  ",C,22,2.275862,2,19.333333,-2.666667,exact\n"
+                  ",D,32,3.310345,3,29,-3,exact\n");
 }
 END_TEST
 
@@ -138,19 +138,19 @@ START_TEST(test_csv_groups_and_quoting)
         {"Seniors \"65+\"", {"15800", "34"}}, {"Two\nlines", {"12000", "0"}},
         {"Students", {"6100", "0"}},         {"Other", {"3100", "0"}}};
     expect_report(waffle(new_chart(groups, 2, cats, 6), 10), UG_REPORT_CSV,
-                  "group,category,count,quota,icons,shown,difference\n"
-                  "\"North, East\",Adults,47000,4.7,5,50000,3000\n"
-                  "\"North, East\",\"Children, under 18\",16000,1.6,2,20000,4000\n"
-                  "\"North, East\",\"Seniors \"\"65+\"\"\",15800,1.58,1,10000,-5800\n"
-                  "\"North, East\",\"Two\nlines\",12000,1.2,1,10000,-2000\n"
-                  "\"North, East\",Students,6100,0.61,1,10000,3900\n"
-                  "\"North, East\",Other,3100,0.31,0,0,-3100\n"
-                  "\"River \"\"old\"\" ward\",Adults,33,3.3,3,30,-3\n"
-                  "\"River \"\"old\"\" ward\",\"Children, under 18\",33,3.3,3,30,-3\n"
-                  "\"River \"\"old\"\" ward\",\"Seniors \"\"65+\"\"\",34,3.4,4,40,6\n"
-                  "\"River \"\"old\"\" ward\",\"Two\nlines\",0,0,0,0,0\n"
-                  "\"River \"\"old\"\" ward\",Students,0,0,0,0,0\n"
-                  "\"River \"\"old\"\" ward\",Other,0,0,0,0,0\n");
+                  "group,category,count,quota,icons,shown,difference,status\n"
+                  "\"North, East\",Adults,47000,4.7,5,50000,3000,exact\n"
+                  "\"North, East\",\"Children, under 18\",16000,1.6,2,20000,4000,exact\n"
+                  "\"North, East\",\"Seniors \"\"65+\"\"\",15800,1.58,1,10000,-5800,exact\n"
+                  "\"North, East\",\"Two\nlines\",12000,1.2,1,10000,-2000,exact\n"
+                  "\"North, East\",Students,6100,0.61,1,10000,3900,exact\n"
+                  "\"North, East\",Other,3100,0.31,0,0,-3100,exact\n"
+                  "\"River \"\"old\"\" ward\",Adults,33,3.3,3,30,-3,exact\n"
+                  "\"River \"\"old\"\" ward\",\"Children, under 18\",33,3.3,3,30,-3,exact\n"
+                  "\"River \"\"old\"\" ward\",\"Seniors \"\"65+\"\"\",34,3.4,4,40,6,exact\n"
+                  "\"River \"\"old\"\" ward\",\"Two\nlines\",0,0,0,0,0,exact\n"
+                  "\"River \"\"old\"\" ward\",Students,0,0,0,0,0,exact\n"
+                  "\"River \"\"old\"\" ward\",Other,0,0,0,0,0,exact\n");
 }
 END_TEST
 
@@ -164,13 +164,13 @@ START_TEST(test_json_escaping)
     expect_report(valued(new_chart(NULL, 0, cats, 3), "1200"), UG_REPORT_JSON,
                   "[\n"
                   "  {\"group\": \"\", \"category\": \"Say \\\"hi\\\"\", "
-                  "\"count\": 6100, \"quota\": 5.083333, \"icons\": 5, "
+                  "\"status\": \"exact\", \"count\": 6100, \"quota\": 5.083333, \"icons\": 5, "
                   "\"shown\": 6000, \"difference\": -100},\n"
                   "  {\"group\": \"\", \"category\": \"back\\\\slash\\u0009tab\", "
-                  "\"count\": 5000, \"quota\": 4.166667, \"icons\": 4, "
+                  "\"status\": \"exact\", \"count\": 5000, \"quota\": 4.166667, \"icons\": 4, "
                   "\"shown\": 4800, \"difference\": -200},\n"
                   "  {\"group\": \"\", \"category\": \"Café ✓\", "
-                  "\"count\": 900, \"quota\": 0.75, \"icons\": 1, "
+                  "\"status\": \"exact\", \"count\": 900, \"quota\": 0.75, \"icons\": 1, "
                   "\"shown\": 1200, \"difference\": 300}\n"
                   "]\n");
 }
@@ -185,17 +185,17 @@ START_TEST(test_csv_divisor_methods)
     ug_chart *c = valued(new_chart(NULL, 0, cats, 3), "1000");
     c->method = UG_METHOD_DHONDT;
     expect_report(c, UG_REPORT_CSV,
-                  "group,category,count,quota,icons,shown,difference\n"
-                  ",A,4160,4.16,4,4000,-160\n"
-                  ",B,3380,3.38,4,4000,620\n"
-                  ",C,2460,2.46,2,2000,-460\n");
+                  "group,category,count,quota,icons,shown,difference,status\n"
+                  ",A,4160,4.16,4,4000,-160,exact\n"
+                  ",B,3380,3.38,4,4000,620,exact\n"
+                  ",C,2460,2.46,2,2000,-460,exact\n");
     c = valued(new_chart(NULL, 0, cats, 3), "1000");
     c->method = UG_METHOD_SAINTE_LAGUE;
     expect_report(c, UG_REPORT_CSV,
-                  "group,category,count,quota,icons,shown,difference\n"
-                  ",A,4160,4.16,4,4000,-160\n"
-                  ",B,3380,3.38,3,3000,-380\n"
-                  ",C,2460,2.46,3,3000,540\n");
+                  "group,category,count,quota,icons,shown,difference,status\n"
+                  ",A,4160,4.16,4,4000,-160,exact\n"
+                  ",B,3380,3.38,3,3000,-380,exact\n"
+                  ",C,2460,2.46,3,3000,540,exact\n");
 }
 END_TEST
 
@@ -293,10 +293,10 @@ START_TEST(test_csv_largest_numbers)
     c->limits.max_icons = ALLOC_MAX_ICONS;
     char *got = report(c, UG_REPORT_CSV);
     ck_assert(strstr(got, "\n,C1,1000000000000000.999999,10010.01001,10011,"
-                          "1000098900000001.000598,98900000000.000599\n"));
+                          "1000098900000001.000598,98900000000.000599,exact\n"));
     ck_assert(strstr(got, "\n,C10,1000000000000000.999999,10010.01001,10011,"));
     ck_assert(strstr(got, "\n,C11,1000000000000000.999999,10010.01001,10010,"));
-    ck_assert(strstr(got, "\n,C1000,0.5,0,0,0,-0.5\n"));
+    ck_assert(strstr(got, "\n,C1000,0.5,0,0,0,-0.5,exact\n"));
     ug_free(got);
     got = report(c, UG_REPORT_TEXT);
     ck_assert(strstr(got, "  C1000                             0.5            0        0"
