@@ -67,12 +67,14 @@ START_TEST(test_groups_and_suppression)
                            {"Children", "child", 0xE69F00, {"7", "512"}, NULL}};
     ug_chart *c = fx_chart(UG_FORM_ROWS, "Pantry visits", groups, 2, cats, 2);
     fx_suppress(c, "10");
+    c->suppress_margins = UG_MARGINS_HIDDEN; /* no totals published elsewhere */
     char *d = describe(c);
     ck_assert_str_eq(d, "Pictogram chart: Pantry visits. Each icon is 10 households. "
                         "North ward, more than 1,200 households in all: Adults 1,200 "
                         "households (120 icons), Children fewer than 10. River ward, "
                         "1,152 households in all: Adults 640 households (64 icons), "
-                        "Children 512 households (51 icons).");
+                        "Children 512 households (51 icons). Counts of 1 to 9 "
+                        "households are not shown (\u201cfewer than 10\u201d).");
     ck_assert_ptr_null(strstr(d, "1,207"));
     ck_assert_ptr_null(strstr(d, "519"));
     ug_free(d);

@@ -149,6 +149,7 @@ START_TEST(test_suppressed_count_is_a_placeholder)
     c->icon_value = fx_dec("1");
     c->columns = 50;
     fx_suppress(c, "10");
+    c->suppress_margins = UG_MARGINS_HIDDEN; /* one placeholder, no complement */
     ug_allocation *a;
     ug_scene *s = pack_ok(c, &a);
     ck_assert_ptr_null(inv_check(c, a, s));
@@ -270,8 +271,10 @@ static ug_chart *random_chart(void)
     c->start = (ug_start)rnd(2);
     c->arrangement = (ug_arrangement)rnd(2);
     c->cluster = rnd(3) ? 0 : 1 + rnd(10);
-    if (rnd(3) == 0)
+    if (rnd(3) == 0) {
         fx_suppress(c, "10");
+        c->suppress_margins = UG_MARGINS_HIDDEN; /* geometry, not protection */
+    }
     if (waffle && rnd(3) == 0) {
         c->has_icon_value = true;
         c->icon_value = fx_dec("25");
