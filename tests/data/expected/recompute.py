@@ -16,7 +16,7 @@ def fmt(x):
     s = format(d, 'f').rstrip('0').rstrip('.')
     return '0' if s in ('-0', '') else s
 def rows(groups, cats, counts, mode, val):
-    out = ["group,category,count,quota,icons,shown,difference"]
+    out = ["group,category,count,quota,icons,shown,difference,status"]
     for g, gname in enumerate(groups):
         col = [F(counts[c][g]) for c in range(len(cats))]
         T = sum(col)
@@ -27,7 +27,7 @@ def rows(groups, cats, counts, mode, val):
         q, w = lr(col, qf, n)
         for c in range(len(cats)):
             shown = w[c] * unit
-            out.append(f"{gname},{cats[c]},{fmt(col[c])},{fmt(q[c])},{w[c]},{fmt(shown)},{fmt(shown-col[c])}")
+            out.append(f"{gname},{cats[c]},{fmt(col[c])},{fmt(q[c])},{w[c]},{fmt(shown)},{fmt(shown-col[c])},exact")
     return "\n".join(out) + "\n"
 exp = {}
 exp['pantry'] = rows([''], ["Families with children","Adults living alone","Older people","Couples without children","Shared houses"], [[412],[287],[164],[98],[39]], 'cells', 100)
