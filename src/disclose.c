@@ -233,13 +233,14 @@ done:
 
 /* The placeholder's range on the grid the counts are written on: whole
 ** counts give [1, below - 1] (or from 0 with zeros hidden); counts with
-** decimals the finest step a count can take. */
-static void small_range(const ug_chart *c, ug_dec *lo, ug_dec *hi)
+** decimals the finest step a count can take. Judged from the published cells
+** only: a hidden count's decimals must not change the range, and with it the
+** pattern. */
+static void small_range(const ug_chart *c, const pub_table *t, ug_dec *lo, ug_dec *hi)
 {
     bool whole = true;
-    for (size_t i = 0; i < c->ncats; i++)
-        for (size_t g = 0; g < chart_ngroups(c); g++)
-            whole = whole && c->cats[i].counts[g].v % UG_DEC_SCALE == 0;
+    for (size_t k = 0; k < t->ngroups * t->ncats; k++)
+        whole = whole && t->cells[k].value.v % UG_DEC_SCALE == 0;
     ug_i128 step = whole ? UG_DEC_SCALE : 1, below = c->suppress_below.v;
     ug_i128 top = below > 0 ? (below + step - 1) / step * step - step : 0;
     lo->v = c->suppress_zeros == UG_ZEROS_HIDE ? 0 : step;
@@ -286,7 +287,7 @@ ug_status disclose_grid_of(const ug_chart *c, const pub_table *t, disclose_grid 
     g->raw = a->raw;
     g->published = a->published;
     g->status = a->status;
-    small_range(c, &g->lo, &g->hi);
+    small_range(c, t, &g->lo, &g->hi);
     g->complement_floor = c->suppress_below;
     if (t->rounded) {
         protect_rule rule = rule_of(c);

@@ -325,11 +325,19 @@ END_TEST
 
 /* ---- the published table ---------------------------------------------------------- */
 
+static ug_chart *load_ok(const char *yaml)
+{
+    ug_chart *c = NULL;
+    ug_error err = {0};
+    ck_assert_msg(ug_chart_load_string(yaml, strlen(yaml), "t.yaml", NULL, &c, &err)
+                      == UG_OK, "%s", err.msg);
+    return c;
+}
+
 static pub_table *disclose_text(const char *yaml, ug_chart **chart)
 {
     ug_error err = {0};
-    ck_assert_msg(ug_chart_load_string(yaml, strlen(yaml), "t.yaml", NULL, chart, &err)
-                      == UG_OK, "%s", err.msg);
+    *chart = load_ok(yaml);
     pub_table *t = NULL;
     ck_assert_msg(disclose_chart(*chart, &t, &err) == UG_OK, "%s", err.msg);
     return t;
@@ -369,13 +377,10 @@ END_TEST
 
 START_TEST(test_bad_cell_names_are_errors_at_their_line)
 {
-    ug_chart *c = NULL;
     ug_error err = {0};
-    const char *yaml = "title: t\nicon-value: 10\ngroups: [a, b]\nsuppress:\n  cells:\n"
-                       "    - {group: a, category: nope}\n"
-                       "categories:\n  - {id: x, label: X, counts: [5, 40]}\n";
-    ck_assert_int_eq(ug_chart_load_string(yaml, strlen(yaml), "t.yaml", NULL, &c, &err),
-                     UG_OK);
+    ug_chart *c = load_ok("title: t\nicon-value: 10\ngroups: [a, b]\nsuppress:\n  cells:\n"
+                          "    - {group: a, category: nope}\n"
+                          "categories:\n  - {id: x, label: X, counts: [5, 40]}\n");
     pub_table *t = NULL;
     ck_assert_int_eq(disclose_chart(c, &t, &err), UG_ESCHEMA);
     ck_assert_uint_eq(err.where.line, 6);
@@ -386,12 +391,10 @@ END_TEST
 
 START_TEST(test_internal_view_is_marked)
 {
-    ug_chart *c = NULL;
     ug_error err = {0};
-    const char *yaml = "title: t\nicon-value: 10\nsuppress: {below: 10, margins: hidden}\ncategories:\n"
-                       "  - {id: x, label: X, count: 5}\n  - {id: y, label: Y, count: 40}\n";
-    ck_assert_int_eq(ug_chart_load_string(yaml, strlen(yaml), "t.yaml", NULL, &c, &err),
-                     UG_OK);
+    ug_chart *c = load_ok("title: t\nicon-value: 10\nsuppress: {below: 10, margins: hidden}\n"
+                          "categories:\n  - {id: x, label: X, count: 5}\n"
+                          "  - {id: y, label: Y, count: 40}\n");
     ug_allocation *a = NULL;
     char *text = NULL;
     ck_assert_int_eq(ug_chart_allocate_internal(c, &a, &err), UG_OK);
