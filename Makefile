@@ -43,6 +43,7 @@ CLI_OBJ  = $(CLI_SRC:%.c=$(BUILD)/%.o)
 TESTS    = $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
 LIB      = $(BUILD)/libunitgram.a
 REF_DRIVERS = $(BUILD)/tests/ref/alloc_driver $(BUILD)/tests/ref/cvd_driver
+BENCH_DRIVERS = $(BUILD)/tests/bench/suppress
 BIN      = $(BUILD)/unitgram
 
 LAYOUTS  = $(wildcard layouts/*.yaml)
@@ -154,8 +155,14 @@ fuzz: fuzz-build
 	  done
 
 # ---- benchmarks (never part of check: timings belong here, not in tests) ----
-bench: all
+bench: all $(BENCH_DRIVERS)
 	@bash tests/bench/run.sh $(BUILD)
+
+# Bench drivers that call the library's stages directly.
+$(BUILD)/tests/bench/%: tests/bench/%.c $(LIB)
+	@mkdir -p $(dir $@)
+	@echo "  LD  $@"
+	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(PKG_LIBS)
 
 # ---- demo -------------------------------------------------------------------
 demo: deps

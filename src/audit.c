@@ -48,6 +48,7 @@ typedef struct {
     ug_findings *f;
     ug_error *err;
     const ug_pack_options *opt; /* where glyphs are found; may be NULL */
+    bool keep_scale; /* a page panel compared with others: its icon value stays */
 } audit_ctx;
 
 static const char *const rule_names[] = {
@@ -398,7 +399,7 @@ static ug_status rounding_fix(audit_ctx *x, char *fix, size_t n)
     ug_status st = t.shares && t.column ? UG_OK : UG_ENOMEM;
     if (!st && x->a->rule.by_cells)
         st = best_cells(c, &x->a->rule, &t, &cells, &found);
-    else if (!st)
+    else if (!st && !x->keep_scale)
         st = best_value(c, &x->a->rule, &t, &value, &found);
     ug_free(t.shares);
     ug_free(t.column);
@@ -628,9 +629,15 @@ static ug_mark color_mark(const ug_chart *c, size_t i)
     return c->cats[i].color_given ? c->cats[i].color.mark : c->cats[i].mark;
 }
 
+/* The fix is written as the user writes it at `where`: key + "\"#rrggbb\"" + close,
+** e.g. color: "#c68900", or style: {ink: "#767676"} where no ink is given. */
+typedef struct {
+    const char *key, *close;
+} fix_form;
+
 static ug_status contrast_finding(audit_ctx *x, const char *rule, ug_mark where,
-                                  const char *what, ug_color fg, ug_color bg,
-                                  double threshold, const char *criterion)
+                                  fix_form form, const char *what, ug_color fg,
+                                  ug_color bg, double threshold, const char *criterion)
 {
     double r = color_contrast(fg, bg);
     if (color_contrast_passes(r, threshold))
@@ -639,8 +646,8 @@ static ug_status contrast_finding(audit_ctx *x, const char *rule, ug_mark where,
     ug_color shade;
     bool fixable = color_shade_for_contrast(fg, bg, threshold, &shade);
     if (fixable)
-        snprintf(fix, sizeof fix, "color: \"%s\" (%.2f:1)", color_format_hex(shade, hs),
-                 color_contrast(shade, bg));
+        snprintf(fix, sizeof fix, "%s\"%s\"%s (%.2f:1)", form.key,
+                 color_format_hex(shade, hs), form.close, color_contrast(shade, bg));
     return add(x, rule, UG_SEVERITY_WARNING, where, fixable ? fix : NULL,
                "%s %s has contrast %.2f:1 against the background %s; %s asks for "
                "at least %g:1", what, color_format_hex(fg, h), r,
@@ -654,12 +661,15 @@ static ug_status check_contrast(audit_ctx *x)
     ug_color ink = style_color(c->style.ink, 0x222222);
     ug_status st = contrast_finding(x, "low-contrast-text",
                                     c->style.ink.set ? c->style.ink.mark : file_start(c),
+                                    c->style.ink.set ? (fix_form){"ink: ", ""}
+                                                     : (fix_form){"style: {ink: ", "}"},
                                     "the text colour", ink, bg, COLOR_WCAG_TEXT,
                                     "WCAG 2.1 SC 1.4.3 (AA, normal text)");
     for (size_t i = 0; !st && i < c->ncats; i++) {
         char what[300];
         snprintf(what, sizeof what, "the icon colour of '%s'", cat_name(c, i));
-        st = contrast_finding(x, "low-contrast-icon", color_mark(c, i), what,
+        st = contrast_finding(x, "low-contrast-icon", color_mark(c, i),
+                              (fix_form){"color: ", ""}, what,
                               cat_color(c, i), bg, COLOR_WCAG_NON_TEXT,
                               "WCAG 2.1 SC 1.4.11 (non-text contrast)");
     }
@@ -864,7 +874,7 @@ static ug_status finish(audit_ctx *x, ug_status st, ug_findings **out)
 ug_status ug_chart_audit_with(const ug_chart *chart, const ug_pack_options *opt,
                               ug_findings **out, ug_error *err)
 {
-    audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt};
+    audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt, false};
     return finish(&x, x.f ? audit_one(&x) : oom(&x), out);
 }
 
@@ -892,6 +902,40 @@ static bool same_scale(const scale_of *a, const scale_of *b)
     return a->rule.value.v == b->rule.value.v;
 }
 
+/* What makes chart b draw as chart a does, written in b. A rows chart also
+** gets partial rounding: at a value chosen for another chart its icons may
+** otherwise stray from its counts. */
+static void scale_fix(const scale_of *a, const scale_of *b, char *fix, size_t n)
+{
+    char v[48], size[48] = "", value[64] = "";
+    const char *title = a->c->title.text ? a->c->title.text : "the first chart";
+    if (a->rule.by_cells || b->rule.by_cells) {
+        snprintf(fix, n, "shared-scale: true (one icon value and one icon size for "
+                         "the page)");
+        return;
+    }
+    bool other_value = a->rule.value.v != b->rule.value.v;
+    if (other_value)
+        snprintf(value, sizeof value, "icon-value: %s", ug_dec_format(a->rule.value, v));
+    if (a->c->icon_size != b->c->icon_size)
+        snprintf(size, sizeof size, "%sicon: {size: %g}", other_value ? " with " : "",
+                 a->c->icon_size);
+    bool partial = other_value && b->c->form == UG_FORM_ROWS
+                   && b->c->rounding != UG_ROUND_PARTIAL;
+    snprintf(fix, n, "%s%s%s (as in '%s')", value, size,
+             partial ? " with rounding: partial" : "", title);
+}
+
+/* Whether chart i counts what another chart of the page counts. */
+static bool shares_unit(const ug_page *page, size_t i)
+{
+    for (size_t j = 0; j < page->npanels; j++)
+        if (j != i && page->panels[j].kind == UG_PANEL_CHART
+            && same_unit(page->panels[i].chart, page->panels[j].chart))
+            return true;
+    return false;
+}
+
 /* Charts of the same thing side by side invite comparing their icons, which
 ** is honest only when an icon means the same and is drawn the same size
 ** (Neurath's rule, REFERENCES.md §6, carried across a page). Charts counting
@@ -906,9 +950,11 @@ static ug_status check_page_scale(audit_ctx *x, const scale_of *s, size_t n)
         if (i == j)
             continue;
         char vi[48], vj[48];
+        char fix[160];
+        scale_fix(&s[i], &s[j], fix, sizeof fix);
         x->c = s[j].c; /* one finding per chart, against the first it differs from */
         st = add(x, "page-scale-mismatch", UG_SEVERITY_WARNING, s[j].c->categories_mark,
-                 "shared-scale: true (one icon value and one icon size for the page)",
+                 fix,
                  "'%s' and '%s' both count %s but draw them at different scales "
                  "(%s at %g px against %s at %g px)",
                  s[i].c->title.text ? s[i].c->title.text : "(untitled)",
@@ -925,7 +971,7 @@ static ug_status check_page_scale(audit_ctx *x, const scale_of *s, size_t n)
 ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
                         ug_findings **out, ug_error *err)
 {
-    audit_ctx x = {NULL, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt};
+    audit_ctx x = {NULL, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt, false};
     scale_of *scales = ug_calloc(page->npanels ? page->npanels : 1, sizeof *scales);
     size_t n = 0;
     ug_status st = x.f && scales ? UG_OK : UG_ENOMEM;
@@ -935,6 +981,8 @@ ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
         if (page->panels[i].kind != UG_PANEL_CHART)
             continue;
         x.c = page->panels[i].chart;
+        /* a new icon value for one chart would break the page's comparison */
+        x.keep_scale = shares_unit(page, i);
         st = audit_one(&x);
         if (!st && !(st = alloc_rule_for_chart(x.c, &scales[n].rule, err)))
             scales[n++].c = x.c;

@@ -126,9 +126,10 @@ bool disclose_interval_covers(const disclose_grid *g, const disclose_interval *i
 ** every small cell can move across its whole range [lo, hi] while every other
 ** small cell stays put: a sufficient condition that reads only statuses and
 ** published values, never a hidden value, so the pattern cannot leak one.
-** Chooses few cells, then a small hidden total, deterministically (Cox's
-** network heuristic, min-cost flows by GLPK). On UG_EDATA *stuck is the small
-** cell that could not be protected. */
+** Chooses few cells, then a small hidden total, deterministically: for each
+** small cell the cheapest cycle of hidden cells through it (a shortest path
+** between its row and its column). On UG_EDATA *stuck is the small cell that
+** could not be protected. */
 ug_status disclose_complement(const disclose_grid *g, pub_status *status,
                               size_t *stuck, ug_error *err);
 

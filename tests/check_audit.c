@@ -387,10 +387,22 @@ START_TEST(test_low_contrast_text)
     ug_chart *c = chart_new(blue, 2, 0, "1");
     c->style.ink = hex(0x777777);
     c->style.ink.mark = (ug_mark){"test.yaml", 35, 8};
-    expect(c, "low-contrast-text", UG_SEVERITY_WARNING, 35, 8, "color: \"#");
+    /* the fix names the key the finding points at, so it can be written there */
+    expect(c, "low-contrast-text", UG_SEVERITY_WARNING, 35, 8, "ink: \"#767676\"");
     ug_chart *ok = chart_new(blue, 2, 0, "1");
     ok->style.ink = hex(0x767676);
     expect_none(ok, "low-contrast-text");
+}
+END_TEST
+
+/* The default ink (#222222) on a dark background: no ink key to point at, so
+** the fix gives the whole style entry. */
+START_TEST(test_low_contrast_default_ink)
+{
+    ug_chart *c = chart_new(blue, 2, 0, "1");
+    c->style.background = hex(0x333333);
+    c->style.ink = (ug_color){0}; /* not given: the default ink */
+    expect(c, "low-contrast-text", UG_SEVERITY_WARNING, 1, 1, "style: {ink: \"#");
 }
 END_TEST
 
@@ -586,6 +598,7 @@ static Suite *audit_suite(void)
     tcase_add_test(t, test_derivable_without_groups);
     tcase_add_test(t, test_low_contrast_icon);
     tcase_add_test(t, test_low_contrast_text);
+    tcase_add_test(t, test_low_contrast_default_ink);
     tcase_add_test(t, test_confusable_colors);
     tcase_add_loop_test(t, test_palettes_not_confusable, UG_PALETTE_OKABE_ITO,
                         UG_PALETTE_TOL_MUTED + 1);
