@@ -22,7 +22,7 @@ _unitgram()
             COMPREPLY=($(compgen -d -- "$cur")); return ;;
         --format)
             case $cmd in
-                draw) COMPREPLY=($(compgen -W "svg png pdf html" -- "$cur")) ;;
+                draw) COMPREPLY=($(compgen -W "svg png pdf html csv" -- "$cur")) ;;
                 *) COMPREPLY=($(compgen -W "text csv json" -- "$cur")) ;;
             esac
             return ;;
@@ -31,7 +31,7 @@ _unitgram()
         -*)
             case $cmd in
                 draw) COMPREPLY=($(compgen -W "-o --output --format --dpi --scale --glyph-dir --each-row --quiet --watch --watch-limit --watch-timeout --strict --max-icons --max-input-bytes --max-panels --help" -- "$cur")) ;;
-                tally) COMPREPLY=($(compgen -W "--format --max-icons --max-input-bytes --help" -- "$cur")) ;;
+                tally) COMPREPLY=($(compgen -W "--format --internal --max-icons --max-input-bytes --help" -- "$cur")) ;;
                 audit) COMPREPLY=($(compgen -W "--strict --format --max-icons --max-input-bytes --max-panels --help" -- "$cur")) ;;
                 describe) COMPREPLY=($(compgen -W "--max-icons --max-input-bytes --max-panels --help" -- "$cur")) ;;
                 glyphs) COMPREPLY=($(compgen -W "--sheet --check --glyph-dir --help" -- "$cur")) ;;
