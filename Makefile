@@ -1,6 +1,7 @@
 # unitgram — unit charts and pictograms from counts.
-# `make demo` and `make check` are the whole set-up on Debian 12: both install
-# missing packages first (make deps).
+# `make demo` and `make check` are the whole set-up on Debian 12: `demo`
+# installs the missing build packages first (make deps), `check` those and
+# every tool the test suites use (make test-deps).
 
 # ---- settings ---------------------------------------------------------------
 CC      ?= cc
@@ -32,6 +33,7 @@ SAN_ENV    = G_SLICE=always-malloc ASAN_OPTIONS=detect_leaks=1:abort_on_error=0 
 DEBIAN_PACKAGES = build-essential pkg-config libyaml-dev librsvg2-dev libcairo2-dev \
   libpango1.0-dev liblcms2-dev libxml2-dev libcsv-dev check librsvg2-bin \
   libxml2-utils poppler-utils fonts-dejavu-core valgrind libglpk-dev glpk-utils
+TEST_PACKAGES = python3-numpy python3-colorspacious python3-colormath chromium strace
 
 # ---- sources ----------------------------------------------------------------
 LIB_SRC  = $(filter-out src/main.c src/cli_%.c,$(wildcard src/*.c))
@@ -48,23 +50,35 @@ BIN      = $(BUILD)/unitgram
 
 LAYOUTS  = $(wildcard layouts/*.yaml)
 
-.PHONY: FORCE all deps check run-tests check-sanitized demo render-demo clean \
+.PHONY: FORCE all deps test-deps check run-tests check-sanitized demo render-demo clean \
         install uninstall bench fuzz fuzz-build
 
 all: $(BIN) $(LIB)
 
 # ---- set-up -----------------------------------------------------------------
-# Installs only when something is missing; sudo only when not already root.
+# Installs only what dpkg does not list as installed (one dpkg-query, a few
+# milliseconds, when nothing is missing); sudo only when not already root.
+# $(2) set: Node.js with npm too, but only when npm is missing (machines often
+# carry their own Node.js, which Debian's npm would conflict with).
+APT_INSTALL = missing=$$(dpkg-query -W -f='$${Package} $${db:Status-Abbrev}\n' \
+	    $(1) 2>/dev/null | awk -v want="$(strip $(1))" '$$2 == "ii" { ok[$$1] = 1 } \
+	    END { n = split(want, w, " "); for (i = 1; i <= n; i++) \
+	          if (!ok[w[i]]) printf "%s ", w[i] }'); \
+	  $(if $(2),command -v npm >/dev/null || missing="$$missing nodejs npm";) \
+	  if [ -n "$$missing" ]; then \
+	    echo "unitgram: installing with apt-get: $$missing"; \
+	    SUDO=; [ "$$(id -u)" = 0 ] || SUDO=sudo; \
+	    $$SUDO apt-get update -qq && \
+	    DEBIAN_FRONTEND=noninteractive $$SUDO apt-get install -y --no-install-recommends \
+	      $$missing; fi
+
 deps:
-	@if pkg-config --exists $(PKGS) check && [ -f /usr/include/csv.h ] && [ -f /usr/include/glpk.h ] \
-	    && command -v rsvg-convert >/dev/null && command -v xmllint >/dev/null \
-	    && command -v valgrind >/dev/null \
-	    && fc-list | grep -q DejaVuSans; then :; else \
-	  echo "unitgram: installing build packages with apt-get"; \
-	  SUDO=; [ "$$(id -u)" = 0 ] || SUDO=sudo; \
-	  $$SUDO apt-get update -qq && \
-	  DEBIAN_FRONTEND=noninteractive $$SUDO apt-get install -y --no-install-recommends \
-	    $(DEBIAN_PACKAGES); fi
+	@$(call APT_INSTALL,$(DEBIAN_PACKAGES))
+
+# What the suites use besides the build: the outside references (numpy,
+# colorspacious, colormath; npm packages, fetched by the suite), a browser.
+test-deps: deps
+	@$(call APT_INSTALL,$(TEST_PACKAGES),npm)
 
 # ---- build ------------------------------------------------------------------
 # Objects depend on the flags they were compiled with: a changed CC or CFLAGS
@@ -103,7 +117,7 @@ $(BUILD)/tests/ref/%: tests/ref/%.c $(LIB)
 	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(PKG_LIBS)
 
 # ---- tests ------------------------------------------------------------------
-check: deps
+check: test-deps
 	@$(MAKE) --no-print-directory run-tests
 	@$(MAKE) --no-print-directory check-sanitized
 

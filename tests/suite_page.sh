@@ -14,6 +14,10 @@ BIN=${1:-build/unitgram}
 TESTS=$(cd "$(dirname "$0")" && pwd)
 ROOT=$(dirname "$TESTS")
 PY=/usr/bin/python3
+# colour_areas.py measures with numpy: a clear failure, not a crash halfway
+$PY -c "import numpy" 2>/dev/null || {
+    echo "suite_page: FAIL: $PY cannot import numpy (make test-deps installs python3-numpy)"
+    exit 1; }
 TMP=$(mktemp -d)
 trap 'rm -rf "$TMP"' EXIT
 fails=0

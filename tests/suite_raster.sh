@@ -10,6 +10,10 @@ BIN=${1:-build/unitgram}
 TESTS=$(cd "$(dirname "$0")" && pwd)
 HELPER=$(dirname "$BIN")/tests/check_raster
 PY=/usr/bin/python3
+# colour_areas.py measures with numpy: a clear failure, not a crash halfway
+$PY -c "import numpy" 2>/dev/null || {
+    echo "suite_raster: FAIL: $PY cannot import numpy (make test-deps installs python3-numpy)"
+    exit 1; }
 AREAS="$PY $TESTS/colour_areas.py"
 TMP=$(mktemp -d)
 trap 'rm -rf "$TMP"' EXIT
