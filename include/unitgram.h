@@ -307,7 +307,9 @@ const char *ug_severity_name(ug_severity s); /* "error", "warning", "note" */
 const char *ug_starter_layout(int page);
 
 /* Write len bytes to path through a temporary file in the same folder and
-** rename(2), so a failure leaves any previous file untouched. "-" = stdout. */
+** rename(2), so a failure leaves any previous file untouched. "-" = stdout.
+** An existing device or FIFO is written in place; a FIFO nothing reads is
+** refused at once, never waited on. */
 ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
                                ug_error *err);
 /* The same with the fsync before the rename made optional (sync == 0): a
@@ -316,6 +318,15 @@ ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
 ** empty files of the batch. */
 ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t len,
                                     int sync, ug_error *err);
+/* The same for root/rel, where rel's folders (made when missing) must be real
+** folders below root: a symlinked folder on the way is refused, never
+** followed, so a batch cannot be led outside its output folder. */
+ug_status ug_write_file_beneath(const char *root, const char *rel, const void *data,
+                                size_t len, int sync, ug_error *err);
+/* Remove the temporary files of writes in flight. Async-signal-safe: a
+** program's handler for SIGINT, SIGTERM or SIGHUP calls it before exiting so
+** a stopped run leaves no temporary file beside its outputs. */
+void ug_remove_partial_outputs(void);
 
 #ifdef __cplusplus
 }

@@ -47,6 +47,8 @@ int cli_usage(const char *cmd, const char *fmt, ...)
 
 /* Seconds on a monotonic clock (for progress, summaries and timeouts). */
 double cli_now(void);
+/* Remove in-flight temporary files when stopped by INT, TERM or HUP. */
+void cli_clean_up_on_signals(void);
 
 /* ---- arguments ---- */
 

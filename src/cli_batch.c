@@ -17,22 +17,38 @@
 
 #define PROGRESS_AFTER 0.5 /* seconds before a progress bar is worth showing */
 
-/* mkdir -p for the folders above path (the output pattern may name any). */
-static int make_parents(const char *path)
+/* The batch's output folder: the pattern's folders before the first one
+** that {group} names. Only it may be reached through symlinks (the user named
+** it); everything below is walked without following any. */
+typedef struct {
+    char *root;  /* "." when the pattern starts with {group} */
+    size_t skip; /* bytes of each path before its part below root */
+} out_folder;
+
+static int open_out_folder(const char *pattern, out_folder *f)
 {
-    char *p = strdup(path);
-    int rc = p ? 0 : -1;
-    for (char *s = p ? strchr(p + 1, '/') : NULL; s && !rc; s = strchr(s + 1, '/')) {
+    const char *group = strstr(pattern, "{group}");
+    const char *slash = group;
+    while (slash > pattern && slash[-1] != '/')
+        slash--;
+    size_t n = slash > pattern ? (size_t)(slash - pattern - 1) : 0;
+    f->root = n ? strndup(pattern, n) : strdup(slash > pattern ? "/" : ".");
+    f->skip = slash > pattern ? (size_t)(slash - pattern) : 0;
+    if (!f->root)
+        return -1;
+    for (char *s = strchr(f->root + 1, '/'); s; s = strchr(s + 1, '/')) {
         *s = '\0';
-        if (mkdir(p, 0777) != 0 && errno != EEXIST)
-            rc = -1;
+        int made = mkdir(f->root, 0777) == 0 || errno == EEXIST;
         *s = '/';
+        if (!made)
+            break;
     }
-    if (rc)
-        fprintf(stderr, "%s: error: cannot create its folder: %s\n", path,
+    if (mkdir(f->root, 0777) != 0 && errno != EEXIST) {
+        fprintf(stderr, "%s: error: cannot create the output folder: %s\n", f->root,
                 strerror(errno));
-    free(p);
-    return rc;
+        return -1;
+    }
+    return 0;
 }
 
 static void progress(size_t done, size_t total, double start, bool *shown)
@@ -49,7 +65,7 @@ static void progress(size_t done, size_t total, double start, bool *shown)
 }
 
 /* Draw row i of the batch to path; returns an exit code. */
-static int draw_row(ug_batch *b, size_t i, const char *path,
+static int draw_row(ug_batch *b, size_t i, const char *path, const out_folder *dir,
                     const ug_pack_options *popt, bool warn)
 {
     ug_error err = {0};
@@ -67,9 +83,7 @@ static int draw_row(ug_batch *b, size_t i, const char *path,
     } else {
         if (warn)
             cli_glyph_warnings(scene, chart);
-        if (make_parents(path))
-            rc = EXIT_OUTPUT;
-        else if (ug_write_file_atomic_sync(path, svg, len, 0, &err)) {
+        if (ug_write_file_beneath(dir->root, path + dir->skip, svg, len, 0, &err)) {
             cli_report_error(&err);
             rc = EXIT_OUTPUT;
         }
@@ -126,12 +140,17 @@ static int run(ug_batch *b, char **paths, const cli_draw_opts *o,
     int audited = audit_rows(b, &popt, o->strict);
     if (audited)
         return audited;
+    out_folder dir;
+    if (open_out_folder(o->out, &dir)) {
+        free(dir.root);
+        return EXIT_OUTPUT;
+    }
     size_t n = ug_batch_count(b), drawn = 0;
     double start = cli_now();
     bool shown = false;
     int rc = EXIT_OK;
     for (size_t i = 0; i < n; i++) {
-        int r = draw_row(b, i, paths[i], &popt, i == 0);
+        int r = draw_row(b, i, paths[i], &dir, &popt, i == 0);
         if (r && !rc)
             rc = r; /* keep going: one bad row should not hide the others */
         drawn += r == EXIT_OK;
@@ -139,6 +158,7 @@ static int run(ug_batch *b, char **paths, const cli_draw_opts *o,
             progress(i + 1, n, start, &shown);
     }
     sync(); /* once for the whole batch (see ug_write_file_atomic_sync) */
+    free(dir.root);
     if (!o->quiet) {
         const char *slash = strrchr(o->out, '/');
         fprintf(stderr, "drew %zu chart%s to %.*s in %.1f s\n", drawn,

@@ -4,6 +4,7 @@
 */
 #include <stdarg.h>
 #include <errno.h>
+#include <signal.h>
 #include <stdint.h>
 #include <stdio.h>
 #include <sys/stat.h>
@@ -277,4 +278,33 @@ double cli_now(void)
     struct timespec ts;
     clock_gettime(CLOCK_MONOTONIC, &ts);
     return (double)ts.tv_sec + (double)ts.tv_nsec / 1e9;
+}
+
+/* ---- stopping ----------------------------------------------------------------- */
+
+/* Ctrl-C, TERM or HUP in the middle of a write (a batch, --watch) would leave
+** the write's temporary file beside the output. The handler removes those and
+** then dies of the same signal, so the caller still sees how it ended. */
+static void stop_on_signal(int sig)
+{
+    ug_remove_partial_outputs();
+    signal(sig, SIG_DFL);
+    raise(sig);
+}
+
+void cli_clean_up_on_signals(void)
+{
+    static const int sigs[] = {SIGINT, SIGTERM, SIGHUP};
+    for (size_t i = 0; i < sizeof sigs / sizeof sigs[0]; i++) {
+        struct sigaction sa;
+        memset(&sa, 0, sizeof sa);
+        sa.sa_handler = stop_on_signal;
+        sigemptyset(&sa.sa_mask);
+        for (size_t k = 0; k < sizeof sigs / sizeof sigs[0]; k++)
+            sigaddset(&sa.sa_mask, sigs[k]);
+        /* A signal ignored by our parent (nohup) stays ignored. */
+        struct sigaction old;
+        if (sigaction(sigs[i], NULL, &old) == 0 && old.sa_handler != SIG_IGN)
+            sigaction(sigs[i], &sa, NULL);
+    }
 }

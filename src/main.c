@@ -70,5 +70,6 @@ int main(int argc, char **argv)
         usage(stderr);
         return EXIT_USAGE;
     }
+    cli_clean_up_on_signals();
     return c->run(argc - 1, argv + 1);
 }

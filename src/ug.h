@@ -1,7 +1,7 @@
 /*
 ** Internal helpers shared by every stage: error raising, the one allocation
 ** wrapper, an arena for model strings, a growable byte buffer and exact
-** decimals. Nothing here does I/O except ug_write_file_atomic (util.c).
+** decimals. The only I/O is writing files (outfile.c).
 */
 #ifndef UG_UG_H
 #define UG_UG_H
@@ -113,5 +113,10 @@ char *ug_i128_format_scaled(ug_i128 v, char *buf);
 double ug_dec_to_double(ug_dec d);
 /* num/den rounded half-up to `places` decimals, as text (den > 0). */
 char *ug_ratio_format(ug_i128 num, ug_i128 den, int places, char *buf);
+
+/* rel (relative, no "..") opened below dirfd, every folder on the way
+** opened with O_NOFOLLOW (made first when make_dirs) and the last part with
+** flags | O_NOFOLLOW; a symlink anywhere gives ELOOP. -1 with errno set. */
+int ug_open_beneath(int dirfd, const char *rel, int flags, bool make_dirs);
 
 #endif

@@ -1,15 +1,13 @@
 /*
-** Shared plumbing: errors, the allocation wrapper, arenas, byte buffers and
-** atomic file writes. Every stage uses these; none of them knows about charts.
+** Shared plumbing: errors, the allocation wrapper, arenas and byte buffers.
+** Every stage uses these; none of them knows about charts. Files are written
+** by outfile.c.
 */
 #define _POSIX_C_SOURCE 200809L
 #include <errno.h>
-#include <fcntl.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/stat.h>
-#include <unistd.h>
 
 #include "ug.h"
 
@@ -292,108 +290,4 @@ ug_status ug_buf_take(ug_buf *b, char **out, size_t *len, ug_error *err)
         *len = b->len;
     ug_buf_init(b);
     return UG_OK;
-}
-
-/* ---- atomic writes ------------------------------------------------------ */
-
-static ug_status write_all(int fd, const void *data, size_t len)
-{
-    const char *p = data;
-    while (len) {
-        ssize_t n = write(fd, p, len);
-        if (n < 0 && errno == EINTR)
-            continue;
-        if (n <= 0)
-            return UG_EIO;
-        p += n;
-        len -= (size_t)n;
-    }
-    return UG_OK;
-}
-
-static ug_status write_stdout(const void *data, size_t len, ug_error *err)
-{
-    if (fwrite(data, 1, len, stdout) != len || fflush(stdout) != 0)
-        return ug_fail(err, UG_EIO, ug_mark_file("<stdout>"),
-                       "could not write to standard output: %s", strerror(errno));
-    return UG_OK;
-}
-
-/* An existing device or FIFO (/dev/null, a named pipe) is written in place:
-** renaming a temporary file over it would replace the device node itself. A
-** folder is refused. Returns UG_OK with *done false for anything else. */
-static ug_status write_special(const char *path, const void *data, size_t len,
-                               bool *done, ug_error *err)
-{
-    struct stat sb;
-    *done = false;
-    if (stat(path, &sb) != 0 || S_ISREG(sb.st_mode))
-        return UG_OK;
-    *done = true;
-    if (S_ISDIR(sb.st_mode))
-        return ug_fail(err, UG_EIO, ug_mark_file(path),
-                       "cannot write output: it is a folder");
-    int fd = open(path, O_WRONLY | O_CLOEXEC);
-    bool ok = fd >= 0 && write_all(fd, data, len) == UG_OK;
-    int saved = errno;
-    if (fd >= 0 && close(fd) != 0 && ok) {
-        ok = false;
-        saved = errno;
-    }
-    return ok ? UG_OK : ug_fail(err, UG_EIO, ug_mark_file(path),
-                                "cannot write output: %s", strerror(saved));
-}
-
-/* The temporary file sits beside the target so rename(2) stays on one file
-** system and is atomic; readers see the old picture or the new, never half. */
-ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
-                               ug_error *err)
-{
-    return ug_write_file_atomic_sync(path, data, len, true, err);
-}
-
-ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t len,
-                                    int sync, ug_error *err)
-{
-    if (strcmp(path, "-") == 0)
-        return write_stdout(data, len, err);
-    bool done;
-    ug_status special = write_special(path, data, len, &done, err);
-    if (done)
-        return special;
-    size_t n = strlen(path);
-    char *tmp = ug_malloc(n + 16);
-    if (!tmp)
-        return ug_fail(err, UG_ENOMEM, ug_mark_file(path), "out of memory");
-    snprintf(tmp, n + 16, "%s.tmpXXXXXX", path);
-    int fd = mkstemp(tmp);
-    if (fd < 0) {
-        ug_fail(err, UG_EIO, ug_mark_file(path), "cannot create output: %s",
-                strerror(errno));
-        ug_free(tmp);
-        return UG_EIO;
-    }
-    int saved = 0;
-    bool ok = write_all(fd, data, len) == UG_OK && (!sync || fsync(fd) == 0);
-    if (!ok)
-        saved = errno;
-    /* mkstemp creates 0600; a chart is a document meant to be shared. */
-    mode_t mask = umask(0);
-    umask(mask);
-    fchmod(fd, 0666 & ~mask);
-    if (close(fd) != 0 && ok) {
-        ok = false;
-        saved = errno;
-    }
-    if (ok && rename(tmp, path) != 0) {
-        ok = false;
-        saved = errno;
-    }
-    if (!ok) {
-        unlink(tmp);
-        ug_fail(err, UG_EIO, ug_mark_file(path), "cannot write output: %s",
-                strerror(saved ? saved : EIO));
-    }
-    ug_free(tmp);
-    return ok ? UG_OK : UG_EIO;
 }

@@ -157,30 +157,6 @@ START_TEST(test_first_error_wins)
 }
 END_TEST
 
-START_TEST(test_atomic_write_replaces_whole_file)
-{
-    char dir[] = "/tmp/ugtestXXXXXX";
-    ck_assert_ptr_nonnull(mkdtemp(dir));
-    char path[64];
-    snprintf(path, sizeof path, "%s/out.svg", dir);
-    ug_error err = {0};
-    ck_assert_int_eq(ug_write_file_atomic(path, "old", 3, &err), UG_OK);
-    ck_assert_int_eq(ug_write_file_atomic(path, "newer", 5, &err), UG_OK);
-    FILE *f = fopen(path, "r");
-    char got[16] = {0};
-    ck_assert_uint_eq(fread(got, 1, sizeof got, f), 5);
-    fclose(f);
-    ck_assert_str_eq(got, "newer");
-    /* a folder that does not exist: an error, nothing written */
-    char bad[96];
-    snprintf(bad, sizeof bad, "%s/missing/out.svg", dir);
-    ck_assert_int_eq(ug_write_file_atomic(bad, "x", 1, &err), UG_EIO);
-    ck_assert(strstr(err.msg, "cannot create output") != NULL);
-    unlink(path);
-    rmdir(dir);
-}
-END_TEST
-
 static Suite *util_suite(void)
 {
     Suite *s = suite_create("util");
@@ -194,7 +170,6 @@ static Suite *util_suite(void)
     tcase_add_test(tc, test_mem_fail_modes);
     tcase_add_test(tc, test_arena_zeroes_and_aligns);
     tcase_add_test(tc, test_first_error_wins);
-    tcase_add_test(tc, test_atomic_write_replaces_whole_file);
     suite_add_tcase(s, tc);
     return s;
 }

@@ -6,7 +6,9 @@
 # it. A successful run replaces the file by rename (a hard link to the old
 # file keeps the old bytes), leaves a device node a device, and replaces a
 # symlink at the output path rather than writing through it. Batches
-# (--each-row) never write outside their output folder.
+# (--each-row) never write outside their output folder, not even through a
+# symlinked folder; a signal leaves no temporary file; a FIFO nothing reads
+# is refused at once; a 250-character output name works.
 # usage: bash tests/suite_output_safety.sh build/unitgram
 set -u
 BIN=$(cd "$(dirname "$1")" && pwd)/$(basename "$1")
@@ -16,6 +18,8 @@ trap 'chmod -R u+w "$T" 2>/dev/null; rm -rf "$T"' EXIT
 chmod 755 "$T"
 fails=0 checks=0
 fail() { echo "FAIL: $*"; fails=$((fails + 1)); }
+command -v strace > /dev/null || {
+  echo "suite_output_safety: FAIL: strace is missing (make test-deps installs it)"; exit 1; }
 
 GOOD=$ROOT/layouts/pantry.yaml
 H=$ROOT/tests/data/hostile
@@ -167,6 +171,80 @@ checks=$((checks + 1))
 [ "$(cd "$B/work/out" && cat -- * | cksum)" = "$sum_before" ] \
   || fail "a failed batch changed earlier files"
 ls -A "$B/work/out" | grep -q 'tmp' && fail "a failed batch left temporary files"
+
+# A folder named by {group} that is a symlink to a folder outside: that row is
+# refused with a message, nothing lands outside, the other rows are drawn.
+mkdir -p "$B/elsewhere" "$B/work/deep"
+ln -s ../../elsewhere "$B/work/deep/north"
+printf 'name,adults,children\nNorth,1,1\nSouth,2,1\n' > "$B/work/two.csv"
+(cd "$B/work" && "$BIN" draw tmpl.yaml --each-row two.csv -o 'deep/{group}/chart.svg' \
+   --quiet) 2> "$T/err.txt"
+rc=$?
+checks=$((checks + 1))
+[ "$rc" = 4 ] || fail "batch through a symlinked folder: exit $rc, expected 4"
+grep -q "symbolic link" "$T/err.txt" || fail "batch through a symlinked folder: no message"
+[ -z "$(ls -A "$B/elsewhere")" ] || fail "batch wrote through a symlinked folder"
+[ -f "$B/work/deep/south/chart.svg" ] || fail "batch did not draw the other row"
+
+# Stopped by a signal while a temporary file exists: the handler removes it.
+# strace holds every write(2) and fsync(2) for 1.5 s, so the signal lands
+# while the temporary is there and before the rename, every time (a random
+# delay almost never hits the write's window). The first write of each run
+# is its output's.
+# For a single draw, a batch and --watch, and INT, TERM and HUP.
+stopped_run() { # stopped_run SIG FOLDER ARGS...: stop the run once a temporary exists
+  local sig=$1 dir=$2
+  shift 2
+  # env: a background job of a script starts with SIGINT ignored, and an
+  # ignored signal stays ignored (as under nohup).
+  env --default-signal=INT strace -f -qq -o /dev/null -e trace=write,fsync \
+    -e inject=write,fsync:delay_enter=1500000 "$BIN" "$@" 2> /dev/null &
+  local tracer=$! pid="" waited=0
+  while [ "$waited" -lt 400 ] && ! ls -A "$dir" 2> /dev/null | grep -q tmp; do
+    sleep 0.05; waited=$((waited + 1))
+  done
+  pid=$(pgrep -P "$tracer")
+  [ -n "$pid" ] && kill -s "$sig" "$pid"
+  wait "$tracer" 2> /dev/null
+}
+rows=$(printf 'name,adults,children\nEast,40,30\nWest,50,20\n')
+for sig in INT TERM HUP; do
+  mkdir -p "$B/work/sig"
+  printf '%s' "$OLD" > "$B/work/sig/one.svg"
+  printf '%s\n' "$rows" > "$B/work/sig.csv"
+  stopped_run "$sig" "$B/work/sig" draw "$GOOD" -o "$B/work/sig/one.svg"
+  stopped_run "$sig" "$B/work/sig" draw "$B/work/tmpl.yaml" --each-row "$B/work/sig.csv" \
+    -o "$B/work/sig/{group}.svg" --quiet
+  stopped_run "$sig" "$B/work/sig" draw "$GOOD" -o "$B/work/sig/watched.svg" --watch \
+    --watch-timeout 20
+  checks=$((checks + 1))
+  left=$(ls -A "$B/work/sig" | grep -c tmp)
+  [ "$left" = 0 ] || fail "SIG$sig left $left temporary files: $(ls -A "$B/work/sig" | tr '\n' ' ')"
+  [ "$(cat "$B/work/sig/one.svg")" = "$OLD" ] || fail "SIG$sig: the old output changed"
+  rm -rf "$B/work/sig"
+done
+
+# A FIFO at the output path (or a symlink to one) that nothing reads: a clean
+# error at once, never a wait, and the FIFO stays a FIFO.
+mkfifo "$T/out/pipe.svg"
+ln -s pipe.svg "$T/out/link.svg"
+for f in pipe.svg link.svg; do
+  timeout 10 "$BIN" draw "$GOOD" -o "$T/out/$f" 2> "$T/err.txt"
+  rc=$?
+  checks=$((checks + 1))
+  [ "$rc" = 4 ] || fail "FIFO output $f: exit $rc, expected 4 (124 is a hang)"
+  grep -q "nothing is reading" "$T/err.txt" || fail "FIFO output $f: $(cat "$T/err.txt")"
+done
+[ -p "$T/out/pipe.svg" ] || fail "the FIFO was replaced"
+rm -f "$T/out/pipe.svg" "$T/out/link.svg"
+
+# A 250-character output name (the longest most file systems allow is 255):
+# the temporary file's name must not grow with it.
+long="$T/out/$(head -c 246 /dev/zero | tr '\0' l).svg"
+"$BIN" draw "$GOOD" -o "$long" 2> "$T/err.txt" || fail "250-character name: $(cat "$T/err.txt")"
+checks=$((checks + 1))
+[ -s "$long" ] || fail "250-character name: nothing written"
+rm -f "$long"
 
 echo "suite_output_safety: $checks checks, $fails failures"
 [ "$fails" = 0 ]
