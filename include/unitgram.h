@@ -162,7 +162,9 @@ ug_status ug_scene_glyph_warnings(const ug_scene *scene, const ug_chart *chart,
                                   ug_error **out, size_t *n, ug_error *err);
 
 /* The files drawing this chart reads: the layout itself, its CSV (if any) and
-** every glyph file the scene loaded (scene may be NULL). A NULL-terminated
+** every glyph file the scene loaded. Without a scene (packing failed), the
+** glyph files the chart names by path, joined to the layout's folder, so a
+** watcher still sees a broken glyph being fixed. A NULL-terminated
 ** array in one malloc'd block (free() it); NULL when out of memory. */
 char **ug_chart_inputs(const ug_chart *chart, const ug_scene *scene);
 

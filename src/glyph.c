@@ -627,12 +627,31 @@ static ug_status parse_svg(ug_glyph *g, const char *text, size_t len, bool libra
 
 /* ---- reading a file --------------------------------------------------------- */
 
-/* Only regular files, at most GLYPH_MAX_BYTES, and not empty. */
-static ug_status read_file(const char *path, ug_mark where, char **out,
-                           size_t *len, ug_error *err)
+/* path (resolved, inside the resolved folder root) opened by walking down
+** from root without following a symlink: a folder swapped for a link after
+** realpath(3) looked at it is refused, not followed out of root. */
+static int open_confined(const char *root, const char *path)
 {
-    int fd = open(path, O_RDONLY | O_NONBLOCK);
+    size_t n = strlen(root);
+    int rootfd = open(root, O_RDONLY | O_DIRECTORY | O_CLOEXEC);
+    if (rootfd < 0)
+        return -1;
+    int fd = ug_open_beneath(rootfd, path + n + (n > 1), O_RDONLY | O_NONBLOCK, false);
+    int e = errno;
+    close(rootfd);
+    errno = e;
+    return fd;
+}
+
+/* Only regular files, at most GLYPH_MAX_BYTES, and not empty. */
+static ug_status read_file(const char *root, const char *path, ug_mark where,
+                           char **out, size_t *len, ug_error *err)
+{
+    int fd = open_confined(root, path);
     struct stat sb;
+    if (fd < 0 && (errno == ELOOP || errno == ENOTDIR))
+        return ug_fail(err, UG_ESCHEMA, where, "glyph file '%s' is no longer inside '%s' "
+                       "(a folder on the way became a symbolic link)", path, root);
     if (fd < 0)
         return ug_fail(err, UG_EIO, where, "cannot open glyph file '%s': %s", path,
                        strerror(errno));
@@ -658,11 +677,12 @@ static ug_status read_file(const char *path, ug_mark where, char **out,
     return st;
 }
 
-static ug_status load_file(ug_glyph *g, bool library, ug_mark where, ug_error *err)
+static ug_status load_file(ug_glyph *g, const char *root, bool library, ug_mark where,
+                           ug_error *err)
 {
     char *text = NULL;
     size_t len = 0;
-    ug_status st = read_file(g->path, where, &text, &len, err);
+    ug_status st = read_file(root, g->path, where, &text, &len, err);
     if (!st)
         st = parse_svg(g, text, len, library, where, err);
     ug_free(text);
@@ -776,9 +796,9 @@ static bool inside(const char *path, const char *dir)
 ** inside; *out stays NULL when there is none. Running out of memory is an
 ** error of its own, never "no such glyph". */
 static ug_status find_in_dir(const char *dir, const char *name, char **out,
-                             ug_mark where, ug_error *err)
+                             char *real_dir, ug_mark where, ug_error *err)
 {
-    char candidate[PATH_MAX + 80], real_dir[PATH_MAX], real[PATH_MAX];
+    char candidate[PATH_MAX + 80], real[PATH_MAX];
     struct stat sb;
     snprintf(candidate, sizeof candidate, "%s/%s.svg", dir, name);
     if (!realpath(dir, real_dir) || !realpath(candidate, real) || !inside(real, real_dir) ||
@@ -789,13 +809,13 @@ static ug_status find_in_dir(const char *dir, const char *name, char **out,
     return UG_OK;
 }
 
-static ug_status find_library(ug_glyph *g, const glyph_search *s, ug_mark where,
-                              ug_error *err)
+static ug_status find_library(ug_glyph *g, const glyph_search *s, char *root,
+                              ug_mark where, ug_error *err)
 {
     char **dirs = NULL;
     ug_status st = glyph_search_dirs(s, &dirs, err);
     for (size_t i = 0; !st && dirs[i] && !g->path; i++)
-        st = find_in_dir(dirs[i], g->name, &g->path, where, err);
+        st = find_in_dir(dirs[i], g->name, &g->path, root, where, err);
     glyph_free_dirs(dirs);
     if (!st && !g->path)
         st = ug_fail(err, UG_ESCHEMA, where,
@@ -806,11 +826,11 @@ static ug_status find_library(ug_glyph *g, const glyph_search *s, ug_mark where,
 }
 
 /* A user's file: relative to the layout's folder and confined to it. */
-static ug_status find_user_file(ug_glyph *g, const glyph_search *s, ug_mark where,
-                                ug_error *err)
+static ug_status find_user_file(ug_glyph *g, const glyph_search *s, char *real_base,
+                                ug_mark where, ug_error *err)
 {
     const char *base = s && s->layout_dir && *s->layout_dir ? s->layout_dir : ".";
-    char candidate[PATH_MAX * 2], real_base[PATH_MAX], real[PATH_MAX];
+    char candidate[PATH_MAX * 2], real[PATH_MAX];
     if (g->name[0] == '/')
         snprintf(candidate, sizeof candidate, "%s", g->name);
     else
@@ -844,6 +864,8 @@ static ug_status load_primitive(ug_glyph *g, ug_mark where, ug_error *err, bool 
     return UG_OK;
 }
 
+void (*glyph_resolved_hook)(const char *path);
+
 ug_status glyph_load(const char *ref, const glyph_search *search, ug_mark where,
                      ug_glyph **out, ug_error *err)
 {
@@ -853,12 +875,15 @@ ug_status glyph_load(const char *ref, const glyph_search *search, ug_mark where,
         return ug_fail(err, UG_ENOMEM, where, "out of memory");
     bool primitive;
     bool library = glyph_is_library_name(ref);
+    char root[PATH_MAX]; /* the resolved folder the file must stay inside */
     ug_status st = load_primitive(g, where, err, &primitive);
     if (!st && !primitive)
-        st = library ? find_library(g, search, where, err)
-                     : find_user_file(g, search, where, err);
+        st = library ? find_library(g, search, root, where, err)
+                     : find_user_file(g, search, root, where, err);
+    if (!st && !primitive && glyph_resolved_hook)
+        glyph_resolved_hook(g->path);
     if (!st && !primitive)
-        st = load_file(g, library, where, err);
+        st = load_file(g, root, library, where, err);
     if (!st)
         st = glyph_ink(g->body, where, &g->ink, err);
     if (st) {

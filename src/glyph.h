@@ -51,6 +51,9 @@ typedef struct {
 ug_status glyph_load(const char *ref, const glyph_search *search, ug_mark where,
                      ug_glyph **out, ug_error *err);
 void glyph_free(ug_glyph *g);
+/* Tests only: called between resolving a glyph file's path and opening it,
+** so a test can swap a folder for a symlink in that moment. NULL otherwise. */
+extern void (*glyph_resolved_hook)(const char *path);
 
 /* The default folders of the search path, in order, NULL-terminated. */
 const char *const *glyph_default_dirs(void);

@@ -1,6 +1,6 @@
 /*
 ** Glyph stage, the library side: which glyphs the search path offers, their
-** keywords (glyphs/index.yaml, read with libyaml) and a contact sheet that
+** keywords (glyphs/index.yaml, read with the layout's guarded YAML reader) and a contact sheet that
 ** draws every one of them through the same loader a chart uses.
 **
 ** A name found in several folders is the first one on the search path, as in
@@ -12,9 +12,9 @@
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
-#include <yaml.h>
 
 #include "glyph.h"
+#include "layout.h"
 
 typedef struct {
     char *name, *dir, *keywords; /* keywords joined with ", " */
@@ -92,64 +92,60 @@ static ug_status scan_dir(ug_glyph_library *lib, const char *dir, ug_error *err)
 }
 
 /* ---- index.yaml ------------------------------------------------------------- */
+/* Read with the layout's guarded reader: a size cap before parsing, no
+** aliases, bounded depth and list lengths, so a hostile index in a
+** --glyph-dir folder costs no more than a hostile layout. */
 
-static const char *scalar(yaml_document_t *doc, yaml_node_t *n)
+static const char *scalar(const layout_node *n)
 {
-    (void)doc;
-    return n && n->type == YAML_SCALAR_NODE ? (const char *)n->data.scalar.value : NULL;
+    return n && n->kind == LAYOUT_SCALAR ? n->text : NULL;
 }
 
-static yaml_node_t *get_key(yaml_document_t *doc, yaml_node_t *map, const char *key)
+static const layout_node *get_key(const layout_node *map, const char *key)
 {
-    for (yaml_node_pair_t *p = map->data.mapping.pairs.start;
-         p < map->data.mapping.pairs.top; p++) {
-        const char *k = scalar(doc, yaml_document_get_node(doc, p->key));
-        if (k && strcmp(k, key) == 0)
-            return yaml_document_get_node(doc, p->value);
-    }
+    for (const layout_node *k = map->first; k && k->next; k = k->next->next)
+        if (scalar(k) && strcmp(k->text, key) == 0)
+            return k->next;
     return NULL;
 }
 
-static char *join_keywords(yaml_document_t *doc, yaml_node_t *kw)
+static char *join_keywords(const layout_node *kw)
 {
     if (!kw)
         return ug_strdup("");
-    if (kw->type == YAML_SCALAR_NODE)
-        return ug_strdup(scalar(doc, kw));
+    if (kw->kind == LAYOUT_SCALAR)
+        return ug_strdup(kw->text);
     ug_buf b;
     ug_buf_init(&b);
-    if (kw->type == YAML_SEQUENCE_NODE)
-        for (yaml_node_item_t *i = kw->data.sequence.items.start;
-             i < kw->data.sequence.items.top; i++) {
-            const char *s = scalar(doc, yaml_document_get_node(doc, *i));
-            if (s)
-                ug_buf_printf(&b, "%s%s", b.len ? ", " : "", s);
-        }
+    ug_buf_puts(&b, "");
+    if (kw->kind == LAYOUT_SEQ)
+        for (const layout_node *i = kw->first; i; i = i->next)
+            if (scalar(i))
+                ug_buf_printf(&b, "%s%s", b.len ? ", " : "", i->text);
     char *out = NULL;
     if (ug_buf_take(&b, &out, NULL, NULL))
         out = NULL;
     return out;
 }
 
-static ug_status index_item(ug_glyph_library *lib, const char *dir, yaml_document_t *doc,
-                            yaml_node_t *item, const char *file, ug_error *err)
+static ug_status index_item(ug_glyph_library *lib, const char *dir,
+                            const layout_node *item, ug_error *err)
 {
-    ug_mark m = {file, (unsigned)item->start_mark.line + 1,
-                 (unsigned)item->start_mark.column + 1};
-    if (item->type != YAML_MAPPING_NODE)
+    ug_mark m = item->mark;
+    if (item->kind != LAYOUT_MAP)
         return ug_fail(err, UG_ESCHEMA, m, "expected a mapping with 'name' and 'keywords'");
-    const char *name = scalar(doc, get_key(doc, item, "name"));
+    const char *name = scalar(get_key(item, "name"));
     if (!name)
         return ug_fail(err, UG_ESCHEMA, m, "expected a 'name' key");
     entry *e = find_entry(lib, name);
     if (!e || strcmp(e->dir, dir) != 0)
         return UG_OK; /* described here, but no file (or shadowed by an earlier folder) */
-    char *kw = join_keywords(doc, get_key(doc, item, "keywords"));
+    char *kw = join_keywords(get_key(item, "keywords"));
     if (!kw)
         return ug_fail(err, UG_ENOMEM, m, "out of memory");
     ug_free(e->keywords);
     e->keywords = kw;
-    const char *w = scalar(doc, get_key(doc, item, "weight"));
+    const char *w = scalar(get_key(item, "weight"));
     char *end = NULL;
     e->weight = w ? strtod(w, &end) : -1;
     if (w && (*end || e->weight < 0 || e->weight > 1))
@@ -159,51 +155,44 @@ static ug_status index_item(ug_glyph_library *lib, const char *dir, yaml_documen
 }
 
 static ug_status index_document(ug_glyph_library *lib, const char *dir,
-                                yaml_document_t *doc, const char *file, ug_error *err)
+                                const layout_node *root, ug_error *err)
 {
-    yaml_node_t *root = yaml_document_get_root_node(doc);
     if (!root)
         return UG_OK; /* an empty index describes nothing */
-    if (root->type != YAML_SEQUENCE_NODE)
-        return ug_fail(err, UG_ESCHEMA,
-                       (ug_mark){file, (unsigned)root->start_mark.line + 1,
-                                 (unsigned)root->start_mark.column + 1},
+    if (root->kind != LAYOUT_SEQ)
+        return ug_fail(err, UG_ESCHEMA, root->mark,
                        "expected a list of glyphs (- name: ..., keywords: [...])");
     ug_status st = UG_OK;
-    for (yaml_node_item_t *i = root->data.sequence.items.start;
-         !st && i < root->data.sequence.items.top; i++)
-        st = index_item(lib, dir, doc, yaml_document_get_node(doc, *i), file, err);
+    for (const layout_node *i = root->first; !st && i; i = i->next)
+        st = index_item(lib, dir, i, err);
     return st;
 }
 
 static ug_status read_index(ug_glyph_library *lib, const char *dir, ug_error *err)
 {
-    char file[4200];
-    snprintf(file, sizeof file, "%s/index.yaml", dir);
+    size_t n = strlen(dir) + sizeof "/index.yaml";
+    char *file = ug_malloc(n);
+    if (!file)
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(dir), "out of memory");
+    snprintf(file, n, "%s/index.yaml", dir);
     struct stat sb;
-    if (stat(file, &sb) != 0)
+    if (lstat(file, &sb) != 0) {
+        ug_free(file);
         return UG_OK; /* no index: names only */
-    if (sb.st_size > (off_t)GLYPH_MAX_BYTES)
-        return ug_fail(err, UG_ELIMIT, ug_mark_file(file), "glyph index is larger than 1 MiB");
-    FILE *f = fopen(file, "rb");
-    if (!f)
-        return ug_fail(err, UG_EIO, ug_mark_file(file), "cannot open the glyph index");
-    yaml_parser_t parser;
-    yaml_document_t doc;
-    ug_status st = UG_OK;
-    yaml_parser_initialize(&parser);
-    yaml_parser_set_input_file(&parser, f);
-    if (!yaml_parser_load(&parser, &doc)) {
-        ug_mark m = {file, (unsigned)parser.problem_mark.line + 1,
-                     (unsigned)parser.problem_mark.column + 1};
-        st = ug_fail(err, UG_ESYNTAX, m, "YAML syntax: %s",
-                     parser.problem ? parser.problem : "unknown problem");
-    } else {
-        st = index_document(lib, dir, &doc, file, err);
-        yaml_document_delete(&doc);
     }
-    yaml_parser_delete(&parser);
-    fclose(f);
+    ug_arena arena = {0};
+    char *text = NULL;
+    size_t len = 0;
+    layout_node *root = NULL;
+    ug_status st = layout_read_file(file, GLYPH_MAX_BYTES, ug_mark_file(file), &text,
+                                    &len, err);
+    if (!st)
+        st = layout_parse(text, len, file, &arena, &root, err);
+    if (!st)
+        st = index_document(lib, dir, root, err);
+    ug_free(text);
+    ug_arena_free(&arena);
+    ug_free(file);
     return st;
 }
 

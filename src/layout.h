@@ -1,6 +1,7 @@
 /*
 ** Layout stage internals shared by layout.c (YAML -> model) and data.c
-** (CSV counts -> model). Nothing outside the layout stage includes this.
+** (CSV counts -> model). The glyph index reader (glyph_library.c) uses its
+** guarded file reader and parser too; no other stage includes this.
 */
 #ifndef UG_LAYOUT_H
 #define UG_LAYOUT_H

@@ -50,37 +50,58 @@ ug_status ug_scene_glyph_warnings(const ug_scene *s, const ug_chart *c,
     return UG_OK;
 }
 
-/* Append s (and its NUL) to the string area; the area was sized beforehand. */
-static char *put(char **area, const char *s)
+/* The files one drawing read, each as a prefix and a name (the prefix is the
+** layout's folder for a glyph named by path). */
+typedef struct {
+    const char *prefix, *name;
+    size_t prefix_len;
+} input;
+
+static size_t folder_len(const char *path)
 {
-    char *at = *area;
-    size_t n = strlen(s) + 1;
-    memcpy(at, s, n);
-    *area += n;
-    return at;
+    const char *slash = strrchr(path, '/');
+    return slash ? (size_t)(slash - path) + 1 : 0;
+}
+
+/* When packing failed there is no scene to say which glyph files were read;
+** the chart's own glyph paths are watched instead, so fixing a broken glyph
+** file redraws. */
+static size_t list_inputs(const ug_chart *c, const ug_scene *s, input *in)
+{
+    size_t n = 0;
+    in[n++] = (input){"", c->path, 0};
+    if (c->data.present && c->data.file)
+        in[n++] = (input){"", c->data.file, 0};
+    for (size_t k = 0; s && k < s->nglyphs; k++)
+        if (s->glyphs[k]->path)
+            in[n++] = (input){"", s->glyphs[k]->path, 0};
+    for (size_t i = 0; !s && i < c->ncats; i++) {
+        const char *ref = c->cats[i].glyph.text;
+        if (ref && !glyph_is_library_name(ref))
+            in[n++] = (input){c->path, ref, ref[0] == '/' ? 0 : folder_len(c->path)};
+    }
+    return n;
 }
 
 char **ug_chart_inputs(const ug_chart *c, const ug_scene *s)
 {
-    size_t n = 1 + (c->data.present && c->data.file), bytes = strlen(c->path) + 1;
-    if (c->data.present && c->data.file)
-        bytes += strlen(c->data.file) + 1;
-    for (size_t k = 0; s && k < s->nglyphs; k++)
-        if (s->glyphs[k]->path) {
-            n++;
-            bytes += strlen(s->glyphs[k]->path) + 1;
-        }
-    char **list = ug_malloc((n + 1) * sizeof *list + bytes);
-    if (!list)
+    size_t most = 2 + (s ? s->nglyphs : c->ncats);
+    input *in = ug_malloc(most * sizeof *in);
+    if (!in)
         return NULL;
-    char *area = (char *)(list + n + 1);
-    size_t i = 0;
-    list[i++] = put(&area, c->path);
-    if (c->data.present && c->data.file)
-        list[i++] = put(&area, c->data.file);
-    for (size_t k = 0; s && k < s->nglyphs; k++)
-        if (s->glyphs[k]->path)
-            list[i++] = put(&area, s->glyphs[k]->path);
-    list[i] = NULL;
+    size_t n = list_inputs(c, s, in), bytes = 0;
+    for (size_t i = 0; i < n; i++)
+        bytes += in[i].prefix_len + strlen(in[i].name) + 1;
+    char **list = ug_malloc((n + 1) * sizeof *list + bytes);
+    char *area = list ? (char *)(list + n + 1) : NULL;
+    for (size_t i = 0; list && i < n; i++) {
+        list[i] = area;
+        memcpy(area, in[i].prefix, in[i].prefix_len);
+        strcpy(area + in[i].prefix_len, in[i].name);
+        area += in[i].prefix_len + strlen(in[i].name) + 1;
+    }
+    if (list)
+        list[n] = NULL;
+    ug_free(in);
     return list;
 }

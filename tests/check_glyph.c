@@ -199,6 +199,41 @@ START_TEST(test_path_escapes)
 }
 END_TEST
 
+/* The race the walk closes: lay/sub is real when the path is resolved, and a
+** symlink to a folder outside by the time the file is opened. */
+static char swap_lay[300];
+
+static void swap_folder_for_link(const char *path)
+{
+    (void)path;
+    char from[400], to[400];
+    snprintf(from, sizeof from, "%s/sub", swap_lay);
+    snprintf(to, sizeof to, "%s/away", swap_lay);
+    ck_assert_int_eq(rename(from, to), 0);
+    ck_assert_int_eq(symlink("../far", from), 0);
+}
+
+START_TEST(test_folder_swapped_after_resolving)
+{
+    char p[512];
+    make_tmp();
+    snprintf(swap_lay, sizeof swap_lay, "%s/lay", tmp);
+    mkdir(swap_lay, 0755);
+    snprintf(p, sizeof p, "%s/sub", swap_lay), mkdir(p, 0755);
+    snprintf(p, sizeof p, "%s/sub/g.svg", swap_lay), write_text(p, square_svg);
+    snprintf(p, sizeof p, "%s/far", tmp), mkdir(p, 0755);
+    snprintf(p, sizeof p, "%s/far/g.svg", tmp), write_text(p, square_svg);
+    glyph_resolved_hook = swap_folder_for_link;
+    ug_glyph *g = NULL;
+    ug_error err;
+    ug_status st = load_in(swap_lay, "sub/g.svg", &g, &err);
+    glyph_resolved_hook = NULL;
+    ck_assert_msg(st == UG_ESCHEMA, "loaded through the swapped folder: %d (%s)", st, err.msg);
+    ck_assert_msg(strstr(err.msg, "no longer inside"), "%s", err.msg);
+    ck_assert_ptr_null(g);
+}
+END_TEST
+
 START_TEST(test_huge_file)
 {
     char p[512];
@@ -497,6 +532,7 @@ static Suite *glyph_suite(void)
     tcase_add_loop_test(t, test_hostile_corpus, 0, sizeof hostile / sizeof *hostile);
     tcase_add_test(t, test_all_removals_listed);
     tcase_add_test(t, test_path_escapes);
+    tcase_add_test(t, test_folder_swapped_after_resolving);
     tcase_add_test(t, test_huge_file);
     tcase_add_test(t, test_allocation_failures);
     suite_add_tcase(s, t);

@@ -219,4 +219,22 @@ SECONDS=0
 expect 0 "$BIN" draw "$T/w/chart.yaml" -o "$T/w/chart.svg" --watch --watch-timeout 1
 [ $SECONDS -le 4 ] || fail "watch-timeout 1 took ${SECONDS}s"
 
+# a glyph file broken from the start and then fixed is drawn: the watcher
+# watches the glyph files the chart names even when none could be loaded
+mkdir -p "$T/wg/icons"
+printf 'not an svg' > "$T/wg/icons/mark.svg"
+printf 'title: Glyph fixed later (test data)\nsource: test\nunit-label: households\nicon-value: 1\ncategories: [{label: A, count: 12, glyph: icons/mark.svg}]\n' \
+  > "$T/wg/chart.yaml"
+"$BIN" draw "$T/wg/chart.yaml" -o "$T/wg/chart.svg" --watch --watch-limit 1 \
+  --watch-timeout 20 2> "$T/wg/log" &
+pid=$!
+wait_for 10 grep -q "watching" "$T/wg/log" || fail "watch (glyph) did not start"
+[ -e "$T/wg/chart.svg" ] && fail "watch: drew with a broken glyph"
+printf '<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 100 100"><path d="M20 20h60v60h-60z"/></svg>' \
+  > "$T/wg/icons/mark.svg.new"
+mv "$T/wg/icons/mark.svg.new" "$T/wg/icons/mark.svg"
+wait_for 5 test -s "$T/wg/chart.svg" || fail "watch: fixing a broken glyph did not redraw"
+wait_for 5 bash -c "! kill -0 $pid 2>/dev/null" || { fail "watch (glyph) did not stop"; kill $pid; }
+wait $pid
+
 if [ $fails = 0 ]; then echo "suite_cli: all checks passed"; else echo "suite_cli: $fails failure(s)"; exit 1; fi
