@@ -289,6 +289,19 @@ static bool is_hidden_mark(const ug_text_list *marks, const char *field)
 }
 
 /* Read one count cell into category i, group g, refusing a second one. */
+/* A bad count is quoted back only when it looks like a try at a number
+** ("12a", "1,200", "-3"): a field of other text may be from a file that is
+** not the counts at all (a password list), and stays out of the message. */
+static bool number_like(const char *f)
+{
+    size_t n = 0, digits = 0, other = 0;
+    for (; f[n]; n++) {
+        digits += f[n] >= '0' && f[n] <= '9';
+        other += !strchr("0123456789.,+-eE% _'", f[n]);
+    }
+    return n <= 24 && digits > 0 && other <= 2;
+}
+
 static ug_status put_count(reader *r, size_t i, size_t g, const row *w, size_t field)
 {
     ug_category *cat = &r->c->cats[i];
@@ -306,9 +319,13 @@ static ug_status put_count(reader *r, size_t i, size_t g, const row *w, size_t f
         return UG_OK;
     }
     ug_dec_result res = ug_dec_parse(w->f[field], strlen(w->f[field]), &cat->counts[g]);
-    if (res != UG_DEC_OK)
+    if (res != UG_DEC_OK && number_like(w->f[field]))
         return ug_fail(r->err, UG_EDATA, m, "%s (found '%s')", ug_dec_result_text(res),
                        w->f[field]);
+    if (res != UG_DEC_OK)
+        return ug_fail(r->err, UG_EDATA, m, "%s (found %zu bytes of other text, not shown: "
+                       "is this the counts file?)", ug_dec_result_text(res),
+                       strlen(w->f[field]));
     return UG_OK;
 }
 

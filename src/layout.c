@@ -584,17 +584,24 @@ static size_t edit_distance(const char *a, const char *b)
     return row[lb];
 }
 
-static ug_status unknown_key(loader *l, const layout_node *k, const key_rule *t)
+/* The key of t at most 2 edits from key (and less than half of it), if any. */
+static const char *near_key(const char *key, const key_rule *t)
 {
     const char *guess = NULL;
-    size_t best = 3; /* at most 2 edits away, and less than half the key */
+    size_t best = 3;
     for (; t->name; t++) {
-        size_t d = edit_distance(k->text, t->name);
+        size_t d = edit_distance(key, t->name);
         if (d < best && d * 2 < strlen(t->name)) {
             best = d;
             guess = t->name;
         }
     }
+    return guess;
+}
+
+static ug_status unknown_key(loader *l, const layout_node *k, const key_rule *t)
+{
+    const char *guess = near_key(k->text, t);
     if (guess)
         return ug_fail(l->err, UG_ESCHEMA, k->mark,
                        "unknown key '%s' (did you mean '%s'?)", k->text, guess);
@@ -603,6 +610,30 @@ static ug_status unknown_key(loader *l, const layout_node *k, const key_rule *t)
 
 static ug_status walk_map(loader *l, void *base, const layout_node *map,
                           const key_rule *t);
+
+/* A file none of whose top-level keys is one this kind of file has, or a
+** misspelling of one, is some other file (a password list, a config) named by
+** mistake or on purpose: it is refused by name, quoting none of it. */
+static bool is_key_of(const char *key, const key_rule *t)
+{
+    for (; t->name; t++)
+        if (!strcmp(t->name, key))
+            return true;
+    return false;
+}
+
+static ug_status refuse_foreign(const layout_node *root, const key_rule *t,
+                                const char *kind, ug_error *err)
+{
+    if (!root || root->kind != LAYOUT_MAP)
+        return UG_OK;
+    for (const layout_node *k = root->first; k; k = k->next->next)
+        if (near_key(k->text, t) || is_key_of(k->text, t))
+            return UG_OK;
+    return ug_fail(err, UG_ESCHEMA, ug_mark_file(root->mark.file),
+                   "not a %s: none of its top-level keys is one a %s has "
+                   "(nothing of the file is shown here)", kind, kind);
+}
 
 static ug_status read_value(loader *l, void *base, const key_rule *r,
                             const layout_node *v)
@@ -1301,7 +1332,9 @@ static ug_status chart_from_node(ug_chart *c, const layout_node *root, ug_error 
     l.arena = &c->arena;
     l.err = err;
     l.chart = c;
-    ug_status st = walk_map(&l, c, root, chart_keys);
+    ug_status st = refuse_foreign(root, chart_keys, "chart layout", err);
+    if (!st)
+        st = walk_map(&l, c, root, chart_keys);
     return st ? st : finish_chart(&l, c, root);
 }
 
@@ -1626,7 +1659,9 @@ static ug_status fill_page(void *model, const layout_node *root, ug_error *err)
     l.arena = &p->arena;
     l.err = err;
     l.page = p;
-    ug_status st = walk_map(&l, p, root, page_keys);
+    ug_status st = refuse_foreign(root, page_keys, "page layout", err);
+    if (!st)
+        st = walk_map(&l, p, root, page_keys);
     return st ? st : finish_page(p, root, err);
 }
 

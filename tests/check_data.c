@@ -90,7 +90,11 @@ static const csv_case cases[] = {
      "more than 6 decimal places"},
     {WIDE, "ward,adults,kids\nNorth,,2\n", UG_EDATA, 2, 2, false, "empty"},
     {WIDE, "\xEF\xBB\xBFward,adults,kids\nNorth,3,\xC3\xA9\n", UG_EDATA, 2, 3, false,
-     "found '\xC3\xA9'"},
+     "found 2 bytes of other text, not shown"},
+    /* a try at a number is quoted back; other text (a password?) is not */
+    {WIDE, "ward,adults,kids\nNorth,3,12a\n", UG_EDATA, 2, 3, false, "found '12a'"},
+    {WIDE, "ward,adults,kids\nNorth,3,hunter2-pw\n", UG_EDATA, 2, 3, false,
+     "found 10 bytes of other text, not shown"},
     {WIDE, "ward,adults,kids\nNorth,1,\"2\x01\"\n", UG_ESCHEMA, 2, 3, false, "U+0001"},
 };
 

@@ -234,6 +234,12 @@ static const string_case strings[] = {
     {"\xEF\xBB\xBF" ROWS "x: 1\n", UG_ESCHEMA, 3, 1, "unknown key 'x'"},
     {ROWS "categories: [{label: A, count: 1}, {label: \"***\", count: 2}]\n",
      UG_ESCHEMA, 3, 44, "cannot make an id"},
+    /* another kind of file: refused by name, quoting none of it */
+    {"password: hunter2\nuser: root\n", UG_ESCHEMA, 0, 0,
+     "not a chart layout: none of its top-level keys"},
+    {"root:$6$salt$hash:19000:0:99999:7:::\n", UG_ESCHEMA, 0, 0, "not a chart layout"},
+    /* a misspelt key still gets its suggestion */
+    {"titel: x\n", UG_ESCHEMA, 1, 1, "unknown key 'titel' (did you mean 'title'?)"},
 };
 
 START_TEST(test_strings)
@@ -256,6 +262,8 @@ START_TEST(test_strings)
         ck_assert_uint_eq(err.where.column, t->column);
     }
     ck_assert_msg(strstr(err.msg, t->msg), "case %d: '%s'", _i, err.msg);
+    ck_assert_msg(!strstr(err.msg, "hunter2") && !strstr(err.msg, "$6$"),
+                  "case %d quotes the file: '%s'", _i, err.msg);
 }
 END_TEST
 

@@ -169,6 +169,64 @@ while read -r name want; do
   esac
 done < "$H/EXPECT"
 
+# ---- glyph folders (--glyph-dir): the index is read like a layout -------------------
+# A FIFO, deep nesting and an alias bomb as index.yaml: a clean error naming
+# the index, within the caps, never a wait.
+glyph_dir_case() { # glyph_dir_case NAME: the folder $T/gd/NAME holds the index
+  local d=$T/gd/$1
+  n=$((n + 1))
+  cp "$SRC/../../../glyphs/person.svg" "$d/" 2>/dev/null
+  capped "$BIN" glyphs --glyph-dir "$d" > /dev/null 2> err.txt
+  local rc=$?
+  case "$rc" in
+    1) refused=$((refused + 1))
+       grep -q "^$d/index.yaml" err.txt || fail "glyph index $1: $(head -c 300 err.txt)" ;;
+    124|137) fail "glyph index $1: over the $SECS s cap" ;;
+    *) fail "glyph index $1: exit $rc: $(head -c 300 err.txt)" ;;
+  esac
+}
+mkdir -p "$T/gd/fifo" "$T/gd/nested" "$T/gd/aliases" "$T/gd/big"
+mkfifo "$T/gd/fifo/index.yaml"
+glyph_dir_case fifo
+{ head -c 500000 /dev/zero | tr '\0' '['; } > "$T/gd/nested/index.yaml"
+glyph_dir_case nested
+{ echo '- &a {name: person, keywords: [x, x, x, x, x, x, x, x, x, x]}'
+  for i in $(seq 1 9); do echo "- &b$i [*a, *a, *a, *a, *a, *a, *a, *a, *a]"; done
+  seq 1 261000 | sed 's/.*/- *a/'; } > "$T/gd/aliases/index.yaml"
+glyph_dir_case aliases
+head -c 2000000 /dev/zero | tr '\0' '#' > "$T/gd/big/index.yaml"
+glyph_dir_case big
+
+# ---- foreign files named by a layout ----------------------------------------------
+# A page panel or a chart's data file naming a file that is no layout or CSV
+# (a shadow-style password line, a credentials file): refused by its name,
+# and nothing of its content reaches the message.
+mkdir -p foreign
+printf 'root:$6$s3cr3tSalt$HashOfThePassword:19000:0:99999:7:::\n' > foreign/shadow
+printf 'password: hunter2-s3cr3t\napi_key: s3cr3t-key\n' > foreign/creds.yaml
+printf 'user,password\nalice,hunter2-s3cr3t\n' > foreign/creds.csv
+foreign_case() { # foreign_case NAME LAYOUT-TEXT
+  printf '%s\n' "$2" > "foreign/$1.yaml"
+  n=$((n + 1))
+  capped "$BIN" draw "foreign/$1.yaml" -o foreign/out.svg 2> err.txt
+  local rc=$?
+  [ "$rc" = 1 ] || fail "foreign $1: exit $rc: $(head -c 300 err.txt)"
+  grep -q 's3cr3t\|hunter2\|HashOf' err.txt && fail "foreign $1: the message quotes the file: $(cat err.txt)"
+  [ -s err.txt ] || fail "foreign $1: refused without a message"
+  refused=$((refused + 1))
+}
+for f in shadow creds.yaml; do
+  foreign_case "panel_$f" "page: {size: a4}
+title: Foreign panel (test data)
+panels:
+  - chart: $f"
+done
+for f in shadow creds.yaml creds.csv; do
+  foreign_case "data_$f" "$HEAD
+data: {file: $f, group-column: user}
+categories: [{label: A, column: password}]"
+done
+
 # Every committed layout is listed, so a new one cannot go unchecked.
 for f in "$SRC"/*.yaml; do
   grep -q "^$(basename "$f" .yaml) " "$SRC/EXPECT" || fail "$(basename "$f") is not in EXPECT"
