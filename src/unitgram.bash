@@ -14,7 +14,7 @@ _unitgram()
         return
     fi
     case $prev in
-        --watch-limit|--watch-timeout|--max-icons|--max-input-bytes|--max-panels)
+        --dpi|--scale|--watch-limit|--watch-timeout|--max-icons|--max-input-bytes|--max-panels)
             return ;;
         -o|--output|--each-row|--sheet|--check)
             COMPREPLY=($(compgen -f -- "$cur")); return ;;
