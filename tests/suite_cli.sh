@@ -227,6 +227,47 @@ fi
 expect 0 "$BIN" init
 grep -q '^title:' "$T/out" || fail "init to stdout"
 
+# ---- init never replaces what is at -o FILE unless --replace says so; the
+# refusal comes from creating the file (O_EXCL, link), so nothing blocks on
+# a FIFO and a dangling symlink counts as there
+mkdir "$T/i"
+printf 'my own work\n' > "$T/i/mine.yaml"
+cp "$T/i/mine.yaml" "$T/i/mine.orig"
+expect 4 "$BIN" init -o "$T/i/mine.yaml"
+cmp -s "$T/i/mine.yaml" "$T/i/mine.orig" || fail "init changed an existing file"
+grep -q "mine.yaml: error: a file is there already.*--replace" "$T/err" \
+  || fail "init over a file: $(cat "$T/err")"
+expect 4 "$BIN" init --page -o "$T/i/mine.yaml"
+cmp -s "$T/i/mine.yaml" "$T/i/mine.orig" || fail "init --page changed an existing file"
+expect 0 "$BIN" init -o "$T/i/mine.yaml" --replace
+grep -q '^title:' "$T/i/mine.yaml" || fail "init --replace did not replace the file"
+"$BIN" init > "$T/i/starter.ref"
+cmp -s "$T/i/mine.yaml" "$T/i/starter.ref" || fail "init --replace wrote something else"
+mkfifo "$T/i/fifo"
+SECONDS=0
+timeout 5 "$BIN" init -o "$T/i/fifo" > /dev/null 2> "$T/err"; rc=$?
+[ $rc = 4 ] || fail "init onto a FIFO exited $rc (124: it blocked)"
+grep -q "a FIFO is there" "$T/err" || fail "init onto a FIFO: $(cat "$T/err")"
+timeout 5 "$BIN" init --replace -o "$T/i/fifo" > /dev/null 2> "$T/err"; rc=$?
+[ $rc = 4 ] || fail "init --replace onto a FIFO exited $rc (124: it blocked)"
+[ -p "$T/i/fifo" ] || fail "init replaced the FIFO"
+ln -s "$T/i/nowhere.yaml" "$T/i/dangling.yaml"
+expect 4 "$BIN" init -o "$T/i/dangling.yaml"
+grep -q "dangling symbolic link" "$T/err" || fail "init onto a dangling symlink: $(cat "$T/err")"
+[ -e "$T/i/nowhere.yaml" ] && fail "init wrote through a dangling symlink"
+ln -s mine.orig "$T/i/link.yaml"
+expect 4 "$BIN" init -o "$T/i/link.yaml"
+expect 4 "$BIN" init --replace -o "$T/i/link.yaml"
+cmp -s "$T/i/mine.orig" <(printf 'my own work\n') || fail "init wrote through a symlink"
+[ -L "$T/i/link.yaml" ] || fail "init replaced a symlink"
+expect 4 "$BIN" init -o "$T/i"
+expect 2 "$BIN" init --replace
+expect 0 "$BIN" init -o "$T/i/new.yaml"
+cmp -s "$T/i/new.yaml" "$T/i/starter.ref" || fail "init -o a new file"
+# nothing but what the tests made: no temporary file left behind
+[ "$(ls -A "$T/i" | tr '\n' ' ')" = "dangling.yaml fifo link.yaml mine.orig mine.yaml new.yaml starter.ref " ] \
+  || fail "init left files behind: $(ls -A "$T/i")"
+
 # ---- --watch redraws on change, survives a broken edit, handles rename-saves
 mkdir -p "$T/w"
 cp layouts/pantry.yaml "$T/w/chart.yaml"
