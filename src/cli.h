@@ -59,6 +59,14 @@ void cli_clean_up_on_signals(void);
 ** value is missing. */
 int cli_option(const char *cmd, int argc, char **argv, int *i, const char *lng,
                const char *shrt, const char **val);
+/* A number option ("--name VALUE" as cli_option) whose value must be a
+** finite decimal number from lo to hi, and a whole one when whole; the range
+** check comes before any conversion, so no value can overflow the type it
+** ends up in. Returns 1 with *out set, 0 when argv[*i] is another argument,
+** -1 after a usage error naming the option and its range. */
+int cli_number_option(const char *cmd, int argc, char **argv, int *i,
+                      const char *lng, double lo, double hi, bool whole,
+                      double *out);
 /* "-h" or "--help". */
 bool cli_is_help(const char *arg);
 
@@ -95,6 +103,7 @@ typedef struct {
     bool watch;
     long watch_limit;        /* redraws before exiting; 0: no limit */
     double watch_timeout;    /* seconds before exiting; 0: no limit */
+    const char *watch_option; /* the first --watch-* option given */
     bool quiet;              /* no progress bar or summary */
     double dpi, scale;       /* PNG and PDF (raster.c); 0: 96 dpi, scale 1 */
     bool strict;             /* audit findings stop the drawing (exit 3) */

@@ -4,6 +4,7 @@
 */
 #include <stdarg.h>
 #include <errno.h>
+#include <math.h>
 #include <signal.h>
 #include <stdint.h>
 #include <stdio.h>
@@ -87,6 +88,46 @@ int cli_option(const char *cmd, int argc, char **argv, int *i, const char *lng,
     }
     *val = argv[++*i];
     return 1;
+}
+
+/* Digits, at most one point, an optional exponent: the only text handed to
+** strtod, which would also take hex, "nan", "inf" and leading blanks. */
+static bool decimal_text(const char *s, bool whole)
+{
+    static const char digits[] = "0123456789";
+    const char *p = s + strspn(s, digits);
+    bool mantissa = p > s;
+    if (!whole && *p == '.') {
+        const char *q = p + 1 + strspn(p + 1, digits);
+        mantissa = mantissa || q > p + 1;
+        p = q;
+    }
+    if (!whole && mantissa && (*p == 'e' || *p == 'E')) {
+        p += 1 + (p[1] == '+' || p[1] == '-');
+        size_t n = strspn(p, digits);
+        if (!n)
+            return false;
+        p += n;
+    }
+    return mantissa && *p == '\0';
+}
+
+int cli_number_option(const char *cmd, int argc, char **argv, int *i,
+                      const char *lng, double lo, double hi, bool whole,
+                      double *out)
+{
+    const char *v = NULL;
+    int m = cli_option(cmd, argc, argv, i, lng, NULL, &v);
+    if (m <= 0)
+        return m;
+    double x = decimal_text(v, whole) ? strtod(v, NULL) : NAN;
+    if (isfinite(x) && x >= lo && x <= hi) {
+        *out = x;
+        return 1;
+    }
+    cli_usage(cmd, "%s expects %s from %.15g to %.15g (found '%s')", lng,
+              whole ? "a whole number" : "a number", lo, hi, v);
+    return -1;
 }
 
 /* Set by --max-icons, --max-input-bytes and --max-panels; zeros are the

@@ -12,6 +12,26 @@
 
 #include "cli.h"
 
+/* Every number option's range is checked before the value is converted
+** (a double far out of range cast to long is undefined) and stated in
+** --help. --dpi and --scale run from about a tenth of the default to 25
+** times it: below, a chart comes out a few pixels wide (800 px at 10 dpi is
+** 84 pixels); above, raster.c's own limits (32767 pixels a side, 100
+** megapixels, a 14400 pt page) refuse almost any chart anyway. */
+#define DPI_MIN 10
+#define DPI_MAX 2400
+#define SCALE_MIN 0.1
+#define SCALE_MAX 25
+/* A count that fits a long everywhere; a year of seconds; poll(2) counts
+** whole milliseconds, so nothing shorter is meant. */
+#define WATCH_LIMIT_MAX 1000000000
+#define WATCH_TIMEOUT_MIN 0.001
+#define WATCH_TIMEOUT_MAX 31536000
+
+/* The ranges above, as --help prints them. */
+#define STR_(x) #x
+#define STR(x) STR_(x)
+
 static const char draw_help[] =
     "usage: unitgram draw LAYOUT -o OUT [OPTIONS]\n"
     "       unitgram draw TEMPLATE --each-row COUNTS.csv -o 'DIR/{group}.svg'\n"
@@ -24,9 +44,10 @@ static const char draw_help[] =
     "  -o, --output FILE     where to write; '-' writes to standard output\n"
     "  --format FORMAT       svg, png, pdf or html; svg is the default for '-',\n"
     "                        otherwise the extension of FILE decides\n"
-    "  --dpi N               PNG resolution in pixels per inch (default 96, one\n"
-    "                        pixel per CSS px); PDF and SVG are vector\n"
-    "  --scale N             enlarge PNG and PDF by N (default 1)\n"
+    "  --dpi N               PNG resolution in pixels per inch, " STR(DPI_MIN) " to " STR(DPI_MAX) "\n"
+    "                        (default 96, one pixel per CSS px); PDF and SVG\n"
+    "                        are vector\n"
+    "  --scale N             enlarge PNG and PDF by N, " STR(SCALE_MIN) " to " STR(SCALE_MAX) " (default 1)\n"
     "  --glyph-dir DIR       also look for glyphs in DIR (repeatable)\n"
     "  --each-row CSV        draw one chart per row of CSV: the row's group-column\n"
     "                        value (or first column) names it and replaces {group}\n"
@@ -37,8 +58,9 @@ static const char draw_help[] =
     "  --quiet               no progress bar or summary line (--each-row)\n"
     "  --watch               redraw whenever the layout, its CSV or a glyph file\n"
     "                        changes; a broken edit keeps the last good picture\n"
-    "  --watch-limit N       with --watch: exit after N redraws\n"
-    "  --watch-timeout SECS  with --watch: exit after SECS seconds\n"
+    "  --watch-limit N       with --watch: exit after N redraws (1 to " STR(WATCH_LIMIT_MAX) ")\n"
+    "  --watch-timeout SECS  with --watch: exit after SECS seconds (" STR(WATCH_TIMEOUT_MIN) " to\n"
+    "                        " STR(WATCH_TIMEOUT_MAX) ", a year)\n"
     "  --max-icons N         refuse charts of more than N icons (default 100000,\n"
     "                        at most 10000000)\n"
     "  --max-input-bytes N   refuse layout or CSV files larger than N bytes\n"
@@ -88,28 +110,33 @@ static int load(const char *path, loaded *l, ug_error *err)
 
 /* ---- options (the new ones are read here; their work is elsewhere) ---- */
 
-static int parse_number(const char *v, double *out)
+static int number_option(int argc, char **argv, int *i, cli_draw_opts *o)
 {
-    char *end;
-    *out = strtod(v, &end);
-    return *v && !*end && *out >= 0 ? 0 : cli_usage("draw", "'%s' is not a number", v);
-}
-
-static int parse_factor(const char *opt, const char *v, double *out)
-{
-    if (parse_number(v, out))
-        return EXIT_USAGE;
-    if (!(*out > 0) || *out > 1e6)
-        return cli_usage("draw", "%s wants a positive number, not '%s'", opt, v);
-    return EXIT_OK;
+    double v = 0;
+    int m;
+    if ((m = cli_number_option("draw", argc, argv, i, "--dpi", DPI_MIN, DPI_MAX,
+                               false, &o->dpi)) ||
+        (m = cli_number_option("draw", argc, argv, i, "--scale", SCALE_MIN,
+                               SCALE_MAX, false, &o->scale)))
+        return m;
+    if ((m = cli_number_option("draw", argc, argv, i, "--watch-limit", 1,
+                               WATCH_LIMIT_MAX, true, &v)) > 0)
+        o->watch_limit = (long)v;
+    if (m)
+        return o->watch_option = "--watch-limit", m;
+    if ((m = cli_number_option("draw", argc, argv, i, "--watch-timeout",
+                               WATCH_TIMEOUT_MIN, WATCH_TIMEOUT_MAX, false,
+                               &o->watch_timeout)))
+        o->watch_option = "--watch-timeout";
+    return m;
 }
 
 static int draw_option(int argc, char **argv, int *i, cli_draw_opts *o)
 {
     const char *v = NULL;
-    double num = 0;
     int m;
-    if ((m = cli_limit_option("draw", argc, argv, i)))
+    if ((m = cli_limit_option("draw", argc, argv, i)) ||
+        (m = number_option(argc, argv, i, o)))
         return m < 0 ? EXIT_USAGE : 0;
     if ((m = cli_option("draw", argc, argv, i, "--output", "-o", &o->out)))
         return m < 0 ? EXIT_USAGE : 0;
@@ -117,26 +144,12 @@ static int draw_option(int argc, char **argv, int *i, cli_draw_opts *o)
         return m < 0 ? EXIT_USAGE : 0;
     if ((m = cli_option("draw", argc, argv, i, "--each-row", NULL, &o->each_row)))
         return m < 0 ? EXIT_USAGE : 0;
-    if ((m = cli_option("draw", argc, argv, i, "--dpi", NULL, &v)))
-        return m < 0 ? EXIT_USAGE : parse_factor("--dpi", v, &o->dpi);
-    if ((m = cli_option("draw", argc, argv, i, "--scale", NULL, &v)))
-        return m < 0 ? EXIT_USAGE : parse_factor("--scale", v, &o->scale);
     if ((m = cli_option("draw", argc, argv, i, "--glyph-dir", NULL, &v))) {
         if (m > 0 && o->nglyph_dirs == CLI_MAX_DIRS)
             return cli_usage("draw", "at most %d --glyph-dir folders", CLI_MAX_DIRS);
         if (m > 0)
             o->glyph_dirs[o->nglyph_dirs++] = v;
         return m < 0 ? EXIT_USAGE : 0;
-    }
-    if ((m = cli_option("draw", argc, argv, i, "--watch-limit", NULL, &v))) {
-        int rc = m < 0 ? EXIT_USAGE : parse_number(v, &num);
-        o->watch_limit = (long)num;
-        return rc;
-    }
-    if ((m = cli_option("draw", argc, argv, i, "--watch-timeout", NULL, &v))) {
-        int rc = m < 0 ? EXIT_USAGE : parse_number(v, &num);
-        o->watch_timeout = num;
-        return rc;
     }
     if (cli_option("draw", argc, argv, i, "--watch", NULL, NULL))
         return o->watch = true, 0;
@@ -158,8 +171,8 @@ static int check_draw(const cli_draw_opts *o)
     if (o->watch && (!strcmp(o->layout, "-") || !strcmp(o->out, "-")))
         return cli_usage("draw", "--watch needs a layout file and an output file, "
                                  "not '-'");
-    if ((o->watch_limit || o->watch_timeout) && !o->watch)
-        return cli_usage("draw", "--watch-limit and --watch-timeout go with --watch");
+    if (o->watch_option && !o->watch)
+        return cli_usage("draw", "%s only works with --watch", o->watch_option);
     if (o->each_row && !strstr(o->out, "{group}"))
         return cli_usage("draw", "with --each-row, -o must contain {group} "
                                  "(for instance 'out/{group}.svg')");

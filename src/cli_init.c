@@ -1,29 +1,160 @@
 /*
 ** `unitgram init`: write a commented starter layout (or page file).
+**
+** A starter is written to a path the user has just named, often one they have
+** forgotten holds their work, so nothing already there is replaced unless
+** --replace says so. "Already there" is decided by the kernel when the file is
+** created, not by a look beforehand: a check-then-write leaves a gap another
+** process can fill, and fopen(..., "r") cannot see a dangling symlink or a file
+** it may not read, and blocks on a FIFO.
 */
+#include <errno.h>
+#include <fcntl.h>
+#include <limits.h>
 #include <stdio.h>
 #include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
 
 #include "cli.h"
+
+/* O_EXCL refuses any name already there, a dangling symlink included;
+** O_NOFOLLOW and O_NONBLOCK keep even a wrong guess about that from following
+** a link or waiting for a FIFO's reader. */
+#define NEW_FILE (O_CREAT | O_EXCL | O_WRONLY | O_NOFOLLOW | O_NONBLOCK | O_CLOEXEC)
 
 static void help(FILE *to)
 {
     fprintf(to,
-            "usage: unitgram init [--page] [-o FILE]\n"
+            "usage: unitgram init [--page] [-o FILE [--replace]]\n"
             "\n"
             "Write a commented starter layout that draws as it is.\n"
             "\n"
             "options:\n"
             "  --page                a one-page handout file instead of a chart\n"
-            "  -o, --output FILE     where to write (default: standard output); an\n"
-            "                        existing file is never overwritten (exit 4)\n"
+            "  -o, --output FILE     where to write (default: standard output); when\n"
+            "                        anything is at FILE already (a file, a folder, a\n"
+            "                        symlink, even a dangling one, a FIFO) it is left\n"
+            "                        as it was and nothing is written (exit 4)\n"
+            "  --replace             replace FILE when it is a regular file (written\n"
+            "                        to a temporary file and renamed over it)\n"
             "  -h, --help            show this help\n"
             "\n" CLI_EXIT_CODES);
+}
+
+static int write_all(int fd, const char *text, size_t len)
+{
+    while (len) {
+        ssize_t n = write(fd, text, len);
+        if (n < 0 && errno == EINTR)
+            continue;
+        if (n <= 0)
+            return n < 0 ? errno : EIO;
+        text += n;
+        len -= (size_t)n;
+    }
+    return 0;
+}
+
+/* The text as a new file at path, removed again when it could not be written
+** whole. Returns 0 or an errno value. */
+static int write_new(const char *path, const char *text)
+{
+    int fd = open(path, NEW_FILE, 0666);
+    if (fd < 0)
+        return errno;
+    int e = write_all(fd, text, strlen(text));
+    if (!e && fsync(fd))
+        e = errno;
+    if (close(fd) && !e)
+        e = errno;
+    if (e)
+        unlink(path);
+    return e;
+}
+
+/* Written beside path first, then link(2)ed into place: link never replaces
+** (EEXIST for any name there), and a reader sees the whole file or none.
+** File systems without hard links (FAT, some network ones) get the file
+** written in place, still exclusively. Returns 0 or an errno value. */
+static int create_new(const char *path, const char *text)
+{
+    char tmp[PATH_MAX];
+    int e = EEXIST;
+    for (unsigned k = 0; e == EEXIST && k < 100; k++) {
+        if (snprintf(tmp, sizeof tmp, "%s.init%ld-%u", path, (long)getpid(), k) >=
+            (int)sizeof tmp)
+            return ENAMETOOLONG;
+        e = write_new(tmp, text);
+    }
+    if (e)
+        return e;
+    e = link(tmp, path) ? errno : 0;
+    unlink(tmp);
+    if (e == EPERM || e == EOPNOTSUPP)
+        e = write_new(path, text);
+    return e;
+}
+
+/* What stands at path, for the message that leaves it alone. */
+static const char *what_is(const char *path)
+{
+    struct stat sb;
+    if (lstat(path, &sb) != 0)
+        return "something";
+    if (S_ISLNK(sb.st_mode))
+        return stat(path, &sb) == 0 ? "a symbolic link" : "a dangling symbolic link";
+    if (S_ISFIFO(sb.st_mode))
+        return "a FIFO";
+    if (S_ISDIR(sb.st_mode))
+        return "a folder";
+    return S_ISREG(sb.st_mode) ? "a file" : "a special file";
+}
+
+static int write_starter(const char *out, const char *text)
+{
+    int e = create_new(out, text);
+    if (e == EEXIST) {
+        fprintf(stderr, "%s: error: %s is there already; left as it was "
+                        "(give --replace to replace a file)\n", out, what_is(out));
+        return EXIT_OUTPUT;
+    }
+    if (e) {
+        fprintf(stderr, "%s: error: cannot create: %s\n", out, strerror(e));
+        return EXIT_OUTPUT;
+    }
+    return EXIT_OK;
+}
+
+/* Standard output, or a file replaced by rename. */
+static int write_atomic(const char *out, const char *text)
+{
+    ug_error err = {0};
+    if (ug_write_file_atomic(out, text, strlen(text), &err)) {
+        cli_report_error(&err);
+        return EXIT_OUTPUT;
+    }
+    return EXIT_OK;
+}
+
+/* --replace: only a regular file (or nothing) at out. The atomic writer
+** writes into a FIFO or device in place, which can block, and would rename
+** over a symlink rather than replace what it names. */
+static int replace_starter(const char *out, const char *text)
+{
+    struct stat sb;
+    if (lstat(out, &sb) == 0 && !S_ISREG(sb.st_mode)) {
+        fprintf(stderr, "%s: error: %s is there; --replace replaces only a "
+                        "regular file\n", out, what_is(out));
+        return EXIT_OUTPUT;
+    }
+    return write_atomic(out, text);
 }
 
 int cli_init(int argc, char **argv)
 {
     int page = 0, m;
+    bool replace = false;
     const char *out = "-";
     for (int i = 1; i < argc; i++) {
         if (cli_is_help(argv[i])) {
@@ -31,6 +162,8 @@ int cli_init(int argc, char **argv)
             return EXIT_OK;
         } else if (!strcmp(argv[i], "--page")) {
             page = 1;
+        } else if (!strcmp(argv[i], "--replace")) {
+            replace = true;
         } else if ((m = cli_option("init", argc, argv, &i, "--output", "-o", &out))) {
             if (m < 0)
                 return EXIT_USAGE;
@@ -38,17 +171,10 @@ int cli_init(int argc, char **argv)
             return cli_usage("init", "unexpected argument '%s'", argv[i]);
         }
     }
-    FILE *existing = strcmp(out, "-") ? fopen(out, "r") : NULL;
-    if (existing) {
-        fclose(existing);
-        fprintf(stderr, "%s: error: already exists; not overwritten\n", out);
-        return EXIT_OUTPUT;
-    }
+    if (replace && !strcmp(out, "-"))
+        return cli_usage("init", "--replace needs -o FILE");
     const char *text = ug_starter_layout(page);
-    ug_error err = {0};
-    if (ug_write_file_atomic(out, text, strlen(text), &err)) {
-        cli_report_error(&err);
-        return EXIT_OUTPUT;
-    }
-    return EXIT_OK;
+    if (!strcmp(out, "-"))
+        return write_atomic(out, text);
+    return replace ? replace_starter(out, text) : write_starter(out, text);
 }

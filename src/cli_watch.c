@@ -22,6 +22,7 @@
 #include "cli.h"
 
 #define DEBOUNCE_MS 150
+#define POLL_MAX_MS 60000
 #define MAX_FILES 64
 #define EVENTS (IN_CLOSE_WRITE | IN_MOVED_TO | IN_CREATE | IN_MODIFY)
 
@@ -98,7 +99,9 @@ static bool drain(const watcher *w)
 }
 
 /* Wait for a change to a watched file and for the burst to settle; false
-** when the deadline (0: none) passes first. */
+** when the deadline (0: none) passes first. One poll waits at most
+** POLL_MAX_MS and the loop asks again, so the milliseconds left of a long
+** --watch-timeout are never forced into an int. */
 static bool wait_change(const watcher *w, double deadline)
 {
     struct pollfd pfd = {w->fd, POLLIN, 0};
@@ -109,7 +112,8 @@ static bool wait_change(const watcher *w, double deadline)
             double left = (deadline - cli_now()) * 1000;
             if (left <= 0)
                 return false;
-            ms = ms < 0 || left < ms ? (int)left + 1 : ms;
+            int cap = left < POLL_MAX_MS ? (int)left + 1 : POLL_MAX_MS;
+            ms = ms < 0 || cap < ms ? cap : ms;
         }
         int r = poll(&pfd, 1, ms);
         if (r < 0 && errno != EINTR)

@@ -14,7 +14,7 @@ _unitgram()
         return
     fi
     case $prev in
-        --watch-limit|--watch-timeout|--max-icons|--max-input-bytes|--max-panels)
+        --dpi|--scale|--watch-limit|--watch-timeout|--max-icons|--max-input-bytes|--max-panels)
             return ;;
         -o|--output|--each-row|--sheet|--check)
             COMPREPLY=($(compgen -f -- "$cur")); return ;;
@@ -35,7 +35,7 @@ _unitgram()
                 audit) COMPREPLY=($(compgen -W "--strict --format --max-icons --max-input-bytes --max-panels --help" -- "$cur")) ;;
                 describe) COMPREPLY=($(compgen -W "--max-icons --max-input-bytes --max-panels --help" -- "$cur")) ;;
                 glyphs) COMPREPLY=($(compgen -W "--sheet --check --glyph-dir --help" -- "$cur")) ;;
-                init) COMPREPLY=($(compgen -W "--page -o --output --help" -- "$cur")) ;;
+                init) COMPREPLY=($(compgen -W "--page -o --output --replace --help" -- "$cur")) ;;
                 *) COMPREPLY=($(compgen -W "--help" -- "$cur")) ;;
             esac ;;
         *)

@@ -48,6 +48,42 @@ expect 2 "$BIN" draw -o "$T/x.svg"
 expect 2 "$BIN" draw layouts/pantry.yaml -o "$T/x.unknown"
 expect 2 "$BIN" draw layouts/pantry.yaml -o "$T/x.svg" --format bmp
 expect 2 "$BIN" draw layouts/pantry.yaml -o "$T/x.svg" --watch-limit 2
+expect 2 "$BIN" draw layouts/pantry.yaml -o "$T/x.svg" --watch-timeout 5
+grep -q -- "--watch-timeout only works with --watch" "$T/err" || fail "lone --watch-timeout: $(cat "$T/err")"
+
+# ---- number options: the range is checked before any conversion (the
+# sanitized pass has -fsanitize=float-cast-overflow), the error names the
+# option and its range, and nothing is written
+# range: option lo hi values...; each value must be refused with exit 2
+refuse_range() {
+  local opt=$1 lo=$2 hi=$3 v; shift 3
+  for v in "$@"; do
+    expect 2 "$BIN" draw layouts/pantry.yaml -o "$T/range.png" --watch "$opt" "$v"
+    grep -qF -- "$opt expects" "$T/err" && grep -qF "from $lo to $hi (found '$v')" "$T/err" \
+      || fail "$opt $v: $(head -c 200 "$T/err")"
+  done
+}
+refuse_range --watch-limit 1 1000000000 1e30 1e300 2.5 0 -1 1000000001 nan inf ' 3' 0x10 ''
+refuse_range --watch-timeout 0.001 31536000 1e300 1e30 0 -1 31536001 nan inf NaN 0x1p4 1e
+refuse_range --dpi 10 2400 1e-300 0 9.99 2401 1e30 nan inf -96 0x60 96px
+refuse_range --scale 0.1 25 1e-300 0 0.09 25.5 1e300 nan -inf .
+[ -e "$T/range.png" ] && fail "an out-of-range option wrote its output"
+expect 2 "$BIN" draw layouts/pantry.yaml -o "$T/range.png" --watch-limit=1e30
+grep -qF "from 1 to 1000000000" "$T/err" || fail "--watch-limit=1e30: $(cat "$T/err")"
+# the ends of each range are accepted
+for a in "--dpi 10" "--dpi 2400 --format pdf" "--scale 0.1" "--scale 1e-1" "--scale .5"; do
+  # shellcheck disable=SC2086
+  expect 0 "$BIN" draw layouts/pantry.yaml -o "$T/range.png" $a
+done
+expect 0 "$BIN" draw layouts/pantry.yaml -o "$T/range.png" --scale 25 --dpi 10
+expect 0 "$BIN" draw layouts/pantry.yaml -o "$T/range.svg" --watch --watch-limit 1000000000 \
+  --watch-timeout 0.001
+"$BIN" draw layouts/pantry.yaml -o "$T/range.svg" --watch --watch-timeout 31536000 \
+  --watch-limit 1 < /dev/null 2> "$T/long.err" &
+long_watch=$!
+sleep 1
+kill -0 $long_watch 2> /dev/null || fail "--watch-timeout 31536000 stopped: $(cat "$T/long.err")"
+kill $long_watch 2> /dev/null; wait $long_watch 2> /dev/null
 expect 4 "$BIN" draw layouts/pantry.yaml -o "$T/no/such/folder/x.svg"
 expect 4 "$BIN" draw layouts/pantry.yaml -o /proc/unitgram-test.svg
 [ -e "$T/x.svg" ] && fail "a failed draw wrote its output"
@@ -190,6 +226,47 @@ else
 fi
 expect 0 "$BIN" init
 grep -q '^title:' "$T/out" || fail "init to stdout"
+
+# ---- init never replaces what is at -o FILE unless --replace says so; the
+# refusal comes from creating the file (O_EXCL, link), so nothing blocks on
+# a FIFO and a dangling symlink counts as there
+mkdir "$T/i"
+printf 'my own work\n' > "$T/i/mine.yaml"
+cp "$T/i/mine.yaml" "$T/i/mine.orig"
+expect 4 "$BIN" init -o "$T/i/mine.yaml"
+cmp -s "$T/i/mine.yaml" "$T/i/mine.orig" || fail "init changed an existing file"
+grep -q "mine.yaml: error: a file is there already.*--replace" "$T/err" \
+  || fail "init over a file: $(cat "$T/err")"
+expect 4 "$BIN" init --page -o "$T/i/mine.yaml"
+cmp -s "$T/i/mine.yaml" "$T/i/mine.orig" || fail "init --page changed an existing file"
+expect 0 "$BIN" init -o "$T/i/mine.yaml" --replace
+grep -q '^title:' "$T/i/mine.yaml" || fail "init --replace did not replace the file"
+"$BIN" init > "$T/i/starter.ref"
+cmp -s "$T/i/mine.yaml" "$T/i/starter.ref" || fail "init --replace wrote something else"
+mkfifo "$T/i/fifo"
+SECONDS=0
+timeout 5 "$BIN" init -o "$T/i/fifo" > /dev/null 2> "$T/err"; rc=$?
+[ $rc = 4 ] || fail "init onto a FIFO exited $rc (124: it blocked)"
+grep -q "a FIFO is there" "$T/err" || fail "init onto a FIFO: $(cat "$T/err")"
+timeout 5 "$BIN" init --replace -o "$T/i/fifo" > /dev/null 2> "$T/err"; rc=$?
+[ $rc = 4 ] || fail "init --replace onto a FIFO exited $rc (124: it blocked)"
+[ -p "$T/i/fifo" ] || fail "init replaced the FIFO"
+ln -s "$T/i/nowhere.yaml" "$T/i/dangling.yaml"
+expect 4 "$BIN" init -o "$T/i/dangling.yaml"
+grep -q "dangling symbolic link" "$T/err" || fail "init onto a dangling symlink: $(cat "$T/err")"
+[ -e "$T/i/nowhere.yaml" ] && fail "init wrote through a dangling symlink"
+ln -s mine.orig "$T/i/link.yaml"
+expect 4 "$BIN" init -o "$T/i/link.yaml"
+expect 4 "$BIN" init --replace -o "$T/i/link.yaml"
+cmp -s "$T/i/mine.orig" <(printf 'my own work\n') || fail "init wrote through a symlink"
+[ -L "$T/i/link.yaml" ] || fail "init replaced a symlink"
+expect 4 "$BIN" init -o "$T/i"
+expect 2 "$BIN" init --replace
+expect 0 "$BIN" init -o "$T/i/new.yaml"
+cmp -s "$T/i/new.yaml" "$T/i/starter.ref" || fail "init -o a new file"
+# nothing but what the tests made: no temporary file left behind
+[ "$(ls -A "$T/i" | tr '\n' ' ')" = "dangling.yaml fifo link.yaml mine.orig mine.yaml new.yaml starter.ref " ] \
+  || fail "init left files behind: $(ls -A "$T/i")"
 
 # ---- --watch redraws on change, survives a broken edit, handles rename-saves
 mkdir -p "$T/w"
