@@ -86,6 +86,20 @@ ug_status ug_page_load_string(const char *text, size_t len, const char *name,
                               ug_error *err);
 void ug_page_free(ug_page *page);
 
+/* Which loader a layout file is for, decided as the loaders decide it: a
+** page when the top-level mapping has a `page` key, however it is written
+** (block or flow style, quoted, after a byte-order mark); a `page:` inside a
+** comment or a string is text. Anything else (a top that is not a mapping,
+** say) is a chart, for ug_chart_load to explain. The file is read and parsed
+** with the loaders' reader and limits; charts a page names and CSV files are
+** not read. On an error *out is UG_LAYOUT_CHART. */
+typedef enum { UG_LAYOUT_CHART, UG_LAYOUT_PAGE } ug_layout_kind;
+ug_status ug_layout_detect(const char *path, const ug_limits *limits,
+                           ug_layout_kind *out, ug_error *err);
+ug_status ug_layout_detect_string(const char *text, size_t len, const char *name,
+                                  const ug_limits *limits, ug_layout_kind *out,
+                                  ug_error *err);
+
 /* ---- allocation: counts -> whole icons (FORMAT.md §3) ------------------ */
 
 typedef struct ug_allocation ug_allocation;

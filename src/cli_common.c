@@ -8,7 +8,6 @@
 #include <signal.h>
 #include <stdint.h>
 #include <stdio.h>
-#include <sys/stat.h>
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
@@ -205,23 +204,16 @@ static char *read_stdin(size_t *len)
     return buf;
 }
 
-/* A page file has a top-level `page:` key, which in block style starts a
-** line; the loader refuses the wrong kind with a message saying so.
-** Only a regular file is looked at, and no further than the input limit: a
-** FIFO or a device is left for the loader to refuse. */
+/* Standard input is read once, by the chart loader, so it is always a
+** chart. A file that cannot be read or parsed counts as a chart too: loading
+** it then reports why, in the same words. */
 bool cli_is_page_file(const char *path)
 {
-    struct stat sb;
-    bool regular = strcmp(path, "-") && stat(path, &sb) == 0 && S_ISREG(sb.st_mode);
-    FILE *f = regular ? fopen(path, "r") : NULL;
-    size_t max = cli_limits()->max_file_bytes ? cli_limits()->max_file_bytes : (4u << 20);
-    char line[256];
-    bool page = false;
-    while (f && !page && ftell(f) <= (long)max && fgets(line, sizeof line, f))
-        page = strncmp(line, "page:", 5) == 0 || strncmp(line, "page :", 6) == 0;
-    if (f)
-        fclose(f);
-    return page;
+    ug_layout_kind kind = UG_LAYOUT_CHART;
+    ug_error err = {0};
+    if (strcmp(path, "-"))
+        ug_layout_detect(path, &limits, &kind, &err);
+    return kind == UG_LAYOUT_PAGE;
 }
 
 int cli_load_chart(const char *path, ug_chart **out)

@@ -181,7 +181,7 @@ static int check_draw(const cli_draw_opts *o)
         return EXIT_USAGE;
     if (strcmp(fmt, "svg") && o->each_row)
         return cli_usage("draw", "--each-row writes SVG only ('%s' is %s)", o->out, fmt);
-    if (cli_is_page_file(o->layout) && (o->each_row || o->watch))
+    if ((o->each_row || o->watch) && cli_is_page_file(o->layout))
         return cli_usage("draw", "a page file is drawn once: no --each-row or --watch");
     return EXIT_OK;
 }

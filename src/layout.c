@@ -1346,11 +1346,11 @@ static ug_status fill_chart(void *model, const layout_node *root, ug_error *err)
     return chart_from_node(model, root, err);
 }
 
-/* Parse the text of `path` and hand its top mapping to `fill`; the node tree
-** lives only as long as this call. */
-static ug_status from_text(void *model, fill_fn fill, bool page, const char *path,
-                           const ug_limits *lim, const char *text, size_t len,
-                           ug_error *err)
+/* The node tree of the text of `path`, within the limits; it lives in
+** `tree`, which the caller frees. */
+static ug_status parse_within(const char *path, const ug_limits *lim,
+                              const char *text, size_t len, ug_arena *tree,
+                              layout_node **root, ug_error *err)
 {
     ug_status st = check_ceilings(lim, path, err);
     if (st)
@@ -1359,9 +1359,18 @@ static ug_status from_text(void *model, fill_fn fill, bool page, const char *pat
         return ug_fail(err, UG_ELIMIT, ug_mark_file(path),
                        "larger than the limit of %zu bytes (raise it with "
                        "--max-input-bytes)", lim->max_file_bytes);
+    return layout_parse(text, len, path, tree, root, err);
+}
+
+/* Parse the text of `path` and hand its top mapping to `fill`; the node tree
+** lives only as long as this call. */
+static ug_status from_text(void *model, fill_fn fill, bool page, const char *path,
+                           const ug_limits *lim, const char *text, size_t len,
+                           ug_error *err)
+{
     ug_arena tree = {0};
-    layout_node *root;
-    st = layout_parse(text, len, path, &tree, &root, err);
+    layout_node *root = NULL;
+    ug_status st = parse_within(path, lim, text, len, &tree, &root, err);
     if (!st)
         st = check_root(root, path, page, err);
     if (!st)
@@ -1419,6 +1428,40 @@ static ug_status load_path(const char *path, const ug_limits *limits, ug_mark at
     else
         st = ug_chart_load_string(text, len, path, limits, &c, err);
     *out = page ? (void *)p : (void *)c;
+    ug_free(text);
+    return st;
+}
+
+/* check_root's test, made on the parsed tree: a look at the bytes instead
+** takes a `page:` in a comment or a quoted title for the key, and misses the
+** key written in flow style, quoted, or after a byte-order mark. */
+ug_status ug_layout_detect_string(const char *text, size_t len, const char *name,
+                                  const ug_limits *limits, ug_layout_kind *out,
+                                  ug_error *err)
+{
+    ug_limits lim;
+    resolve_limits(&lim, limits);
+    *out = UG_LAYOUT_CHART;
+    ug_arena tree = {0};
+    layout_node *root = NULL;
+    const char *path = name ? name : "<string>";
+    ug_status st = parse_within(path, &lim, text, len, &tree, &root, err);
+    if (!st && root && root->kind == LAYOUT_MAP && find_key(root, "page"))
+        *out = UG_LAYOUT_PAGE;
+    ug_arena_free(&tree);
+    return st;
+}
+
+ug_status ug_layout_detect(const char *path, const ug_limits *limits,
+                           ug_layout_kind *out, ug_error *err)
+{
+    char *text;
+    size_t len;
+    *out = UG_LAYOUT_CHART;
+    ug_status st = load_file(path, limits, ug_mark_file(path), &text, &len, err);
+    if (st)
+        return st;
+    st = ug_layout_detect_string(text, len, path, limits, out, err);
     ug_free(text);
     return st;
 }

@@ -6,6 +6,8 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
 
 #include "model.h"
 #include "check_run.h"
@@ -420,6 +422,114 @@ START_TEST(test_shared_scale)
 }
 END_TEST
 
+/* ---- which loader a file is for: the parsed top-level keys decide -------- */
+
+typedef struct {
+    const char *file;
+    ug_layout_kind kind;
+} kind_case;
+
+/* Each file was misjudged by a look at its first lines' bytes. */
+static const kind_case kind_files[] = {
+    {"data/kind/chart_comment.yaml", UG_LAYOUT_CHART}, /* page: in comments */
+    {"data/kind/chart_title.yaml", UG_LAYOUT_CHART},   /* page: in quoted titles */
+    {"data/kind/page_bom.yaml", UG_LAYOUT_PAGE},       /* UTF-8 byte-order mark */
+    {"data/kind/page_flow.yaml", UG_LAYOUT_PAGE},      /* {page: ...} */
+    {"data/kind/page_quoted.yaml", UG_LAYOUT_PAGE},    /* "page": */
+    {"data/good/page.yaml", UG_LAYOUT_PAGE},
+    {"data/good/full.yaml", UG_LAYOUT_CHART},
+};
+
+/* The kind detected is the one its loader accepts, and the other loader
+** refuses the file for being of that kind. */
+START_TEST(test_layout_kind_files)
+{
+    const kind_case *t = &kind_files[_i];
+    ug_error err = {0};
+    ug_layout_kind kind = (ug_layout_kind)-1;
+    ck_assert_int_eq(ug_layout_detect(t->file, NULL, &kind, &err), UG_OK);
+    ck_assert_msg(kind == t->kind, "%s: detected %d", t->file, kind);
+    ug_chart *c = NULL;
+    ug_page *p = NULL;
+    ug_status chart_st = ug_chart_load(t->file, NULL, &c, &err);
+    ck_assert_msg(chart_st == (kind == UG_LAYOUT_CHART ? UG_OK : UG_ESCHEMA), "%s: %s",
+                  t->file, err.msg);
+    ug_error_clear(&err);
+    ug_status page_st = ug_page_load(t->file, NULL, &p, &err);
+    ck_assert_msg(page_st == (kind == UG_LAYOUT_PAGE ? UG_OK : UG_ESCHEMA), "%s: %s",
+                  t->file, err.msg);
+    ug_chart_free(c);
+    ug_page_free(p);
+}
+END_TEST
+
+typedef struct {
+    const char *text;
+    ug_status st;
+    ug_layout_kind kind;
+} kind_text_case;
+
+static const kind_text_case kind_texts[] = {
+    {"page: {size: A4}\npanels: [{text: a}]\n", UG_OK, UG_LAYOUT_PAGE},
+    {"\xEF\xBB\xBFpage: {size: A4}\n", UG_OK, UG_LAYOUT_PAGE},
+    {"{\"page\": {\"size\": \"A4\"}, \"panels\": []}", UG_OK, UG_LAYOUT_PAGE},
+    {"'page': {size: A4}\n", UG_OK, UG_LAYOUT_PAGE},
+    {"title: x\npage :\n", UG_OK, UG_LAYOUT_PAGE},
+    {"title: x # page: A4\n", UG_OK, UG_LAYOUT_CHART},
+    {"title: \"page: A4\"\n", UG_OK, UG_LAYOUT_CHART},
+    {"title: |\n  page: A4\n", UG_OK, UG_LAYOUT_CHART},
+    {"notes: [{page: A4}]\n", UG_OK, UG_LAYOUT_CHART}, /* not at the top */
+    {"pages: 2\n", UG_OK, UG_LAYOUT_CHART},
+    {"- page\n", UG_OK, UG_LAYOUT_CHART},                  /* the loader explains */
+    {"", UG_OK, UG_LAYOUT_CHART},
+    {"page: [\n", UG_ESYNTAX, UG_LAYOUT_CHART},
+    {"page: *a\n", UG_ESCHEMA, UG_LAYOUT_CHART},           /* aliases refused */
+    {"page: \xC3\n", UG_EDATA, UG_LAYOUT_CHART},           /* not UTF-8 */
+};
+
+START_TEST(test_layout_kind_texts)
+{
+    const kind_text_case *t = &kind_texts[_i];
+    ug_error err = {0};
+    ug_layout_kind kind = (ug_layout_kind)-1;
+    ug_status st = ug_layout_detect_string(t->text, strlen(t->text), "k.yaml", NULL,
+                                           &kind, &err);
+    ck_assert_msg(st == t->st, "case %d: status %d (%s)", _i, st, err.msg);
+    ck_assert_msg(st == UG_OK || err.msg[0], "case %d: no message", _i);
+    ck_assert_msg(kind == t->kind, "case %d: detected %d", _i, kind);
+}
+END_TEST
+
+START_TEST(test_layout_kind_limits)
+{
+    ug_error err = {0};
+    ug_layout_kind kind;
+    ug_limits small = {.max_file_bytes = 8};
+    const char *text = "page: {size: A4}\n";
+    ck_assert_int_eq(ug_layout_detect_string(text, strlen(text), "k.yaml", &small,
+                                             &kind, &err), UG_ELIMIT);
+    ck_assert_int_eq(kind, UG_LAYOUT_CHART);
+    ug_error_clear(&err);
+    ck_assert_int_eq(ug_layout_detect("data/kind/missing.yaml", NULL, &kind, &err),
+                     UG_EIO);
+    ug_error_clear(&err);
+    ck_assert_int_eq(ug_layout_detect("data/kind", NULL, &kind, &err), UG_EIO);
+    ck_assert_int_eq(kind, UG_LAYOUT_CHART);
+    /* a FIFO is refused by the reader, not waited on (Check's timeout would
+    ** end a test that blocked) */
+    char dir[] = "/tmp/ug-kind-XXXXXX", fifo[64];
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    snprintf(fifo, sizeof fifo, "%s/page.yaml", dir);
+    ck_assert_int_eq(mkfifo(fifo, 0600), 0);
+    ug_error_clear(&err);
+    ug_status st = ug_layout_detect(fifo, NULL, &kind, &err);
+    unlink(fifo);
+    rmdir(dir);
+    ck_assert_int_eq(st, UG_EIO);
+    ck_assert(strstr(err.msg, "not a regular file") != NULL);
+}
+END_TEST
+
 /* ---- every allocation failing in turn ----------------------------------- */
 
 static void fail_each(const char *path, bool page)
@@ -466,6 +576,11 @@ static Suite *suite(void)
     tcase_add_test(t, test_page);
     tcase_add_loop_test(t, test_bad_pages, 0, sizeof bad_pages / sizeof bad_pages[0]);
     tcase_add_test(t, test_shared_scale);
+    tcase_add_loop_test(t, test_layout_kind_files, 0,
+                        sizeof kind_files / sizeof kind_files[0]);
+    tcase_add_loop_test(t, test_layout_kind_texts, 0,
+                        sizeof kind_texts / sizeof kind_texts[0]);
+    tcase_add_test(t, test_layout_kind_limits);
     tcase_add_test(t, test_out_of_memory);
     suite_add_tcase(s, t);
     return s;

@@ -259,6 +259,24 @@ static ug_status sheet_chain(ug_error *err)
     return st;
 }
 
+/* Which loader each file is for (ug_layout_detect): a failed allocation
+** must end in UG_ENOMEM, never in a file judged the other kind. */
+static ug_status kind_chain(ug_error *err)
+{
+    static const char *const files[] = {
+        "data/kind/page_flow.yaml", "data/kind/page_bom.yaml",
+        "data/kind/page_quoted.yaml", "data/kind/chart_comment.yaml",
+        "data/kind/chart_title.yaml", "data/good/page.yaml", "data/good/full.yaml"};
+    ug_status st = UG_OK;
+    memset(err, 0, sizeof *err);
+    for (size_t i = 0; !st && i < sizeof files / sizeof files[0]; i++) {
+        ug_layout_kind kind = UG_LAYOUT_CHART;
+        st = ug_layout_detect(files[i], NULL, &kind, err);
+        note_made(&kind, sizeof kind);
+    }
+    return st;
+}
+
 /* Runs `chain` once freely, then once failing each allocation in turn, first
 ** with every later allocation failing too, then with only that one failing:
 ** each run fails cleanly with a message or makes exactly what the free run
@@ -311,6 +329,12 @@ START_TEST(test_sheet_allocation_failure_is_clean)
 }
 END_TEST
 
+START_TEST(test_kind_allocation_failure_is_clean)
+{
+    FAIL_EACH_ALLOCATION("page or chart", kind_chain(&err));
+}
+END_TEST
+
 START_TEST(test_page_allocation_failure_is_clean)
 {
     FAIL_EACH_ALLOCATION("handout page", page_chain(&err));
@@ -325,6 +349,7 @@ int main(void)
     tcase_add_loop_test(tc, test_every_allocation_failure_is_clean, 0,
                         (int)(sizeof cases / sizeof cases[0]));
     tcase_add_test(tc, test_page_allocation_failure_is_clean);
+    tcase_add_test(tc, test_kind_allocation_failure_is_clean);
     tcase_add_test(tc, test_batch_allocation_failure_is_clean);
     tcase_add_test(tc, test_sheet_allocation_failure_is_clean);
     suite_add_tcase(s, tc);

@@ -268,6 +268,25 @@ cmp -s "$T/i/new.yaml" "$T/i/starter.ref" || fail "init -o a new file"
 [ "$(ls -A "$T/i" | tr '\n' ' ')" = "dangling.yaml fifo link.yaml mine.orig mine.yaml new.yaml starter.ref " ] \
   || fail "init left files behind: $(ls -A "$T/i")"
 
+# ---- page or chart is what the YAML's top-level keys say, not a look at
+# the first lines: page: in a comment or a quoted title is text, and a page
+# after a byte-order mark, in flow style or with a quoted key is a page
+kind_width() { grep -o '<svg [^>]*>' "$1" | head -1 | grep -o ' width="[^"]*"'; }
+for f in chart_comment chart_title page_bom page_flow page_quoted; do
+  k=tests/data/kind/$f.yaml
+  expect 0 "$BIN" draw "$k" -o "$T/kind-$f.svg"
+  case $f in chart_*) want=' width="800"' ;; *) want=' width="210mm"' ;; esac
+  [ "$(kind_width "$T/kind-$f.svg")" = "$want" ] \
+    || fail "$f drawn as the wrong kind: $(kind_width "$T/kind-$f.svg")"
+  expect 0 "$BIN" describe "$k"
+  grep -q "Library visits\|Visits per page" "$T/out" || fail "describe $f: $(cat "$T/out")"
+  expect 0 "$BIN" audit "$k"
+done
+expect 2 "$BIN" draw tests/data/kind/page_flow.yaml -o "$T/kind.svg" --watch
+grep -q "a page file is drawn once" "$T/err" || fail "--watch on a flow page: $(cat "$T/err")"
+expect 0 "$BIN" draw tests/data/kind/chart_title.yaml -o "$T/kind.svg" --watch \
+  --watch-timeout 0.2
+
 # ---- --watch redraws on change, survives a broken edit, handles rename-saves
 mkdir -p "$T/w"
 cp layouts/pantry.yaml "$T/w/chart.yaml"
