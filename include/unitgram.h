@@ -334,6 +334,12 @@ ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
 ** empty files of the batch. */
 ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t len,
                                     int sync, ug_error *err);
+/* Write len bytes to path as a new file, replacing nothing: the bytes go to
+** a temporary file that is linked into place, so anything already at path (a
+** file, a folder, a FIFO, a symlink, even a dangling one) is left as it was,
+** never written through or waited on; then *existed (when given) is set. */
+ug_status ug_write_file_new(const char *path, const void *data, size_t len,
+                            int *existed, ug_error *err);
 /* The same for root/rel, where rel's folders (made when missing) must be real
 ** folders below root: a symlinked folder on the way is refused, never
 ** followed, so a batch cannot be led outside its output folder. */

@@ -4,24 +4,15 @@
 ** A starter is written to a path the user has just named, often one they have
 ** forgotten holds their work, so nothing already there is replaced unless
 ** --replace says so. "Already there" is decided by the kernel when the file is
-** created, not by a look beforehand: a check-then-write leaves a gap another
-** process can fill, and fopen(..., "r") cannot see a dangling symlink or a file
-** it may not read, and blocks on a FIFO.
+** created (ug_write_file_new), not by a look beforehand: a check-then-write
+** leaves a gap another process can fill, and fopen(..., "r") cannot see a
+** dangling symlink or a file it may not read, and blocks on a FIFO.
 */
-#include <errno.h>
-#include <fcntl.h>
-#include <limits.h>
 #include <stdio.h>
 #include <string.h>
 #include <sys/stat.h>
-#include <unistd.h>
 
 #include "cli.h"
-
-/* O_EXCL refuses any name already there, a dangling symlink included;
-** O_NOFOLLOW and O_NONBLOCK keep even a wrong guess about that from following
-** a link or waiting for a FIFO's reader. */
-#define NEW_FILE (O_CREAT | O_EXCL | O_WRONLY | O_NOFOLLOW | O_NONBLOCK | O_CLOEXEC)
 
 static void help(FILE *to)
 {
@@ -42,60 +33,6 @@ static void help(FILE *to)
             "\n" CLI_EXIT_CODES);
 }
 
-static int write_all(int fd, const char *text, size_t len)
-{
-    while (len) {
-        ssize_t n = write(fd, text, len);
-        if (n < 0 && errno == EINTR)
-            continue;
-        if (n <= 0)
-            return n < 0 ? errno : EIO;
-        text += n;
-        len -= (size_t)n;
-    }
-    return 0;
-}
-
-/* The text as a new file at path, removed again when it could not be written
-** whole. Returns 0 or an errno value. */
-static int write_new(const char *path, const char *text)
-{
-    int fd = open(path, NEW_FILE, 0666);
-    if (fd < 0)
-        return errno;
-    int e = write_all(fd, text, strlen(text));
-    if (!e && fsync(fd))
-        e = errno;
-    if (close(fd) && !e)
-        e = errno;
-    if (e)
-        unlink(path);
-    return e;
-}
-
-/* Written beside path first, then link(2)ed into place: link never replaces
-** (EEXIST for any name there), and a reader sees the whole file or none.
-** File systems without hard links (FAT, some network ones) get the file
-** written in place, still exclusively. Returns 0 or an errno value. */
-static int create_new(const char *path, const char *text)
-{
-    char tmp[PATH_MAX];
-    int e = EEXIST;
-    for (unsigned k = 0; e == EEXIST && k < 100; k++) {
-        if (snprintf(tmp, sizeof tmp, "%s.init%ld-%u", path, (long)getpid(), k) >=
-            (int)sizeof tmp)
-            return ENAMETOOLONG;
-        e = write_new(tmp, text);
-    }
-    if (e)
-        return e;
-    e = link(tmp, path) ? errno : 0;
-    unlink(tmp);
-    if (e == EPERM || e == EOPNOTSUPP)
-        e = write_new(path, text);
-    return e;
-}
-
 /* What stands at path, for the message that leaves it alone. */
 static const char *what_is(const char *path)
 {
@@ -113,17 +50,16 @@ static const char *what_is(const char *path)
 
 static int write_starter(const char *out, const char *text)
 {
-    int e = create_new(out, text);
-    if (e == EEXIST) {
+    ug_error err = {0};
+    int existed = 0;
+    if (!ug_write_file_new(out, text, strlen(text), &existed, &err))
+        return EXIT_OK;
+    if (existed)
         fprintf(stderr, "%s: error: %s is there already; left as it was "
                         "(give --replace to replace a file)\n", out, what_is(out));
-        return EXIT_OUTPUT;
-    }
-    if (e) {
-        fprintf(stderr, "%s: error: cannot create: %s\n", out, strerror(e));
-        return EXIT_OUTPUT;
-    }
-    return EXIT_OK;
+    else
+        cli_report_error(&err);
+    return EXIT_OUTPUT;
 }
 
 /* Standard output, or a file replaced by rename. */

@@ -177,8 +177,47 @@ static int create_temp(int dirfd, pending_slot *s, char *name)
     return -1;
 }
 
-static ug_status write_replacing(int dirfd, const char *base, const char *shown,
-                                 const void *data, size_t len, bool sync, ug_error *err)
+/* Where a temporary ends up: renamed over base, or linked to base so that
+** anything already there (a dangling symlink included) stays and *existed is
+** set. File systems without hard links get a new file written in place,
+** still exclusively. */
+typedef struct {
+    bool replace;
+    int *existed;
+} placing;
+
+static int write_new_in_place(int dirfd, const char *base, const void *data, size_t len)
+{
+    int fd = openat(dirfd, base, O_WRONLY | O_CREAT | O_EXCL | O_NOFOLLOW | O_NONBLOCK |
+                                     O_CLOEXEC, 0666);
+    if (fd < 0)
+        return errno;
+    int e = write_all(fd, data, len) == UG_OK && fsync(fd) == 0 ? 0 : errno ? errno : EIO;
+    if (close(fd) != 0 && !e)
+        e = errno;
+    if (e)
+        unlinkat(dirfd, base, 0);
+    return e;
+}
+
+/* The temporary name put in place at base; 0 or an errno value. */
+static int place(int dirfd, const char *name, const char *base, const void *data,
+                 size_t len, placing how)
+{
+    if (how.replace)
+        return renameat(dirfd, name, dirfd, base) == 0 ? 0 : errno;
+    int e = linkat(dirfd, name, dirfd, base, 0) == 0 ? 0 : errno;
+    unlinkat(dirfd, name, 0);
+    if (e == EPERM || e == EOPNOTSUPP)
+        e = write_new_in_place(dirfd, base, data, len);
+    if (e == EEXIST && how.existed)
+        *how.existed = 1;
+    return e;
+}
+
+static ug_status write_through_temp(int dirfd, const char *base, const char *shown,
+                                    const void *data, size_t len, bool sync,
+                                    placing how, ug_error *err)
 {
     char name[TEMP_NAME_MAX];
     pending_slot *s = claim_slot();
@@ -199,14 +238,15 @@ static ug_status write_replacing(int dirfd, const char *base, const char *shown,
     }
     sigset_t held;
     hold_signals(&held);
-    if (ok && renameat(dirfd, name, dirfd, base) != 0) {
+    if (ok && (saved = place(dirfd, name, base, data, len, how)) != 0)
         ok = false;
-        saved = errno;
-    }
     if (!ok)
         unlinkat(dirfd, name, 0);
     mark_slot(s, SLOT_FREE);
     release_signals(&held);
+    if (!ok && saved == EEXIST && !how.replace)
+        return ug_fail(err, UG_EIO, ug_mark_file(shown),
+                       "cannot create output: something is there already");
     return ok ? UG_OK : output_error(shown, saved, err);
 }
 
@@ -217,7 +257,8 @@ static ug_status write_at(int dirfd, const char *base, const char *shown, bool f
     ug_status st = write_special(dirfd, base, shown, follow, data, len, &done, err);
     if (done)
         return st;
-    return write_replacing(dirfd, base, shown, data, len, sync, err);
+    return write_through_temp(dirfd, base, shown, data, len, sync, (placing){true, NULL},
+                              err);
 }
 
 /* The folder part of path, opened; *base points into path. -1 on failure. */
@@ -257,6 +298,27 @@ ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t l
         return ug_fail(err, UG_EIO, ug_mark_file(path), "cannot create output: %s",
                        strerror(errno));
     ug_status st = *base ? write_at(dirfd, base, path, true, data, len, sync, err)
+                         : ug_fail(err, UG_EIO, ug_mark_file(path),
+                                   "cannot write output: the name ends in '/'");
+    close(dirfd);
+    return st;
+}
+
+/* Nothing at path is looked at first: the kernel decides, at linkat(2), that
+** something is there, so no other process can slip a file (or a FIFO to
+** block on) into a gap between a look and the write. */
+ug_status ug_write_file_new(const char *path, const void *data, size_t len,
+                            int *existed, ug_error *err)
+{
+    if (existed)
+        *existed = 0;
+    const char *base;
+    int dirfd = open_parent(path, &base);
+    if (dirfd < 0)
+        return ug_fail(err, UG_EIO, ug_mark_file(path), "cannot create output: %s",
+                       strerror(errno));
+    ug_status st = *base ? write_through_temp(dirfd, base, path, data, len, true,
+                                              (placing){false, existed}, err)
                          : ug_fail(err, UG_EIO, ug_mark_file(path),
                                    "cannot write output: the name ends in '/'");
     close(dirfd);

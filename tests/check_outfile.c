@@ -1,5 +1,5 @@
-/* Writing files (src/outfile.c): atomic replacement, devices and FIFOs, long
-** names, and confinement below a root that symlinked folders cannot break. */
+/* Writing files (src/outfile.c): atomic replacement, new files that replace
+** nothing, devices and FIFOs, long names, and confinement below a root that symlinked folders cannot break. */
 #define _POSIX_C_SOURCE 200809L
 #include <check.h>
 #include <errno.h>
@@ -253,6 +253,40 @@ START_TEST(test_signal_handler_removes_temporaries)
 }
 END_TEST
 
+/* A new file replaces nothing: a file, a dangling symlink and a FIFO at the
+** name all stay as they were, the caller learns something was there, and no
+** temporary is left. */
+START_TEST(test_new_file_replaces_nothing)
+{
+    make_dir();
+    ug_error err = {0};
+    int existed = -1;
+    char got[16];
+    ck_assert_int_eq(ug_write_file_new(in_dir("new.yaml"), "new", 3, &existed, &err), UG_OK);
+    ck_assert_int_eq(existed, 0);
+    read_back(in_dir("new.yaml"), got, sizeof got);
+    ck_assert_str_eq(got, "new");
+    ck_assert_int_eq(ug_write_file_new(in_dir("new.yaml"), "other", 5, &existed, &err),
+                     UG_EIO);
+    ck_assert_int_eq(existed, 1);
+    read_back(in_dir("new.yaml"), got, sizeof got);
+    ck_assert_str_eq(got, "new");
+    ck_assert_int_eq(symlink("nowhere.yaml", in_dir("dangling.yaml")), 0);
+    existed = 0;
+    ck_assert_int_eq(ug_write_file_new(in_dir("dangling.yaml"), "x", 1, &existed, &err),
+                     UG_EIO);
+    ck_assert_int_eq(existed, 1);
+    ck_assert_int_eq(mkfifo(in_dir("pipe"), 0600), 0);
+    alarm(5); /* a regression blocks on the FIFO: fail instead of hanging */
+    existed = 0;
+    ck_assert_int_eq(ug_write_file_new(in_dir("pipe"), "x", 1, &existed, &err), UG_EIO);
+    alarm(0);
+    ck_assert_int_eq(existed, 1);
+    assert_only("dangling.yaml new.yaml pipe ");
+    remove_dir();
+}
+END_TEST
+
 static Suite *outfile_suite(void)
 {
     Suite *s = suite_create("outfile");
@@ -265,6 +299,7 @@ static Suite *outfile_suite(void)
     tcase_add_test(tc, test_beneath_makes_folders);
     tcase_add_test(tc, test_beneath_never_follows_a_folder_link);
     tcase_add_test(tc, test_open_beneath_refuses_links_on_the_way);
+    tcase_add_test(tc, test_new_file_replaces_nothing);
     tcase_add_test(tc, test_signal_handler_removes_temporaries);
     tcase_set_timeout(tc, 60);
     suite_add_tcase(s, tc);
