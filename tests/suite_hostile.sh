@@ -121,6 +121,11 @@ check_drawn() { # check_drawn NAME SVG
   local bad
   bad=$(xmllint --nonet --xpath "$ACTIVE" "$2" 2>/dev/null)
   [ "$bad" = 0 ] || fail "$1: active content in the SVG ($bad finds)"
+  # XML 1.0 §3.3.1, validity constraint "ID": no two elements share an id,
+  # or a fragment reference (href="#...", aria-labelledby) picks one of them.
+  local dup
+  dup=$(grep -o ' id="[^"]*"' "$2" | sort | uniq -d | head -3 | tr '\n' ' ')
+  [ -z "$dup" ] || fail "$1: ids used twice: $dup"
   # cairo rasterizes at most 32767 px a side: a tall chart is rendered shrunk.
   local h zoom=1
   h=$(xmllint --nonet --xpath 'string(/*/@height)' "$2" 2>/dev/null)
