@@ -60,14 +60,29 @@ expect 2 "$BIN" describe
 expect 0 "$BIN" glyphs
 expect 1 "$BIN" glyphs --check "$T/nothing.svg"
 expect 4 "$BIN" glyphs --sheet "$T/no/such/sheet.svg"
-# a full output device: the write fails, exit 4 (not 1)
+# a full output device: every command that prints to standard output fails
+# with exit 4 (not 0, not 1) and says so once on stderr
 if [ -w /dev/full ]; then
-  "$BIN" draw layouts/pantry.yaml -o - > /dev/full 2> /dev/null; rc=$?
-  [ $rc = 4 ] || fail "draw to /dev/full exited $rc"
-  "$BIN" describe layouts/pantry.yaml > /dev/full 2> /dev/null; rc=$?
-  [ $rc = 4 ] || fail "describe to /dev/full exited $rc"
-  "$BIN" tally layouts/pantry.yaml > /dev/full 2> /dev/null; rc=$?
-  [ $rc = 4 ] || fail "tally to /dev/full exited $rc"
+  while IFS= read -r args; do
+    # shellcheck disable=SC2086  # the words of one command line
+    "$BIN" $args > /dev/full 2> "$T/err"; rc=$?
+    [ $rc = 4 ] || fail "$args > /dev/full exited $rc"
+    [ "$(grep -c 'write' "$T/err")" = 1 ] || fail "$args > /dev/full: $(head -c 300 "$T/err")"
+  done <<'CMDS'
+draw layouts/pantry.yaml -o -
+draw layouts/pantry.yaml -o - --format png
+describe layouts/pantry.yaml
+tally layouts/pantry.yaml
+tally layouts/pantry.yaml --format csv
+audit layouts/pantry.yaml
+glyphs
+init
+--version
+--help
+help
+help tally
+draw --help
+CMDS
 fi
 
 # ---- '-' is standard input and standard output
