@@ -7,6 +7,7 @@
 /* sync(2) is not in POSIX.1-2008 base; glibc declares it with _DEFAULT_SOURCE. */
 #define _DEFAULT_SOURCE
 #include <errno.h>
+#include <limits.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -28,9 +29,11 @@ static int make_parents(const char *path)
             rc = -1;
         *s = '/';
     }
-    if (rc)
-        fprintf(stderr, "%s: error: cannot create its folder: %s\n", path,
-                strerror(errno));
+    if (rc) {
+        ug_error e = {.where = {path, 0, 0}};
+        snprintf(e.msg, sizeof e.msg, "cannot create its folder: %s", strerror(errno));
+        cli_diag("error", &e);
+    }
     free(p);
     return rc;
 }
@@ -141,9 +144,12 @@ static int run(ug_batch *b, char **paths, const cli_draw_opts *o,
     sync(); /* once for the whole batch (see ug_write_file_atomic_sync) */
     if (!o->quiet) {
         const char *slash = strrchr(o->out, '/');
-        fprintf(stderr, "drew %zu chart%s to %.*s in %.1f s\n", drawn,
-                drawn == 1 ? "" : "s", slash ? (int)(slash - o->out + 1) : 2,
-                slash ? o->out : "./", cli_now() - start);
+        char folder[PATH_MAX];
+        snprintf(folder, sizeof folder, "%.*s", slash ? (int)(slash - o->out + 1) : 2,
+                 slash ? o->out : "./");
+        fprintf(stderr, "drew %zu chart%s to ", drawn, drawn == 1 ? "" : "s");
+        cli_put_visible(folder, stderr);
+        fprintf(stderr, " in %.1f s\n", cli_now() - start);
     }
     return rc;
 }

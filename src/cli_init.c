@@ -41,7 +41,8 @@ int cli_init(int argc, char **argv)
     FILE *existing = strcmp(out, "-") ? fopen(out, "r") : NULL;
     if (existing) {
         fclose(existing);
-        fprintf(stderr, "%s: error: already exists; not overwritten\n", out);
+        ug_error e = {.where = {out, 0, 0}, .msg = "already exists; not overwritten"};
+        cli_diag("error", &e);
         return EXIT_OUTPUT;
     }
     const char *text = ug_starter_layout(page);
