@@ -158,7 +158,14 @@ expect 1 "$BIN" draw "$T/bidi_dup.yaml" -o "$T/bidi.svg"
 grep -qF "duplicate category id 'b<U+2066>x<U+2069><U+200E><U+200F><U+061C><U+2028>'" "$T/err" \
   || fail "diagnostic not escaped: $(cat "$T/err")"
 expect 0 "$BIN" audit "$T/bidi.yaml"
-[ -z "$(raw_controls "$T/err")" ] || fail "audit findings: raw $(raw_controls "$T/err")"
+[ -z "$(raw_controls "$T/out")" ] || fail "audit report: raw $(raw_controls "$T/out")"
+grep -qF "'<U+202E>gnp.exe<U+202C> A' in N<U+202E>orth is 1 house<U+202E>holds" "$T/out" \
+  || fail "audit report not escaped: $(head -c 300 "$T/out")"
+expect 0 "$BIN" audit "$T/bidi.yaml" --format json
+[ -z "$(raw_controls "$T/out")" ] || fail "audit json: raw $(raw_controls "$T/out")"
+expect 0 "$BIN" draw "$T/bidi.yaml" -o "$T/bidi.svg"
+[ -z "$(raw_controls "$T/err")" ] || fail "draw's audit findings: raw $(raw_controls "$T/err")"
+grep -qF "<U+202E>gnp.exe" "$T/err" || fail "draw's findings not escaped: $(head -c 300 "$T/err")"
 expect 0 "$BIN" describe "$T/bidi.yaml"
 
 # a control character can still come in a file name or an argument
