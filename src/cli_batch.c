@@ -51,6 +51,16 @@ static void progress(size_t done, size_t total, double start, bool *shown)
     fflush(stderr);
 }
 
+/* An error in a row's chart may be placed in the template (the icon limit
+** blames its categories), which every row shares: say which row it was. */
+static void row_note(const ug_batch *b, size_t i)
+{
+    ug_error e = {0};
+    snprintf(e.msg, sizeof e.msg, "in the chart of row %zu, '%s'", i + 1,
+             ug_batch_name(b, i));
+    cli_diag("note", &e);
+}
+
 /* Draw row i of the batch to path; returns an exit code. */
 static int draw_row(ug_batch *b, size_t i, const char *path,
                     const ug_pack_options *popt, bool warn)
@@ -66,6 +76,7 @@ static int draw_row(ug_batch *b, size_t i, const char *path,
         ug_scene_pack_with(chart, alloc, popt, &scene, &err) ||
         ug_scene_svg(scene, &svg, &len, &err)) {
         cli_report_error(&err);
+        row_note(b, i);
         rc = EXIT_INPUT;
     } else {
         if (warn)
@@ -114,8 +125,10 @@ static int audit_rows(ug_batch *b, const ug_pack_options *popt, bool strict)
             cli_report_error(&err);
             return cli_exit_for(&err);
         }
-        if ((r = cli_print_audit(chart, popt, strict)) == EXIT_INPUT)
+        if ((r = cli_print_audit(chart, popt, strict)) == EXIT_INPUT) {
+            row_note(b, i);
             return r;
+        }
         if (r && !rc)
             rc = r;
     }
@@ -159,7 +172,9 @@ int cli_batch(const cli_draw_opts *o)
     ug_error err = {0};
     ug_batch *b = NULL;
     ug_glyph_cache *cache = NULL;
-    if (ug_batch_open(o->layout, o->each_row, NULL, &b, &err) ||
+    /* The template carries the limits and every row's chart is a copy of
+    ** it, so --max-icons and the rest bound each chart of the batch. */
+    if (ug_batch_open(o->layout, o->each_row, cli_limits(), &b, &err) ||
         ug_glyph_cache_new(&cache, &err)) {
         cli_report_error(&err);
         ug_batch_free(b);

@@ -150,7 +150,7 @@ if command -v script > /dev/null; then
   [ -z "$(raw_controls "$T/tty.txt")" ] || fail "tally csv on a terminal: raw $(raw_controls "$T/tty.txt")"
   grep -qF '<U+202E>gnp.exe' "$T/tty.txt" || fail "tally csv on a terminal: $(head -c 300 "$T/tty.txt")"
 fi
-# diagnostics quoting a label: a duplicate id, a bad count in the CSV
+# a diagnostic quoting a label (a duplicate id)
 sed 's/column: a}/column: b}/; s/label: "\\u202egnp.exe\\u202c A"/label: "B\\u2066x\\u2069\\u200e\\u200f\\u061c\\u2028"/' \
   "$T/bidi.yaml" > "$T/bidi_dup.yaml"
 expect 1 "$BIN" draw "$T/bidi_dup.yaml" -o "$T/bidi.svg"
