@@ -319,6 +319,14 @@ const char *ug_severity_name(ug_severity s); /* "error", "warning", "note" */
 
 /* ---- utilities ---------------------------------------------------------- */
 
+/* s made safe to print on a terminal or in a log: control characters,
+** DEL, the line and paragraph separators and the bidirectional formatting
+** characters (which could reorder or hide the rest of the line) become
+** "<U+202E>", a byte that is not UTF-8 "<0xFF>"; the rest is copied. Writes
+** at most size - 1 bytes and a NUL (never half an escape or a character)
+** and returns the length the whole result needs, like snprintf. */
+size_t ug_text_visible(const char *s, char *out, size_t size);
+
 /* The commented starter layout `unitgram init` writes (page != 0: a page file). */
 const char *ug_starter_layout(int page);
 

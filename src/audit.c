@@ -995,17 +995,21 @@ ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
 
 /* ---- output ----------------------------------------------------------------- */
 
+/* For a terminal: what the layout put in the file name, message or fix is
+** shown escaped (ug_text_visible), as the command's diagnostics are. */
 static void text_finding(ug_buf *b, const ug_finding *it)
 {
+    ug_buf_visible(b, it->where.file ? it->where.file : "-");
     if (it->where.line)
-        ug_buf_printf(b, "%s:%u:%u: ", it->where.file ? it->where.file : "-",
-                      it->where.line, it->where.column);
-    else
-        ug_buf_printf(b, "%s: ", it->where.file ? it->where.file : "-");
-    ug_buf_printf(b, "%s: %s [%s]\n", ug_severity_name(it->severity), it->message,
-                  it->rule);
-    if (it->fix)
-        ug_buf_printf(b, "    fix: %s\n", it->fix);
+        ug_buf_printf(b, ":%u:%u", it->where.line, it->where.column);
+    ug_buf_printf(b, ": %s: ", ug_severity_name(it->severity));
+    ug_buf_visible(b, it->message);
+    ug_buf_printf(b, " [%s]\n", it->rule);
+    if (it->fix) {
+        ug_buf_puts(b, "    fix: ");
+        ug_buf_visible(b, it->fix);
+        ug_buf_puts(b, "\n");
+    }
 }
 
 static void json_finding(ug_buf *b, const ug_finding *it, bool last)

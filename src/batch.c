@@ -53,6 +53,14 @@ static size_t utf8_next(const unsigned char *s, unsigned long *cp)
     return n;
 }
 
+/* Combining Diacritical Marks (Unicode block U+0300..U+036F): "e" followed
+** by U+0301 is the decomposed "é", so the mark is dropped like an accent on a
+** precomposed letter rather than splitting the word ("e-cole"). */
+static bool is_combining(unsigned long cp)
+{
+    return cp >= 0x300 && cp <= 0x36F;
+}
+
 size_t batch_slug(const char *name, char *buf, size_t size)
 {
     size_t n = 0;
@@ -60,6 +68,8 @@ size_t batch_slug(const char *name, char *buf, size_t size)
     for (const unsigned char *s = (const unsigned char *)name; *s && n + 2 < size;) {
         unsigned long cp;
         s += utf8_next(s, &cp);
+        if (is_combining(cp))
+            continue;
         char ch = cp < 0x80 ? (char)cp : latin1_base(cp);
         if (ch >= 'A' && ch <= 'Z')
             ch = (char)(ch - 'A' + 'a');

@@ -7,6 +7,7 @@
 #define UG_CLI_H
 
 #include <stdbool.h>
+#include <stdio.h>
 
 #include "unitgram.h"
 
@@ -34,6 +35,9 @@ int cli_init(int argc, char **argv);
 
 /* True when stderr is a terminal and NO_COLOR is unset or empty. */
 bool cli_color(void);
+/* s on `to` with what could drive the terminal or reorder the line shown
+** escaped (ug_text_visible): for any text that came from an input. */
+void cli_put_visible(const char *s, FILE *to);
 /* "file:line:col: SEVERITY: message" on stderr; severity is "error",
 ** "warning" or "note"; coloured only when cli_color(). */
 void cli_diag(const char *severity, const ug_error *err);

@@ -7,6 +7,7 @@
 /* sync(2) is not in POSIX.1-2008 base; glibc declares it with _DEFAULT_SOURCE. */
 #define _DEFAULT_SOURCE
 #include <errno.h>
+#include <limits.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -44,8 +45,10 @@ static int open_out_folder(const char *pattern, out_folder *f)
             break;
     }
     if (mkdir(f->root, 0777) != 0 && errno != EEXIST) {
-        fprintf(stderr, "%s: error: cannot create the output folder: %s\n", f->root,
-                strerror(errno));
+        ug_error e = {.where = {f->root, 0, 0}};
+        snprintf(e.msg, sizeof e.msg, "cannot create the output folder: %s",
+                 strerror(errno));
+        cli_diag("error", &e);
         return -1;
     }
     return 0;
@@ -64,6 +67,16 @@ static void progress(size_t done, size_t total, double start, bool *shown)
     fflush(stderr);
 }
 
+/* An error in a row's chart may be placed in the template (the icon limit
+** blames its categories), which every row shares: say which row it was. */
+static void row_note(const ug_batch *b, size_t i)
+{
+    ug_error e = {0};
+    snprintf(e.msg, sizeof e.msg, "in the chart of row %zu, '%s'", i + 1,
+             ug_batch_name(b, i));
+    cli_diag("note", &e);
+}
+
 /* Draw row i of the batch to path; returns an exit code. */
 static int draw_row(ug_batch *b, size_t i, const char *path, const out_folder *dir,
                     const ug_pack_options *popt, bool warn)
@@ -79,6 +92,7 @@ static int draw_row(ug_batch *b, size_t i, const char *path, const out_folder *d
         ug_scene_pack_with(chart, alloc, popt, &scene, &err) ||
         ug_scene_svg(scene, &svg, &len, &err)) {
         cli_report_error(&err);
+        row_note(b, i);
         rc = EXIT_INPUT;
     } else {
         if (warn)
@@ -125,8 +139,10 @@ static int audit_rows(ug_batch *b, const ug_pack_options *popt, bool strict)
             cli_report_error(&err);
             return cli_exit_for(&err);
         }
-        if ((r = cli_print_audit(chart, popt, strict)) == EXIT_INPUT)
+        if ((r = cli_print_audit(chart, popt, strict)) == EXIT_INPUT) {
+            row_note(b, i);
             return r;
+        }
         if (r && !rc)
             rc = r;
     }
@@ -161,9 +177,12 @@ static int run(ug_batch *b, char **paths, const cli_draw_opts *o,
     free(dir.root);
     if (!o->quiet) {
         const char *slash = strrchr(o->out, '/');
-        fprintf(stderr, "drew %zu chart%s to %.*s in %.1f s\n", drawn,
-                drawn == 1 ? "" : "s", slash ? (int)(slash - o->out + 1) : 2,
-                slash ? o->out : "./", cli_now() - start);
+        char folder[PATH_MAX];
+        snprintf(folder, sizeof folder, "%.*s", slash ? (int)(slash - o->out + 1) : 2,
+                 slash ? o->out : "./");
+        fprintf(stderr, "drew %zu chart%s to ", drawn, drawn == 1 ? "" : "s");
+        cli_put_visible(folder, stderr);
+        fprintf(stderr, " in %.1f s\n", cli_now() - start);
     }
     return rc;
 }
@@ -173,7 +192,9 @@ int cli_batch(const cli_draw_opts *o)
     ug_error err = {0};
     ug_batch *b = NULL;
     ug_glyph_cache *cache = NULL;
-    if (ug_batch_open(o->layout, o->each_row, NULL, &b, &err) ||
+    /* The template carries the limits and every row's chart is a copy of
+    ** it, so --max-icons and the rest bound each chart of the batch. */
+    if (ug_batch_open(o->layout, o->each_row, cli_limits(), &b, &err) ||
         ug_glyph_cache_new(&cache, &err)) {
         cli_report_error(&err);
         ug_batch_free(b);

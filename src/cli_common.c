@@ -31,18 +31,32 @@ static const char *severity_color(const char *severity)
     return "\033[1;36m";
 }
 
+void cli_put_visible(const char *s, FILE *to)
+{
+    char small[1024];
+    size_t n = ug_text_visible(s, small, sizeof small);
+    char *big = n < sizeof small ? NULL : malloc(n + 1);
+    if (big)
+        ug_text_visible(s, big, n + 1);
+    fputs(big ? big : small, to); /* out of memory: the part that fits */
+    free(big);
+}
+
+/* The file name and the message may both carry text from the layout (a
+** label, a CSV field, a path), shown escaped so that it cannot drive the
+** terminal or reorder the line. */
 void cli_diag(const char *severity, const ug_error *err)
 {
     bool color = cli_color();
-    const char *file = err->where.file ? err->where.file : "unitgram";
+    char at[32] = "";
     fputs(color ? "\033[1m" : "", stderr);
+    cli_put_visible(err->where.file ? err->where.file : "unitgram", stderr);
     if (err->where.line)
-        fprintf(stderr, "%s:%u:%u:", file, err->where.line, err->where.column);
-    else
-        fprintf(stderr, "%s:", file);
-    fprintf(stderr, "%s %s%s:%s %s\n", color ? "\033[0m" : "",
-            color ? severity_color(severity) : "", severity, color ? "\033[0m" : "",
-            err->msg);
+        snprintf(at, sizeof at, ":%u:%u", err->where.line, err->where.column);
+    fprintf(stderr, "%s:%s %s%s:%s ", at, color ? "\033[0m" : "",
+            color ? severity_color(severity) : "", severity, color ? "\033[0m" : "");
+    cli_put_visible(err->msg, stderr);
+    fputc('\n', stderr);
 }
 
 void cli_report_error(const ug_error *err) { cli_diag("error", err); }
@@ -53,13 +67,17 @@ int cli_exit_for(const ug_error *err)
     return EXIT_INPUT;
 }
 
+/* The arguments it quotes come from the command line, which may hold a
+** file name with any bytes in it: shown as cli_diag shows text. */
 int cli_usage(const char *cmd, const char *fmt, ...)
 {
+    char msg[1024];
     va_list ap;
     va_start(ap, fmt);
-    fprintf(stderr, "unitgram %s: ", cmd);
-    vfprintf(stderr, fmt, ap);
+    vsnprintf(msg, sizeof msg, fmt, ap);
     va_end(ap);
+    fprintf(stderr, "unitgram %s: ", cmd);
+    cli_put_visible(msg, stderr);
     fprintf(stderr, "\n(see 'unitgram %s --help')\n", cmd);
     return EXIT_USAGE;
 }

@@ -68,7 +68,9 @@ static int list(const ug_glyph_library *lib)
 {
     for (size_t i = 0; i < ug_glyph_library_count(lib); i++) {
         const char *kw = ug_glyph_library_keywords(lib, i);
-        printf("%-16s %s\n", ug_glyph_library_name(lib, i), kw);
+        printf("%-16s ", ug_glyph_library_name(lib, i));
+        cli_put_visible(kw, stdout);
+        putchar('\n');
     }
     return EXIT_OK;
 }
@@ -113,7 +115,8 @@ static int check(const options *o)
             cli_diag("warning", &w);
             line += n + (line[n] == '\n');
         }
-        printf("%s: ok, inked area %.3f of the unit box\n", o->check[i], ink);
+        cli_put_visible(o->check[i], stdout);
+        printf(": ok, inked area %.3f of the unit box\n", ink);
         free(warnings);
     }
     return rc;

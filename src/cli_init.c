@@ -54,10 +54,12 @@ static int write_starter(const char *out, const char *text)
     int existed = 0;
     if (!ug_write_file_new(out, text, strlen(text), &existed, &err))
         return EXIT_OK;
-    if (existed)
-        fprintf(stderr, "%s: error: %s is there already; left as it was "
-                        "(give --replace to replace a file)\n", out, what_is(out));
-    else
+    if (existed) {
+        ug_error e = {.where = {out, 0, 0}};
+        snprintf(e.msg, sizeof e.msg, "%s is there already; left as it was "
+                 "(give --replace to replace a file)", what_is(out));
+        cli_diag("error", &e);
+    } else
         cli_report_error(&err);
     return EXIT_OUTPUT;
 }
@@ -80,8 +82,10 @@ static int replace_starter(const char *out, const char *text)
 {
     struct stat sb;
     if (lstat(out, &sb) == 0 && !S_ISREG(sb.st_mode)) {
-        fprintf(stderr, "%s: error: %s is there; --replace replaces only a "
-                        "regular file\n", out, what_is(out));
+        ug_error e = {.where = {out, 0, 0}};
+        snprintf(e.msg, sizeof e.msg, "%s is there; --replace replaces only a "
+                 "regular file", what_is(out));
+        cli_diag("error", &e);
         return EXIT_OUTPUT;
     }
     return write_atomic(out, text);

@@ -9,6 +9,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 
 #include "cli.h"
 
@@ -49,6 +50,25 @@ static int usage_error(const char *msg, const char *arg)
     return cli_usage("tally", "%s%s%s", msg, arg ? " " : "", arg ? arg : "");
 }
 
+/* The CSV report keeps every label byte for byte, which is right for a
+** file or a pipe; a terminal gets each line escaped as diagnostics are, so
+** that a U+202E in a label cannot reverse what follows it. */
+static int put_report(char *report, size_t len, ug_report_format fmt)
+{
+    if (fmt != UG_REPORT_CSV || !isatty(STDOUT_FILENO))
+        return fwrite(report, 1, len, stdout) == len ? 0 : -1;
+    for (char *line = report; *line;) {
+        size_t n = strcspn(line, "\n");
+        char end = line[n];
+        line[n] = '\0';
+        cli_put_visible(line, stdout);
+        if (end)
+            putchar('\n');
+        line += n + (end != '\0');
+    }
+    return ferror(stdout) ? -1 : 0;
+}
+
 static int run(const char *layout, ug_report_format fmt, bool internal)
 {
     ug_error err = {0};
@@ -65,7 +85,7 @@ static int run(const char *layout, ug_report_format fmt, bool internal)
         ug_allocation_report(alloc, fmt, &report, &len, &err)) {
         cli_report_error(&err);
         rc = cli_exit_for(&err);
-    } else if (fwrite(report, 1, len, stdout) != len || fflush(stdout) != 0) {
+    } else if (put_report(report, len, fmt) || fflush(stdout) != 0) {
         fprintf(stderr, "unitgram tally: cannot write the report\n");
         rc = EXIT_OUTPUT;
     }

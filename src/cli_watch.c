@@ -55,8 +55,9 @@ static void watch_file(watcher *w, const char *path)
              slash ? path : ".");
     int wd = inotify_add_watch(w->fd, dir, EVENTS);
     if (wd < 0) {
-        fprintf(stderr, "%s: warning: cannot watch its folder: %s\n", path,
-                strerror(errno));
+        ug_error e = {.where = {path, 0, 0}};
+        snprintf(e.msg, sizeof e.msg, "cannot watch its folder: %s", strerror(errno));
+        cli_diag("warning", &e);
         return;
     }
     char *name = strdup(slash ? slash + 1 : path);

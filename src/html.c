@@ -7,25 +7,15 @@
 **
 ** The page is also well-formed XML (uppercase DOCTYPE, self-closed void
 ** elements), which HTML parsers accept and which lets tests parse it strictly.
+** Every text from the input goes through svg_escape_text, the SVG's own rule
+** (text_clean): a CSV field holding U+FFFE cannot break the page.
 */
 #include <string.h>
 #include <strings.h>
 
 #include "alloc.h"
 #include "raster.h"
-
-static void esc(ug_buf *b, const char *s)
-{
-    for (; *s; s++) {
-        switch (*s) {
-        case '&': ug_buf_puts(b, "&amp;"); break;
-        case '<': ug_buf_puts(b, "&lt;"); break;
-        case '>': ug_buf_puts(b, "&gt;"); break;
-        case '"': ug_buf_puts(b, "&quot;"); break;
-        default: ug_buf_add(b, s, 1);
-        }
-    }
-}
+#include "svg.h"
 
 /* ---- the SVG ------------------------------------------------------------- */
 
@@ -57,7 +47,7 @@ static void caption(ug_buf *b, const ug_allocation *a)
     const ug_chart *c = a->chart;
     char v[64];
     ug_buf_puts(b, "<caption>");
-    esc(b, c->title.text ? c->title.text : "Chart");
+    svg_escape_text(b, c->title.text ? c->title.text : "Chart");
     if (a->rule.by_cells) {
         if (a->rule.cells == 100)
             ug_buf_puts(b, " (each square = 1% of the total");
@@ -68,7 +58,7 @@ static void caption(ug_buf *b, const ug_allocation *a)
     }
     if (c->unit_label.text) {
         ug_buf_puts(b, " ");
-        esc(b, c->unit_label.text);
+        svg_escape_text(b, c->unit_label.text);
     }
     ug_buf_puts(b, ")</caption>\n");
 }
@@ -91,14 +81,14 @@ static void body_row(ug_buf *b, const ug_allocation *a, size_t g, size_t i)
     ug_buf_puts(b, "<tr>");
     if (c->groups.n) {
         ug_buf_puts(b, "<td>");
-        esc(b, c->groups.items[g].text);
+        svg_escape_text(b, c->groups.items[g].text);
         ug_buf_puts(b, "</td>");
     }
     ug_buf_puts(b, "<th scope=\"row\">");
-    esc(b, c->cats[i].label.text);
+    svg_escape_text(b, c->cats[i].label.text);
     if (alloc_hidden(s)) {
         ug_buf_puts(b, "</th><td>");
-        esc(b, pub_placeholder(a->pub, s->status));
+        svg_escape_text(b, pub_placeholder(a->pub, s->status));
         ug_buf_puts(b, "</td><td></td><td></td></tr>\n");
         return;
     }
@@ -141,10 +131,10 @@ static void page_head(ug_buf *b, const char *title)
                    "<meta charset=\"utf-8\"/>\n"
                    "<meta name=\"viewport\" content=\"width=device-width\"/>\n"
                    "<title>");
-    esc(b, title);
+    svg_escape_text(b, title);
     ug_buf_printf(b, "</title>\n<style>%s</style>\n</head>\n<body>\n<main>\n<h1>",
                   page_css);
-    esc(b, title);
+    svg_escape_text(b, title);
     ug_buf_puts(b, "</h1>\n");
 }
 
@@ -174,7 +164,7 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
     ug_buf_puts(&b, "\n</figure>\n");
     if (description && *description) {
         ug_buf_puts(&b, "<p>");
-        esc(&b, description);
+        svg_escape_text(&b, description);
         ug_buf_puts(&b, "</p>\n");
     }
     for (size_t k = 0; k < nallocs; k++)

@@ -2,6 +2,7 @@
 ** unitgram command-line client: picks the command and hands over to its
 ** cli_<name>.c. Everything real happens in the library.
 */
+#include <errno.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -40,7 +41,7 @@ static const command *find(const char *name)
     return NULL;
 }
 
-int main(int argc, char **argv)
+static int run(int argc, char **argv)
 {
     if (argc < 2) {
         usage(stderr);
@@ -66,10 +67,37 @@ int main(int argc, char **argv)
     }
     const command *c = find(name);
     if (!c) {
-        fprintf(stderr, "unitgram: unknown command '%s'\n", name);
+        fputs("unitgram: unknown command '", stderr);
+        cli_put_visible(name, stderr);
+        fputs("'\n", stderr);
         usage(stderr);
         return EXIT_USAGE;
     }
     cli_clean_up_on_signals();
     return c->run(argc - 1, argv + 1);
+}
+
+/* Every command's output ends here, so a full disk or a closed pipe behind
+** standard output is an error for all of them at once (`glyphs > /dev/full`
+** once exited 0). stdio reports a failed write only at the flush, which for
+** a short listing is this fclose. A command that already said it could not
+** write keeps its message and code. */
+static int close_stdout(int rc)
+{
+    errno = 0;
+    bool failed = ferror(stdout) != 0;
+    if (fclose(stdout) != 0)
+        failed = true;
+    if (!failed)
+        return rc;
+    int e = errno;
+    if (rc != EXIT_OUTPUT)
+        fprintf(stderr, "unitgram: could not write to standard output%s%s\n",
+                e ? ": " : "", e ? strerror(e) : "");
+    return rc == EXIT_OK ? EXIT_OUTPUT : rc;
+}
+
+int main(int argc, char **argv)
+{
+    return close_stdout(run(argc, argv));
 }

@@ -577,22 +577,33 @@ static bool isalnum_ascii(unsigned char ch)
     return (ch >= '0' && ch <= '9') || ((ch | 32) >= 'a' && (ch | 32) <= 'z');
 }
 
-/* An XML id from a category id: letters, digits, '-' and '_' survive. */
+/* An XML id from a category id. Distinct category ids must stay distinct
+** ids ("a b", "a.b" and "a-b" once all became "cat-a-b"), so the mapping is
+** one-to-one: ASCII letters, digits and '-' are kept and every other byte is
+** written "_" and two lower-case hex digits, '_' included; "_n" and the
+** index (never an escape: 'n' is no hex digit) stands for a missing id. */
 static const char *safe_id(packer *p, size_t i)
 {
+    static const char hex[] = "0123456789abcdef";
     const char *id = p->c->cats[i].id ? p->c->cats[i].id : "";
     size_t n = strlen(id);
-    char *out = ug_arena_alloc(&p->s->arena, n + 48);
+    char *out = ug_arena_alloc(&p->s->arena, 3 * n + 32);
     if (!out)
         return NULL;
-    size_t o = (size_t)snprintf(out, 24, "cat-");
+    size_t o = (size_t)snprintf(out, 8, "cat-");
     for (size_t k = 0; k < n; k++) {
         unsigned char ch = (unsigned char)id[k];
-        out[o++] = (isalnum_ascii(ch) || ch == '-' || ch == '_') ? (char)ch
-                                                                            : '-';
+        if (isalnum_ascii(ch) || ch == '-') {
+            out[o++] = (char)ch;
+            continue;
+        }
+        out[o++] = '_';
+        out[o++] = hex[ch >> 4];
+        out[o++] = hex[ch & 15];
     }
     if (n == 0)
-        snprintf(out + o, 24, "%zu", i);
+        o += (size_t)snprintf(out + o, 24, "_n%zu", i);
+    out[o] = '\0';
     return out;
 }
 

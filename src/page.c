@@ -347,13 +347,17 @@ static ug_status foot(composer *k)
     for (size_t i = 0; i < k->p->npanels; i++)
         if (k->p->panels[i].chart)
             add_sources(&b, &k->p->panels[i].chart->source);
-    char *text;
+    char *text, *clean;
     ug_status st = ug_buf_take(&b, &text, NULL, k->err);
     if (st)
         return st;
-    text_font f = {k->font, PAGE_SOURCE_PX, false};
-    st = text_wrap(&f, text, k->g.width - 2 * k->g.margin, &k->foot, k->err);
+    clean = text_clean(text);
     ug_free(text);
+    if (!clean)
+        return ug_fail(k->err, UG_ENOMEM, ug_mark_file(k->p->path), "out of memory");
+    text_font f = {k->font, PAGE_SOURCE_PX, false};
+    st = text_wrap(&f, clean, k->g.width - 2 * k->g.margin, &k->foot, k->err);
+    ug_free(clean);
     return st;
 }
 
@@ -467,11 +471,11 @@ static void page_head(composer *k, ug_buf *b)
     ug_buf_printf(b, " viewBox=\"0 0 %s %s\"", w, h);
     ug_buf_puts(b, " aria-labelledby=\"page-title\" aria-describedby=\"page-desc\""
                    " font-family=\"");
-    svg_escape(b, k->font);
+    svg_escape_text(b, k->font);
     ug_buf_puts(b, "\">\n<title id=\"page-title\">");
-    svg_escape(b, p->title.text ? p->title.text : "Handout");
+    svg_escape_text(b, p->title.text ? p->title.text : "Handout");
     ug_buf_puts(b, "</title>\n<desc id=\"page-desc\">");
-    svg_escape(b, k->r->desc);
+    svg_escape_text(b, k->r->desc);
     ug_buf_puts(b, "</desc>\n<rect");
     num_attr(b, "width", k->g.width, "");
     num_attr(b, "height", k->g.height, "");

@@ -243,34 +243,59 @@ static const char *total_icons(const ug_allocation *a, size_t g, char *buf)
     return buf;
 }
 
+/* Text from the layout, as the terminal will show it (ug_text_visible):
+** a label holding U+202E must not reverse the rest of its row. Padded to
+** width bytes, as printf's %-24s pads. */
+static void cell(ug_buf *b, const char *s, size_t width)
+{
+    size_t start = b->len;
+    ug_buf_visible(b, s);
+    for (size_t n = b->len - start; n < width && !b->failed; n++)
+        ug_buf_puts(b, " ");
+}
+
+/* A count, or a placeholder the layout may word: right-aligned in 12. */
+static void text_count(ug_buf *b, const char *s)
+{
+    for (size_t n = ug_text_visible(s, NULL, 0); n < 12 && !b->failed; n++)
+        ug_buf_puts(b, " ");
+    ug_buf_visible(b, s);
+}
+
 static void report_text(const ug_allocation *a, ug_buf *b)
 {
     const ug_chart *c = a->chart;
     char v[64], tot[48], n[64];
-    ug_buf_printf(b, "Each icon = %s%s%s; method: %s%s\n", value_text(a, v),
-                  c->unit_label.text ? " " : "",
-                  c->unit_label.text ? c->unit_label.text : "",
+    ug_buf_printf(b, "Each icon = %s%s", value_text(a, v), c->unit_label.text ? " " : "");
+    cell(b, or_empty(c->unit_label.text), 0);
+    ug_buf_printf(b, "; method: %s%s\n",
                   a->rule.method == UG_METHOD_LARGEST_REMAINDER ? "largest remainder"
                   : a->rule.method == UG_METHOD_SAINTE_LAGUE ? "Sainte-Lague"
                                                              : "D'Hondt",
                   a->rule.partial ? " (partial icons)" : "");
     for (size_t g = 0; g < a->ngroups; g++) {
-        if (c->groups.n)
-            ug_buf_printf(b, "\n%s\n", group_name(c, g));
+        if (c->groups.n) {
+            ug_buf_puts(b, "\n");
+            cell(b, group_name(c, g), 0);
+            ug_buf_puts(b, "\n");
+        }
         ug_buf_printf(b, "  %-24s %12s %12s %8s %12s %12s %8s\n", "category",
                       "count", "quota", "icons", "shown", "difference", "rel %");
         for (size_t i = 0; i < a->ncats; i++) {
             row_text t;
             describe_share(a, alloc_at(a, g, i), &t);
-            ug_buf_printf(b, "  %-24s %12s %12s %8s %12s %12s %8s\n",
-                          or_empty(c->cats[i].label.text), t.count_text, t.quota,
-                          t.icons, t.shown, t.diff, t.rel);
+            ug_buf_puts(b, "  ");
+            cell(b, or_empty(c->cats[i].label.text), 24);
+            ug_buf_puts(b, " ");
+            text_count(b, t.count_text);
+            ug_buf_printf(b, " %12s %8s %12s %12s %8s\n", t.quota, t.icons, t.shown,
+                          t.diff, t.rel);
         }
         const pub_cell *m = &a->pub->group_totals[g];
-        ug_buf_printf(b, "  %-24s %12s %12s %8s\n", "total",
-                      pub_hidden(m->status) ? a->pub->other_label
-                                            : ug_dec_format(m->value, tot),
-                      "", total_icons(a, g, n));
+        ug_buf_printf(b, "  %-24s ", "total");
+        text_count(b, pub_hidden(m->status) ? a->pub->other_label
+                                            : ug_dec_format(m->value, tot));
+        ug_buf_printf(b, " %12s %8s\n", "", total_icons(a, g, n));
     }
 }
 

@@ -48,7 +48,7 @@ typedef struct {
 } scene_rect;
 
 typedef struct {
-    const char *id;       /* safe for an XML id: [A-Za-z0-9_-] */
+    const char *id;       /* an XML id, [A-Za-z0-9_-], one per category id */
     const char *title;    /* "Adults: 2,480 households" (suppressed: its label) */
     scene_rgb color;
     size_t glyph;         /* index into glyphs */

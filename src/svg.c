@@ -19,6 +19,7 @@
 #include <string.h>
 
 #include "svg.h"
+#include "text.h"
 
 size_t svg_number(double v, char *out)
 {
@@ -62,6 +63,17 @@ void svg_escape(ug_buf *b, const char *s)
         run = s + 1;
     }
     ug_buf_add(b, run, (size_t)(s - run));
+}
+
+void svg_escape_text(ug_buf *b, const char *s)
+{
+    char *clean = text_clean(s);
+    if (!clean) {
+        b->failed = true;
+        return;
+    }
+    svg_escape(b, clean);
+    ug_free(clean);
 }
 
 static void num(ug_buf *b, double v)

@@ -12,5 +12,8 @@
 size_t svg_number(double v, char *out);
 /* s escaped for XML text and attribute values (& < > " '). */
 void svg_escape(ug_buf *b, const char *s);
+/* Text straight from the input (not through the scene) for an SVG or the
+** web page: cleaned by text_clean, then escaped as svg_escape does. */
+void svg_escape_text(ug_buf *b, const char *s);
 
 #endif

@@ -125,8 +125,18 @@ ug_status text_wrap(const text_font *f, const char *s, double max_width,
     return UG_OK;
 }
 
-/* XML 1.0 allows neither control characters nor U+FFFE/U+FFFF; pango wants
-** valid UTF-8. Anything else passes through unchanged. */
+/* Unicode's noncharacters (Unicode Standard §23.7): U+FDD0..U+FDEF and the
+** last two code points of each of the 17 planes. XML 1.0 (§2.2, production
+** [2] Char) forbids U+FFFE and U+FFFF and discourages the rest; the HTML
+** Living Standard (§13.2.3.5) makes every one a parse error. */
+static bool noncharacter(gunichar c)
+{
+    return (c >= 0xFDD0 && c <= 0xFDEF) || (c & 0xFFFE) == 0xFFFE;
+}
+
+/* Text for every document we write (SVG, the web page) and for pango: valid
+** UTF-8, no control character but the newline (XML 1.0 §2.2 allows no C0
+** control but tab, LF and CR, and discourages DEL and C1), no noncharacter. */
 char *text_clean(const char *s)
 {
     size_t n = strlen(s);
@@ -142,9 +152,9 @@ char *text_clean(const char *s)
             continue;
         }
         const char *next = g_utf8_next_char(p);
-        if ((c < 0x20 && c != '\n') || c == 0x7F)
+        if ((c < 0x20 && c != '\n') || (c >= 0x7F && c <= 0x9F))
             *o++ = ' ';
-        else if (c == 0xFFFE || c == 0xFFFF)
+        else if (noncharacter(c))
             o += g_unichar_to_utf8(0xFFFD, o);
         else {
             memcpy(o, p, (size_t)(next - p));

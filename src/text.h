@@ -32,8 +32,10 @@ double text_width(const text_font *f, const char *s);
 ug_status text_wrap(const text_font *f, const char *s, double max_width,
                     text_block *out, ug_error *err);
 void text_block_free(text_block *b);
-/* A copy of s that is valid UTF-8 with every control character but the
-** newline turned into a space; NULL when out of memory. */
+/* A copy of s that is valid UTF-8 (a bad byte becomes U+FFFD), with every
+** C0 and C1 control character and DEL but the newline turned into a space
+** and every noncharacter (U+FDD0..U+FDEF, U+nFFFE, U+nFFFF) into U+FFFD:
+** what the SVG and the web page may hold. NULL when out of memory. */
 char *text_clean(const char *s);
 
 #endif

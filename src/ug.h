@@ -71,7 +71,10 @@ void ug_buf_free(ug_buf *b);
 void ug_buf_add(ug_buf *b, const char *s, size_t n);
 void ug_buf_puts(ug_buf *b, const char *s);
 void ug_buf_printf(ug_buf *b, const char *fmt, ...) UG_PRINTF(2, 3);
-/* s as a quoted JSON string (quotes, backslashes, control characters escaped). */
+/* s as it may be shown on a terminal: see ug_text_visible. */
+void ug_buf_visible(ug_buf *b, const char *s);
+/* s as a quoted JSON string: quotes, backslashes and what ug_text_visible
+** escapes are written \uXXXX escapes. */
 void ug_buf_json_string(ug_buf *b, const char *s);
 /* One CSV field, quoted when needed and defused when it starts like a formula. */
 void ug_buf_csv_field(ug_buf *b, const char *s);

@@ -1,10 +1,11 @@
 /*
-** Shared plumbing: errors, the allocation wrapper, arenas and byte buffers.
-** Every stage uses these; none of them knows about charts. Files are written
-** by outfile.c.
+** Shared plumbing: errors, the allocation wrapper, arenas, byte buffers and
+** text made safe to print on a terminal. Every stage uses these; none of them
+** knows about charts. Files are written by outfile.c.
 */
 #define _POSIX_C_SOURCE 200809L
 #include <errno.h>
+#include <glib.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -262,17 +263,88 @@ void ug_buf_csv_field(ug_buf *b, const char *s)
     ug_buf_puts(b, "\"");
 }
 
+/* ---- text for terminals ------------------------------------------------- */
+
+/* Code points that would move, hide or reorder what a terminal shows, or
+** drive the terminal itself, when printed raw: the C0 and C1 controls and
+** DEL (ECMA-48), the line and paragraph separators, and the explicit
+** directional formatting characters of Unicode UAX #9 (ALM U+061C, LRM, RLM,
+** LRE..RLO, LRI..PDI), the "Trojan Source" set of CVE-2021-42574. */
+static bool hidden_in_terminal(gunichar c)
+{
+    return c < 0x20 || (c >= 0x7F && c <= 0x9F) || c == 0x061C || c == 0x200E ||
+           c == 0x200F || c == 0x2028 || c == 0x2029 || (c >= 0x202A && c <= 0x202E) ||
+           (c >= 0x2066 && c <= 0x2069);
+}
+
+/* The next character of s (before end): its length in bytes and, when it
+** must be shown escaped, the escape in esc ("" otherwise). A byte that
+** starts no valid UTF-8 sequence is one character of its own. */
+static size_t visible_piece(const char *s, const char *end, char esc[16])
+{
+    gunichar c = g_utf8_get_char_validated(s, end - s);
+    esc[0] = '\0';
+    if (c == (gunichar)-1 || c == (gunichar)-2) {
+        snprintf(esc, 16, "<0x%02X>", (unsigned)(unsigned char)*s);
+        return 1;
+    }
+    if (hidden_in_terminal(c))
+        snprintf(esc, 16, "<U+%04X>", (unsigned)c);
+    return (size_t)(g_utf8_next_char(s) - s);
+}
+
+void ug_buf_visible(ug_buf *b, const char *s)
+{
+    const char *end = s + strlen(s);
+    char esc[16];
+    while (s < end) {
+        size_t n = visible_piece(s, end, esc);
+        if (esc[0])
+            ug_buf_puts(b, esc);
+        else
+            ug_buf_add(b, s, n);
+        s += n;
+    }
+}
+
+size_t ug_text_visible(const char *s, char *out, size_t size)
+{
+    const char *end = s + strlen(s);
+    size_t need = 0, kept = 0;
+    char esc[16];
+    while (s < end) {
+        size_t n = visible_piece(s, end, esc), k = esc[0] ? strlen(esc) : n;
+        if (kept == need && need + k < size) {
+            memcpy(out + need, esc[0] ? esc : s, k);
+            kept += k;
+        }
+        need += k;
+        s += n;
+    }
+    if (size)
+        out[kept] = '\0';
+    return need;
+}
+
+/* RFC 8259 §7: any character may be written \uXXXX, so what a terminal
+** would act on is escaped too and the string still reads back the same;
+** a byte that is not UTF-8 becomes U+FFFD (§8.1: JSON text is UTF-8). */
 void ug_buf_json_string(ug_buf *b, const char *s)
 {
+    const char *end = s + strlen(s);
+    char esc[16];
     ug_buf_puts(b, "\"");
-    for (; *s; s++) {
-        unsigned char ch = (unsigned char)*s;
-        if (ch == '"' || ch == '\\')
-            ug_buf_printf(b, "\\%c", ch);
-        else if (ch < 0x20)
-            ug_buf_printf(b, "\\u%04x", ch);
+    while (s < end) {
+        size_t n = visible_piece(s, end, esc);
+        if (*s == '"' || *s == '\\')
+            ug_buf_printf(b, "\\%c", *s);
+        else if (esc[0] == '<' && esc[1] == '0')
+            ug_buf_puts(b, "\\ufffd");
+        else if (esc[0])
+            ug_buf_printf(b, "\\u%.4s", esc + 3);
         else
-            ug_buf_add(b, s, 1);
+            ug_buf_add(b, s, n);
+        s += n;
     }
     ug_buf_puts(b, "\"");
 }

@@ -2,6 +2,7 @@
 ** on random layouts (fixed seed), checked by tests/data/draw/invariants.h. */
 #define _POSIX_C_SOURCE 200809L
 #include <check.h>
+#include <libxml/tree.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -331,6 +332,42 @@ START_TEST(test_each_allocation_fails_cleanly)
 }
 END_TEST
 
+/* Category ids that differ only in punctuation, case, accents or
+** normalization each get an XML id of their own, and every one is a valid
+** NCName (Namespaces in XML 1.0, production [4]), so href="#..." and
+** aria references can name it. */
+static const char *const clashing_ids[] = {
+    "a b", "a-b", "a.b", "a_b", "a_20b", "A-B", "\u00fc", "\u00f6", "u",
+    "\u00e9cole", "e\u0301cole", "ecole", "",
+};
+#define NCLASH (sizeof clashing_ids / sizeof clashing_ids[0])
+
+START_TEST(test_xml_ids_one_per_category)
+{
+    fx_cat cats[NCLASH];
+    for (size_t i = 0; i < NCLASH; i++)
+        cats[i] = (fx_cat){"x", "square", 0x0072B2, {"10"}, NULL};
+    ug_chart *c = fx_chart(UG_FORM_ROWS, "ids", NULL, 0, cats, NCLASH);
+    for (size_t i = 0; i < NCLASH; i++)
+        c->cats[i].id = clashing_ids[i];
+    ug_allocation *a = NULL;
+    ug_scene *s = pack_ok(c, &a);
+    for (size_t i = 0; i < NCLASH; i++) {
+        const char *id = s->cats[i].id;
+        ck_assert_msg(xmlValidateNCName((const xmlChar *)id, 0) == 0, "not an NCName: %s", id);
+        for (size_t j = 0; j < i; j++)
+            ck_assert_msg(strcmp(id, s->cats[j].id) != 0, "'%s' and '%s' share %s",
+                          clashing_ids[j], clashing_ids[i], id);
+    }
+    ck_assert_str_eq(s->cats[0].id, "cat-a_20b");
+    ck_assert_str_eq(s->cats[1].id, "cat-a-b");
+    ck_assert_str_eq(s->cats[6].id, "cat-_c3_bc");
+    ug_scene_free(s);
+    ug_allocation_free(a);
+    fx_free(c);
+}
+END_TEST
+
 static Suite *pack_suite(void)
 {
     Suite *s = suite_create("pack");
@@ -346,6 +383,7 @@ static Suite *pack_suite(void)
     tcase_add_test(t, test_long_text_wraps_inside);
     tcase_add_test(t, test_random_layouts);
     tcase_add_test(t, test_each_allocation_fails_cleanly);
+    tcase_add_test(t, test_xml_ids_one_per_category);
     suite_add_tcase(s, t);
     return s;
 }

@@ -118,6 +118,16 @@ static const clean_case cleans[] = {
     {"bad \xff byte", "bad \xef\xbf\xbd byte"},
     {"cut \xc3", "cut \xef\xbf\xbd"},
     {"\xef\xbf\xbe", "\xef\xbf\xbd"}, /* U+FFFE is not an XML character */
+    /* Unicode §23.7 noncharacters (U+FDD0..U+FDEF, U+nFFFE, U+nFFFF): the
+    ** HTML Living Standard §13.2.3.5 makes each a parse error. */
+    {"a\xef\xbf\xbf" "b", "a\xef\xbf\xbd" "b"},
+    {"\xef\xb7\x90\xef\xb7\xaf", "\xef\xbf\xbd\xef\xbf\xbd"},
+    {"\xef\xb7\x8f\xef\xb7\xb0", "\xef\xb7\x8f\xef\xb7\xb0"}, /* U+FDCF, U+FDF0 */
+    {"\xf0\x9f\xbf\xbe\xf0\x9f\xbf\xbf", "\xef\xbf\xbd\xef\xbf\xbd"},
+    {"\xf4\x8f\xbf\xbf", "\xef\xbf\xbd"}, /* U+10FFFF */
+    {"\xef\xbf\xbd\xef\xbf\xbc", "\xef\xbf\xbd\xef\xbf\xbc"}, /* U+FFFD, U+FFFC */
+    /* XML 1.0 §2.2 discourages DEL and the C1 controls */
+    {"del\x7f c1\xc2\x85\xc2\x9f", "del  c1  "},
 };
 
 START_TEST(test_clean)

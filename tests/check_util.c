@@ -1,4 +1,5 @@
-/* Tests for src/util.c and src/dec.c: exact decimals, buffers, atomic writes. */
+/* Tests for src/util.c and src/dec.c: exact decimals, buffers, atomic writes,
+** text escaped for terminals. */
 #define _POSIX_C_SOURCE 200809L
 #include <check.h>
 #include <stdio.h>
@@ -157,6 +158,56 @@ START_TEST(test_first_error_wins)
 }
 END_TEST
 
+/* Escapes for terminals: the directional formatting characters of Unicode
+** UAX #9 (ALM U+061C, LRM U+200E, RLM U+200F, LRE..RLO U+202A..U+202E,
+** LRI..PDI U+2066..U+2069), C0 and C1 controls and DEL (ECMA-48), the line
+** and paragraph separators; text around them is untouched. */
+typedef struct {
+    const char *in, *out;
+} visible_case;
+
+static const visible_case visible_cases[] = {
+    {"plain \u00e9cole", "plain \u00e9cole"},
+    {"\u202egnp.exe\u202c", "<U+202E>gnp.exe<U+202C>"},
+    {"a\u2066b\u2069c\u200e\u200f\u061c", "a<U+2066>b<U+2069>c<U+200E><U+200F><U+061C>"},
+    {"\u202a\u202b\u202d\u2067\u2068", "<U+202A><U+202B><U+202D><U+2067><U+2068>"},
+    {"\x1b[2J\x07\t\n\x7f", "<U+001B>[2J<U+0007><U+0009><U+000A><U+007F>"},
+    {"\xc2\x9b" "31m\xc2\x85", "<U+009B>31m<U+0085>"},
+    {"\u2028\u2029", "<U+2028><U+2029>"},
+    {"\xff\xc3(\xe2\x80", "<0xFF><0xC3>(<0xE2><0x80>"},
+    {"\u200d\u00a0\u2069x", "\u200d\u00a0<U+2069>x"},
+};
+
+START_TEST(test_text_visible)
+{
+    const visible_case *c = &visible_cases[_i];
+    char out[128];
+    size_t n = ug_text_visible(c->in, out, sizeof out);
+    ck_assert_str_eq(out, c->out);
+    ck_assert_uint_eq(n, strlen(c->out));
+    ug_buf b;
+    ug_buf_init(&b);
+    ug_buf_visible(&b, c->in);
+    ck_assert_str_eq(b.data ? b.data : "", c->out);
+    ug_buf_free(&b);
+}
+END_TEST
+
+/* A short buffer gets whole escapes and whole characters only, and the
+** length the whole result needs, as snprintf reports it. */
+START_TEST(test_text_visible_truncates_whole)
+{
+    char out[12];
+    ck_assert_uint_eq(ug_text_visible("ab\u202ecd", out, sizeof out), 12);
+    ck_assert_str_eq(out, "ab<U+202E>c");
+    ck_assert_uint_eq(ug_text_visible("ab\u202ecd", out, 6), 12);
+    ck_assert_str_eq(out, "ab");
+    ck_assert_uint_eq(ug_text_visible("\u00e9\u00e9\u00e9", out, 6), 6);
+    ck_assert_str_eq(out, "\u00e9\u00e9");
+    ck_assert_uint_eq(ug_text_visible("x", NULL, 0), 1);
+}
+END_TEST
+
 static Suite *util_suite(void)
 {
     Suite *s = suite_create("util");
@@ -170,6 +221,9 @@ static Suite *util_suite(void)
     tcase_add_test(tc, test_mem_fail_modes);
     tcase_add_test(tc, test_arena_zeroes_and_aligns);
     tcase_add_test(tc, test_first_error_wins);
+    tcase_add_loop_test(tc, test_text_visible, 0,
+                        sizeof visible_cases / sizeof visible_cases[0]);
+    tcase_add_test(tc, test_text_visible_truncates_whole);
     suite_add_tcase(s, tc);
     return s;
 }

@@ -96,14 +96,29 @@ expect 2 "$BIN" describe
 expect 0 "$BIN" glyphs
 expect 1 "$BIN" glyphs --check "$T/nothing.svg"
 expect 4 "$BIN" glyphs --sheet "$T/no/such/sheet.svg"
-# a full output device: the write fails, exit 4 (not 1)
+# a full output device: every command that prints to standard output fails
+# with exit 4 (not 0, not 1) and says so once on stderr
 if [ -w /dev/full ]; then
-  "$BIN" draw layouts/pantry.yaml -o - > /dev/full 2> /dev/null; rc=$?
-  [ $rc = 4 ] || fail "draw to /dev/full exited $rc"
-  "$BIN" describe layouts/pantry.yaml > /dev/full 2> /dev/null; rc=$?
-  [ $rc = 4 ] || fail "describe to /dev/full exited $rc"
-  "$BIN" tally layouts/pantry.yaml > /dev/full 2> /dev/null; rc=$?
-  [ $rc = 4 ] || fail "tally to /dev/full exited $rc"
+  while IFS= read -r args; do
+    # shellcheck disable=SC2086  # the words of one command line
+    "$BIN" $args > /dev/full 2> "$T/err"; rc=$?
+    [ $rc = 4 ] || fail "$args > /dev/full exited $rc"
+    [ "$(grep -c 'write' "$T/err")" = 1 ] || fail "$args > /dev/full: $(head -c 300 "$T/err")"
+  done <<'CMDS'
+draw layouts/pantry.yaml -o -
+draw layouts/pantry.yaml -o - --format png
+describe layouts/pantry.yaml
+tally layouts/pantry.yaml
+tally layouts/pantry.yaml --format csv
+audit layouts/pantry.yaml
+glyphs
+init
+--version
+--help
+help
+help tally
+draw --help
+CMDS
 fi
 
 # ---- '-' is standard input and standard output
@@ -133,6 +148,69 @@ if command -v script > /dev/null; then
   no_escapes "$T/tty" "NO_COLOR=1 on a terminal"
   grep -q "bad.yaml:2:7: error:" "$T/tty" || fail "NO_COLOR changed the message"
 fi
+
+# ---- text from a layout reaches the terminal escaped: the bidirectional
+# formatting characters of Unicode UAX #9 (the "Trojan Source" set of
+# CVE-2021-42574), C0/C1 controls and DEL are shown as <U+XXXX>
+# raw_controls FILE: any of those code points in FILE, as UTF-8
+raw_controls() {
+  python3 - "$1" <<'PY'
+import re, sys
+text = open(sys.argv[1], "rb").read().decode("utf-8", "replace")
+bad = re.findall("[\x00-\x08\x0b-\x1f\x7f-\x9f\u061c\u200e\u200f\u2028\u2029"
+                 "\u202a-\u202e\u2066-\u2069]", text)
+print(" ".join("U+%04X" % ord(c) for c in sorted(set(bad))))
+PY
+}
+printf '%s\n' 'title: "Bidi \u202e test"' 'source: test' 'unit-label: "house\u202eholds"' \
+  'form: rows' 'icon-value: 1' 'data: {file: bidi.csv, group-column: g}' 'categories:' \
+  '  - {label: "\u202egnp.exe\u202c A", column: a}' \
+  '  - {label: "B\u2066x\u2069\u200e\u200f\u061c\u2028", column: b}' > "$T/bidi.yaml"
+printf 'g,a,b\nN\xe2\x80\xaeorth,1,2\n' > "$T/bidi.csv"
+expect 0 "$BIN" tally "$T/bidi.yaml"
+[ -z "$(raw_controls "$T/out")" ] || fail "tally text: raw $(raw_controls "$T/out")"
+grep -qF '<U+202E>gnp.exe<U+202C> A' "$T/out" || fail "tally text: label not escaped: $(cat "$T/out")"
+grep -qF 'N<U+202E>orth' "$T/out" || fail "tally text: group not escaped"
+grep -qF 'house<U+202E>holds' "$T/out" || fail "tally text: unit label not escaped"
+expect 0 "$BIN" tally "$T/bidi.yaml" --format json
+[ -z "$(raw_controls "$T/out")" ] || fail "tally json: raw $(raw_controls "$T/out")"
+python3 -c 'import json, sys; r = json.load(open(sys.argv[1]))
+assert r[0]["category"] == "\u202egnp.exe\u202c A", r[0]["category"]' "$T/out" \
+  || fail "tally json: the escaped label does not read back as written"
+# CSV to a file keeps the label byte for byte; on a terminal it is escaped
+expect 0 "$BIN" tally "$T/bidi.yaml" --format csv
+grep -qF "$(printf '\xe2\x80\xaegnp.exe')" "$T/out" || fail "tally csv to a file changed the label"
+if command -v script > /dev/null; then
+  script -qc "$BIN tally $T/bidi.yaml --format csv" /dev/null > "$T/tty" 2>&1
+  tr -d '\r' < "$T/tty" > "$T/tty.txt"
+  [ -z "$(raw_controls "$T/tty.txt")" ] || fail "tally csv on a terminal: raw $(raw_controls "$T/tty.txt")"
+  grep -qF '<U+202E>gnp.exe' "$T/tty.txt" || fail "tally csv on a terminal: $(head -c 300 "$T/tty.txt")"
+fi
+# a diagnostic quoting a label (a duplicate id)
+sed 's/column: a}/column: b}/; s/label: "\\u202egnp.exe\\u202c A"/label: "B\\u2066x\\u2069\\u200e\\u200f\\u061c\\u2028"/' \
+  "$T/bidi.yaml" > "$T/bidi_dup.yaml"
+expect 1 "$BIN" draw "$T/bidi_dup.yaml" -o "$T/bidi.svg"
+[ -z "$(raw_controls "$T/err")" ] || fail "diagnostic: raw $(raw_controls "$T/err")"
+grep -qF "duplicate category id 'b<U+2066>x<U+2069><U+200E><U+200F><U+061C><U+2028>'" "$T/err" \
+  || fail "diagnostic not escaped: $(cat "$T/err")"
+expect 0 "$BIN" audit "$T/bidi.yaml"
+[ -z "$(raw_controls "$T/out")" ] || fail "audit report: raw $(raw_controls "$T/out")"
+grep -qF "'<U+202E>gnp.exe<U+202C> A' in N<U+202E>orth is 1 house<U+202E>holds" "$T/out" \
+  || fail "audit report not escaped: $(head -c 300 "$T/out")"
+expect 0 "$BIN" audit "$T/bidi.yaml" --format json
+[ -z "$(raw_controls "$T/out")" ] || fail "audit json: raw $(raw_controls "$T/out")"
+expect 0 "$BIN" draw "$T/bidi.yaml" -o "$T/bidi.svg"
+[ -z "$(raw_controls "$T/err")" ] || fail "draw's audit findings: raw $(raw_controls "$T/err")"
+grep -qF "<U+202E>gnp.exe" "$T/err" || fail "draw's findings not escaped: $(head -c 300 "$T/err")"
+expect 0 "$BIN" describe "$T/bidi.yaml"
+
+# a control character can still come in a file name or an argument
+expect 1 "$BIN" draw "$T/x"$'\033]0;pwned\007'".yaml" -o "$T/x.svg"
+[ -z "$(raw_controls "$T/err")" ] || fail "file name in a diagnostic: raw $(raw_controls "$T/err")"
+grep -qF 'x<U+001B>]0;pwned<U+0007>.yaml' "$T/err" || fail "file name not escaped: $(cat "$T/err")"
+expect 2 "$BIN" draw layouts/pantry.yaml --bogus$'\033[2J\u202e'
+[ -z "$(raw_controls "$T/err")" ] || fail "usage error: raw $(raw_controls "$T/err")"
+grep -qF -- '--bogus<U+001B>[2J<U+202E>' "$T/err" || fail "usage error not escaped: $(cat "$T/err")"
 
 # ---- glyph sanitizer removals: a warning at the category's glyph key
 mkdir -p "$T/g"

@@ -121,12 +121,43 @@ check_drawn() { # check_drawn NAME SVG
   local bad
   bad=$(xmllint --nonet --xpath "$ACTIVE" "$2" 2>/dev/null)
   [ "$bad" = 0 ] || fail "$1: active content in the SVG ($bad finds)"
+  bad=$(forbidden_chars "$2")
+  [ -z "$bad" ] || fail "$1: the SVG holds $bad"
+  # XML 1.0 §3.3.1, validity constraint "ID": no two elements share an id,
+  # or a fragment reference (href="#...", aria-labelledby) picks one of them.
+  local dup
+  dup=$(grep -o ' id="[^"]*"' "$2" | sort | uniq -d | head -3 | tr '\n' ' ')
+  [ -z "$dup" ] || fail "$1: ids used twice: $dup"
   # cairo rasterizes at most 32767 px a side: a tall chart is rendered shrunk.
   local h zoom=1
   h=$(xmllint --nonet --xpath 'string(/*/@height)' "$2" 2>/dev/null)
   [ "${h%.*}" -gt 30000 ] 2>/dev/null && zoom=0.1
   rsvg-convert -z "$zoom" "$2" -o "$T/render.png" 2>/dev/null \
     || fail "$1: librsvg cannot render it"
+}
+
+# forbidden_chars FILE: the code points in FILE that XML 1.0 forbids or
+# discourages (§2.2, production [2] Char and its note: C0 controls but tab,
+# LF and CR; DEL and C1) or that are Unicode noncharacters (Unicode §23.7;
+# each is a parse error in the HTML Living Standard §13.2.3.5).
+forbidden_chars() {
+  python3 - "$1" <<'PY'
+import sys
+text = open(sys.argv[1], "rb").read().decode("utf-8")
+bad = {c for c in text if (ord(c) < 0x20 and c not in "\t\n\r") or 0x7F <= ord(c) <= 0x9F
+       or 0xFDD0 <= ord(c) <= 0xFDEF or (ord(c) & 0xFFFE) == 0xFFFE}
+print(" ".join("U+%04X" % ord(c) for c in sorted(bad)))
+PY
+}
+
+# The web page holds the same texts outside the SVG (title, description, the
+# data table): it must parse as XML too and hold no forbidden character.
+check_page() { # check_page NAME
+  capped "$BIN" draw "$H/$1.yaml" -o out.html 2> /dev/null || return 0
+  xmllint --nonet --noout out.html 2> /dev/null || { fail "$1: the web page does not parse"; return; }
+  local bad
+  bad=$(forbidden_chars out.html)
+  [ -z "$bad" ] || fail "$1: the web page holds $bad"
 }
 
 check_refused() { # check_refused NAME STDERR
@@ -159,7 +190,8 @@ while read -r name want; do
          [ "$rc" = 0 ] || [ "$rc" = 1 ] \
            || fail "$name: draw to .$ext exit $rc: $(head -c 300 err2.txt)"
          [ "$rc" = 1 ] && [ ! -s err2.txt ] && fail "$name: .$ext refused without a message"
-       done ;;
+       done
+       check_page "$name" ;;
     1) refused=$((refused + 1))
        [ "$want" = error ] || fail "$name: refused, but EXPECT says $want: $(head -c 300 err.txt)"
        [ -e out.svg ] && fail "$name: refused but wrote out.svg"

@@ -171,6 +171,35 @@ checks=$((checks + 1))
 [ "$(cd "$B/work/out" && cat -- * | cksum)" = "$sum_before" ] \
   || fail "a failed batch changed earlier files"
 ls -A "$B/work/out" | grep -q 'tmp' && fail "a failed batch left temporary files"
+# The limits bound every chart of a batch, as they bound a single chart: a
+# row over --max-icons stops the batch before anything is written, and the
+# error says which row; a CSV over --max-input-bytes is refused at its name.
+printf 'name,adults,children\nNorth,20,10\nSouth,200,100\n' > "$B/work/two.csv"
+{ printf 'name,adults,children\n'; seq 1 200 | sed 's/.*/Row&,1,1/'; } > "$B/work/long.csv"
+for run in "two.csv --max-icons 50" "long.csv --max-input-bytes 1000"; do
+  set -- $run
+  (cd "$B/work" && "$BIN" draw tmpl.yaml --each-row "$1" -o 'out/{group}.svg' --quiet \
+     "$2" "$3") 2> "$T/err.txt"
+  rc=$?
+  checks=$((checks + 1))
+  [ "$rc" = 1 ] || fail "batch $run: exit $rc, expected 1 ($(head -c 300 "$T/err.txt"))"
+  [ "$(cd "$B/work/out" && cat -- * | cksum)" = "$sum_before" ] \
+    || fail "batch $run changed earlier files"
+  case $2 in
+    --max-icons)
+      grep -q "more than 50 icons" "$T/err.txt" || fail "batch $run: $(cat "$T/err.txt")"
+      grep -q "note: in the chart of row 2, 'South'" "$T/err.txt" \
+        || fail "batch $run names no row: $(cat "$T/err.txt")" ;;
+    *)
+      grep -q "^long.csv: error: .*larger than the limit of 1000 bytes" "$T/err.txt" \
+        || fail "batch $run: $(cat "$T/err.txt")" ;;
+  esac
+done
+(cd "$B/work" && "$BIN" draw tmpl.yaml --each-row two.csv -o 'out/{group}.svg' --quiet \
+   --max-icons 300) 2> "$T/err.txt" || fail "batch within --max-icons 300: $(cat "$T/err.txt")"
+checks=$((checks + 1))
+[ "$(grep -c '<use href' "$B/work/out/south.svg")" -gt 50 ] \
+  || fail "batch within the limit did not draw its rows"
 
 # A folder named by {group} that is a symlink to a folder outside: that row is
 # refused with a message, nothing lands outside, the other rows are drawn.
