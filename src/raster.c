@@ -213,21 +213,34 @@ static cairo_status_t to_buf(void *closure, const unsigned char *data,
     return b->failed ? CAIRO_STATUS_NO_MEMORY : CAIRO_STATUS_SUCCESS;
 }
 
+/* A document to draw: librsvg's handle of it and, when its icons were
+** lifted out, the icons, painted after it. w, h: its size in CSS px. */
+typedef struct {
+    RsvgHandle *handle;
+    raster_icons *icons;
+    double w, h;
+} drawing;
+
 /* Draw the whole document scaled into a w x h viewport on the surface. */
-static ug_status draw(RsvgHandle *handle, cairo_surface_t *s, double w, double h,
+static ug_status draw(const drawing *d, cairo_surface_t *s, double w, double h,
                       ug_error *err)
 {
     GError *gerr = NULL;
     RsvgRectangle viewport = {0, 0, w, h};
     cairo_t *cr = cairo_create(s);
-    gboolean ok = rsvg_handle_render_document(handle, cr, &viewport, &gerr);
+    gboolean ok = rsvg_handle_render_document(d->handle, cr, &viewport, &gerr);
+    ug_status st = UG_OK;
+    if (ok && d->icons)
+        st = raster_icons_paint(d->icons, cr, w, h, err);
     cairo_status_t cs = cairo_status(cr);
     cairo_destroy(cr);
     if (!ok)
         return svg_error(err, gerr, "the SVG could not be drawn");
+    if (st)
+        return st;
     if (cs)
-        return ug_fail(err, UG_ERENDER, ug_mark_file(NULL), "cairo: %s",
-                       cairo_status_to_string(cs));
+        return ug_fail(err, cs == CAIRO_STATUS_NO_MEMORY ? UG_ENOMEM : UG_ERENDER,
+                       ug_mark_file(NULL), "cairo: %s", cairo_status_to_string(cs));
     return UG_OK;
 }
 
@@ -242,9 +255,10 @@ static ug_status surface_done(cairo_surface_t *s, const ug_buf *b, ug_error *err
     return UG_OK;
 }
 
-static ug_status render_png(RsvgHandle *handle, double w, double h, double dpi,
-                            double scale, ug_buf *b, ug_error *err)
+static ug_status render_png(const drawing *d, double dpi, double scale, ug_buf *b,
+                            ug_error *err)
 {
+    double w = d->w, h = d->h;
     int pw = 0, ph = 0;
     ug_status st = png_size(w, h, dpi, scale, &pw, &ph, err);
     if (st)
@@ -253,7 +267,7 @@ static ug_status render_png(RsvgHandle *handle, double w, double h, double dpi,
     if ((st = surface_done(s, b, err)))
         goto out;
     double f = dpi / RASTER_CSS_DPI * scale;
-    if ((st = draw(handle, s, w * f, h * f, err)))
+    if ((st = draw(d, s, w * f, h * f, err)))
         goto out;
     cairo_surface_flush(s);
     cairo_status_t cs = cairo_surface_write_to_png_stream(s, to_buf, b);
@@ -267,9 +281,9 @@ out:
     return st;
 }
 
-static ug_status render_pdf(RsvgHandle *handle, double w, double h, double scale,
-                            ug_buf *b, ug_error *err)
+static ug_status render_pdf(const drawing *d, double scale, ug_buf *b, ug_error *err)
 {
+    double w = d->w, h = d->h;
     double pw = 0, ph = 0;
     ug_status st = pdf_size(w, h, scale, &pw, &ph, err);
     if (st)
@@ -279,12 +293,60 @@ static ug_status render_pdf(RsvgHandle *handle, double w, double h, double scale
         goto out;
     /* The creation date is the only byte that changes run to run. */
     cairo_pdf_surface_set_metadata(s, CAIRO_PDF_METADATA_CREATE_DATE, "");
-    if ((st = draw(handle, s, pw, ph, err)))
+    if ((st = draw(d, s, pw, ph, err)))
         goto out;
     cairo_surface_finish(s);
     st = surface_done(s, b, err);
 out:
     cairo_surface_destroy(s);
+    return st;
+}
+
+/* The handle librsvg draws: of the document without its icons when they
+** could be lifted out (d->icons set), else of the document itself. */
+static ug_status open_drawing(const char *svg, size_t len, RsvgHandle *whole,
+                              drawing *d, ug_error *err)
+{
+    char *rest;
+    size_t rest_len;
+    d->handle = whole;
+    d->icons = NULL;
+    ug_status st = raster_icons_lift(svg, len, &d->icons, &rest, &rest_len, err);
+    if (st || !d->icons)
+        return st;
+    st = open_svg(rest, rest_len, &d->handle, err);
+    raster_icons_free_text(rest);
+    if (st) {
+        raster_icons_free(d->icons);
+        d->icons = NULL;
+        d->handle = whole;
+    }
+    return st;
+}
+
+static ug_status render(RsvgHandle *whole, const char *svg, size_t len,
+                        ug_output_format fmt, double dpi, double scale, ug_buf *b,
+                        ug_error *err)
+{
+    drawing d = {.handle = whole};
+    int pw, ph;
+    double pt_w, pt_h;
+    ug_status st = handle_size(whole, &d.w, &d.h, err);
+    /* Sizes are refused before the icons are lifted, which costs memory. */
+    if (!st)
+        st = fmt == UG_OUT_PNG ? png_size(d.w, d.h, dpi, scale, &pw, &ph, err)
+                               : pdf_size(d.w, d.h, scale, &pt_w, &pt_h, err);
+    if (!st)
+        st = open_drawing(svg, len, whole, &d, err);
+    if (st)
+        return st;
+    if (fmt == UG_OUT_PNG)
+        st = render_png(&d, dpi, scale, b, err);
+    else
+        st = render_pdf(&d, scale, b, err);
+    if (d.handle != whole)
+        g_object_unref(d.handle);
+    raster_icons_free(d.icons);
     return st;
 }
 
@@ -307,12 +369,10 @@ ug_status ug_render_svg(const char *svg, size_t len, ug_output_format fmt,
     ug_buf_init(&b);
     if ((st = handle_size(handle, &w, &h, err)))
         goto out;
-    if (fmt == UG_OUT_PNG)
-        st = render_png(handle, w, h, dpi, scale, &b, err);
-    else if (fmt == UG_OUT_PDF)
-        st = render_pdf(handle, w, h, scale, &b, err);
-    else
+    if (fmt == UG_OUT_SVG)
         ug_buf_add(&b, svg, len); /* read above, so known to be a valid SVG */
+    else
+        st = render(handle, svg, len, fmt, dpi, scale, &b, err);
     if (!st)
         st = ug_buf_take(&b, out, out_len, err);
 out:

@@ -32,4 +32,20 @@ size_t raster_svg_body(const char *svg, size_t len);
 ug_status raster_svg_size(const char *svg, size_t len, double *w, double *h,
                           ug_error *err);
 
+/* Icons lifted out of an SVG so each glyph is drawn once (raster_icons.c).
+** When *icons is set, *rest is the document without them, for librsvg
+** (freed with raster_icons_free_text); when nothing matched our icon
+** pattern both stay NULL and the SVG is drawn as it is. */
+typedef struct raster_icons raster_icons;
+typedef struct _cairo cairo_t;
+ug_status raster_icons_lift(const char *svg, size_t len, raster_icons **icons,
+                            char **rest, size_t *rest_len, ug_error *err);
+/* Paint every lifted icon onto cr, where the document fills the w x h
+** viewport at the origin. */
+ug_status raster_icons_paint(raster_icons *icons, cairo_t *cr, double w, double h,
+                             ug_error *err);
+size_t raster_icons_count(const raster_icons *icons);
+void raster_icons_free(raster_icons *icons);
+void raster_icons_free_text(char *rest);
+
 #endif
