@@ -129,6 +129,9 @@ awk 'BEGIN {srand(7); printf "area"; for (j = 0; j < 12; j++) printf ",c%d", j; 
 read -r s kib < <(measure "$bin" audit "$work/suppress.yaml")
 echo "audit-suppress-1000x12,12000,$s,$kib,," >> "$csv"
 
+# Inputs at the stated limits and heavy glyphs (tests/bench/limits.sh).
+bash tests/bench/limits.sh "$build" "$csv"
+
 # ---- the table --------------------------------------------------------------
 get() { awk -F, -v c="$1" -v n="$2" '$1==c && $2==n {print $3}' "$csv"; }
 slope() { # least-squares seconds per million icons over the sizes, and r^2
@@ -148,4 +151,6 @@ echo "PNG vs rsvg-convert (10,000 icons): wall $(awk -v a="$ours" -v b="$theirs"
 echo "batch of 1,000 charts: $(get batch-1000 1000) s; start-up median: $median s"
 echo "suppression 1,000 x 12 ($supp_cells): pattern + LP audit $supp s (median of 5);" \
      "unitgram audit end to end $(get audit-suppress-1000x12 12000) s"
+awk -F, '$1 ~ /^limit-/ {if ($3 > t) t = $3; if ($4 > m) m = $4; n++}
+    END {printf "at the stated limits (%d runs): slowest %.2f s, largest %.0f MiB (promise: 10 s, 1024 MiB)\n", n, t, m / 1024}' "$csv"
 echo "results: $csv"
