@@ -252,6 +252,11 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
 ** shrunk. The web page holds the page's picture and one table per chart. */
 ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
                        double scale, char **out, size_t *len, ug_error *err);
+/* ug_page_draw with the options every panel is packed with (glyph folders,
+** a glyph cache); opt may be NULL. The page loads each glyph once. */
+ug_status ug_page_draw_with(const ug_page *page, const ug_pack_options *opt,
+                            ug_output_format fmt, double dpi, double scale, char **out,
+                            size_t *len, ug_error *err);
 /* The handout's description (its SVG's <desc>): every chart's description in
 ** reading order. *out is malloc'd and NUL-ended. */
 ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,

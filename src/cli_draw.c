@@ -254,8 +254,8 @@ static int draw_page(const cli_draw_opts *o)
     ug_findings *f = NULL;
     ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, NULL};
     if (ug_page_load(o->layout, cli_limits(), &page, &err) ||
-        ug_page_draw(page, format_of(o), o->dpi > 0 ? o->dpi : 96,
-                     o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
+        ug_page_draw_with(page, &popt, format_of(o), o->dpi > 0 ? o->dpi : 96,
+                          o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
         ug_page_audit(page, &popt, &f, &err)) {
         cli_report_error(&err);
         rc = cli_exit_for(&err);

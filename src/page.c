@@ -88,6 +88,7 @@ typedef struct {
     page_box *boxes;
     page_box *crops;      /* the part of each chart's canvas shown */
     ug_buf desc;
+    ug_pack_options pack; /* the caller's, always with a glyph cache */
 } composer;
 
 static ug_status nomem(composer *k)
@@ -211,14 +212,14 @@ static ug_status pack_panel(composer *k, size_t i, const ug_allocation *a,
     ug_chart *c = &k->r->charts[i];
     ug_scene *wide = NULL;
     c->style.width = room;
-    ug_status st = ug_scene_pack(c, a, s, k->err);
+    ug_status st = ug_scene_pack_with(c, a, &k->pack, s, k->err);
     if (st)
         return st;
     double spare = 2 * floor(content_box(*s).x);
     if (spare <= 0 || ug_scene_width(*s) > room + 0.5)
         return UG_OK;
     c->style.width = room + spare;
-    if ((st = ug_scene_pack(c, a, &wide, k->err))) {
+    if ((st = ug_scene_pack_with(c, a, &k->pack, &wide, k->err))) {
         ug_scene_free(*s); /* on failure the caller holds no scene */
         *s = NULL;
         return st;
@@ -572,7 +573,10 @@ static ug_status compose(composer *k)
     return write_page(k);
 }
 
-ug_status page_compose(const ug_page *page, page_result *out, ug_error *err)
+/* Every panel is packed twice and many name the same glyphs: one cache for
+** the page loads each glyph once (the caller's, when it brings one). */
+ug_status page_compose(const ug_page *page, const ug_pack_options *opt,
+                       page_result *out, ug_error *err)
 {
     composer k;
     memset(&k, 0, sizeof k);
@@ -580,7 +584,15 @@ ug_status page_compose(const ug_page *page, page_result *out, ug_error *err)
     k.p = page;
     k.r = out;
     k.err = err;
+    if (opt)
+        k.pack = *opt;
+    ug_glyph_cache *own = NULL;
+    if (!k.pack.glyph_cache && ug_glyph_cache_new(&own, err))
+        return err->status;
+    if (own)
+        k.pack.glyph_cache = own;
     ug_status st = compose(&k);
+    ug_glyph_cache_free(own);
     /* Each array is checked on its own: set_up may have made some of them
     ** and not the rest. */
     for (size_t i = 0; k.svgs && i < page->npanels; i++)
@@ -617,9 +629,16 @@ void page_result_free(page_result *r)
 ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
                        double scale, char **out, size_t *len, ug_error *err)
 {
+    return ug_page_draw_with(page, NULL, fmt, dpi, scale, out, len, err);
+}
+
+ug_status ug_page_draw_with(const ug_page *page, const ug_pack_options *opt,
+                            ug_output_format fmt, double dpi, double scale, char **out,
+                            size_t *len, ug_error *err)
+{
     page_result r;
     *out = NULL;
-    ug_status st = page_compose(page, &r, err);
+    ug_status st = page_compose(page, opt, &r, err);
     if (st)
         return st;
     if (fmt == UG_OUT_CSV)
@@ -640,7 +659,7 @@ ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
 {
     page_result r;
     *out = NULL;
-    ug_status st = page_compose(page, &r, err);
+    ug_status st = page_compose(page, NULL, &r, err);
     if (st)
         return st;
     *out = r.desc;

@@ -49,7 +49,8 @@ typedef struct {
     ug_chart *charts;
 } page_result;
 
-ug_status page_compose(const ug_page *page, page_result *out, ug_error *err);
+ug_status page_compose(const ug_page *page, const ug_pack_options *opt,
+                       page_result *out, ug_error *err);
 void page_result_free(page_result *r);
 
 #endif

@@ -230,6 +230,12 @@ printf 'title: Boats\nicon-value: 1\ncategories:\n  - {label: Boats, glyph: sail
 expect 1 "$BIN" draw "$T/sail.yaml" -o "$T/sail.svg"
 expect 0 "$BIN" draw "$T/sail.yaml" -o "$T/sail.svg" --glyph-dir "$T/mine"
 expect 0 "$BIN" draw "$T/sail.yaml" -o "$T/sail.svg" --glyph-dir="$T/mine"
+# a page whose panel names the same glyph finds it through --glyph-dir too
+printf 'page: {size: A4}\ntitle: Boats page (test data)\npanels:\n  - chart: sail.yaml\n' > "$T/sail-page.yaml"
+expect 1 "$BIN" draw "$T/sail-page.yaml" -o "$T/sail-page.svg"
+for ext in svg png pdf html; do
+  expect 0 "$BIN" draw "$T/sail-page.yaml" -o "$T/sail-page.$ext" --glyph-dir "$T/mine"
+done
 # draw also prints the audit's findings (missing source, small count...);
 # a clean glyph file adds no sanitizer warning of its own.
 grep -q "sanitiz" "$T/err" && fail "a clean glyph gave warnings: $(cat "$T/err")"
