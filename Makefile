@@ -257,7 +257,13 @@ render-demo: $(BIN)
 
 # ---- install ----------------------------------------------------------------
 # Build and install with the same PREFIX: the glyph folder is compiled in.
-INSTALL_FILES = bin/unitgram lib/libunitgram.a include/unitgram.h \
+# The shared library is installed 644, not executable (Debian Policy §10.2),
+# with the SONAME link ldconfig would make (Debian Policy §8.1) and the
+# unversioned link the linker finds for -lunitgram (§8.4). unitgram.pc gives
+# -lunitgram alone; the libraries only a static link needs are private
+# (pkg-config(1), Requires.private and Libs.private).
+INSTALL_FILES = bin/unitgram lib/libunitgram.a lib/$(notdir $(SHLIB)) lib/$(SONAME) \
+  lib/libunitgram.so include/unitgram.h \
   lib/pkgconfig/unitgram.pc share/man/man1/unitgram.1 \
   share/bash-completion/completions/unitgram
 
@@ -267,12 +273,15 @@ install: all
 	  $(DESTDIR)$(DATADIR)/glyphs $(DESTDIR)$(PREFIX)/share/bash-completion/completions
 	install -m 755 $(BIN) $(DESTDIR)$(PREFIX)/bin/unitgram
 	install -m 644 $(LIB) $(DESTDIR)$(PREFIX)/lib/libunitgram.a
+	install -m 644 $(SHLIB) $(DESTDIR)$(PREFIX)/lib/$(notdir $(SHLIB))
+	ln -sf $(notdir $(SHLIB)) $(DESTDIR)$(PREFIX)/lib/$(SONAME)
+	ln -sf $(notdir $(SHLIB)) $(DESTDIR)$(PREFIX)/lib/libunitgram.so
 	install -m 644 include/unitgram.h $(DESTDIR)$(PREFIX)/include/unitgram.h
 	install -m 644 src/unitgram.1 $(DESTDIR)$(PREFIX)/share/man/man1/unitgram.1
 	install -m 644 src/unitgram.bash $(DESTDIR)$(PREFIX)/share/bash-completion/completions/unitgram
 	install -m 644 glyphs/*.svg glyphs/index.yaml $(DESTDIR)$(DATADIR)/glyphs/
 	sed -e 's|@PREFIX@|$(PREFIX)|g' -e 's|@VERSION@|$(VERSION)|g' \
-	  -e 's|@REQUIRES@|$(PKGS)|g' src/unitgram.pc.in \
+	  -e 's|@REQUIRES@|$(PKGS)|g' -e 's|@LIBS_PRIVATE@|$(OTHER_LIBS)|g' src/unitgram.pc.in \
 	  > $(DESTDIR)$(PREFIX)/lib/pkgconfig/unitgram.pc
 
 # Removes exactly what install wrote; shared folders (bin, lib, man1...) stay.
