@@ -17,11 +17,18 @@ WARNINGS  = -Wall -Wextra -Wshadow -Wstrict-prototypes -Wmissing-prototypes \
 STD       = -std=c11 -D_POSIX_C_SOURCE=200809L
 # Evaluated late (=) so that a make that has just installed packages sees them.
 PKG_CFLAGS = $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
-PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null) -lcsv -lglpk -lm
+# Libraries without a pkg-config file; unitgram.pc lists them in Libs.private.
+OTHER_LIBS = -lcsv -lglpk -lm
+PKG_LIBS   = $(shell pkg-config --libs $(PKGS) 2>/dev/null) $(OTHER_LIBS)
 CHECK_LIBS = $(shell pkg-config --libs check 2>/dev/null)
 DATADIR    = $(PREFIX)/share/unitgram
 ALL_CFLAGS = $(STD) $(WARNINGS) $(CFLAGS) -Iinclude -Isrc $(PKG_CFLAGS) -MMD -MP \
              -DUG_DATADIR='"$(DATADIR)/glyphs"'
+# Library objects only: what include/unitgram.h does not mark UG_API stays
+# inside the library (GCC manual, "Options for Code Generation Conventions").
+LIB_CFLAGS = -fvisibility=hidden
+LD      ?= ld
+OBJCOPY ?= objcopy
 
 # The sanitized pass of `make check` (ASan + UBSan, leaks included).
 # float-cast-overflow is named apart: GCC's -fsanitize=undefined leaves it out,
@@ -43,9 +50,24 @@ CLI_SRC  = src/main.c $(wildcard src/cli_*.c)
 TEST_SRC = $(wildcard tests/check_*.c)
 
 LIB_OBJ  = $(LIB_SRC:%.c=$(BUILD)/%.o)
+# The same sources again as position-independent code, for the shared library
+# only: Debian Policy §10.2 wants -fPIC in a shared library and not in the
+# static one, "each source unit ... compiled twice".
+PIC_OBJ  = $(LIB_SRC:%.c=$(BUILD)/pic/%.o)
 CLI_OBJ  = $(CLI_SRC:%.c=$(BUILD)/%.o)
 TESTS    = $(TEST_SRC:tests/%.c=$(BUILD)/tests/%)
+# The installed archive: one object whose only global symbols are the UG_API
+# functions. The internal archive holds the objects as compiled (hidden
+# symbols still global, so linkable from outside the library's objects) for
+# the Check tests, drivers and fuzzers that call internal functions.
 LIB      = $(BUILD)/libunitgram.a
+LIB_INTERNAL = $(BUILD)/libunitgram-internal.a
+# The SONAME carries the major number only: programs linked against it keep
+# loading every 0.x.y until an incompatible release changes it (ELF gABI,
+# "Dynamic Section", DT_SONAME; Debian Policy §8.1).
+SO_MAJOR = $(firstword $(subst ., ,$(VERSION)))
+SONAME   = libunitgram.so.$(SO_MAJOR)
+SHLIB    = $(BUILD)/libunitgram.so.$(VERSION)
 REF_DRIVERS = $(BUILD)/tests/ref/alloc_driver $(BUILD)/tests/ref/cvd_driver
 BENCH_DRIVERS = $(BUILD)/tests/bench/suppress
 BIN      = $(BUILD)/unitgram
@@ -55,7 +77,7 @@ LAYOUTS  = $(wildcard layouts/*.yaml)
 .PHONY: FORCE all deps test-deps check run-tests check-sanitized demo render-demo clean \
         install uninstall bench fuzz fuzz-build
 
-all: $(BIN) $(LIB)
+all: $(BIN) $(LIB) $(SHLIB)
 
 # ---- set-up -----------------------------------------------------------------
 # Installs only what dpkg does not list as installed (one dpkg-query, a few
@@ -88,7 +110,7 @@ test-deps: deps
 # stamp is rewritten only when the flags differ, so its date says when.
 FLAGS_STAMP = $(BUILD)/.flags
 $(FLAGS_STAMP): FORCE
-	$(shell mkdir -p $(BUILD))$(file >$@.new,$(CC) $(ALL_CFLAGS))
+	$(shell mkdir -p $(BUILD))$(file >$@.new,$(CC) $(ALL_CFLAGS) $(LIB_CFLAGS))
 	@cmp -s $@.new $@ && rm -f $@.new || mv -f $@.new $@
 
 FORCE:
@@ -98,25 +120,62 @@ $(BUILD)/%.o: %.c $(FLAGS_STAMP)
 	@echo "  CC  $<"
 	@$(CC) $(ALL_CFLAGS) -c $< -o $@
 
-$(LIB): $(LIB_OBJ)
+$(LIB_OBJ): $(BUILD)/%.o: %.c $(FLAGS_STAMP)
+	@mkdir -p $(dir $@)
+	@echo "  CC  $<"
+	@$(CC) $(ALL_CFLAGS) $(LIB_CFLAGS) -c $< -o $@
+
+$(PIC_OBJ): $(BUILD)/pic/%.o: %.c $(FLAGS_STAMP)
+	@mkdir -p $(dir $@)
+	@echo "  CC  $< (PIC)"
+	@$(CC) $(ALL_CFLAGS) $(LIB_CFLAGS) -fPIC -c $< -o $@
+
+$(LIB_INTERNAL): $(LIB_OBJ)
 	@rm -f $@
 	@echo "  AR  $@"
 	@ar rcs $@ $^
 
+# A static archive has no export list: a hidden symbol is still global to the
+# static linker, so every module's internal functions would reach (and clash
+# with) the programs linking it. Linked into one relocatable object, the
+# library resolves its internal calls itself; objcopy then makes the hidden
+# symbols local (binutils manual, objcopy --localize-hidden), leaving the
+# UG_API functions as the archive's only globals.
+$(BUILD)/libunitgram.o: $(LIB_OBJ)
+	@echo "  LD  $@"
+	@$(LD) -r -o $@.tmp $^
+	@$(OBJCOPY) --localize-hidden $@.tmp $@
+	@rm -f $@.tmp
+
+$(LIB): $(BUILD)/libunitgram.o
+	@rm -f $@
+	@echo "  AR  $@"
+	@ar rcs $@ $^
+
+# -z defs: every symbol the library uses resolved against the libraries it
+# names, so it loads (and dlopen()s) on its own (Debian Policy §10.2);
+# --as-needed keeps a DT_NEEDED only for those it really calls (ld manual).
+$(SHLIB): $(PIC_OBJ)
+	@echo "  LD  $@"
+	@$(CC) $(CFLAGS) -shared -Wl,-soname,$(SONAME) -Wl,-z,defs -Wl,--as-needed \
+	  -o $@ $^ $(PKG_LIBS)
+
+# The command line uses the public functions only: linking the public archive
+# keeps it that way.
 $(BIN): $(CLI_OBJ) $(LIB)
 	@echo "  LD  $@"
 	@$(CC) $(CFLAGS) -o $@ $(CLI_OBJ) $(LIB) $(PKG_LIBS)
 
-$(BUILD)/tests/%: tests/%.c $(LIB) $(FLAGS_STAMP)
+$(BUILD)/tests/%: tests/%.c $(LIB_INTERNAL) $(FLAGS_STAMP)
 	@mkdir -p $(dir $@)
 	@echo "  LD  $@"
-	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(CHECK_LIBS) $(PKG_LIBS)
+	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB_INTERNAL) $(CHECK_LIBS) $(PKG_LIBS)
 
 # Drivers that let tests/ref compare the library with outside references.
-$(BUILD)/tests/ref/%: tests/ref/%.c $(LIB)
+$(BUILD)/tests/ref/%: tests/ref/%.c $(LIB_INTERNAL)
 	@mkdir -p $(dir $@)
 	@echo "  LD  $@"
-	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(PKG_LIBS)
+	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB_INTERNAL) $(PKG_LIBS)
 
 # ---- tests ------------------------------------------------------------------
 check: test-deps
@@ -147,13 +206,13 @@ FUZZERS     = $(FUZZ_SRC:tests/fuzz/%.c=$(FUZZ_BUILD)/%)
 
 fuzz-build:
 	@$(MAKE) --no-print-directory CC=clang BUILD=$(FUZZ_BUILD) \
-	  CFLAGS="$(FUZZ_CFLAGS)" $(FUZZ_BUILD)/libunitgram.a $(FUZZERS)
+	  CFLAGS="$(FUZZ_CFLAGS)" $(FUZZ_BUILD)/libunitgram-internal.a $(FUZZERS)
 
-$(FUZZ_BUILD)/fuzz_%: tests/fuzz/fuzz_%.c $(FUZZ_BUILD)/libunitgram.a
+$(FUZZ_BUILD)/fuzz_%: tests/fuzz/fuzz_%.c $(FUZZ_BUILD)/libunitgram-internal.a
 	@echo "  LD  $@"
 	@clang $(STD) $(WARNINGS) -O1 -g -fsanitize=fuzzer,address,undefined,float-cast-overflow \
 	  -fno-sanitize-recover=undefined,float-cast-overflow \
-	  -Iinclude -Isrc $(PKG_CFLAGS) -o $@ $< $(FUZZ_BUILD)/libunitgram.a $(PKG_LIBS)
+	  -Iinclude -Isrc $(PKG_CFLAGS) -o $@ $< $(FUZZ_BUILD)/libunitgram-internal.a $(PKG_LIBS)
 
 # Each fuzzer runs FUZZ_SECONDS on its corpus (seeded from the tests); a crash
 # leaves its input in build/fuzz/ and fails the target.
@@ -177,10 +236,10 @@ bench: all $(BENCH_DRIVERS)
 	@bash tests/bench/run.sh $(BUILD)
 
 # Bench drivers that call the library's stages directly.
-$(BUILD)/tests/bench/%: tests/bench/%.c $(LIB)
+$(BUILD)/tests/bench/%: tests/bench/%.c $(LIB_INTERNAL)
 	@mkdir -p $(dir $@)
 	@echo "  LD  $@"
-	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB) $(PKG_LIBS)
+	@$(CC) $(ALL_CFLAGS) -o $@ $< $(LIB_INTERNAL) $(PKG_LIBS)
 
 # ---- demo -------------------------------------------------------------------
 demo: deps
@@ -198,7 +257,13 @@ render-demo: $(BIN)
 
 # ---- install ----------------------------------------------------------------
 # Build and install with the same PREFIX: the glyph folder is compiled in.
-INSTALL_FILES = bin/unitgram lib/libunitgram.a include/unitgram.h \
+# The shared library is installed 644, not executable (Debian Policy §10.2),
+# with the SONAME link ldconfig would make (Debian Policy §8.1) and the
+# unversioned link the linker finds for -lunitgram (§8.4). unitgram.pc gives
+# -lunitgram alone; the libraries only a static link needs are private
+# (pkg-config(1), Requires.private and Libs.private).
+INSTALL_FILES = bin/unitgram lib/libunitgram.a lib/$(notdir $(SHLIB)) lib/$(SONAME) \
+  lib/libunitgram.so include/unitgram.h \
   lib/pkgconfig/unitgram.pc share/man/man1/unitgram.1 \
   share/bash-completion/completions/unitgram
 
@@ -208,12 +273,15 @@ install: all
 	  $(DESTDIR)$(DATADIR)/glyphs $(DESTDIR)$(PREFIX)/share/bash-completion/completions
 	install -m 755 $(BIN) $(DESTDIR)$(PREFIX)/bin/unitgram
 	install -m 644 $(LIB) $(DESTDIR)$(PREFIX)/lib/libunitgram.a
+	install -m 644 $(SHLIB) $(DESTDIR)$(PREFIX)/lib/$(notdir $(SHLIB))
+	ln -sf $(notdir $(SHLIB)) $(DESTDIR)$(PREFIX)/lib/$(SONAME)
+	ln -sf $(notdir $(SHLIB)) $(DESTDIR)$(PREFIX)/lib/libunitgram.so
 	install -m 644 include/unitgram.h $(DESTDIR)$(PREFIX)/include/unitgram.h
 	install -m 644 src/unitgram.1 $(DESTDIR)$(PREFIX)/share/man/man1/unitgram.1
 	install -m 644 src/unitgram.bash $(DESTDIR)$(PREFIX)/share/bash-completion/completions/unitgram
 	install -m 644 glyphs/*.svg glyphs/index.yaml $(DESTDIR)$(DATADIR)/glyphs/
 	sed -e 's|@PREFIX@|$(PREFIX)|g' -e 's|@VERSION@|$(VERSION)|g' \
-	  -e 's|@REQUIRES@|$(PKGS)|g' src/unitgram.pc.in \
+	  -e 's|@REQUIRES@|$(PKGS)|g' -e 's|@LIBS_PRIVATE@|$(OTHER_LIBS)|g' src/unitgram.pc.in \
 	  > $(DESTDIR)$(PREFIX)/lib/pkgconfig/unitgram.pc
 
 # Removes exactly what install wrote; shared folders (bin, lib, man1...) stay.
@@ -224,4 +292,4 @@ uninstall:
 clean:
 	rm -rf $(BUILD) out
 
--include $(LIB_OBJ:.o=.d) $(CLI_OBJ:.o=.d)
+-include $(LIB_OBJ:.o=.d) $(PIC_OBJ:.o=.d) $(CLI_OBJ:.o=.d)

@@ -22,6 +22,20 @@ extern "C" {
 
 #define UG_VERSION "0.1.0"
 
+/* The library is compiled with -fvisibility=hidden, so a function leaves it
+** (the shared library's dynamic symbols, the static archive's globals) only
+** when its declaration here carries UG_API (GCC manual, "Common Function
+** Attributes: visibility" and "Options for Code Generation Conventions:
+** -fvisibility"; Ulrich Drepper, "How To Write Shared Libraries" §2.2,
+** "Export Control"). Compilers without the attribute export everything. */
+#ifndef UG_API
+# if defined(__GNUC__) && __GNUC__ >= 4
+#  define UG_API __attribute__((visibility("default")))
+# else
+#  define UG_API
+# endif
+#endif
+
 typedef enum {
     UG_OK = 0,
     UG_ENOMEM,   /* out of memory */
@@ -46,8 +60,8 @@ typedef struct {
 } ug_error;
 
 /* "file:line:col: message" (or "file: message" without a line) into buf. */
-const char *ug_error_format(const ug_error *err, char *buf, size_t size);
-const char *ug_status_name(ug_status st);
+UG_API const char *ug_error_format(const ug_error *err, char *buf, size_t size);
+UG_API const char *ug_status_name(ug_status st);
 
 /* ---- the chart model (layout files, FORMAT.md §1) --------------------- */
 
@@ -64,13 +78,13 @@ typedef struct {
 #define UG_CEILING_ICONS 10000000
 #define UG_CEILING_PANELS 1000
 
-ug_status ug_chart_load(const char *path, const ug_limits *limits,
+UG_API ug_status ug_chart_load(const char *path, const ug_limits *limits,
                         ug_chart **out, ug_error *err);
 /* name is used in error messages and to resolve relative paths (data.file). */
-ug_status ug_chart_load_string(const char *text, size_t len, const char *name,
+UG_API ug_status ug_chart_load_string(const char *text, size_t len, const char *name,
                                const ug_limits *limits, ug_chart **out,
                                ug_error *err);
-void ug_chart_free(ug_chart *chart);
+UG_API void ug_chart_free(ug_chart *chart);
 
 /* ---- the page model (page files, FORMAT.md §2) ------------------------- */
 
@@ -79,12 +93,12 @@ typedef struct ug_page ug_page;
 /* Load a page file and every chart file its panels name (paths relative to
 ** the page's folder). A chart file given here, or a page file given to
 ** ug_chart_load, is refused with a message saying which kind it is. */
-ug_status ug_page_load(const char *path, const ug_limits *limits,
+UG_API ug_status ug_page_load(const char *path, const ug_limits *limits,
                        ug_page **out, ug_error *err);
-ug_status ug_page_load_string(const char *text, size_t len, const char *name,
+UG_API ug_status ug_page_load_string(const char *text, size_t len, const char *name,
                               const ug_limits *limits, ug_page **out,
                               ug_error *err);
-void ug_page_free(ug_page *page);
+UG_API void ug_page_free(ug_page *page);
 
 /* Which loader a layout file is for, decided as the loaders decide it: a
 ** page when the top-level mapping has a `page` key, however it is written
@@ -94,9 +108,9 @@ void ug_page_free(ug_page *page);
 ** with the loaders' reader and limits; charts a page names and CSV files are
 ** not read. On an error *out is UG_LAYOUT_CHART. */
 typedef enum { UG_LAYOUT_CHART, UG_LAYOUT_PAGE } ug_layout_kind;
-ug_status ug_layout_detect(const char *path, const ug_limits *limits,
+UG_API ug_status ug_layout_detect(const char *path, const ug_limits *limits,
                            ug_layout_kind *out, ug_error *err);
-ug_status ug_layout_detect_string(const char *text, size_t len, const char *name,
+UG_API ug_status ug_layout_detect_string(const char *text, size_t len, const char *name,
                                   const ug_limits *limits, ug_layout_kind *out,
                                   ug_error *err);
 
@@ -106,23 +120,23 @@ typedef struct ug_allocation ug_allocation;
 
 typedef enum { UG_REPORT_TEXT, UG_REPORT_CSV, UG_REPORT_JSON } ug_report_format;
 
-ug_status ug_chart_allocate(const ug_chart *chart, ug_allocation **out,
+UG_API ug_status ug_chart_allocate(const ug_chart *chart, ug_allocation **out,
                             ug_error *err);
-void ug_allocation_free(ug_allocation *a);
+UG_API void ug_allocation_free(ug_allocation *a);
 /* The allocation report as text, CSV or JSON; *out is malloc'd, NUL-ended. */
-ug_status ug_allocation_report(const ug_allocation *a, ug_report_format fmt,
+UG_API ug_status ug_allocation_report(const ug_allocation *a, ug_report_format fmt,
                                char **out, size_t *len, ug_error *err);
 /* The analyst's internal view: the allocation of every count as counted,
 ** hidden ones included. Its report says first that it is not for
 ** publication; never draw or publish it. */
-ug_status ug_chart_allocate_internal(const ug_chart *chart, ug_allocation **out,
+UG_API ug_status ug_chart_allocate_internal(const ug_chart *chart, ug_allocation **out,
                                      ug_error *err);
 /* The published table as CSV (FORMAT.md §4): columns group, category, count
 ** (the published count or a hidden cell's placeholder), icons, status (exact,
 ** rounded, small, requested, complement, withheld, partial) and level (cell,
 ** group total, category total, total); with n > 1 charts a first column
 ** names the chart. Written from the published table only. */
-ug_status ug_table_csv(const ug_allocation *const *allocs, size_t n, char **out,
+UG_API ug_status ug_table_csv(const ug_allocation *const *allocs, size_t n, char **out,
                        size_t *len, ug_error *err);
 
 /* ---- the picture: allocation -> placed boxes -> SVG -------------------- */
@@ -132,17 +146,17 @@ typedef struct ug_scene ug_scene;
 /* Place every icon, text line and key entry of a chart; the chart and the
 ** allocation are borrowed and must outlive nothing (the scene copies what it
 ** needs). Glyphs are resolved from the layout's folder and the library. */
-ug_status ug_scene_pack(const ug_chart *chart, const ug_allocation *alloc,
+UG_API ug_status ug_scene_pack(const ug_chart *chart, const ug_allocation *alloc,
                         ug_scene **out, ug_error *err);
-void ug_scene_free(ug_scene *scene);
-double ug_scene_width(const ug_scene *scene);   /* px (SVG user units) */
-double ug_scene_height(const ug_scene *scene);
+UG_API void ug_scene_free(ug_scene *scene);
+UG_API double ug_scene_width(const ug_scene *scene);   /* px (SVG user units) */
+UG_API double ug_scene_height(const ug_scene *scene);
 /* The scene as an SVG document; *out is malloc'd and NUL-ended. */
-ug_status ug_scene_svg(const ug_scene *scene, char **out, size_t *len,
+UG_API ug_status ug_scene_svg(const ug_scene *scene, char **out, size_t *len,
                        ug_error *err);
 /* Plain-language description of the chart (the SVG's <desc>); the layout's
 ** `description:` when it gives one. *out is malloc'd and NUL-ended. */
-ug_status ug_chart_describe(const ug_chart *chart, const ug_allocation *alloc,
+UG_API ug_status ug_chart_describe(const ug_chart *chart, const ug_allocation *alloc,
                             char **out, size_t *len, ug_error *err);
 
 /* ---- packing options (additive: ug_scene_pack is ug_scene_pack_with(NULL)) */
@@ -152,8 +166,8 @@ ug_status ug_chart_describe(const ug_chart *chart, const ug_allocation *alloc,
 ** serves one set of glyph folders (the options it is used with). */
 typedef struct ug_glyph_cache ug_glyph_cache;
 
-ug_status ug_glyph_cache_new(ug_glyph_cache **out, ug_error *err);
-void ug_glyph_cache_free(ug_glyph_cache *cache);
+UG_API ug_status ug_glyph_cache_new(ug_glyph_cache **out, ug_error *err);
+UG_API void ug_glyph_cache_free(ug_glyph_cache *cache);
 
 typedef struct {
     const char *const *glyph_dirs; /* extra glyph folders (--glyph-dir), searched
@@ -163,7 +177,7 @@ typedef struct {
 } ug_pack_options;
 
 /* ug_scene_pack with options; opt may be NULL (the defaults). */
-ug_status ug_scene_pack_with(const ug_chart *chart, const ug_allocation *alloc,
+UG_API ug_status ug_scene_pack_with(const ug_chart *chart, const ug_allocation *alloc,
                              const ug_pack_options *opt, ug_scene **out,
                              ug_error *err);
 
@@ -172,7 +186,7 @@ ug_status ug_scene_pack_with(const ug_chart *chart, const ug_allocation *alloc,
 ** chart the scene was packed from) that uses the glyph. *out is a malloc'd
 ** array of *n entries (status UG_OK, where and msg filled), NULL when none;
 ** release it with free(). */
-ug_status ug_scene_glyph_warnings(const ug_scene *scene, const ug_chart *chart,
+UG_API ug_status ug_scene_glyph_warnings(const ug_scene *scene, const ug_chart *chart,
                                   ug_error **out, size_t *n, ug_error *err);
 
 /* The files drawing this chart reads: the layout itself, its CSV (if any) and
@@ -180,7 +194,7 @@ ug_status ug_scene_glyph_warnings(const ug_scene *scene, const ug_chart *chart,
 ** glyph files the chart names by path, joined to the layout's folder, so a
 ** watcher still sees a broken glyph being fixed. A NULL-terminated
 ** array in one malloc'd block (free() it); NULL when out of memory. */
-char **ug_chart_inputs(const ug_chart *chart, const ug_scene *scene);
+UG_API char **ug_chart_inputs(const ug_chart *chart, const ug_scene *scene);
 
 /* ---- batches: one chart per row of a CSV ------------------------------- */
 
@@ -193,23 +207,23 @@ char **ug_chart_inputs(const ug_chart *chart, const ug_scene *scene);
 ** whose names give the same slug are an error at open time. */
 typedef struct ug_batch ug_batch;
 
-ug_status ug_batch_open(const char *template_path, const char *csv_path,
+UG_API ug_status ug_batch_open(const char *template_path, const char *csv_path,
                         const ug_limits *limits, ug_batch **out, ug_error *err);
-void ug_batch_free(ug_batch *batch);
-size_t ug_batch_count(const ug_batch *batch);
+UG_API void ug_batch_free(ug_batch *batch);
+UG_API size_t ug_batch_count(const ug_batch *batch);
 /* The row's name as written in the CSV; NULL when i is out of range. */
-const char *ug_batch_name(const ug_batch *batch, size_t i);
+UG_API const char *ug_batch_name(const ug_batch *batch, size_t i);
 /* [a-z0-9_-]+ from the name: letters lower-cased, accents dropped, anything
 ** else a '-', no leading '-'; an empty result becomes "row-N" (N the row's
 ** 1-based number). NULL when i is out of range. */
-const char *ug_batch_slug(const ug_batch *batch, size_t i);
+UG_API const char *ug_batch_slug(const ug_batch *batch, size_t i);
 /* `pattern` with every "{group}" replaced by slug i; *out malloc'd (free()). */
-ug_status ug_batch_path(const ug_batch *batch, size_t i, const char *pattern,
+UG_API ug_status ug_batch_path(const ug_batch *batch, size_t i, const char *pattern,
                         char **out, ug_error *err);
 /* Row i as a chart of its own (no groups, the shared icon value pinned). The
 ** chart belongs to the batch and stays valid until the next ug_batch_chart
 ** call or ug_batch_free. */
-ug_status ug_batch_chart(ug_batch *batch, size_t i, const ug_chart **out,
+UG_API ug_status ug_batch_chart(ug_batch *batch, size_t i, const ug_chart **out,
                          ug_error *err);
 
 /* ---- output: PNG, PDF and a web page (src/raster.c, src/html.c) -------- */
@@ -218,21 +232,21 @@ typedef enum { UG_OUT_SVG, UG_OUT_PNG, UG_OUT_PDF, UG_OUT_HTML, UG_OUT_CSV } ug_
 
 /* The format a file name asks for by its extension (.svg .png .pdf .html .htm .csv,
 ** any case); SVG for anything else, "-" included. */
-ug_output_format ug_output_format_from_path(const char *path);
+UG_API ug_output_format ug_output_format_from_path(const char *path);
 /* "svg", "png", "pdf", "html", "csv" (any case) -> 0 and *out; -1 for anything else. */
-int ug_output_format_parse(const char *name, ug_output_format *out);
-const char *ug_output_format_name(ug_output_format fmt);
+UG_API int ug_output_format_parse(const char *name, ug_output_format *out);
+UG_API const char *ug_output_format_name(ug_output_format fmt);
 
 /* Render SVG bytes as PNG, PDF or (a checked copy of) SVG; fmt must not be
 ** UG_OUT_HTML (see ug_html_page). The SVG's size is in CSS px, 96 per inch:
 ** a PNG is px * dpi/96 * scale pixels a side (at most 100 megapixels), a PDF
 ** page px * 0.75 * scale points (dpi does not apply). *out is malloc'd. */
-ug_status ug_render_svg(const char *svg, size_t len, ug_output_format fmt,
+UG_API ug_status ug_render_svg(const char *svg, size_t len, ug_output_format fmt,
                         double dpi, double scale, char **out, size_t *out_len,
                         ug_error *err);
 /* The same, written to path only once the render has succeeded (atomically,
 ** through ug_write_file_atomic). */
-ug_status ug_render_svg_file(const char *svg, size_t len, ug_output_format fmt,
+UG_API ug_status ug_render_svg_file(const char *svg, size_t len, ug_output_format fmt,
                              double dpi, double scale, const char *path,
                              ug_error *err);
 
@@ -241,7 +255,7 @@ ug_status ug_render_svg_file(const char *svg, size_t len, ug_output_format fmt,
 ** allocation (a row per group and category: count, icons, shown value).
 ** title NULL: the first chart's title; description NULL: the first chart's
 ** stated description, or none. No scripts, no external files. */
-ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
+UG_API ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
                        const char *description,
                        const ug_allocation *const *allocs, size_t nallocs,
                        char **out, size_t *len, ug_error *err);
@@ -250,7 +264,7 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
 ** and text blocks on its column grid, sources at the foot. Content that does
 ** not fit is an error naming the panel and the missing height; nothing is
 ** shrunk. The web page holds the page's picture and one table per chart. */
-ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
+UG_API ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
                        double scale, char **out, size_t *len, ug_error *err);
 /* ug_page_draw with the options every panel is packed with (glyph folders,
 ** a glyph cache); opt may be NULL. The page loads each glyph once. */
@@ -259,7 +273,7 @@ ug_status ug_page_draw_with(const ug_page *page, const ug_pack_options *opt,
                             size_t *len, ug_error *err);
 /* The handout's description (its SVG's <desc>): every chart's description in
 ** reading order. *out is malloc'd and NUL-ended. */
-ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
+UG_API ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
                            ug_error *err);
 
 /* ---- the glyph library ------------------------------------------------ */
@@ -269,22 +283,22 @@ ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
 ** several folders is the first one found, as when a chart names it. */
 typedef struct ug_glyph_library ug_glyph_library;
 
-ug_status ug_glyph_library_open(const char *const *dirs, size_t ndirs,
+UG_API ug_status ug_glyph_library_open(const char *const *dirs, size_t ndirs,
                                 ug_glyph_library **out, ug_error *err);
-void ug_glyph_library_free(ug_glyph_library *lib);
-size_t ug_glyph_library_count(const ug_glyph_library *lib);
+UG_API void ug_glyph_library_free(ug_glyph_library *lib);
+UG_API size_t ug_glyph_library_count(const ug_glyph_library *lib);
 /* NULL when i is out of range. Keywords come from the folder's index.yaml,
 ** joined with ", "; "" when the index does not describe the glyph. */
-const char *ug_glyph_library_name(const ug_glyph_library *lib, size_t i);
-const char *ug_glyph_library_keywords(const ug_glyph_library *lib, size_t i);
-const char *ug_glyph_library_folder(const ug_glyph_library *lib, size_t i);
+UG_API const char *ug_glyph_library_name(const ug_glyph_library *lib, size_t i);
+UG_API const char *ug_glyph_library_keywords(const ug_glyph_library *lib, size_t i);
+UG_API const char *ug_glyph_library_folder(const ug_glyph_library *lib, size_t i);
 /* A labelled contact sheet (SVG) of every glyph; *out is malloc'd. */
-ug_status ug_glyph_library_sheet_svg(const ug_glyph_library *lib, char **out,
+UG_API ug_status ug_glyph_library_sheet_svg(const ug_glyph_library *lib, char **out,
                                      size_t *len, ug_error *err);
 /* Load one glyph reference as a layout in base_dir would (a library name, a
 ** primitive or a path). *warnings (malloc'd, "" if none) gets one line per
 ** thing sanitizing removed; *ink the covered fraction of the unit box. */
-ug_status ug_glyph_check(const char *ref, const char *base_dir,
+UG_API ug_status ug_glyph_check(const char *ref, const char *base_dir,
                          const char *const *dirs, size_t ndirs, char **warnings,
                          double *ink, ug_error *err);
 
@@ -304,23 +318,23 @@ typedef struct ug_findings ug_findings;
 
 /* Check a chart; rules named in the layout's audit.ignore are left out.
 ** The findings own copies of everything they show (the chart may go first). */
-ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_error *err);
+UG_API ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_error *err);
 /* Every chart of a page file, plus the page's own rule: charts counting the
 ** same thing side by side must share icon value and size (page-scale-mismatch). */
-ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
+UG_API ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
                         ug_findings **out, ug_error *err);
 /* The same, finding glyphs as ug_scene_pack_with does (opt may be NULL). */
-ug_status ug_chart_audit_with(const ug_chart *chart, const ug_pack_options *opt,
+UG_API ug_status ug_chart_audit_with(const ug_chart *chart, const ug_pack_options *opt,
                               ug_findings **out, ug_error *err);
-size_t ug_findings_count(const ug_findings *f);
+UG_API size_t ug_findings_count(const ug_findings *f);
 /* How many findings have at least this severity. */
-size_t ug_findings_count_severity(const ug_findings *f, ug_severity at_least);
-const ug_finding *ug_findings_at(const ug_findings *f, size_t i);
+UG_API size_t ug_findings_count_severity(const ug_findings *f, ug_severity at_least);
+UG_API const ug_finding *ug_findings_at(const ug_findings *f, size_t i);
 /* UG_REPORT_TEXT or UG_REPORT_JSON; *out is malloc'd, NUL-ended. */
-ug_status ug_findings_format(const ug_findings *f, ug_report_format fmt,
+UG_API ug_status ug_findings_format(const ug_findings *f, ug_report_format fmt,
                              char **out, size_t *len, ug_error *err);
-void ug_findings_free(ug_findings *f);
-const char *ug_severity_name(ug_severity s); /* "error", "warning", "note" */
+UG_API void ug_findings_free(ug_findings *f);
+UG_API const char *ug_severity_name(ug_severity s); /* "error", "warning", "note" */
 
 /* ---- utilities ---------------------------------------------------------- */
 
@@ -330,38 +344,38 @@ const char *ug_severity_name(ug_severity s); /* "error", "warning", "note" */
 ** "<U+202E>", a byte that is not UTF-8 "<0xFF>"; the rest is copied. Writes
 ** at most size - 1 bytes and a NUL (never half an escape or a character)
 ** and returns the length the whole result needs, like snprintf. */
-size_t ug_text_visible(const char *s, char *out, size_t size);
+UG_API size_t ug_text_visible(const char *s, char *out, size_t size);
 
 /* The commented starter layout `unitgram init` writes (page != 0: a page file). */
-const char *ug_starter_layout(int page);
+UG_API const char *ug_starter_layout(int page);
 
 /* Write len bytes to path through a temporary file in the same folder and
 ** rename(2), so a failure leaves any previous file untouched. "-" = stdout.
 ** An existing device or FIFO is written in place; a FIFO nothing reads is
 ** refused at once, never waited on. */
-ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
+UG_API ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
                                ug_error *err);
 /* The same with the fsync before the rename made optional (sync == 0): a
 ** batch writing a thousand files skips a thousand journal commits and calls
 ** sync(2) once at the end instead. A crash before that sync may lose or
 ** empty files of the batch. */
-ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t len,
+UG_API ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t len,
                                     int sync, ug_error *err);
 /* Write len bytes to path as a new file, replacing nothing: the bytes go to
 ** a temporary file that is linked into place, so anything already at path (a
 ** file, a folder, a FIFO, a symlink, even a dangling one) is left as it was,
 ** never written through or waited on; then *existed (when given) is set. */
-ug_status ug_write_file_new(const char *path, const void *data, size_t len,
+UG_API ug_status ug_write_file_new(const char *path, const void *data, size_t len,
                             int *existed, ug_error *err);
 /* The same for root/rel, where rel's folders (made when missing) must be real
 ** folders below root: a symlinked folder on the way is refused, never
 ** followed, so a batch cannot be led outside its output folder. */
-ug_status ug_write_file_beneath(const char *root, const char *rel, const void *data,
+UG_API ug_status ug_write_file_beneath(const char *root, const char *rel, const void *data,
                                 size_t len, int sync, ug_error *err);
 /* Remove the temporary files of writes in flight. Async-signal-safe: a
 ** program's handler for SIGINT, SIGTERM or SIGHUP calls it before exiting so
 ** a stopped run leaves no temporary file beside its outputs. */
-void ug_remove_partial_outputs(void);
+UG_API void ug_remove_partial_outputs(void);
 
 #ifdef __cplusplus
 }

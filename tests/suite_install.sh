@@ -38,8 +38,9 @@ flags=$(pkg-config --cflags --libs unitgram) || fail "pkg-config does not know u
 cc -std=c11 -Wall -Wextra -Werror -o "$T/example" tests/example/draw.c $flags \
   || fail "example does not build against the installed library"
 if [ -x "$T/example" ]; then
-  # staged: the compiled-in data folder is not there yet, so name it
-  UNITGRAM_GLYPH_PATH=$D$P/share/unitgram/glyphs "$T/example" layouts/pantry.yaml \
+  # staged: the compiled-in data folder and the shared library's folder are
+  # not where they will be yet, so name them
+  UNITGRAM_GLYPH_PATH=$D$P/share/unitgram/glyphs LD_LIBRARY_PATH=$D$P/lib "$T/example" layouts/pantry.yaml \
     "$T/example.svg" > /dev/null || fail "example failed"
   xmllint --noout "$T/example.svg" || fail "example SVG not well-formed"
   "$BIN" draw layouts/pantry.yaml -o "$T/cli.svg" 2> /dev/null
