@@ -268,7 +268,7 @@ UG_API ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double 
                        double scale, char **out, size_t *len, ug_error *err);
 /* ug_page_draw with the options every panel is packed with (glyph folders,
 ** a glyph cache); opt may be NULL. The page loads each glyph once. */
-ug_status ug_page_draw_with(const ug_page *page, const ug_pack_options *opt,
+UG_API ug_status ug_page_draw_with(const ug_page *page, const ug_pack_options *opt,
                             ug_output_format fmt, double dpi, double scale, char **out,
                             size_t *len, ug_error *err);
 /* The handout's description (its SVG's <desc>): every chart's description in
