@@ -41,6 +41,7 @@ typedef struct {
     ug_error *err;
     const ug_pack_options *opt; /* never NULL */
     ug_status st; /* first failure; later placing is skipped */
+    size_t glyph_bytes; /* markup of the chart's distinct glyphs so far */
     size_t cap_icons, cap_texts, cap_holders, cap_rects, cap_swatches;
     double size, gap, pitch, left, right;
     double y; /* top of the next block */
@@ -622,6 +623,14 @@ static size_t glyph_index(packer *p, size_t i)
                                   p->err)))
         return 0;
     s->glyphs[s->nglyphs] = g;
+    /* Each glyph is written once per document and drawn once per PNG or
+    ** PDF, so what bounds the work is their markup together. */
+    p->glyph_bytes += strlen(g->body);
+    if (p->glyph_bytes > SCENE_MAX_GLYPH_BYTES)
+        p->st = ug_fail(p->err, UG_ELIMIT, where,
+                        "the chart's glyphs hold %zu bytes of drawing together with "
+                        "'%s', over the limit of %u (4 MiB); use fewer or simpler "
+                        "glyph files", p->glyph_bytes, ref, SCENE_MAX_GLYPH_BYTES);
     return s->nglyphs++;
 }
 

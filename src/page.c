@@ -89,6 +89,7 @@ typedef struct {
     page_box *crops;      /* the part of each chart's canvas shown */
     ug_buf desc;
     ug_pack_options pack; /* the caller's, always with a glyph cache */
+    size_t glyph_bytes;   /* glyph markup in the panels so far */
 } composer;
 
 static ug_status nomem(composer *k)
@@ -264,7 +265,17 @@ static ug_status chart_panel(composer *k, size_t i)
         return st;
     k->crops[i] = content_box(s);
     k->heights[i] = k->crops[i].h;
-    if (k->crops[i].w > room + 0.5) {
+    /* Every panel's SVG holds its glyphs again: bound them on the page as
+    ** on one chart. */
+    for (size_t g = 0; g < s->nglyphs; g++)
+        k->glyph_bytes += strlen(s->glyphs[g]->body);
+    if (k->glyph_bytes > SCENE_MAX_GLYPH_BYTES) {
+        panel_name(k->p, i, name, sizeof name);
+        st = ug_fail(k->err, UG_ELIMIT, k->p->panels[i].mark,
+                     "with %s the page's charts hold %zu bytes of glyph drawing "
+                     "together, over the limit of %u (4 MiB); use fewer or simpler "
+                     "glyph files", name, k->glyph_bytes, SCENE_MAX_GLYPH_BYTES);
+    } else if (k->crops[i].w > room + 0.5) {
         panel_name(k->p, i, name, sizeof name);
         st = ug_fail(k->err, UG_ELIMIT, k->p->panels[i].mark,
                      "%s needs %.1f mm of width but its column is %.1f mm wide; "

@@ -54,6 +54,10 @@ typedef struct {
     size_t glyph;         /* index into glyphs */
 } scene_category;
 
+/* The markup of a chart's distinct glyphs together (a single glyph file may
+** hold 1 MiB): beyond it a chart is refused, not drawn slowly. */
+#define SCENE_MAX_GLYPH_BYTES (4u << 20)
+
 struct ug_scene {
     ug_arena arena;
     double width, height, icon_size;

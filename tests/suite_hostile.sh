@@ -70,6 +70,22 @@ printf '%s\ndata: {file: gen_long_field.csv, group-column: g}\ncategories:\n  - 
 printf '%s\ndata: {file: gen_csv_rows.csv, group-column: g}\ncategories:\n  - {label: A, column: a}\n  - {label: B, column: b}\n' \
   "$HEAD" | gen gen_csv_100000_rows error
 
+# Many distinct glyph files: each is drawn once per document, so their
+# markup together is bounded (4 MiB a chart, 4 MiB a page's panels).
+mkdir -p "$H/many"
+for i in $(seq 1 60); do # a zigzag of 2,000 long-decimal points, ~110 KB
+  awk -v seed="$i" 'BEGIN { srand(seed); printf "<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 100 100\"><path d=\"M10 95"
+       for (k = 0; k < 2000; k++) printf " L%.25f %.25f", 10 + 80 * k / 2000, k % 2 ? 10 + rand() * 20 : 60 + rand() * 30
+       print " L90 95 Z\"/></svg>" }' > "$H/many/g$i.svg"
+done
+{ echo "$HEAD"; echo "categories:"
+  seq 1 60 | sed 's|.*|  - {label: C&, count: 1, glyph: many/g&.svg}|'; } | gen gen_glyph_bytes_chart error
+{ echo "$HEAD"; echo "categories:"
+  seq 1 3 | sed 's|.*|  - {label: C&, count: 1, glyph: many/g&.svg}|'; } > "$H/gen_three_glyphs.yaml"
+{ echo "page: {size: \"400mm x 2000mm\", columns: 2}"; echo "title: Glyph bytes (test data)"
+  echo "panels:"; for i in $(seq 1 14); do echo "  - chart: gen_three_glyphs.yaml"; done; } \
+  | gen gen_glyph_bytes_page error
+
 # ---- paths: symlinks, .. and special files ---------------------------------------
 mkdir -p outside
 printf 'g,a,b\nNorth,3,4\n' > outside/counts.csv
