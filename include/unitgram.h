@@ -52,6 +52,8 @@ typedef struct {
     unsigned line, column; /* 1-based; 0 when the place is the whole file */
 } ug_mark;
 
+/* Every call that takes a ug_error clears it first, so one ug_error can be
+** reused from call to call: after a failure it holds that call's error. */
 typedef struct {
     ug_status status;
     ug_mark where;     /* where.file points at file[] below */

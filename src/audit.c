@@ -839,6 +839,7 @@ static ug_status check_ignore_list(audit_ctx *x)
 
 ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_error *err)
 {
+    ug_error_clear(err);
     return ug_chart_audit_with(chart, NULL, out, err);
 }
 
@@ -874,6 +875,7 @@ static ug_status finish(audit_ctx *x, ug_status st, ug_findings **out)
 ug_status ug_chart_audit_with(const ug_chart *chart, const ug_pack_options *opt,
                               ug_findings **out, ug_error *err)
 {
+    ug_error_clear(err);
     audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt, false};
     return finish(&x, x.f ? audit_one(&x) : oom(&x), out);
 }
@@ -971,6 +973,7 @@ static ug_status check_page_scale(audit_ctx *x, const scale_of *s, size_t n)
 ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
                         ug_findings **out, ug_error *err)
 {
+    ug_error_clear(err);
     audit_ctx x = {NULL, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt, false};
     scale_of *scales = ug_calloc(page->npanels ? page->npanels : 1, sizeof *scales);
     size_t n = 0;
@@ -1032,6 +1035,7 @@ static void json_finding(ug_buf *b, const ug_finding *it, bool last)
 ug_status ug_findings_format(const ug_findings *f, ug_report_format fmt, char **out,
                              size_t *len, ug_error *err)
 {
+    ug_error_clear(err);
     *out = NULL;
     if (fmt != UG_REPORT_TEXT && fmt != UG_REPORT_JSON)
         return ug_fail(err, UG_ESCHEMA, ug_mark_file(NULL),

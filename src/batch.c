@@ -185,6 +185,7 @@ static ug_status share_value(ug_batch *b, ug_error *err)
 ug_status ug_batch_open(const char *template_path, const char *csv_path,
                         const ug_limits *limits, ug_batch **out, ug_error *err)
 {
+    ug_error_clear(err);
     *out = NULL;
     ug_batch *b = ug_calloc(1, sizeof *b);
     if (!b)
@@ -252,6 +253,7 @@ static char *replace_group(const char *s, const char *with)
 ug_status ug_batch_path(const ug_batch *b, size_t i, const char *pattern,
                         char **out, ug_error *err)
 {
+    ug_error_clear(err);
     if (i >= ug_batch_count(b))
         return ug_fail(err, UG_ELIMIT, ug_mark_file(b->tmpl->path),
                        "row %zu of %zu does not exist", i + 1, ug_batch_count(b));
@@ -274,6 +276,7 @@ static ug_status row_text(ug_text *t, const char *name, char **keep, ug_error *e
 
 ug_status ug_batch_chart(ug_batch *b, size_t i, const ug_chart **out, ug_error *err)
 {
+    ug_error_clear(err);
     *out = NULL;
     const ug_chart *t = b->tmpl;
     if (i >= ug_batch_count(b))

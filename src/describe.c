@@ -319,6 +319,7 @@ void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b)
 ug_status ug_chart_describe(const ug_chart *c, const ug_allocation *a, char **out,
                             size_t *len, ug_error *err)
 {
+    ug_error_clear(err);
     ug_buf b;
     ug_buf_init(&b);
     if (c->description.text)

@@ -21,6 +21,7 @@ struct ug_glyph_cache {
 
 ug_status ug_glyph_cache_new(ug_glyph_cache **out, ug_error *err)
 {
+    ug_error_clear(err);
     *out = ug_calloc(1, sizeof **out);
     return *out ? UG_OK : ug_fail(err, UG_ENOMEM, ug_mark_file(NULL), "out of memory");
 }

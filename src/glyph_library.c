@@ -217,6 +217,7 @@ static ug_status copy_extra(ug_glyph_library *lib, const char *const *dirs, size
 ug_status ug_glyph_library_open(const char *const *dirs, size_t ndirs,
                                 ug_glyph_library **out, ug_error *err)
 {
+    ug_error_clear(err);
     *out = NULL;
     ug_glyph_library *lib = ug_calloc(1, sizeof *lib);
     if (!lib)
@@ -305,6 +306,7 @@ static void sheet_head(ug_buf *b, size_t n)
 ug_status ug_glyph_library_sheet_svg(const ug_glyph_library *lib, char **out,
                                      size_t *len, ug_error *err)
 {
+    ug_error_clear(err);
     *out = NULL;
     glyph_search s = {(const char *const *)lib->extra, lib->nextra, NULL};
     ug_buf b;
@@ -336,6 +338,7 @@ ug_status ug_glyph_library_sheet_svg(const ug_glyph_library *lib, char **out,
 ug_status ug_glyph_check(const char *ref, const char *base_dir, const char *const *dirs,
                          size_t ndirs, char **warnings, double *ink, ug_error *err)
 {
+    ug_error_clear(err);
     *warnings = NULL;
     glyph_search s = {dirs, ndirs, base_dir};
     ug_glyph *g = NULL;

@@ -143,6 +143,7 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
                        const ug_allocation *const *allocs, size_t nallocs,
                        char **out, size_t *len, ug_error *err)
 {
+    ug_error_clear(err);
     *out = NULL;
     const ug_chart *first = nallocs ? allocs[0]->chart : NULL;
     size_t at = raster_svg_body(svg, svg_len);

@@ -1383,6 +1383,7 @@ ug_status ug_chart_load_string(const char *text, size_t len, const char *name,
                                const ug_limits *limits, ug_chart **out,
                                ug_error *err)
 {
+    ug_error_clear(err);
     *out = NULL;
     ug_chart *c = chart_new(name ? name : "<string>", NULL, limits);
     if (!c)
@@ -1439,6 +1440,7 @@ ug_status ug_layout_detect_string(const char *text, size_t len, const char *name
                                   const ug_limits *limits, ug_layout_kind *out,
                                   ug_error *err)
 {
+    ug_error_clear(err);
     ug_limits lim;
     resolve_limits(&lim, limits);
     *out = UG_LAYOUT_CHART;
@@ -1455,6 +1457,7 @@ ug_status ug_layout_detect_string(const char *text, size_t len, const char *name
 ug_status ug_layout_detect(const char *path, const ug_limits *limits,
                            ug_layout_kind *out, ug_error *err)
 {
+    ug_error_clear(err);
     char *text;
     size_t len;
     *out = UG_LAYOUT_CHART;
@@ -1478,6 +1481,7 @@ static ug_status chart_load_at(const char *path, const ug_limits *limits,
 ug_status ug_chart_load(const char *path, const ug_limits *limits, ug_chart **out,
                         ug_error *err)
 {
+    ug_error_clear(err);
     return chart_load_at(path, limits, ug_mark_file(path), out, err);
 }
 
@@ -1711,6 +1715,7 @@ static ug_status fill_page(void *model, const layout_node *root, ug_error *err)
 ug_status ug_page_load_string(const char *text, size_t len, const char *name,
                               const ug_limits *limits, ug_page **out, ug_error *err)
 {
+    ug_error_clear(err);
     *out = NULL;
     ug_page *p = page_new(name ? name : "<string>", limits);
     if (!p)
@@ -1727,6 +1732,7 @@ ug_status ug_page_load_string(const char *text, size_t len, const char *name,
 ug_status ug_page_load(const char *path, const ug_limits *limits, ug_page **out,
                        ug_error *err)
 {
+    ug_error_clear(err);
     void *p = NULL;
     ug_status st = load_path(path, limits, ug_mark_file(path), true, &p, err);
     *out = p;

@@ -282,6 +282,7 @@ static int open_parent(const char *path, const char **base)
 ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
                                ug_error *err)
 {
+    ug_error_clear(err);
     return ug_write_file_atomic_sync(path, data, len, true, err);
 }
 
@@ -290,6 +291,7 @@ ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
 ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t len,
                                     int sync, ug_error *err)
 {
+    ug_error_clear(err);
     if (strcmp(path, "-") == 0)
         return write_stdout(data, len, err);
     const char *base;
@@ -310,6 +312,7 @@ ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t l
 ug_status ug_write_file_new(const char *path, const void *data, size_t len,
                             int *existed, ug_error *err)
 {
+    ug_error_clear(err);
     if (existed)
         *existed = 0;
     const char *base;
@@ -411,6 +414,7 @@ static ug_status write_into(int rootfd, const char *root, const char *rel,
 ug_status ug_write_file_beneath(const char *root, const char *rel, const void *data,
                                 size_t len, int sync, ug_error *err)
 {
+    ug_error_clear(err);
     const char *slash = strrchr(rel, '/');
     const char *base = slash ? slash + 1 : rel;
     if (has_dotdot(rel) || !*base || !strcmp(base, "."))

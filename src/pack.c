@@ -737,6 +737,7 @@ static void set_desc(packer *p)
 ug_status ug_scene_pack(const ug_chart *c, const ug_allocation *a, ug_scene **out,
                         ug_error *err)
 {
+    ug_error_clear(err);
     return ug_scene_pack_with(c, a, NULL, out, err);
 }
 
@@ -744,6 +745,7 @@ ug_status ug_scene_pack_with(const ug_chart *c, const ug_allocation *a,
                              const ug_pack_options *opt, ug_scene **out,
                              ug_error *err)
 {
+    ug_error_clear(err);
     static const ug_pack_options defaults = {NULL, 0, NULL};
     *out = NULL;
     packer p;

@@ -640,6 +640,7 @@ void page_result_free(page_result *r)
 ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
                        double scale, char **out, size_t *len, ug_error *err)
 {
+    ug_error_clear(err);
     return ug_page_draw_with(page, NULL, fmt, dpi, scale, out, len, err);
 }
 
@@ -647,6 +648,7 @@ ug_status ug_page_draw_with(const ug_page *page, const ug_pack_options *opt,
                             ug_output_format fmt, double dpi, double scale, char **out,
                             size_t *len, ug_error *err)
 {
+    ug_error_clear(err);
     page_result r;
     *out = NULL;
     ug_status st = page_compose(page, opt, &r, err);
@@ -668,6 +670,7 @@ ug_status ug_page_draw_with(const ug_page *page, const ug_pack_options *opt,
 ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
                            ug_error *err)
 {
+    ug_error_clear(err);
     page_result r;
     *out = NULL;
     ug_status st = page_compose(page, NULL, &r, err);

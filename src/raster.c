@@ -354,6 +354,7 @@ ug_status ug_render_svg(const char *svg, size_t len, ug_output_format fmt,
                         double dpi, double scale, char **out, size_t *out_len,
                         ug_error *err)
 {
+    ug_error_clear(err);
     *out = NULL;
     if (out_len)
         *out_len = 0;
@@ -385,6 +386,7 @@ ug_status ug_render_svg_file(const char *svg, size_t len, ug_output_format fmt,
                              double dpi, double scale, const char *path,
                              ug_error *err)
 {
+    ug_error_clear(err);
     char *bytes;
     size_t n;
     ug_status st = ug_render_svg(svg, len, fmt, dpi, scale, &bytes, &n, err);

@@ -140,6 +140,7 @@ fail:
 
 ug_status ug_chart_allocate(const ug_chart *c, ug_allocation **out, ug_error *err)
 {
+    ug_error_clear(err);
     pub_table *t = NULL;
     *out = NULL;
     ug_status st = disclose_chart(c, &t, err);
@@ -148,6 +149,7 @@ ug_status ug_chart_allocate(const ug_chart *c, ug_allocation **out, ug_error *er
 
 ug_status ug_chart_allocate_internal(const ug_chart *c, ug_allocation **out, ug_error *err)
 {
+    ug_error_clear(err);
     pub_table *t = NULL;
     *out = NULL;
     ug_status st = disclose_internal(c, &t, err);
@@ -353,6 +355,7 @@ static const char internal_banner[] =
 ug_status ug_allocation_report(const ug_allocation *a, ug_report_format fmt,
                                char **out, size_t *len, ug_error *err)
 {
+    ug_error_clear(err);
     ug_buf b;
     ug_buf_init(&b);
     if (a->internal && fmt != UG_REPORT_JSON)

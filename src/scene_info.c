@@ -28,6 +28,7 @@ static size_t count_removed(const ug_scene *s)
 ug_status ug_scene_glyph_warnings(const ug_scene *s, const ug_chart *c,
                                   ug_error **out, size_t *n, ug_error *err)
 {
+    ug_error_clear(err);
     *out = NULL;
     *n = 0;
     size_t total = count_removed(s);

@@ -233,6 +233,7 @@ static size_t category(ug_buf *b, const ug_scene *s, size_t c, size_t first,
 
 ug_status ug_scene_svg(const ug_scene *s, char **out, size_t *len, ug_error *err)
 {
+    ug_error_clear(err);
     ug_buf b;
     ug_buf_init(&b);
     head(&b, s);

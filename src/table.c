@@ -73,6 +73,7 @@ static void chart_rows(ug_buf *b, const ug_allocation *a, const char *chart)
 ug_status ug_table_csv(const ug_allocation *const *allocs, size_t n, char **out,
                        size_t *len, ug_error *err)
 {
+    ug_error_clear(err);
     ug_buf b;
     ug_buf_init(&b);
     ug_buf_puts(&b, n > 1 ? "chart,group,category,count,icons,status,level\n"

@@ -71,6 +71,31 @@ static const chart_case charts[] = {
      "minimal.yaml"},
 };
 
+/* One ug_error reused across calls: each call clears it, so the second
+** failure's message is the one left, and a success leaves it clear. */
+START_TEST(test_error_reused)
+{
+    ug_error err = {0};
+    ug_chart *c = NULL;
+    const char *first = "title: [\n";
+    const char *second = "title: t\ncolour: red\ncategories: [{label: A, count: 1}]\n";
+    const char *good = "title: t\nsource: s\nunit-label: u\nicon-value: 1\n"
+                       "categories: [{label: A, count: 1}]\n";
+    ck_assert_int_ne(ug_chart_load_string(first, strlen(first), "first.yaml", NULL, &c, &err),
+                     UG_OK);
+    ck_assert_str_eq(err.where.file, "first.yaml");
+    ck_assert_int_ne(ug_chart_load_string(second, strlen(second), "second.yaml", NULL, &c,
+                                          &err), UG_OK);
+    ck_assert_str_eq(err.where.file, "second.yaml");
+    ck_assert_int_eq(err.where.line, 2);
+    ck_assert_int_eq(ug_chart_load_string(good, strlen(good), "good.yaml", NULL, &c, &err),
+                     UG_OK);
+    ck_assert_int_eq(err.status, UG_OK);
+    ck_assert_str_eq(err.msg, "");
+    ug_chart_free(c);
+}
+END_TEST
+
 START_TEST(test_good_charts)
 {
     const chart_case *t = &charts[_i];
@@ -565,6 +590,7 @@ static Suite *suite(void)
     Suite *s = suite_create("layout");
     TCase *t = tcase_create("load");
     tcase_set_timeout(t, 60);
+    tcase_add_test(t, test_error_reused);
     tcase_add_loop_test(t, test_good_charts, 0, sizeof charts / sizeof charts[0]);
     tcase_add_test(t, test_groups_agree);
     tcase_add_test(t, test_full_chart);

@@ -36,7 +36,7 @@ static ug_status compose(const char *yaml, page_result *r, ug_error *err)
 {
     ug_page_free(composed);
     composed = load_page(yaml);
-    return page_compose(composed, r, err);
+    return page_compose(composed, NULL, r, err);
 }
 
 static void done(page_result *r)
@@ -82,7 +82,7 @@ START_TEST(test_paper_sizes)
     ck_assert_double_eq_tol(p->height / 96 * c->per_inch, c->h, 1e-9);
     page_result r;
     ug_error err = {0};
-    ck_assert_int_eq(page_compose(p, &r, &err), UG_OK);
+    ck_assert_int_eq(page_compose(p, NULL, &r, &err), UG_OK);
     char want[96];
     snprintf(want, sizeof want, "width=\"%s\" height=\"%s\"", c->svg_w, c->svg_h);
     ck_assert_msg(strstr(r.svg, want), "%s not in %.300s", want, r.svg);
