@@ -2,6 +2,7 @@
 ** Helpers every command shares: diagnostics in the file:line:col form, exit
 ** codes, option reading, and loading a chart from a file or standard input.
 */
+#define _XOPEN_SOURCE 700 /* sigaltstack, SA_ONSTACK, SIGTRAP: XSI (POSIX.1-2017) */
 #include <stdarg.h>
 #include <errno.h>
 #include <math.h>
@@ -334,28 +335,81 @@ double cli_now(void)
 /* ---- stopping ----------------------------------------------------------------- */
 
 /* Ctrl-C, TERM or HUP in the middle of a write (a batch, --watch) would leave
-** the write's temporary file beside the output. The handler removes those and
-** then dies of the same signal, so the caller still sees how it ended. */
+** the write's temporary file beside the output; so would a crash anywhere,
+** pango's font threads included (out of memory inside fontconfig ends in
+** SIGSEGV, GLib's g_error in SIGTRAP, g_malloc's in SIGABRT). The handler
+** removes the temporaries and then dies of the same signal, so the caller
+** still sees how it ended: only async-signal-safe calls (POSIX.1-2017 XSH
+** 2.4.3), and for a fault the default action then runs at the faulting
+** instruction again or at the re-raised signal on return. */
+static const int stop_signals[] = {SIGINT, SIGTERM, SIGHUP};
+/* SIGTRAP: GLib's g_error breaks into a debugger (G_BREAKPOINT) rather than
+** abort() on Unix (GLib documentation, g_error). */
+static const int fatal_signals[] = {SIGSEGV, SIGBUS, SIGABRT, SIGFPE, SIGILL, SIGTRAP,
+                                    SIGSYS};
+#define CAUGHT_MAX 10 /* both lists */
+
+/* What each caught signal did before: the default action, except under a
+** sanitizer, whose report then still follows our clean-up. */
+static struct {
+    int sig;
+    struct sigaction action;
+} before[CAUGHT_MAX];
+static size_t ncaught;
+
 static void stop_on_signal(int sig)
 {
     ug_remove_partial_outputs();
-    signal(sig, SIG_DFL);
+    for (size_t i = 0; i < ncaught; i++)
+        if (before[i].sig == sig)
+            sigaction(sig, &before[i].action, NULL);
     raise(sig);
+}
+
+/* A stack overflow leaves no stack for a handler: it runs on its own
+** (sigaltstack, POSIX.1-2017). Static, because under the memory shortage
+** this is for, a malloc'd one might not be there. 64 KiB: unlinkat and
+** raise need a few hundred bytes (common practice, no source). */
+static void use_alternate_stack(void)
+{
+    static char stack[1 << 16];
+    stack_t ss;
+    memset(&ss, 0, sizeof ss);
+    ss.ss_sp = stack;
+    ss.ss_size = sizeof stack;
+    sigaltstack(&ss, NULL);
+}
+
+static void catch_signal(int sig, int flags)
+{
+    struct sigaction sa;
+    memset(&sa, 0, sizeof sa);
+    sa.sa_handler = stop_on_signal;
+    sa.sa_flags = flags;
+    sigemptyset(&sa.sa_mask);
+    for (size_t k = 0; k < sizeof stop_signals / sizeof stop_signals[0]; k++)
+        sigaddset(&sa.sa_mask, stop_signals[k]);
+    /* A signal ignored by our parent (nohup) stays ignored. */
+    struct sigaction old;
+    if (ncaught == CAUGHT_MAX || sigaction(sig, NULL, &old) != 0 ||
+        old.sa_handler == SIG_IGN)
+        return;
+    before[ncaught].sig = sig;
+    before[ncaught++].action = old;
+    sigaction(sig, &sa, NULL);
 }
 
 void cli_clean_up_on_signals(void)
 {
-    static const int sigs[] = {SIGINT, SIGTERM, SIGHUP};
-    for (size_t i = 0; i < sizeof sigs / sizeof sigs[0]; i++) {
-        struct sigaction sa;
-        memset(&sa, 0, sizeof sa);
-        sa.sa_handler = stop_on_signal;
-        sigemptyset(&sa.sa_mask);
-        for (size_t k = 0; k < sizeof sigs / sizeof sigs[0]; k++)
-            sigaddset(&sa.sa_mask, sigs[k]);
-        /* A signal ignored by our parent (nohup) stays ignored. */
-        struct sigaction old;
-        if (sigaction(sigs[i], NULL, &old) == 0 && old.sa_handler != SIG_IGN)
-            sigaction(sigs[i], &sa, NULL);
-    }
+    if (ncaught)
+        return; /* once: a second time would record our own handler as "before" */
+    use_alternate_stack();
+    for (size_t i = 0; i < sizeof stop_signals / sizeof stop_signals[0]; i++)
+        catch_signal(stop_signals[i], 0);
+    for (size_t i = 0; i < sizeof fatal_signals / sizeof fatal_signals[0]; i++)
+        catch_signal(fatal_signals[i], SA_ONSTACK);
+    /* Over the file-size limit (ulimit -f) write(2) then fails with EFBIG,
+    ** an output error like a full disk, instead of killing the process
+    ** mid-write (POSIX.1-2017 XSH write(), setrlimit() RLIMIT_FSIZE). */
+    signal(SIGXFSZ, SIG_IGN);
 }

@@ -7,7 +7,8 @@
 # file keeps the old bytes), leaves a device node a device, and replaces a
 # symlink at the output path rather than writing through it. Batches
 # (--each-row) never write outside their output folder, not even through a
-# symlinked folder; a signal leaves no temporary file; a FIFO nothing reads
+# symlinked folder; a signal (Ctrl-C, TERM, HUP, or a crash: SEGV, BUS, ABRT,
+# FPE, ILL, TRAP, SYS) leaves no temporary file; a FIFO nothing reads
 # is refused at once; a 250-character output name works.
 # usage: bash tests/suite_output_safety.sh build/unitgram
 set -u
@@ -68,6 +69,29 @@ printf '%s' "$OLD" > "$O"
 rc=$?
 [ "$rc" = 4 ] || fail "short write: exit $rc, expected 4"
 only_old "short write"
+
+# The same limit without SIGXFSZ ignored by the caller: unitgram ignores it
+# itself, so the write fails with EFBIG (exit 4) instead of the signal
+# killing the process with its temporary file half written.
+printf '%s' "$OLD" > "$O"
+(ulimit -f 1; exec "$BIN" draw "$GOOD" -o "$O") 2> "$T/err.txt"
+rc=$?
+[ "$rc" = 4 ] || fail "short write without SIGXFSZ ignored: exit $rc, expected 4"
+grep -q "too large" "$T/err.txt" || fail "short write without SIGXFSZ ignored: $(cat "$T/err.txt")"
+only_old "short write without SIGXFSZ ignored"
+
+# A crash while the temporary file is open (out of memory inside fontconfig
+# or GLib ends so): strace delivers the signal at the output's fsync(2),
+# after its bytes are written and before the rename. The handler removes
+# the temporary and the run still dies of that signal (128 + its number).
+for sig in SEGV BUS ABRT FPE ILL TRAP SYS; do
+  printf '%s' "$OLD" > "$O"
+  (strace -qq -o /dev/null -e trace=fsync -e inject=fsync:signal=$sig \
+     "$BIN" draw "$GOOD" -o "$O" 2> /dev/null; echo $? > "$T/rc") 2> /dev/null
+  rc=$(cat "$T/rc")
+  [ "$rc" = $((128 + $(kill -l "$sig"))) ] || fail "SIG$sig at the write: exit $rc"
+  only_old "SIG$sig at the write"
+done
 
 # An unwritable folder. root ignores permissions, so there the run drops to
 # nobody (setpriv); without either, say so.
