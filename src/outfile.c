@@ -8,8 +8,9 @@
 **   - temporaries in flight are listed where a signal handler can reach them:
 **     ug_remove_partial_outputs() is async-signal-safe, so a CLI stopped by
 **     Ctrl-C, TERM or HUP, or killed by a crash in any thread, leaves no
-**     temporary file beside its outputs; and nothing is written while
-**     pango's font threads still run (see wait_for_pango_threads).
+**     temporary file beside its outputs (pango matches fonts in threads of
+**     its own, which may still run, and crash when memory runs out, while
+**     an output is written).
 **   - an existing device or FIFO is written in place (renaming over /dev/null
 **     would replace the device node); a FIFO that nothing reads is refused at
 **     once instead of blocking forever.
@@ -17,7 +18,6 @@
 **     so a folder swapped for a symlink cannot lead a batch outside its root.
 */
 #define _POSIX_C_SOURCE 200809L
-#include <dirent.h>
 #include <errno.h>
 #include <fcntl.h>
 #include <signal.h>
@@ -27,7 +27,6 @@
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
-#include <time.h>
 #include <unistd.h>
 
 #include "ug.h"
@@ -85,49 +84,6 @@ static void mark_slot(pending_slot *s, int state)
 {
     if (s)
         atomic_store(&s->state, state);
-}
-
-/* ---- pango's threads ----------------------------------------------------------- */
-
-/* pango (1.50 and later) matches and sorts fonts in threads of its own, named
-** "[pango] FcInit", "[pango] FcFontSetMatch" and "[pango] FcFontSetSort", that
-** can still be running (or freeing their thread data) after the text is laid
-** out. Out of memory, one of them dies of SIGSEGV or GLib's abort, killing
-** the process: during a write that would leave a temporary file, and after
-** the rename a finished picture from a run that then "crashed". So a file
-** is written only when they are gone. Their names come from
-** /proc/self/task/TID/comm (proc(5)); without /proc nothing is waited for. */
-static bool is_pango_thread(const char *task)
-{
-    char path[300], comm[32] = "";
-    snprintf(path, sizeof path, "/proc/self/task/%s/comm", task);
-    int fd = open(path, O_RDONLY | O_CLOEXEC);
-    if (fd < 0)
-        return false;
-    ssize_t n = read(fd, comm, sizeof comm - 1);
-    close(fd);
-    return n > 0 && strncmp(comm, "[pango]", 7) == 0;
-}
-
-static bool pango_threads_running(void)
-{
-    DIR *d = opendir("/proc/self/task");
-    if (!d)
-        return false;
-    bool any = false;
-    for (struct dirent *e; !any && (e = readdir(d));)
-        any = e->d_name[0] != '.' && is_pango_thread(e->d_name);
-    closedir(d);
-    return any;
-}
-
-/* At most 5 s: a font sort over a large font collection takes tens of
-** milliseconds (from memory); a thread stuck beyond that is not waited for. */
-static void wait_for_pango_threads(void)
-{
-    const struct timespec tick = {0, 1000000};
-    for (int i = 0; i < 5000 && pango_threads_running(); i++)
-        nanosleep(&tick, NULL);
 }
 
 /* ---- writing ------------------------------------------------------------------ */
@@ -272,7 +228,6 @@ static ug_status write_through_temp(int dirfd, const char *base, const char *sho
                                     placing how, ug_error *err)
 {
     char name[TEMP_NAME_MAX];
-    wait_for_pango_threads();
     pending_slot *s = claim_slot();
     int fd = create_temp(dirfd, s, name);
     if (fd < 0) {
