@@ -81,11 +81,11 @@ typedef struct {
 #define UG_CEILING_PANELS 1000
 
 UG_API ug_status ug_chart_load(const char *path, const ug_limits *limits,
-                        ug_chart **out, ug_error *err);
+                               ug_chart **out, ug_error *err);
 /* name is used in error messages and to resolve relative paths (data.file). */
 UG_API ug_status ug_chart_load_string(const char *text, size_t len, const char *name,
-                               const ug_limits *limits, ug_chart **out,
-                               ug_error *err);
+                                      const ug_limits *limits, ug_chart **out,
+                                      ug_error *err);
 UG_API void ug_chart_free(ug_chart *chart);
 
 /* ---- the page model (page files, FORMAT.md §2) ------------------------- */
@@ -96,10 +96,10 @@ typedef struct ug_page ug_page;
 ** the page's folder). A chart file given here, or a page file given to
 ** ug_chart_load, is refused with a message saying which kind it is. */
 UG_API ug_status ug_page_load(const char *path, const ug_limits *limits,
-                       ug_page **out, ug_error *err);
+                              ug_page **out, ug_error *err);
 UG_API ug_status ug_page_load_string(const char *text, size_t len, const char *name,
-                              const ug_limits *limits, ug_page **out,
-                              ug_error *err);
+                                     const ug_limits *limits, ug_page **out,
+                                     ug_error *err);
 UG_API void ug_page_free(ug_page *page);
 
 /* Which loader a layout file is for, decided as the loaders decide it: a
@@ -111,10 +111,10 @@ UG_API void ug_page_free(ug_page *page);
 ** not read. On an error *out is UG_LAYOUT_CHART. */
 typedef enum { UG_LAYOUT_CHART, UG_LAYOUT_PAGE } ug_layout_kind;
 UG_API ug_status ug_layout_detect(const char *path, const ug_limits *limits,
-                           ug_layout_kind *out, ug_error *err);
+                                  ug_layout_kind *out, ug_error *err);
 UG_API ug_status ug_layout_detect_string(const char *text, size_t len, const char *name,
-                                  const ug_limits *limits, ug_layout_kind *out,
-                                  ug_error *err);
+                                         const ug_limits *limits, ug_layout_kind *out,
+                                         ug_error *err);
 
 /* ---- allocation: counts -> whole icons (FORMAT.md §3) ------------------ */
 
@@ -122,24 +122,27 @@ typedef struct ug_allocation ug_allocation;
 
 typedef enum { UG_REPORT_TEXT, UG_REPORT_CSV, UG_REPORT_JSON } ug_report_format;
 
+/* The allocation borrows chart: it reads the chart's labels, colours and
+** settings whenever it is reported, packed or drawn, so free the
+** allocation first and keep the chart unchanged while it lives. */
 UG_API ug_status ug_chart_allocate(const ug_chart *chart, ug_allocation **out,
-                            ug_error *err);
+                                   ug_error *err);
 UG_API void ug_allocation_free(ug_allocation *a);
 /* The allocation report as text, CSV or JSON; *out is malloc'd, NUL-ended. */
 UG_API ug_status ug_allocation_report(const ug_allocation *a, ug_report_format fmt,
-                               char **out, size_t *len, ug_error *err);
+                                      char **out, size_t *len, ug_error *err);
 /* The analyst's internal view: the allocation of every count as counted,
 ** hidden ones included. Its report says first that it is not for
 ** publication; never draw or publish it. */
 UG_API ug_status ug_chart_allocate_internal(const ug_chart *chart, ug_allocation **out,
-                                     ug_error *err);
+                                            ug_error *err);
 /* The published table as CSV (FORMAT.md §4): columns group, category, count
 ** (the published count or a hidden cell's placeholder), icons, status (exact,
 ** rounded, small, requested, complement, withheld, partial) and level (cell,
 ** group total, category total, total); with n > 1 charts a first column
 ** names the chart. Written from the published table only. */
 UG_API ug_status ug_table_csv(const ug_allocation *const *allocs, size_t n, char **out,
-                       size_t *len, ug_error *err);
+                              size_t *len, ug_error *err);
 
 /* ---- the picture: allocation -> placed boxes -> SVG -------------------- */
 
@@ -149,17 +152,17 @@ typedef struct ug_scene ug_scene;
 ** allocation are borrowed and must outlive nothing (the scene copies what it
 ** needs). Glyphs are resolved from the layout's folder and the library. */
 UG_API ug_status ug_scene_pack(const ug_chart *chart, const ug_allocation *alloc,
-                        ug_scene **out, ug_error *err);
+                               ug_scene **out, ug_error *err);
 UG_API void ug_scene_free(ug_scene *scene);
 UG_API double ug_scene_width(const ug_scene *scene);   /* px (SVG user units) */
-UG_API double ug_scene_height(const ug_scene *scene);
+                             UG_API double ug_scene_height(const ug_scene *scene);
 /* The scene as an SVG document; *out is malloc'd and NUL-ended. */
 UG_API ug_status ug_scene_svg(const ug_scene *scene, char **out, size_t *len,
-                       ug_error *err);
+                              ug_error *err);
 /* Plain-language description of the chart (the SVG's <desc>); the layout's
 ** `description:` when it gives one. *out is malloc'd and NUL-ended. */
 UG_API ug_status ug_chart_describe(const ug_chart *chart, const ug_allocation *alloc,
-                            char **out, size_t *len, ug_error *err);
+                                   char **out, size_t *len, ug_error *err);
 
 /* ---- packing options (additive: ug_scene_pack is ug_scene_pack_with(NULL)) */
 
@@ -180,8 +183,8 @@ typedef struct {
 
 /* ug_scene_pack with options; opt may be NULL (the defaults). */
 UG_API ug_status ug_scene_pack_with(const ug_chart *chart, const ug_allocation *alloc,
-                             const ug_pack_options *opt, ug_scene **out,
-                             ug_error *err);
+                                    const ug_pack_options *opt, ug_scene **out,
+                                    ug_error *err);
 
 /* One warning per thing glyph sanitizing removed from the scene's glyph
 ** files, each placed at the `glyph:` key of the first category (of chart, the
@@ -189,7 +192,7 @@ UG_API ug_status ug_scene_pack_with(const ug_chart *chart, const ug_allocation *
 ** array of *n entries (status UG_OK, where and msg filled), NULL when none;
 ** release it with free(). */
 UG_API ug_status ug_scene_glyph_warnings(const ug_scene *scene, const ug_chart *chart,
-                                  ug_error **out, size_t *n, ug_error *err);
+                                         ug_error **out, size_t *n, ug_error *err);
 
 /* The files drawing this chart reads: the layout itself, its CSV (if any) and
 ** every glyph file the scene loaded. Without a scene (packing failed), the
@@ -210,7 +213,7 @@ UG_API char **ug_chart_inputs(const ug_chart *chart, const ug_scene *scene);
 typedef struct ug_batch ug_batch;
 
 UG_API ug_status ug_batch_open(const char *template_path, const char *csv_path,
-                        const ug_limits *limits, ug_batch **out, ug_error *err);
+                               const ug_limits *limits, ug_batch **out, ug_error *err);
 UG_API void ug_batch_free(ug_batch *batch);
 UG_API size_t ug_batch_count(const ug_batch *batch);
 /* The row's name as written in the CSV; NULL when i is out of range. */
@@ -221,12 +224,12 @@ UG_API const char *ug_batch_name(const ug_batch *batch, size_t i);
 UG_API const char *ug_batch_slug(const ug_batch *batch, size_t i);
 /* `pattern` with every "{group}" replaced by slug i; *out malloc'd (free()). */
 UG_API ug_status ug_batch_path(const ug_batch *batch, size_t i, const char *pattern,
-                        char **out, ug_error *err);
+                               char **out, ug_error *err);
 /* Row i as a chart of its own (no groups, the shared icon value pinned). The
 ** chart belongs to the batch and stays valid until the next ug_batch_chart
 ** call or ug_batch_free. */
 UG_API ug_status ug_batch_chart(ug_batch *batch, size_t i, const ug_chart **out,
-                         ug_error *err);
+                                ug_error *err);
 
 /* ---- output: PNG, PDF and a web page (src/raster.c, src/html.c) -------- */
 
@@ -244,13 +247,13 @@ UG_API const char *ug_output_format_name(ug_output_format fmt);
 ** a PNG is px * dpi/96 * scale pixels a side (at most 100 megapixels), a PDF
 ** page px * 0.75 * scale points (dpi does not apply). *out is malloc'd. */
 UG_API ug_status ug_render_svg(const char *svg, size_t len, ug_output_format fmt,
-                        double dpi, double scale, char **out, size_t *out_len,
-                        ug_error *err);
+                               double dpi, double scale, char **out, size_t *out_len,
+                               ug_error *err);
 /* The same, written to path only once the render has succeeded (atomically,
 ** through ug_write_file_atomic). */
 UG_API ug_status ug_render_svg_file(const char *svg, size_t len, ug_output_format fmt,
-                             double dpi, double scale, const char *path,
-                             ug_error *err);
+                                    double dpi, double scale, const char *path,
+                                    ug_error *err);
 
 /* One self-contained web page: the SVG inline, the description in a
 ** paragraph and, as the picture's text alternative, one data table per
@@ -258,25 +261,25 @@ UG_API ug_status ug_render_svg_file(const char *svg, size_t len, ug_output_forma
 ** title NULL: the first chart's title; description NULL: the first chart's
 ** stated description, or none. No scripts, no external files. */
 UG_API ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
-                       const char *description,
-                       const ug_allocation *const *allocs, size_t nallocs,
-                       char **out, size_t *len, ug_error *err);
+                              const char *description,
+                              const ug_allocation *const *allocs, size_t nallocs,
+                              char **out, size_t *len, ug_error *err);
 
 /* A one-page handout (FORMAT.md §2) in any output format: the page's charts
 ** and text blocks on its column grid, sources at the foot. Content that does
 ** not fit is an error naming the panel and the missing height; nothing is
 ** shrunk. The web page holds the page's picture and one table per chart. */
 UG_API ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
-                       double scale, char **out, size_t *len, ug_error *err);
+                              double scale, char **out, size_t *len, ug_error *err);
 /* ug_page_draw with the options every panel is packed with (glyph folders,
 ** a glyph cache); opt may be NULL. The page loads each glyph once. */
 UG_API ug_status ug_page_draw_with(const ug_page *page, const ug_pack_options *opt,
-                            ug_output_format fmt, double dpi, double scale, char **out,
-                            size_t *len, ug_error *err);
+                                   ug_output_format fmt, double dpi, double scale, char **out,
+                                   size_t *len, ug_error *err);
 /* The handout's description (its SVG's <desc>): every chart's description in
 ** reading order. *out is malloc'd and NUL-ended. */
 UG_API ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
-                           ug_error *err);
+                                  ug_error *err);
 
 /* ---- the glyph library ------------------------------------------------ */
 
@@ -286,7 +289,7 @@ UG_API ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
 typedef struct ug_glyph_library ug_glyph_library;
 
 UG_API ug_status ug_glyph_library_open(const char *const *dirs, size_t ndirs,
-                                ug_glyph_library **out, ug_error *err);
+                                       ug_glyph_library **out, ug_error *err);
 UG_API void ug_glyph_library_free(ug_glyph_library *lib);
 UG_API size_t ug_glyph_library_count(const ug_glyph_library *lib);
 /* NULL when i is out of range. Keywords come from the folder's index.yaml,
@@ -296,13 +299,13 @@ UG_API const char *ug_glyph_library_keywords(const ug_glyph_library *lib, size_t
 UG_API const char *ug_glyph_library_folder(const ug_glyph_library *lib, size_t i);
 /* A labelled contact sheet (SVG) of every glyph; *out is malloc'd. */
 UG_API ug_status ug_glyph_library_sheet_svg(const ug_glyph_library *lib, char **out,
-                                     size_t *len, ug_error *err);
+                                            size_t *len, ug_error *err);
 /* Load one glyph reference as a layout in base_dir would (a library name, a
 ** primitive or a path). *warnings (malloc'd, "" if none) gets one line per
 ** thing sanitizing removed; *ink the covered fraction of the unit box. */
 UG_API ug_status ug_glyph_check(const char *ref, const char *base_dir,
-                         const char *const *dirs, size_t ndirs, char **warnings,
-                         double *ink, ug_error *err);
+                                const char *const *dirs, size_t ndirs, char **warnings,
+                                double *ink, ug_error *err);
 
 /* ---- audit: honesty, privacy and accessibility findings (src/audit.c) --- */
 
@@ -324,17 +327,17 @@ UG_API ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_err
 /* Every chart of a page file, plus the page's own rule: charts counting the
 ** same thing side by side must share icon value and size (page-scale-mismatch). */
 UG_API ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
-                        ug_findings **out, ug_error *err);
+                               ug_findings **out, ug_error *err);
 /* The same, finding glyphs as ug_scene_pack_with does (opt may be NULL). */
 UG_API ug_status ug_chart_audit_with(const ug_chart *chart, const ug_pack_options *opt,
-                              ug_findings **out, ug_error *err);
+                                     ug_findings **out, ug_error *err);
 UG_API size_t ug_findings_count(const ug_findings *f);
 /* How many findings have at least this severity. */
 UG_API size_t ug_findings_count_severity(const ug_findings *f, ug_severity at_least);
 UG_API const ug_finding *ug_findings_at(const ug_findings *f, size_t i);
 /* UG_REPORT_TEXT or UG_REPORT_JSON; *out is malloc'd, NUL-ended. */
 UG_API ug_status ug_findings_format(const ug_findings *f, ug_report_format fmt,
-                             char **out, size_t *len, ug_error *err);
+                                    char **out, size_t *len, ug_error *err);
 UG_API void ug_findings_free(ug_findings *f);
 UG_API const char *ug_severity_name(ug_severity s); /* "error", "warning", "note" */
 
@@ -356,24 +359,24 @@ UG_API const char *ug_starter_layout(int page);
 ** An existing device or FIFO is written in place; a FIFO nothing reads is
 ** refused at once, never waited on. */
 UG_API ug_status ug_write_file_atomic(const char *path, const void *data, size_t len,
-                               ug_error *err);
+                                      ug_error *err);
 /* The same with the fsync before the rename made optional (sync == 0): a
 ** batch writing a thousand files skips a thousand journal commits and calls
 ** sync(2) once at the end instead. A crash before that sync may lose or
 ** empty files of the batch. */
 UG_API ug_status ug_write_file_atomic_sync(const char *path, const void *data, size_t len,
-                                    int sync, ug_error *err);
+                                           int sync, ug_error *err);
 /* Write len bytes to path as a new file, replacing nothing: the bytes go to
 ** a temporary file that is linked into place, so anything already at path (a
 ** file, a folder, a FIFO, a symlink, even a dangling one) is left as it was,
 ** never written through or waited on; then *existed (when given) is set. */
 UG_API ug_status ug_write_file_new(const char *path, const void *data, size_t len,
-                            int *existed, ug_error *err);
+                                   int *existed, ug_error *err);
 /* The same for root/rel, where rel's folders (made when missing) must be real
 ** folders below root: a symlinked folder on the way is refused, never
 ** followed, so a batch cannot be led outside its output folder. */
 UG_API ug_status ug_write_file_beneath(const char *root, const char *rel, const void *data,
-                                size_t len, int sync, ug_error *err);
+                                       size_t len, int sync, ug_error *err);
 /* Remove the temporary files of writes in flight. Async-signal-safe: a
 ** program's handler for SIGINT, SIGTERM or SIGHUP calls it before exiting so
 ** a stopped run leaves no temporary file beside its outputs. */
