@@ -1315,7 +1315,7 @@ static ug_chart *chart_new(const char *path, const char *dir, const ug_limits *l
     c->cluster = -1; /* not given: the form decides */
     c->icon_size = 24;
     c->icon_gap = 4;
-    c->style.width = 800;
+    c->style.width = 0; /* not given: the packer's 800 px, which a `columns:` may widen */
     c->style.font = "DejaVu Sans";
     c->style.background = (ug_color){0xFF, 0xFF, 0xFF, true, {NULL, 0, 0}};
     c->style.ink = (ug_color){0x22, 0x22, 0x22, true, {NULL, 0, 0}};

@@ -23,7 +23,7 @@
 #include "pack.h"
 #include "text.h"
 
-#define MARGIN 40.0
+#define MARGIN PACK_MARGIN
 #define TITLE_PX 26.0
 #define SUBTITLE_PX 17.0
 #define LABEL_PX 15.0
@@ -290,6 +290,53 @@ static rows_frame rows_setup(packer *p)
     f.line_h = fmax(p->size, p->holders ? p->holder_h : 0);
     f.band_gap = fmax(14, p->size * 0.75);
     return f;
+}
+
+/* Slots the longest line could fill: `columns`, unless no group holds that
+** many icons and placeholders (a line never needs more than its band). */
+static long longest_line(const packer *p)
+{
+    long most = 0, slots_per_holder = (long)ceil((p->holder_w + p->gap) / p->pitch);
+    for (size_t g = 0; g < chart_ngroups(p->c); g++) {
+        long n = 0;
+        for (size_t i = 0; i < p->c->ncats; i++) {
+            const alloc_share *sh = alloc_at(p->a, g, i);
+            n += alloc_hidden(sh) ? slots_per_holder : sh->icons + (sh->partial ? 1 : 0);
+        }
+        most = n > most ? n : most;
+    }
+    /* a line shorter than `columns` wraps at a cluster boundary (fit_columns) */
+    long cl = p->c->cluster;
+    if (cl > 0 && most % cl)
+        most += cl - most % cl;
+    return most < p->c->columns ? most : p->c->columns;
+}
+
+/* `columns` given by the layout is a promise about line length, so rows are
+** never wrapped earlier: the canvas widens for it, or, when the width is
+** fixed (the layout's `width`, a page's column), the chart is refused with
+** the width it would need. */
+static void honour_columns(packer *p)
+{
+    if (p->c->form != UG_FORM_ROWS || p->c->columns <= 0)
+        return;
+    long want = longest_line(p);
+    for (int pass = 0; pass < 3 && !p->st; pass++) {
+        rows_frame f = rows_setup(p);
+        double short_by = slot_x(p, f.x0, want - 1) + p->size - f.x0 - f.avail;
+        if (f.cols >= want || short_by <= 0)
+            return;
+        if (p->c->style.width > 0) {
+            p->st = ug_fail(p->err, UG_ELIMIT, p->c->columns_mark,
+                            "lines of %ld icons need a chart %.0f px wide, but it is "
+                            "%.0f px wide (its width, or its column on a page); "
+                            "allow more width or give at most 'columns: %ld'",
+                            want, ceil(p->s->width + short_by), p->s->width, f.cols);
+            return;
+        }
+        p->s->width = ceil(p->s->width + short_by);
+        p->right = p->s->width - MARGIN;
+    }
 }
 
 typedef struct {
@@ -717,6 +764,8 @@ static void setup(packer *p)
     p->right = s->width - MARGIN;
     p->y = MARGIN;
     setup_categories(p);
+    if (!p->st)
+        honour_columns(p);
 }
 
 static void set_desc(packer *p)

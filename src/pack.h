@@ -6,6 +6,10 @@
 #ifndef UG_PACK_H
 #define UG_PACK_H
 
+/* The empty border the packer keeps around a chart's content, px; a page
+** crops it away. */
+#define PACK_MARGIN 40.0
+
 #include "alloc.h"
 #include "scene.h"
 

@@ -214,6 +214,14 @@ static ug_status pack_panel(composer *k, size_t i, const ug_allocation *a,
     ug_scene *wide = NULL;
     c->style.width = room;
     ug_status st = ug_scene_pack_with(c, a, &k->pack, s, k->err);
+    if (st == UG_ELIMIT && k->err->where.line == c->columns_mark.line &&
+        k->err->where.column == c->columns_mark.column && c->columns_mark.line) {
+        /* `columns` does not fit the canvas with its margins; the page drops
+        ** them, so try the canvas whose content area is the column. */
+        ug_error_clear(k->err);
+        c->style.width = room + 2 * PACK_MARGIN;
+        return ug_scene_pack_with(c, a, &k->pack, s, k->err);
+    }
     if (st)
         return st;
     double spare = 2 * floor(content_box(*s).x);

@@ -221,7 +221,7 @@ START_TEST(test_long_text_wraps_inside)
                            "pantry, the library and the school district until it wraps",
                            groups, 2, cats, 2);
     c->style.width = 420;
-    c->columns = 40;
+    c->columns = 0; /* the default line length wraps to the width; a given one would be refused */
     ug_allocation *a;
     ug_scene *s = pack_ok(c, &a);
     const char *bad = inv_check(c, a, s);
@@ -293,13 +293,52 @@ START_TEST(test_random_layouts)
         unsigned long long seed = rng;
         ug_chart *c = random_chart();
         ug_allocation *a;
-        ug_scene *s = pack_ok(c, &a);
+        ug_error err = {0};
+        ug_scene *s = NULL;
+        ck_assert_int_eq(ug_chart_allocate(c, &a, &err), UG_OK);
+        if (ug_scene_pack(c, a, &s, &err) != UG_OK) {
+            /* only a `columns` that cannot fit the fixed width is refused;
+            ** without the fixed width the same chart widens and packs */
+            ck_assert_msg(err.status == UG_ELIMIT && c->columns > 0 && c->style.width > 0,
+                          "layout %d (seed %llu): %s", k, seed, err.msg);
+            ck_assert_ptr_nonnull(strstr(err.msg, "give at most 'columns:"));
+            c->style.width = 0;
+            ck_assert_msg(ug_scene_pack(c, a, &s, &err) == UG_OK, "%s", err.msg);
+        }
         const char *bad = inv_check(c, a, s);
         ck_assert_msg(bad == NULL, "layout %d (seed %llu): %s", k, seed, bad ? bad : "");
         ug_scene_free(s);
         ug_allocation_free(a);
         fx_free(c);
     }
+}
+END_TEST
+
+/* `columns` is a promise about line length: 100 icons at 40 a line are
+** lines of 40, 40 and 20 whatever the default width (the canvas widens);
+** with a width too narrow for them the chart is refused, not wrapped. */
+START_TEST(test_columns_honoured)
+{
+    const fx_cat one[] = {{"A", "square", 0x0072B2, {"100"}, NULL}};
+    ug_chart *c = fx_chart(UG_FORM_ROWS, "t", NULL, 0, one, 1);
+    c->columns = 40;
+    c->icon_value = fx_dec("1");
+    ug_allocation *a;
+    ug_scene *s = pack_ok(c, &a);
+    size_t on_first_line = 0;
+    for (size_t i = 0; i < s->nicons; i++)
+        on_first_line += s->icons[i].y == s->icons[0].y;
+    ck_assert_uint_eq(s->nicons, 100);
+    ck_assert_uint_eq(on_first_line, 40);
+    ck_assert_double_gt(s->width, 800);
+    ug_scene_free(s);
+    c->style.width = 500;
+    ug_error err = {0};
+    ck_assert_int_eq(ug_scene_pack(c, a, &s, &err), UG_ELIMIT);
+    ck_assert_ptr_null(s);
+    ck_assert_ptr_nonnull(strstr(err.msg, "lines of 40 icons"));
+    ug_allocation_free(a);
+    fx_free(c);
 }
 END_TEST
 
@@ -382,6 +421,7 @@ static Suite *pack_suite(void)
     tcase_add_test(t, test_cluster_gap);
     tcase_add_test(t, test_long_text_wraps_inside);
     tcase_add_test(t, test_random_layouts);
+    tcase_add_test(t, test_columns_honoured);
     tcase_add_test(t, test_each_allocation_fails_cleanly);
     tcase_add_test(t, test_xml_ids_one_per_category);
     suite_add_tcase(s, t);

@@ -41,7 +41,7 @@ static ug_chart *fx_chart(ug_form form, const char *title, const char *const *gr
     c->icon_size = 24;
     c->icon_gap = 4;
     c->cluster = form == UG_FORM_ROWS ? 5 : 0;
-    c->style.width = 800;
+    c->style.width = 0; /* not given, as the loader leaves it */
     c->style.font = "DejaVu Sans";
     c->style.background = (ug_color){255, 255, 255, true, {0}};
     c->style.ink = (ug_color){0x22, 0x22, 0x22, true, {0}};
