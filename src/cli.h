@@ -121,6 +121,12 @@ const char *cli_output_format(const char *out, const char *given);
 ** files the drawing read (ug_chart_inputs; NULL when the layout did not
 ** load). Returns an exit code. */
 int cli_draw_one(const cli_draw_opts *o, char ***inputs);
+/* A chart's SVG as the bytes of the format o asks for: *out is svg itself
+** for SVG, else new bytes (svg stays the caller's). Draw, watch and batch
+** all write through it. */
+ug_status cli_chart_bytes(const ug_chart *chart, const ug_allocation *alloc,
+                          const cli_draw_opts *o, char *svg, size_t len, char **out,
+                          size_t *out_len, ug_error *err);
 int cli_batch(const cli_draw_opts *o);
 int cli_watch(const cli_draw_opts *o);
 

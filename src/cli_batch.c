@@ -79,29 +79,32 @@ static void row_note(const ug_batch *b, size_t i)
 
 /* Draw row i of the batch to path; returns an exit code. */
 static int draw_row(ug_batch *b, size_t i, const char *path, const out_folder *dir,
-                    const ug_pack_options *popt, bool warn)
+                    const cli_draw_opts *o, const ug_pack_options *popt, bool warn)
 {
     ug_error err = {0};
     const ug_chart *chart = NULL;
     ug_allocation *alloc = NULL;
     ug_scene *scene = NULL;
-    char *svg = NULL;
+    char *svg = NULL, *bytes = NULL;
     size_t len = 0;
     int rc = EXIT_OK;
     if (ug_batch_chart(b, i, &chart, &err) || ug_chart_allocate(chart, &alloc, &err) ||
         ug_scene_pack_with(chart, alloc, popt, &scene, &err) ||
-        ug_scene_svg(scene, &svg, &len, &err)) {
+        ug_scene_svg(scene, &svg, &len, &err) ||
+        cli_chart_bytes(chart, alloc, o, svg, len, &bytes, &len, &err)) {
         cli_report_error(&err);
         row_note(b, i);
         rc = EXIT_INPUT;
     } else {
         if (warn)
             cli_glyph_warnings(scene, chart);
-        if (ug_write_file_beneath(dir->root, path + dir->skip, svg, len, 0, &err)) {
+        if (ug_write_file_beneath(dir->root, path + dir->skip, bytes, len, 0, &err)) {
             cli_report_error(&err);
             rc = EXIT_OUTPUT;
         }
     }
+    if (bytes != svg)
+        free(bytes);
     free(svg);
     ug_scene_free(scene);
     ug_allocation_free(alloc);
@@ -166,7 +169,7 @@ static int run(ug_batch *b, char **paths, const cli_draw_opts *o,
     bool shown = false;
     int rc = EXIT_OK;
     for (size_t i = 0; i < n; i++) {
-        int r = draw_row(b, i, paths[i], &dir, &popt, i == 0);
+        int r = draw_row(b, i, paths[i], &dir, o, &popt, i == 0);
         if (r && !rc)
             rc = r; /* keep going: one bad row should not hide the others */
         drawn += r == EXIT_OK;

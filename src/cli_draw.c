@@ -179,8 +179,6 @@ static int check_draw(const cli_draw_opts *o)
     const char *fmt = cli_output_format(o->out, o->format);
     if (!fmt)
         return EXIT_USAGE;
-    if (strcmp(fmt, "svg") && o->each_row)
-        return cli_usage("draw", "--each-row writes SVG only ('%s' is %s)", o->out, fmt);
     if ((o->each_row || o->watch) && cli_is_page_file(o->layout))
         return cli_usage("draw", "a page file is drawn once: no --each-row or --watch");
     return EXIT_OK;
@@ -217,10 +215,9 @@ static ug_output_format format_of(const cli_draw_opts *o)
     return f;
 }
 
-/* The chart's SVG in the wanted format: *out is svg itself for SVG, else
-** new bytes (svg stays the caller's). */
-static ug_status convert(const loaded *l, const cli_draw_opts *o, char *svg,
-                         size_t len, char **out, size_t *out_len, ug_error *err)
+ug_status cli_chart_bytes(const ug_chart *chart, const ug_allocation *alloc,
+                          const cli_draw_opts *o, char *svg, size_t len, char **out,
+                          size_t *out_len, ug_error *err)
 {
     ug_output_format f = format_of(o);
     char *desc = NULL;
@@ -230,11 +227,11 @@ static ug_status convert(const loaded *l, const cli_draw_opts *o, char *svg,
         return UG_OK;
     }
     if (f == UG_OUT_CSV) {
-        const ug_allocation *allocs[1] = {l->alloc};
+        const ug_allocation *allocs[1] = {alloc};
         st = ug_table_csv(allocs, 1, out, out_len, err);
     } else if (f == UG_OUT_HTML) {
-        const ug_allocation *allocs[1] = {l->alloc};
-        if (!(st = ug_chart_describe(l->chart, l->alloc, &desc, NULL, err)))
+        const ug_allocation *allocs[1] = {alloc};
+        if (!(st = ug_chart_describe(chart, alloc, &desc, NULL, err)))
             st = ug_html_page(NULL, svg, len, desc, allocs, 1, out, out_len, err);
     } else {
         st = ug_render_svg(svg, len, f, o->dpi > 0 ? o->dpi : 96,
@@ -285,7 +282,7 @@ int cli_draw_one(const cli_draw_opts *o, char ***inputs)
     size_t len = 0;
     if (ug_scene_pack_with(l.chart, l.alloc, &popt, &scene, &err) ||
         ug_scene_svg(scene, &svg, &len, &err) ||
-        convert(&l, o, svg, len, &bytes, &len, &err)) {
+        cli_chart_bytes(l.chart, l.alloc, o, svg, len, &bytes, &len, &err)) {
         cli_report_error(&err);
         rc = EXIT_INPUT;
     } else if (cli_glyph_warnings(scene, l.chart),

@@ -267,6 +267,18 @@ no_escapes "$T/err" "batch progress off a terminal"
 [ "$(grep -ho 'Each icon = [^<]*' "$T"/batch/*.svg | sort -u | wc -l)" = 1 ] \
   || fail "charts of a batch state different icon values"
 xmllint --noout "$T"/batch/*.svg || fail "batch output not well-formed"
+# a batch writes every format, each row's file the same as that row's SVG
+# drawn through the one-chart path (PNG checked by its signature, PNG spec §5.2;
+# PDF by its header, ISO 32000-1 §7.5.2)
+for ext in png pdf html csv; do
+  (cd "$T" && expect 0 "$BIN" draw tmpl.yaml --each-row rows.csv -o "fmt-$ext/{group}.$ext" --quiet)
+  [ "$(ls "$T/fmt-$ext" | wc -l)" = 6 ] || fail "batch to .$ext: $(ls "$T/fmt-$ext" | tr '\n' ' ')"
+done
+[ "$(head -c 8 "$T/fmt-png/etc.png" | od -An -tx1 | tr -d ' ')" = 89504e470d0a1a0a ] || fail "batch PNG"
+[ "$(head -c 5 "$T/fmt-pdf/etc.pdf")" = "%PDF-" ] || fail "batch PDF"
+xmllint --noout "$T"/fmt-html/*.html || fail "batch web pages not well-formed"
+head -1 "$T/fmt-csv/etc.csv" | grep -q '^group,category,count,icons,status,level' \
+  || fail "batch CSV table: $(head -1 "$T/fmt-csv/etc.csv")"
 # a row drawn alone gives the same picture as in the batch
 printf 'title: "Card holders in a/b"\nsubtitle: Branch report (demo data)\nicon-value: %s\nunit-label: card holders\ncategories:\n  - {label: Adults, glyph: person, count: 30}\n  - {label: Children, glyph: child, count: 5}\n' \
   "$(grep -ho 'Each icon = [0-9.]*' "$T/batch/a-b.svg" | grep -o '[0-9.]*$')" > "$T/alone.yaml"
