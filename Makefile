@@ -11,7 +11,7 @@ DESTDIR ?=
 BUILD   ?= build
 VERSION  = $(shell sed -n 's/^#define UG_VERSION "\(.*\)"/\1/p' include/unitgram.h)
 
-PKGS      = yaml-0.1 librsvg-2.0 cairo cairo-pdf cairo-png pangocairo libxml-2.0 lcms2
+PKGS      = yaml-0.1 librsvg-2.0 cairo cairo-pdf cairo-png pangocairo fontconfig libxml-2.0 lcms2
 WARNINGS  = -Wall -Wextra -Wshadow -Wstrict-prototypes -Wmissing-prototypes \
             -Wpointer-arith -Wformat=2 -Werror
 STD       = -std=c11 -D_POSIX_C_SOURCE=200809L
