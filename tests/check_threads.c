@@ -1,6 +1,7 @@
 /*
 ** Threads: eight threads drawing at once must neither crash nor race, and
-** must draw byte for byte what one thread draws. Only the public API is used
+** must draw byte for byte what one thread draws (every output format, and
+** the audit report). Only the public API is used
 ** for drawing (as tests/example/draw.c does); the fault-injection test alone
 ** reaches into src/ug.h for ug_mem_fail_after.
 **
@@ -34,15 +35,18 @@ enum { NTHREADS = 8, ROUNDS = 3, MAX_LAYOUTS = 16, WHY = 1024 };
 static const ug_output_format formats[] = {UG_OUT_SVG, UG_OUT_PNG, UG_OUT_PDF,
                                            UG_OUT_HTML, UG_OUT_CSV};
 #define NFORMATS (sizeof formats / sizeof *formats)
+/* Every output format, then the audit report: the audit is the one user of
+** LittleCMS (CIELAB and CIEDE2000 of the chart's colours). */
+#define NOUTPUTS (NFORMATS + 1)
 
 typedef struct {
     char *data;
     size_t len;
 } blob;
 
-/* Every example layout in every format. */
+/* Every example layout in every output. */
 typedef struct {
-    blob out[MAX_LAYOUTS][NFORMATS];
+    blob out[MAX_LAYOUTS][NOUTPUTS];
 } drawing;
 
 static char *layouts[MAX_LAYOUTS];
@@ -60,6 +64,19 @@ static void find_layouts(void)
     for (nlayouts = 0; nlayouts < g.gl_pathc; nlayouts++)
         layouts[nlayouts] = strdup(g.gl_pathv[nlayouts]);
     globfree(&g);
+}
+
+static const char *output_name(size_t k)
+{
+    return k < NFORMATS ? ug_output_format_name(formats[k]) : "audit report";
+}
+
+static ug_status audit_report(ug_findings *f, ug_status st, blob *b, ug_error *err)
+{
+    if (!st)
+        st = ug_findings_format(f, UG_REPORT_JSON, &b->data, &b->len, err);
+    ug_findings_free(f);
+    return st;
 }
 
 static ug_status chart_as(ug_chart *chart, ug_output_format fmt, blob *b,
@@ -88,8 +105,24 @@ static ug_status chart_as(ug_chart *chart, ug_output_format fmt, blob *b,
     return st;
 }
 
-/* One layout in one format, loaded afresh as a program drawing it would. */
-static bool draw_one(const char *path, ug_output_format fmt, blob *b, char *why)
+static ug_status page_as(ug_page *page, size_t k, blob *b, ug_error *err)
+{
+    ug_findings *f = NULL;
+    if (k < NFORMATS)
+        return ug_page_draw(page, formats[k], 96, 1, &b->data, &b->len, err);
+    return audit_report(f, ug_page_audit(page, NULL, &f, err), b, err);
+}
+
+static ug_status one_chart_as(ug_chart *chart, size_t k, blob *b, ug_error *err)
+{
+    ug_findings *f = NULL;
+    if (k < NFORMATS)
+        return chart_as(chart, formats[k], b, err);
+    return audit_report(f, ug_chart_audit(chart, &f, err), b, err);
+}
+
+/* One layout as output k, loaded afresh as a program drawing it would. */
+static bool draw_one(const char *path, size_t k, blob *b, char *why)
 {
     ug_error err = {0};
     ug_layout_kind kind;
@@ -97,17 +130,17 @@ static bool draw_one(const char *path, ug_output_format fmt, blob *b, char *why)
     if (!st && kind == UG_LAYOUT_PAGE) {
         ug_page *page = NULL;
         if (!(st = ug_page_load(path, NULL, &page, &err)))
-            st = ug_page_draw(page, fmt, 96, 1, &b->data, &b->len, &err);
+            st = page_as(page, k, b, &err);
         ug_page_free(page);
     } else if (!st) {
         ug_chart *chart = NULL;
         if (!(st = ug_chart_load(path, NULL, &chart, &err)))
-            st = chart_as(chart, fmt, b, &err);
+            st = one_chart_as(chart, k, b, &err);
         ug_chart_free(chart);
     }
     if (st) {
         char msg[2048];
-        snprintf(why, WHY, "%s as %s: %s", path, ug_output_format_name(fmt),
+        snprintf(why, WHY, "%s as %s: %s", path, output_name(k),
                  ug_error_format(&err, msg, sizeof msg));
     }
     return st == UG_OK;
@@ -116,16 +149,16 @@ static bool draw_one(const char *path, ug_output_format fmt, blob *b, char *why)
 static void drawing_free(drawing *d)
 {
     for (size_t i = 0; i < MAX_LAYOUTS; i++)
-        for (size_t f = 0; f < NFORMATS; f++)
-            free(d->out[i][f].data);
+        for (size_t k = 0; k < NOUTPUTS; k++)
+            free(d->out[i][k].data);
     memset(d, 0, sizeof *d);
 }
 
 static bool draw_all(drawing *d, char *why)
 {
     for (size_t i = 0; i < nlayouts; i++)
-        for (size_t f = 0; f < NFORMATS; f++)
-            if (!draw_one(layouts[i], formats[f], &d->out[i][f], why))
+        for (size_t k = 0; k < NOUTPUTS; k++)
+            if (!draw_one(layouts[i], k, &d->out[i][k], why))
                 return false;
     return true;
 }
@@ -133,12 +166,12 @@ static bool draw_all(drawing *d, char *why)
 static bool same(const drawing *a, const drawing *b, const char *who, char *why)
 {
     for (size_t i = 0; i < nlayouts; i++)
-        for (size_t f = 0; f < NFORMATS; f++) {
-            const blob *x = &a->out[i][f], *y = &b->out[i][f];
+        for (size_t k = 0; k < NOUTPUTS; k++) {
+            const blob *x = &a->out[i][k], *y = &b->out[i][k];
             if (x->len != y->len || memcmp(x->data, y->data, x->len) != 0) {
                 snprintf(why, WHY, "%s: %s as %s differs from the single-threaded "
                          "drawing (%zu bytes, reference %zu)", who, layouts[i],
-                         ug_output_format_name(formats[f]), x->len, y->len);
+                         output_name(k), x->len, y->len);
                 return false;
             }
         }
@@ -243,7 +276,7 @@ static void *other_thread(void *arg)
     fault_run *f = arg;
     blob b = {0};
     pthread_barrier_wait(&f->step);
-    f->other_ok = draw_one(layouts[0], UG_OUT_SVG, &b, f->why);
+    f->other_ok = draw_one(layouts[0], 0 /* SVG */, &b, f->why);
     free(b.data);
     pthread_barrier_wait(&f->step);
     return NULL;
