@@ -11,7 +11,7 @@ DESTDIR ?=
 BUILD   ?= build
 VERSION  = $(shell sed -n 's/^#define UG_VERSION "\(.*\)"/\1/p' include/unitgram.h)
 
-PKGS      = yaml-0.1 librsvg-2.0 cairo cairo-pdf cairo-png pangocairo libxml-2.0 lcms2
+PKGS      = yaml-0.1 librsvg-2.0 cairo cairo-pdf cairo-png pangocairo fontconfig libxml-2.0 lcms2
 WARNINGS  = -Wall -Wextra -Wshadow -Wstrict-prototypes -Wmissing-prototypes \
             -Wpointer-arith -Wformat=2 -Werror
 STD       = -std=c11 -D_POSIX_C_SOURCE=200809L
@@ -38,6 +38,17 @@ SAN_CFLAGS = -O1 -g -fsanitize=address,undefined,float-cast-overflow -fno-omit-f
 SAN_ENV    = G_SLICE=always-malloc ASAN_OPTIONS=detect_leaks=1:abort_on_error=0 \
              LSAN_OPTIONS=suppressions=$(CURDIR)/tests/lsan.supp:print_suppressions=0 \
              UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 UG_SANITIZED=1
+
+# The ThreadSanitizer pass (check_threads only: the one test that races
+# threads). The system's libraries are not instrumented, so TSan cannot see
+# their own atomics and futex locks; ignore_noninstrumented_modules makes it
+# ignore the memory accesses of the interceptors they call (memcpy, strlen,
+# malloc...) and still report every access of our code (the flag's
+# description, TSAN_OPTIONS=help=1). tests/tsan.supp says what that leaves
+# out, and why.
+TSAN_CFLAGS = -O1 -g -fsanitize=thread -fno-omit-frame-pointer
+TSAN_ENV    = G_SLICE=always-malloc \
+              TSAN_OPTIONS=ignore_noninstrumented_modules=1:suppressions=$(CURDIR)/tests/tsan.supp
 
 DEBIAN_PACKAGES = build-essential pkg-config libyaml-dev librsvg2-dev libcairo2-dev \
   libpango1.0-dev liblcms2-dev libxml2-dev libcsv-dev check librsvg2-bin \
@@ -74,7 +85,8 @@ BIN      = $(BUILD)/unitgram
 
 LAYOUTS  = $(wildcard layouts/*.yaml)
 
-.PHONY: FORCE all deps test-deps check run-tests check-sanitized demo render-demo clean \
+.PHONY: FORCE all deps test-deps check run-tests check-sanitized check-threads-tsan \
+        demo render-demo clean \
         install uninstall bench fuzz fuzz-build
 
 all: $(BIN) $(LIB) $(SHLIB)
@@ -181,12 +193,28 @@ $(BUILD)/tests/ref/%: tests/ref/%.c $(LIB_INTERNAL)
 check: test-deps
 	@$(MAKE) --no-print-directory run-tests
 	@$(MAKE) --no-print-directory check-sanitized
+	@$(MAKE) --no-print-directory check-threads-tsan
 
 # The whole suite again, built with AddressSanitizer and UBSan.
 check-sanitized:
 	@echo "== sanitized pass (ASan + UBSan) in build/asan"
 	@$(SAN_ENV) $(MAKE) --no-print-directory BUILD=build/asan \
 	  CFLAGS="$(SAN_CFLAGS)" run-tests
+
+# check_threads built with ThreadSanitizer in build/tsan. TSan keeps its
+# shadow memory at fixed addresses; where the kernel randomizes mmap more
+# than gcc 12's TSan allows it dies at start ("unexpected memory mapping"), so
+# a first run that draws nothing (CK_RUN_CASE names no case) decides whether
+# to run under `setarch -R` (ASLR off for that process only).
+TSAN_TEST = build/tsan/tests/check_threads
+check-threads-tsan:
+	@echo "== ThreadSanitizer pass (check_threads) in build/tsan"
+	@$(MAKE) --no-print-directory BUILD=build/tsan CFLAGS="$(TSAN_CFLAGS)" $(TSAN_TEST)
+	@cd tests && run=; \
+	if ! $(TSAN_ENV) CK_RUN_CASE=none $(CURDIR)/$(TSAN_TEST) >/dev/null 2>&1; then \
+	  run="setarch $$(uname -m) -R"; \
+	  echo "unitgram: TSan cannot start here; running under $$run"; fi; \
+	$(TSAN_ENV) $$run $(CURDIR)/$(TSAN_TEST)
 
 run-tests: $(BIN) $(TESTS) $(REF_DRIVERS)
 	@set -e; n=0; for t in $(TESTS); do \

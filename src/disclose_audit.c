@@ -36,6 +36,7 @@
 #include <glpk.h>
 #include <limits.h>
 #include <math.h>
+#include <pthread.h>
 #include <stdlib.h>
 
 #include "disclose.h"
@@ -355,11 +356,46 @@ static bool has_small(const disclose_grid *g, const size_t *cells, int n)
     return false;
 }
 
+/* GLPK keeps its environment (its memory pool and settings) in thread-local
+** storage: "TLS (thread local storage class specifier) option was added"
+** (GLPK 4.61's ChangeLog; Debian's libglpk40 5.0 is built with it, each
+** thread that solves makes one). A thread that exits without glp_free_env
+** leaks its environment, so the first solve in a thread registers a key
+** whose destructor frees it as the thread exits (POSIX.1-2008,
+** pthread_key_create); the main thread keeps its one to the end. */
+static pthread_key_t glpk_key;
+static bool have_glpk_key;
+static _Thread_local bool glpk_key_set;
+
+static void free_glpk_env(void *unused)
+{
+    (void)unused;
+    glp_free_env();
+}
+
+static void make_glpk_key(void)
+{
+    have_glpk_key = pthread_key_create(&glpk_key, free_glpk_env) == 0;
+}
+
+static void free_glpk_env_at_thread_exit(void)
+{
+    static pthread_once_t once = PTHREAD_ONCE_INIT;
+    if (glpk_key_set)
+        return;
+    pthread_once(&once, make_glpk_key);
+    /* a destructor runs only for a value that is not NULL */
+    if (have_glpk_key)
+        pthread_setspecific(glpk_key, &glpk_key_set);
+    glpk_key_set = true;
+}
+
 static ug_status solve_block(audit *a, const size_t *cells, int n,
                              disclose_interval *out, size_t nout, ug_error *err)
 {
     if (!has_small(a->g, cells, n))
         return UG_OK;
+    free_glpk_env_at_thread_exit();
     glp_prob *lp = glp_create_prob();
     ug_status st = build_block(a, lp, cells, n, err);
     clear_equations(a, cells, n);

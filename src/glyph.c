@@ -30,6 +30,7 @@
 #include <libxml/parser.h>
 #include <libxml/tree.h>
 #include <limits.h>
+#include <pthread.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -571,7 +572,10 @@ static void ignore_xml_message(void *ctx, const char *msg, ...)
 /* libxml2 2.9 reports encoding and I/O errors through its generic handler
 ** whatever XML_PARSE_NOERROR says, and that handler writes to stderr; the
 ** caller gets the error from the context instead, so the handler is silenced
-** for this parse and put back after it. */
+** for this parse and put back after it. The handler is the calling thread's
+** own (xmlGenericError is per-thread state with LIBXML_THREAD_ENABLED, as
+** the installed libxml/globals.h defines it), so other threads' parses keep
+** theirs. */
 static xmlDoc *read_quietly(xmlParserCtxt *ctxt, const char *text, size_t len,
                             const char *path)
 {
@@ -695,35 +699,42 @@ static ug_status load_file(ug_glyph *g, const char *root, bool library, ug_mark 
 #define UG_DATADIR "/usr/local/share/unitgram/glyphs"
 #endif
 
+/* Written once, by find_default_dirs, then only read: threads drawing at
+** once would otherwise fill them together (pthread_once, POSIX.1-2008). */
+static char project[4096];
+static const char *default_dirs[3];
+static pthread_once_t default_dirs_once = PTHREAD_ONCE_INIT;
+
+static void find_default_dirs(void)
+{
+    char exe[3000];
+    ssize_t n = readlink("/proc/self/exe", exe, sizeof exe - 1);
+    size_t k = 0;
+    struct stat sb;
+    for (int up = 0; n > 0 && up < 3; up++) {
+        exe[n] = '\0';
+        char *slash = strrchr(exe, '/');
+        if (!slash)
+            break;
+        *slash = '\0';
+        n = slash - exe;
+        snprintf(project, sizeof project, "%s/../glyphs", exe);
+        if (stat(project, &sb) == 0 && S_ISDIR(sb.st_mode)) {
+            default_dirs[k++] = project;
+            break;
+        }
+    }
+    default_dirs[k++] = UG_DATADIR;
+    default_dirs[k] = NULL;
+}
+
 /* The project's own glyphs/ folder, found from the running binary
 ** (build/unitgram or build/tests/x -> the first ../glyphs that exists), then
 ** the installed data folder. */
 const char *const *glyph_default_dirs(void)
 {
-    static char project[4096];
-    static const char *dirs[3];
-    if (!dirs[0]) {
-        char exe[3000];
-        ssize_t n = readlink("/proc/self/exe", exe, sizeof exe - 1);
-        size_t k = 0;
-        struct stat sb;
-        for (int up = 0; n > 0 && up < 3; up++) {
-            exe[n] = '\0';
-            char *slash = strrchr(exe, '/');
-            if (!slash)
-                break;
-            *slash = '\0';
-            n = slash - exe;
-            snprintf(project, sizeof project, "%s/../glyphs", exe);
-            if (stat(project, &sb) == 0 && S_ISDIR(sb.st_mode)) {
-                dirs[k++] = project;
-                break;
-            }
-        }
-        dirs[k++] = UG_DATADIR;
-        dirs[k] = NULL;
-    }
-    return dirs;
+    pthread_once(&default_dirs_once, find_default_dirs);
+    return default_dirs;
 }
 
 static size_t count_path_list(const char *list)
@@ -870,6 +881,7 @@ ug_status glyph_load(const char *ref, const glyph_search *search, ug_mark where,
                      ug_glyph **out, ug_error *err)
 {
     *out = NULL;
+    ug_init_libraries(); /* before libxml2 parses and librsvg measures */
     ug_glyph *g = glyph_new(ref);
     if (!g)
         return ug_fail(err, UG_ENOMEM, where, "out of memory");

@@ -109,6 +109,7 @@ static ug_status open_svg(const char *svg, size_t len, RsvgHandle **out,
                           ug_error *err)
 {
     GError *gerr = NULL;
+    ug_init_libraries(); /* librsvg reads the SVG with libxml2 */
     *out = rsvg_handle_new_from_data((const guint8 *)svg, len, &gerr);
     if (!*out)
         return svg_error(err, gerr, "the SVG could not be read");

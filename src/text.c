@@ -5,22 +5,46 @@
 ** font and the same settings gives the widths the renderer will draw: an
 ** absolute size in px (SVG font-size 16 == "DejaVu Sans 12" at 96 dpi), no
 ** metrics hinting, no rounding of glyph positions. The font map and context
-** are made on first use and kept for the life of the process: font set-up is
-** the expensive part, and a batch of charts must pay it once.
+** are made on a thread's first use and kept for the life of the thread: font
+** set-up is the expensive part, and a batch of charts must pay it once.
 */
 #include <pango/pangocairo.h>
 #include <limits.h>
+#include <pthread.h>
 #include <string.h>
 
 #include "text.h"
 
-static PangoContext *shared_context(void)
+/* A font map and its contexts must not be shared between threads: since
+** pango 1.32.6 even the default font map is one per thread, which is how
+** "PangoCairo can be used safely from multiple threads" (pango's
+** documentation of pango_cairo_font_map_get_default, also in the installed
+** 1.50's /usr/share/gir-1.0/PangoCairo-1.0.gir). So every thread gets its
+** own, and the key's destructor releases it when the thread exits
+** (POSIX.1-2008, pthread_key_create). The pointer itself is _Thread_local:
+** finding it takes no call, and the main thread's context, whose destructor
+** never runs, stays reachable to the end for LeakSanitizer. */
+static _Thread_local PangoContext *thread_context;
+static pthread_key_t context_key;
+static bool have_context_key;
+
+/* Also forgets it: a later destructor of the exiting thread may still
+** measure text, and must get a new context, not the freed one. */
+static void release_context(void *ctx)
 {
-    static PangoContext *ctx;
-    if (ctx)
-        return ctx;
+    thread_context = NULL;
+    g_object_unref(ctx);
+}
+
+static void make_context_key(void)
+{
+    have_context_key = pthread_key_create(&context_key, release_context) == 0;
+}
+
+static PangoContext *new_context(void)
+{
     PangoFontMap *map = pango_cairo_font_map_new();
-    ctx = pango_font_map_create_context(map);
+    PangoContext *ctx = pango_font_map_create_context(map);
     g_object_unref(map); /* the context keeps it */
     cairo_font_options_t *o = cairo_font_options_create();
     cairo_font_options_set_hint_metrics(o, CAIRO_HINT_METRICS_OFF);
@@ -32,9 +56,23 @@ static PangoContext *shared_context(void)
     return ctx;
 }
 
+static PangoContext *this_thread_context(void)
+{
+    static pthread_once_t key_once = PTHREAD_ONCE_INIT;
+    if (thread_context)
+        return thread_context;
+    ug_init_libraries();
+    pthread_once(&key_once, make_context_key);
+    thread_context = new_context();
+    /* without a key the context is kept to the end of the process instead */
+    if (have_context_key)
+        pthread_setspecific(context_key, thread_context);
+    return thread_context;
+}
+
 static PangoLayout *layout_for(const text_font *f, const char *s)
 {
-    PangoLayout *l = pango_layout_new(shared_context());
+    PangoLayout *l = pango_layout_new(this_thread_context());
     PangoFontDescription *d = pango_font_description_from_string(
         f->family && *f->family ? f->family : "DejaVu Sans");
     pango_font_description_set_absolute_size(d, f->size * PANGO_SCALE);

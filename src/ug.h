@@ -29,6 +29,11 @@ ug_status ug_vfail(ug_error *err, ug_status st, ug_mark where, const char *fmt,
 void ug_error_clear(ug_error *err);
 ug_mark ug_mark_file(const char *file); /* the whole file: line 0 */
 
+/* Sets up, once per process, the libraries whose set-up must not race
+** (libxml2's parser, fontconfig's configuration). Called before the first use
+** of libxml2, librsvg, pango or fontconfig on every path. */
+void ug_init_libraries(void);
+
 /* ---- memory ------------------------------------------------------------- */
 
 /* Every allocation in the library goes through these, so a test can make the
@@ -40,7 +45,8 @@ void ug_free(void *p);
 char *ug_strdup(const char *s);
 char *ug_strndup(const char *s, size_t n);
 /* Fail every allocation after the next n successful ones; -1 turns it off.
-** Returns how many allocations have been made since the last call. */
+** Returns how many allocations have been made since the last call. Both
+** count the calling thread's allocations only. */
 long ug_mem_fail_after(long n);
 /* Fail only the allocation after the next n, then allow all again: a
 ** failure the code swallows then shows as a run that succeeds with

@@ -5,7 +5,10 @@
 */
 #define _POSIX_C_SOURCE 200809L
 #include <errno.h>
+#include <fontconfig/fontconfig.h>
 #include <glib.h>
+#include <libxml/parser.h>
+#include <pthread.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -68,11 +71,34 @@ const char *ug_status_name(ug_status st)
     return (unsigned)st < sizeof names / sizeof names[0] ? names[st] : "unknown";
 }
 
+/* ---- the libraries' own set-up ------------------------------------------ */
+
+/* libxml2's xmlInitParser "is not reentrant. Call once before processing in
+** case of use in multithreaded programs" (libxml2 2.9 API documentation,
+** parser.c); librsvg parses with libxml2 too. FcInit loads fontconfig's
+** configuration, and once it is loaded later calls do nothing (FcInit(3)):
+** done here, before any thread makes a font map, it is loaded once and every
+** font map finds it ready. Its result is not needed: without a
+** configuration pango falls back as it would have. */
+static void init_libraries(void)
+{
+    xmlInitParser();
+    (void)FcInit();
+}
+
+void ug_init_libraries(void)
+{
+    static pthread_once_t once = PTHREAD_ONCE_INIT; /* POSIX.1-2008, pthread_once */
+    pthread_once(&once, init_libraries);
+}
+
 /* ---- memory ------------------------------------------------------------- */
 
-static long allocs_left = -1; /* -1: never fail */
-static long allocs_made;
-static bool fail_just_one;
+/* Per thread: a test arming a failure fails its own thread's allocations,
+** never those of threads drawing beside it, and counts only its own. */
+static _Thread_local long allocs_left = -1; /* -1: never fail */
+static _Thread_local long allocs_made;
+static _Thread_local bool fail_just_one;
 
 static bool may_allocate(void)
 {
