@@ -190,7 +190,7 @@ ug_status ug_batch_open(const char *template_path, const char *csv_path,
     ug_batch *b = ug_calloc(1, sizeof *b);
     if (!b)
         return ug_fail(err, UG_ENOMEM, ug_mark_file(template_path), "out of memory");
-    ug_status st = ug_chart_load(template_path, limits, &b->tmpl, err);
+    ug_status st = layout_load_template(template_path, limits, &b->tmpl, err);
     if (!st)
         st = take_csv(b->tmpl, csv_path, err);
     if (!st && !(b->cats = ug_calloc(b->tmpl->ncats, sizeof *b->cats)))

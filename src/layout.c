@@ -1162,6 +1162,8 @@ static ug_status inline_counts(loader *l, ug_chart *c, size_t i)
 static ug_status check_counts(loader *l, ug_chart *c, size_t i)
 {
     const ug_category *cat = &c->cats[i];
+    if (c->is_template && !l->count[i] && !l->counts[i])
+        return UG_OK; /* the rows bring them */
     if (c->data.present) {
         const layout_node *given = l->count[i] ? l->count[i] : l->counts[i];
         if (given)
@@ -1180,7 +1182,9 @@ static ug_status check_counts(loader *l, ug_chart *c, size_t i)
         return inline_count(l, c, i);
     if (l->counts[i])
         return inline_counts(l, c, i);
-    return ug_fail(l->err, UG_EDATA, cat->mark, "category '%s' has no %s",
+    return ug_fail(l->err, UG_EDATA, cat->mark,
+                   "category '%s' has no %s (a template drawn with --each-row "
+                   "CSV gets its counts from the CSV)",
                    cat->id, c->groups.n ? "'counts'" : "'count'");
 }
 
@@ -1190,7 +1194,8 @@ static ug_status check_data_spec(loader *l, ug_chart *c)
     if (!d->file_text.text)
         return ug_fail(l->err, UG_ESCHEMA, c->categories_mark.line ? c->categories_mark
                                                                    : c->title.mark,
-                       "'data' needs 'file' (the CSV with the counts)");
+                       "'data' needs 'file' (the CSV with the counts; a template "
+                       "drawn with --each-row CSV takes that CSV)");
     if (!d->category_column.text != !d->count_column.text) {
         const ug_text *t = d->category_column.text ? &d->category_column
                                                    : &d->count_column;
@@ -1241,7 +1246,8 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
     if ((st = check_protection(l, c)))
         return st;
     assign_colors(c);
-    if (c->data.present && ((st = check_data_spec(l, c)) || (st = data_load(c, l->err))))
+    if (c->data.present && !c->is_template &&
+        ((st = check_data_spec(l, c)) || (st = data_load(c, l->err))))
         return st;
     return UG_OK;
 }
@@ -1389,6 +1395,34 @@ ug_status ug_chart_load_string(const char *text, size_t len, const char *name,
     if (!c)
         return ug_fail(err, UG_ENOMEM, ug_mark_file(name), "out of memory");
     ug_status st = from_text(c, fill_chart, false, c->path, &c->limits, text, len, err);
+    if (st) {
+        ug_chart_free(c);
+        return st;
+    }
+    *out = c;
+    return UG_OK;
+}
+
+static ug_status load_file(const char *path, const ug_limits *limits, ug_mark at,
+                           char **text, size_t *len, ug_error *err);
+
+ug_status layout_load_template(const char *path, const ug_limits *limits,
+                               ug_chart **out, ug_error *err)
+{
+    char *text;
+    size_t len;
+    *out = NULL;
+    ug_status st = load_file(path, limits, ug_mark_file(path), &text, &len, err);
+    if (st)
+        return st;
+    ug_chart *c = chart_new(path, NULL, limits);
+    if (!c)
+        st = ug_fail(err, UG_ENOMEM, ug_mark_file(path), "out of memory");
+    else {
+        c->is_template = true;
+        st = from_text(c, fill_chart, false, c->path, &c->limits, text, len, err);
+    }
+    ug_free(text);
     if (st) {
         ug_chart_free(c);
         return st;

@@ -27,6 +27,11 @@ struct layout_node {
 /* Read a whole file, refusing one larger than max bytes. Errors blame `at`
 ** (the file itself, or the place in a layout that named it). *text is
 ** ug_malloc'd and NUL-ended. */
+/* A batch template (FORMAT.md §5): a chart layout whose categories need no
+** counts and whose `data` needs no `file`, since the CSV given with
+** --each-row supplies both. */
+ug_status layout_load_template(const char *path, const ug_limits *limits,
+                               ug_chart **out, ug_error *err);
 ug_status layout_read_file(const char *path, size_t max, ug_mark at,
                            char **text, size_t *len, ug_error *err);
 

@@ -168,6 +168,8 @@ struct ug_chart {
     } style;
 
     ug_data_spec data;
+    bool is_template; /* a batch template: --each-row's CSV brings the counts
+                         and is the data file, so neither is asked for here */
     ug_limits limits;            /* resolved: no zeros */
 };
 

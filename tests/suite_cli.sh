@@ -279,6 +279,14 @@ done
 xmllint --noout "$T"/fmt-html/*.html || fail "batch web pages not well-formed"
 head -1 "$T/fmt-csv/etc.csv" | grep -q '^group,category,count,icons,status,level' \
   || fail "batch CSV table: $(head -1 "$T/fmt-csv/etc.csv")"
+# a template needs no dummy counts and no data file: the CSV brings both
+printf 'title: "Card holders in {group}"\nsource: s (test data)\nunit-label: card holders\nicon-value: 10\ndata: {group-column: ward}\ncategories:\n  - {label: Adults, glyph: person, column: adults}\n  - {label: Children, glyph: child, column: children}\n' > "$T/bare.yaml"
+(cd "$T" && expect 0 "$BIN" draw bare.yaml --each-row rows.csv -o 'bare/{group}.svg' --quiet)
+[ "$(ls "$T/bare" | wc -l)" = 6 ] || fail "bare template: $(ls "$T/bare" | tr '\n' ' ')"
+grep -q 'Adults: 120 card holders' "$T/bare/etc.svg" || fail "bare template counts"
+# drawn alone it says what is missing and why
+expect 1 "$BIN" draw "$T/bare.yaml" -o "$T/bare-alone.svg"
+grep -q "each-row" "$T/err" || fail "template drawn alone: $(cat "$T/err")"
 # a row drawn alone gives the same picture as in the batch
 printf 'title: "Card holders in a/b"\nsubtitle: Branch report (demo data)\nicon-value: %s\nunit-label: card holders\ncategories:\n  - {label: Adults, glyph: person, count: 30}\n  - {label: Children, glyph: child, count: 5}\n' \
   "$(grep -ho 'Each icon = [0-9.]*' "$T/batch/a-b.svg" | grep -o '[0-9.]*$')" > "$T/alone.yaml"
