@@ -223,6 +223,35 @@ static ug_status csv_groups(reader *r, size_t gi, ug_text_list *out)
     return UG_OK;
 }
 
+/* `rows:` keeps the last N groups, or the named ones, in file order; the
+** rest of the file is no error (a history file gains a row a quarter). */
+static ug_status select_rows(reader *r, ug_text_list *found)
+{
+    const ug_data_spec *d = &r->c->data;
+    if (d->rows_last) {
+        if ((size_t)d->rows_last > found->n)
+            return ug_fail(r->err, UG_EDATA, d->rows_mark,
+                           "'rows: last %ld' asks for more rows than %s holds (%zu)",
+                           d->rows_last, r->file, found->n);
+        size_t skip = found->n - (size_t)d->rows_last;
+        memmove(found->items, found->items + skip, (size_t)d->rows_last * sizeof *found->items);
+        found->n = (size_t)d->rows_last;
+        return UG_OK;
+    }
+    if (!d->rows_names.n)
+        return UG_OK;
+    for (size_t k = 0; k < d->rows_names.n; k++)
+        if (group_index(found, d->rows_names.items[k].text) < 0)
+            return ug_fail(r->err, UG_EDATA, d->rows_names.items[k].mark,
+                           "row '%s' is not in %s", d->rows_names.items[k].text, r->file);
+    size_t kept = 0;
+    for (size_t g = 0; g < found->n; g++)
+        if (group_index(&d->rows_names, found->items[g].text) >= 0)
+            found->items[kept++] = found->items[g];
+    found->n = kept;
+    return UG_OK;
+}
+
 /* With groups in the layout the CSV must name exactly those; without, the
 ** CSV's groups become the chart's (copied into the chart's arena). */
 static ug_status match_groups(reader *r, const ug_text_list *found)
@@ -329,9 +358,13 @@ static ug_status put_count(reader *r, size_t i, size_t g, const row *w, size_t f
     return UG_OK;
 }
 
+/* The group row w counts for; SIZE_MAX for a row `rows:` left out. */
 static size_t row_group(reader *r, const row *w, bool grouped, size_t gi)
 {
-    return grouped ? (size_t)group_index(&r->c->groups, w->f[gi]) : 0;
+    if (!grouped)
+        return 0;
+    long g = group_index(&r->c->groups, w->f[gi]);
+    return g < 0 ? SIZE_MAX : (size_t)g;
 }
 
 static ug_status read_wide(reader *r, bool grouped, size_t gi)
@@ -346,7 +379,7 @@ static ug_status read_wide(reader *r, bool grouped, size_t gi)
                      "without 'group-column' the CSV holds one row of counts");
     for (size_t k = 1; !st && k < r->nrows; k++) {
         size_t g = row_group(r, &r->rows[k], grouped, gi);
-        for (size_t i = 0; !st && i < c->ncats; i++)
+        for (size_t i = 0; !st && g != SIZE_MAX && i < c->ncats; i++)
             st = put_count(r, i, g, &r->rows[k], col[i]);
     }
     ug_free(col);
@@ -385,12 +418,15 @@ static ug_status read_long(reader *r, bool grouped, size_t gi)
         st = find_column(r, d->count_column.text, d->count_column.mark, &ni);
     for (size_t k = 1; !st && k < r->nrows; k++) {
         const row *w = &r->rows[k];
+        size_t g = row_group(r, w, grouped, gi);
+        if (g == SIZE_MAX)
+            continue;
         long i = match_category(r->c, w->f[ci]);
         if (i < 0)
             return ug_fail(r->err, UG_EDATA, at(r, w->line, ci + 1),
                            "category '%s' is not in the layout (it must match a "
                            "category's column, id or label)", w->f[ci]);
-        st = put_count(r, (size_t)i, row_group(r, w, grouped, gi), w, ni);
+        st = put_count(r, (size_t)i, g, w, ni);
     }
     return st ? st : check_complete(r);
 }
@@ -407,6 +443,8 @@ static ug_status read_table(reader *r)
         st = find_column(r, d->group_column.text, d->group_column.mark, &gi);
     if (!st && grouped)
         st = csv_groups(r, gi, &found);
+    if (!st && grouped)
+        st = select_rows(r, &found);
     if (!st && grouped)
         st = match_groups(r, &found);
     if (!st)

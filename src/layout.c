@@ -965,7 +965,34 @@ static const key_rule style_keys[] = {
     {.name = NULL},
 };
 
+/* `rows: last N` or `rows: [name, ...]`: which rows of the CSV are the
+** chart's groups (FORMAT.md §5). */
+static ug_status key_data_rows(loader *l, void *base, const layout_node *v)
+{
+    ug_data_spec *d = &((ug_chart *)base)->data;
+    d->rows_mark = v->mark;
+    if (v->kind == LAYOUT_SEQ) {
+        ug_status st = read_text_list(l, v, &d->rows_names);
+        if (!st && !d->rows_names.n)
+            st = ug_fail(l->err, UG_ESCHEMA, v->mark, "'rows' lists no row");
+        return st;
+    }
+    ug_text t;
+    ug_status st = read_text(l, v, false, &t);
+    if (st)
+        return st;
+    char *end = NULL;
+    long n = strncmp(t.text, "last ", 5) ? 0 : strtol(t.text + 5, &end, 10);
+    if (n < 1 || n > UG_MAX_GROUPS || !end || *end || !isdigit((unsigned char)t.text[5]))
+        return ug_fail(l->err, UG_ESCHEMA, v->mark,
+                       "'rows' expects 'last N' (N from 1 to %d, such as 'last 2') or a "
+                       "list of row names", UG_MAX_GROUPS);
+    d->rows_last = n;
+    return UG_OK;
+}
+
 static const key_rule data_keys[] = {
+    {.name = "rows", .kind = K_FN, .fn = key_data_rows},
     {.name = "file", .kind = K_TEXT, .off = CH(data.file_text)},
     {.name = "group-column", .kind = K_TEXT, .off = CH(data.group_column)},
     {.name = "category-column", .kind = K_TEXT, .off = CH(data.category_column)},
@@ -1207,6 +1234,9 @@ static ug_status check_data_spec(loader *l, ug_chart *c)
         return ug_fail(l->err, UG_ESCHEMA, d->file_text.mark,
                        "the layout lists groups: name the CSV column that holds "
                        "them with 'group-column'");
+    if ((d->rows_last || d->rows_names.n) && !d->group_column.text)
+        return ug_fail(l->err, UG_ESCHEMA, d->rows_mark,
+                       "'rows' picks rows by name: give 'group-column' too");
     d->file = layout_join(l->arena, c->dir, d->file_text.text);
     return d->file ? UG_OK : ug_fail(l->err, UG_ENOMEM, d->file_text.mark, "out of memory");
 }

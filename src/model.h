@@ -84,6 +84,9 @@ typedef struct {
     ug_text category_column; /* long tables */
     ug_text count_column;
     ug_text_list hidden_marks; /* cell texts meaning "withheld at the source" */
+    long rows_last;        /* `rows: last N`; 0 when not given */
+    ug_text_list rows_names; /* `rows: [names]` */
+    ug_mark rows_mark;
     bool present;
 } ug_data_spec;
 

@@ -155,6 +155,59 @@ START_TEST(test_layout_group_order)
 }
 END_TEST
 
+/* `rows:` picks rows of a history file (FORMAT.md §5): the last N, or the
+** named ones, become the groups in file order; other rows are no error, and
+** a bad row in a row not picked is not even read. */
+START_TEST(test_rows_selected)
+{
+    static const char history[] = "ward,adults,kids\nQ1,1,2\nQ2,bad,x\nQ3,5,6\nQ4,7,8\n";
+    static const struct {
+        const char *rows;
+        size_t n;
+        const char *first, *adults_first;
+    } picks[] = {
+        {"last 2", 2, "Q3", "5"},
+        {"last 1", 1, "Q4", "7"},
+        {"[Q4, Q1]", 2, "Q1", "1"}, /* file order, not the list's */
+    };
+    for (size_t k = 0; k < sizeof picks / sizeof *picks; k++) {
+        char yaml[300];
+        snprintf(yaml, sizeof yaml, HEAD "data: {file: data.csv, group-column: ward, "
+                 "rows: %s}\ncategories: [{label: Adults}, {label: Children, column: kids}]\n",
+                 picks[k].rows);
+        ug_error err;
+        ug_chart *c = NULL;
+        ck_assert_msg(load(yaml, history, NULL, &c, &err) == UG_OK, "%s: %s", picks[k].rows,
+                      err.msg);
+        ck_assert_uint_eq(c->groups.n, picks[k].n);
+        ck_assert_str_eq(c->groups.items[0].text, picks[k].first);
+        char buf[48];
+        ck_assert_str_eq(ug_dec_format(c->cats[0].counts[0], buf), picks[k].adults_first);
+        ug_chart_free(c);
+    }
+    static const struct {
+        const char *rows, *msg;
+    } bad[] = {
+        {"last 5", "asks for more rows than"},
+        {"[Q9]", "row 'Q9' is not in"},
+        {"first 2", "expects 'last N'"},
+        {"last 0", "expects 'last N'"},
+        {"[]", "lists no row"},
+        {"[Q2]", "plain decimal"}, /* picked, so read and refused */
+    };
+    for (size_t k = 0; k < sizeof bad / sizeof *bad; k++) {
+        char yaml[300];
+        snprintf(yaml, sizeof yaml, HEAD "data: {file: data.csv, group-column: ward, "
+                 "rows: %s}\ncategories: [{label: Adults}, {label: Children, column: kids}]\n",
+                 bad[k].rows);
+        ug_error err;
+        ug_chart *c = NULL;
+        ck_assert_int_ne(load(yaml, history, NULL, &c, &err), UG_OK);
+        ck_assert_msg(strstr(err.msg, bad[k].msg), "%s: %s", bad[k].rows, err.msg);
+    }
+}
+END_TEST
+
 /* One field longer than UG_MAX_STRING is refused where it stands. */
 START_TEST(test_csv_long_field)
 {
@@ -193,6 +246,7 @@ static Suite *suite(void)
     tcase_add_checked_fixture(t, setup, teardown);
     tcase_add_loop_test(t, test_csv_errors, 0, sizeof cases / sizeof cases[0]);
     tcase_add_test(t, test_groups_from_csv);
+    tcase_add_test(t, test_rows_selected);
     tcase_add_test(t, test_layout_group_order);
     tcase_add_test(t, test_csv_size_limit);
     tcase_add_test(t, test_csv_long_field);
