@@ -7,6 +7,7 @@
 ** let a reader subtract their way to a hidden count is written as "more than
 ** <the visible part>" instead.
 */
+#include <stdint.h>
 #include <stdio.h>
 #include <string.h>
 
@@ -133,6 +134,67 @@ static void margin_phrase(const ug_allocation *a, const pub_cell *m, const line_
         pack_count_phrase(a->chart, m->value, b);
 }
 
+/* ---- change between periods (`change:`) ----------------------------------- */
+
+/* The period group g is compared with; SIZE_MAX for none (the first, or no
+** `change:`). */
+size_t pack_change_ref(const ug_allocation *a, size_t g)
+{
+    const ug_chart *c = a->chart;
+    if (c->change == UG_CHANGE_NONE || a->ngroups < 2 || g == 0 || g >= a->ngroups)
+        return SIZE_MAX;
+    return c->change == UG_CHANGE_FIRST ? 0 : g - 1;
+}
+
+/* "+34, +8 %": from the published values only; the percentage rounded half
+** away from zero, left out when the earlier value is 0. */
+static void change_amount(ug_dec from, ug_dec to, ug_buf *b)
+{
+    char n[64];
+    ug_dec d = {to.v - from.v};
+    ug_dec mag = {d.v < 0 ? -d.v : d.v};
+    ug_buf_printf(b, "%s%s", d.v < 0 ? "-" : d.v > 0 ? "+" : "\u00b1", pack_number(mag, n));
+    if (from.v <= 0)
+        return;
+    ug_i128 num = mag.v * 100, q = num / from.v;
+    if ((num % from.v) * 2 >= from.v)
+        q++;
+    ug_buf_printf(b, ", %s%lld %%", d.v < 0 ? "-" : d.v > 0 ? "+" : "\u00b1",
+                  (long long)q);
+}
+
+/* " (+34, +8 %)" when both cells are published; " (change not shown)" when
+** either is hidden, so a hidden count's change is hidden too. */
+static void change_note(const pub_cell *from, const pub_cell *to, ug_buf *b)
+{
+    if (pub_hidden(from->status) || pub_hidden(to->status)) {
+        ug_buf_puts(b, " (change not shown)");
+        return;
+    }
+    ug_buf_puts(b, " (");
+    change_amount(from->value, to->value, b);
+    ug_buf_puts(b, ")");
+}
+
+/* The key's entry for category i under `change:`: the latest period against
+** its reference, "412 \u2192 446 households (+34, +8 %)", never a sum of periods. */
+static void category_change_phrase(const ug_allocation *a, size_t i, ug_buf *b)
+{
+    size_t last = a->ngroups - 1, ref = pack_change_ref(a, last);
+    const pub_cell *from = pub_at(a->pub, ref, i), *to = pub_at(a->pub, last, i);
+    char n[64];
+    if (pub_hidden(from->status))
+        ug_buf_puts(b, pack_placeholder(a, from->status));
+    else
+        ug_buf_puts(b, pack_number(from->value, n));
+    ug_buf_puts(b, " \u2192 ");
+    if (pub_hidden(to->status))
+        ug_buf_puts(b, pack_placeholder(a, to->status));
+    else
+        pack_count_phrase(a->chart, to->value, b);
+    change_note(from, to, b);
+}
+
 void pack_group_phrase(const ug_allocation *a, size_t g, ug_buf *b)
 {
     line_sum s = {0};
@@ -141,10 +203,17 @@ void pack_group_phrase(const ug_allocation *a, size_t g, ug_buf *b)
             for (size_t i = 0; i < a->ncats; i++)
                 add_cell(a, gi, i, &s);
     margin_phrase(a, g == SIZE_MAX ? &a->pub->grand : &a->pub->group_totals[g], &s, b);
+    size_t ref = g == SIZE_MAX ? SIZE_MAX : pack_change_ref(a, g);
+    if (ref != SIZE_MAX)
+        change_note(&a->pub->group_totals[ref], &a->pub->group_totals[g], b);
 }
 
 void pack_category_phrase(const ug_allocation *a, size_t i, ug_buf *b)
 {
+    if (pack_change_ref(a, a->ngroups - 1) != SIZE_MAX) {
+        category_change_phrase(a, i, b);
+        return;
+    }
     line_sum s = {0};
     for (size_t g = 0; g < a->ngroups; g++)
         add_cell(a, g, i, &s);
@@ -165,6 +234,9 @@ void pack_category_cell(const ug_allocation *a, size_t g, size_t i, ug_buf *b)
         char n[64];
         ug_buf_puts(b, pack_number(cell->value, n));
     }
+    size_t ref = pack_change_ref(a, g);
+    if (ref != SIZE_MAX)
+        change_note(pub_at(a->pub, ref, i), cell, b);
 }
 
 /* 100 / cells as a percentage, at most two decimals: 1/200 -> 0.5 */
@@ -284,6 +356,22 @@ static void list_sentences(ug_buf *b, const ug_text_list *l, const char *lead)
     ug_buf_free(&line);
 }
 
+/* "From Q2 2026 to Q3 2026: Adults 412 -> 446 households (+34, +8 %); ..." */
+static void change_sentence(const ug_chart *c, const ug_allocation *a, ug_buf *b)
+{
+    size_t last = a->ngroups - 1, ref = pack_change_ref(a, last);
+    if (ref == SIZE_MAX)
+        return;
+    ug_buf_printf(b, " From %s to %s: ", c->groups.items[ref].text,
+                  c->groups.items[last].text);
+    for (size_t i = 0; i < c->ncats; i++) {
+        ug_buf_printf(b, "%s%s ", i ? "; " : "",
+                      c->cats[i].label.text ? c->cats[i].label.text : c->cats[i].id);
+        category_change_phrase(a, i, b);
+    }
+    ug_buf_puts(b, ".");
+}
+
 void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b)
 {
     ug_buf_puts(b, c->form == UG_FORM_WAFFLE ? "Waffle chart" : "Pictogram chart");
@@ -302,6 +390,7 @@ void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b)
         cell_phrase(c, a, 0, i, ": ", b);
         ug_buf_puts(b, ".");
     }
+    change_sentence(c, a, b);
     ug_buf notes;
     ug_buf_init(&notes);
     pack_disclosure_notes(a, &notes);

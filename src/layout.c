@@ -702,6 +702,7 @@ static ug_status walk_map(loader *l, void *base, const layout_node *map,
 /* ---- chart keys ---------------------------------------------------------- */
 
 static const char *const forms[] = {"rows", "waffle", NULL};
+static const char *const changes[] = {"none", "previous", "first", NULL};
 static const char *const roundings[] = {"whole", "partial", NULL};
 static const char *const methods[] = {"largest-remainder", "sainte-lague", "dhondt",
                                       NULL};
@@ -1007,6 +1008,8 @@ static const key_rule chart_keys[] = {
     {.name = "source", .kind = K_LIST, .off = CH(source)},
     {.name = "notes", .kind = K_LIST, .off = CH(notes)},
     {.name = "description", .kind = K_MULTILINE, .off = CH(description)},
+    {.name = "change", .kind = K_ENUM, .off = CH(change), .mark = CH(change_mark),
+     .choices = changes},
     {.name = "form", .kind = K_ENUM, .off = CH(form), .mark = CH(form_mark),
      .choices = forms},
     {.name = "icon-value", .kind = K_FN, .fn = key_icon_value,
@@ -1279,6 +1282,10 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
     if (c->data.present && !c->is_template &&
         ((st = check_data_spec(l, c)) || (st = data_load(c, l->err))))
         return st;
+    if (c->change != UG_CHANGE_NONE && !c->is_template && c->groups.n < 2)
+        return ug_fail(l->err, UG_ESCHEMA, c->change_mark,
+                       "'change' compares periods: the chart needs at least two groups "
+                       "(the periods, in order), it has %zu", c->groups.n);
     return UG_OK;
 }
 

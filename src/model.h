@@ -17,6 +17,8 @@
 #define UG_DEFAULT_MAX_PANELS 48
 
 typedef enum { UG_FORM_ROWS, UG_FORM_WAFFLE } ug_form;
+/* `change:` (FORMAT.md §5): against the period before, or the first. */
+typedef enum { UG_CHANGE_NONE, UG_CHANGE_PREVIOUS, UG_CHANGE_FIRST } ug_change;
 typedef enum { UG_ROUND_WHOLE, UG_ROUND_PARTIAL } ug_rounding;
 typedef enum {
     UG_METHOD_LARGEST_REMAINDER,
@@ -99,6 +101,8 @@ struct ug_chart {
     ug_text_list source, notes;
 
     ug_form form;
+    ug_change change;        /* groups are periods: state each one's change */
+    ug_mark change_mark;
     ug_mark form_mark;
     bool has_icon_value, icon_value_auto;
     ug_dec icon_value;       /* > 0 when has_icon_value && !icon_value_auto */

@@ -23,6 +23,8 @@ void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b);
 ** the number when every cell in it is published, else a bound from the
 ** published cells ("more than 2,471 households") that reaches no hidden count. */
 void pack_group_phrase(const ug_allocation *a, size_t g, ug_buf *b);
+/* Under `change:`, the period group g is compared with; SIZE_MAX for none. */
+size_t pack_change_ref(const ug_allocation *a, size_t g);
 /* One cell's published count as a number ("1,200"), or its placeholder. */
 void pack_category_cell(const ug_allocation *a, size_t g, size_t i, ug_buf *b);
 /* The published total of category i over every group. */

@@ -82,6 +82,48 @@ START_TEST(test_groups_and_suppression)
 }
 END_TEST
 
+/* `change: previous`: the description, the key and the group labels state
+** each change from the period before, from published values only.
+** By hand: Adults 412 -> 446 is +34, 34/412 = 8.25 % -> +8 %; Children
+** 150 -> 160 is +10, 6.67 % -> +7 %; totals 562 -> 606, +44, 7.83 % -> +8 %. */
+START_TEST(test_change_between_periods)
+{
+    const char *groups[] = {"Q2 2026", "Q3 2026"};
+    const fx_cat cats[] = {{"Adults", "person", 0x0072B2, {"412", "446"}, NULL},
+                           {"Children", "child", 0xE69F00, {"150", "160"}, NULL}};
+    ug_chart *c = fx_chart(UG_FORM_ROWS, "Pantry visits", groups, 2, cats, 2);
+    c->change = UG_CHANGE_PREVIOUS;
+    char *d = describe(c);
+    ck_assert_msg(strstr(d, "Q3 2026, 606 households (+44, +8 %) in all"), "%s", d);
+    ck_assert_msg(strstr(d, "From Q2 2026 to Q3 2026: Adults 412 \u2192 446 households "
+                            "(+34, +8 %); Children 150 \u2192 160 households (+10, +7 %)."),
+                  "%s", d);
+    ug_free(d);
+    /* the key shows the latest period and its change, never the sum (1,168) */
+    ug_error err = {0};
+    ug_allocation *a;
+    ck_assert_int_eq(ug_chart_allocate(c, &a, &err), UG_OK);
+    ug_buf b;
+    ug_buf_init(&b);
+    pack_category_phrase(a, 0, &b);
+    ug_buf_add(&b, "", 1);
+    ck_assert_str_eq(b.data, "412 \u2192 446 households (+34, +8 %)");
+    ug_buf_free(&b);
+    ug_allocation_free(a);
+    /* a hidden count's change is hidden too; a fall is signed */
+    c->cats[1].counts[1] = fx_dec("7");
+    c->cats[0].counts[1] = fx_dec("400");
+    fx_suppress(c, "10");
+    c->suppress_margins = UG_MARGINS_HIDDEN;
+    d = describe(c);
+    ck_assert_msg(strstr(d, "Adults 412 \u2192 400 households (-12, -3 %)"), "%s", d);
+    ck_assert_msg(strstr(d, "Children 150 \u2192 fewer than 10 (change not shown)"), "%s", d);
+    ck_assert_ptr_null(strstr(d, "143"));
+    ug_free(d);
+    fx_free(c);
+}
+END_TEST
+
 START_TEST(test_layout_description_wins)
 {
     const fx_cat cats[] = {{"A", "square", 0x0072B2, {"10"}, NULL}};
@@ -117,6 +159,7 @@ static Suite *describe_suite(void)
     tcase_add_test(t, test_waffle_sentences);
     tcase_add_test(t, test_half_percent_cells);
     tcase_add_test(t, test_groups_and_suppression);
+    tcase_add_test(t, test_change_between_periods);
     tcase_add_test(t, test_layout_description_wins);
     tcase_add_loop_test(t, test_number_grouping, 0, sizeof numbers / sizeof numbers[0]);
     suite_add_tcase(s, t);

@@ -283,6 +283,9 @@ static void random_chart(char *y, size_t cap)
     if (rnd(5) == 0)
         n += (size_t)snprintf(y + n, cap - n,
                               "protect: {round-to: 5, method: conventional}\n");
+    /* the change between periods is stated from published cells only */
+    if (ngroups && rnd(2))
+        n += (size_t)snprintf(y + n, cap - n, "change: %s\n", rnd(2) ? "previous" : "first");
     if (ngroups) {
         n += (size_t)snprintf(y + n, cap - n, "groups: [");
         for (size_t g = 0; g < ngroups; g++)
