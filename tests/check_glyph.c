@@ -316,8 +316,8 @@ START_TEST(test_same_footprint)
     ck_assert_int_eq(load_in(SHAPES, c->user, &a, &err), UG_OK);
     ck_assert_int_eq(load_in(SHAPES, c->unit, &b, &err), UG_OK);
     unsigned char pa[64 * 64], pb[64 * 64];
-    ck_assert_int_eq(glyph_rasterize(a->body, 64, pa, here(), &err), UG_OK);
-    ck_assert_int_eq(glyph_rasterize(b->body, 64, pb, here(), &err), UG_OK);
+    ck_assert_int_eq(glyph_rasterize(a->shape, 64, pa, here(), &err), UG_OK);
+    ck_assert_int_eq(glyph_rasterize(b->shape, 64, pb, here(), &err), UG_OK);
     double diff = 0;
     int worst = 0;
     for (size_t i = 0; i < sizeof pa; i++) {
