@@ -50,10 +50,12 @@ typedef struct {
 #define GLYPH_MAX_DEPTH 32
 #define GLYPH_MAX_ELEMENTS 5000
 /* Lines + curves a glyph may have after parsing (arcs and basic shapes count
-** as the cubics they become). Chosen by measurement (tests/bench/run.sh,
-** "glyph loading"): the slowest glyph under it loads well under a second;
-** the library's largest glyph has fewer than 200. */
-#define GLYPH_MAX_SEGMENTS 50000
+** as the cubics they become, a closepath as a line). Chosen by measurement
+** (tests/bench/run.sh, "glyph loading"): filling costs most for long random
+** cubics across the box, and 10,000 of them load in about 0.45 s of CPU on
+** the development machine (10,000 random lines in under 0.1 s); the
+** library's largest glyph (apartment) has 143. */
+#define GLYPH_MAX_SEGMENTS 10000
 
 /* Resolve and load a glyph; `where` is blamed in errors. */
 ug_status glyph_load(const char *ref, const glyph_search *search, ug_mark where,
