@@ -92,6 +92,7 @@ void glyph_free(ug_glyph *g)
     ug_free(g->name);
     ug_free(g->body);
     ug_free(g->path);
+    glyph_shape_free(g->shape);
     ug_free(g);
 }
 
@@ -380,16 +381,15 @@ static void copy_children(rebuild *r, xmlNode *parent, int depth, paint inherite
 
 /* ---- the root: viewBox and inherited rules -------------------------------- */
 
+/* Numbers read by the one SVG number grammar the outlines use (glyph_shape.c). */
 static bool parse_numbers(const char *s, double *v, int n)
 {
+    const char *end = s + strlen(s);
     for (int i = 0; i < n; i++) {
         while (is_space(*s))
             s++;
-        char *end;
-        v[i] = strtod(s, &end);
-        if (end == s)
+        if (!(s = glyph_number(s, end, &v[i])))
             return false;
-        s = end;
     }
     while (is_space(*s))
         s++;
@@ -398,9 +398,8 @@ static bool parse_numbers(const char *s, double *v, int n)
 
 static bool plain_length(const char *s, double *v)
 {
-    char *end;
-    *v = strtod(s, &end);
-    return end != s && (*end == '\0' || strcmp(end, "px") == 0) && *v > 0;
+    const char *end = glyph_number(s, s + strlen(s), v);
+    return end && (*end == '\0' || strcmp(end, "px") == 0) && *v > 0;
 }
 
 /* The root's coordinate box: viewBox, else 0 0 width height, else the unit box. */
@@ -484,6 +483,30 @@ static ug_status fit(char **markup, const double box[4], double lo, double hi,
     return ug_buf_take(&b, markup, NULL, err);
 }
 
+/* The outlines of markup, refused over GLYPH_MAX_SEGMENTS: every later step
+** (bounds, ink, the chart's rasterizer) is linear in them. The parser's
+** message is given the file's name. */
+static ug_status parse_shape(const ug_glyph *g, const char *markup, ug_mark where,
+                             glyph_shape **out, ug_error *err)
+{
+    const char *file = g->path ? g->path : g->name;
+    ug_status st = glyph_shape_parse(markup, where, out, err);
+    if (st && st != UG_ENOMEM) {
+        char msg[sizeof err->msg];
+        snprintf(msg, sizeof msg, "%s", err->msg);
+        ug_error_clear(err);
+        return ug_fail(err, st, where, "glyph file '%s': %s", file, msg);
+    }
+    if (!st && glyph_shape_segments(*out) > GLYPH_MAX_SEGMENTS) {
+        st = ug_fail(err, UG_ELIMIT, where, "glyph file '%s' has %zu segments (lines and "
+                     "curves), more than %d", file, glyph_shape_segments(*out),
+                     GLYPH_MAX_SEGMENTS);
+        glyph_shape_free(*out);
+        *out = NULL;
+    }
+    return st;
+}
+
 static ug_status place(ug_glyph *g, bool library, const double vb[4], ug_mark where,
                        ug_error *err)
 {
@@ -493,9 +516,12 @@ static ug_status place(ug_glyph *g, bool library, const double vb[4], ug_mark wh
         return fit(&g->body, vb, 0, 100, err);
     }
     double box[4];
-    ug_status st = glyph_measure(g->body, where, box, err);
+    glyph_shape *shape = NULL;
+    ug_status st = parse_shape(g, g->body, where, &shape, err);
     if (st)
         return st;
+    glyph_shape_bounds(shape, box);
+    glyph_shape_free(shape);
     if (!(box[2] > 0 && box[3] > 0))
         return ug_fail(err, UG_ESCHEMA, where,
                        "glyph file '%s' draws nothing with an area (after sanitizing)",
@@ -896,8 +922,13 @@ ug_status glyph_load(const char *ref, const glyph_search *search, ug_mark where,
         glyph_resolved_hook(g->path);
     if (!st && !primitive)
         st = load_file(g, root, library, where, err);
+    /* Parsed again after fitting, so the outlines are exactly what the body says. */
     if (!st)
-        st = glyph_ink(g->body, where, &g->ink, err);
+        st = parse_shape(g, g->body, where, &g->shape, err);
+    if (!st) {
+        g->segments = glyph_shape_segments(g->shape);
+        st = glyph_ink(g->shape, where, &g->ink, err);
+    }
     if (st) {
         glyph_free(g);
         return st;

@@ -15,6 +15,7 @@
 #ifndef UG_GLYPH_H
 #define UG_GLYPH_H
 
+#include "glyph_shape.h"
 #include "ug.h"
 
 typedef struct {
@@ -31,6 +32,8 @@ typedef struct {
     size_t nremoved;
     bool notes_lost; /* memory ran out while noting a removal */
     char *path;      /* the file it was read from; NULL for a primitive */
+    glyph_shape *shape; /* the body's outlines in the unit box, for drawing with cairo */
+    size_t segments;    /* lines + curves of shape */
 } ug_glyph;
 
 /* Library glyphs are drawn inside this margin of the unit box (measured on
@@ -46,6 +49,13 @@ typedef struct {
 #define GLYPH_MAX_BYTES (1u << 20)
 #define GLYPH_MAX_DEPTH 32
 #define GLYPH_MAX_ELEMENTS 5000
+/* Lines + curves a glyph may have after parsing (arcs and basic shapes count
+** as the cubics they become, a closepath as a line). Chosen by measurement
+** (tests/bench/run.sh, "glyph loading"): filling costs most for long random
+** cubics across the box, and 10,000 of them load in about 0.45 s of CPU on
+** the development machine (10,000 random lines in under 0.1 s); the
+** library's largest glyph (apartment) has 143. */
+#define GLYPH_MAX_SEGMENTS 10000
 
 /* Resolve and load a glyph; `where` is blamed in errors. */
 ug_status glyph_load(const char *ref, const glyph_search *search, ug_mark where,
@@ -68,15 +78,19 @@ bool glyph_is_library_name(const char *ref);
 /* The inked area index.yaml states for library entry i (-1 when none). */
 double glyph_library_weight(const ug_glyph_library *lib, size_t i);
 
-/* ---- measuring (glyph_render.c) ---- */
+/* ---- measuring (glyph_render.c, on glyph_shape.c's outlines) ---- */
 
-/* Extent {x, y, width, height} of sanitized markup in its own user units. */
+/* Extent {x, y, width, height} of sanitized markup in its own user units:
+** the exact bounds of its outlines (glyph_shape_bounds). */
 ug_status glyph_measure(const char *markup, ug_mark where, double box[4],
                         ug_error *err);
-/* Unit-box markup drawn at size x size px; alpha gets size*size coverages. */
-ug_status glyph_rasterize(const char *body, int size, unsigned char *alpha,
+/* A unit-box shape filled with cairo at size x size px; alpha gets size*size
+** coverages, row by row. */
+ug_status glyph_rasterize(const glyph_shape *shape, int size, unsigned char *alpha,
                           ug_mark where, ug_error *err);
+/* The coverages of a size x size A8 image surface, row by row, into alpha. */
+void glyph_surface_alpha(cairo_surface_t *s, int size, unsigned char *alpha);
 /* Covered fraction of the unit box: sum of alpha/255 at 64 x 64 over 4096. */
-ug_status glyph_ink(const char *body, ug_mark where, double *ink, ug_error *err);
+ug_status glyph_ink(const glyph_shape *shape, ug_mark where, double *ink, ug_error *err);
 
 #endif

@@ -59,6 +59,9 @@ ug_glyph *glyph_copy(const ug_glyph *g)
     c->body = dup_or(g->body, &ok);
     c->path = dup_or(g->path, &ok);
     c->ink = g->ink;
+    c->segments = g->segments;
+    if (g->shape && !(c->shape = glyph_shape_copy(g->shape)))
+        ok = false;
     if (g->nremoved && (c->removed = ug_calloc(g->nremoved, sizeof *c->removed)))
         for (; c->nremoved < g->nremoved; c->nremoved++)
             c->removed[c->nremoved] = dup_or(g->removed[c->nremoved], &ok);

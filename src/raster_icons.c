@@ -33,6 +33,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "glyph_shape.h"
 #include "raster.h"
 
 #define SVG_NS "http://www.w3.org/2000/svg"
@@ -424,52 +425,91 @@ void raster_icons_free_text(char *rest)
 
 /* ---- painting ------------------------------------------------------------- */
 
-/* The glyph once, at its icon size and in its colour. */
-static ug_status record(icon_look *l, ug_error *err)
+static ug_status recorded(cairo_t *cr, bool ok, GError *gerr, ug_error *err)
+{
+    cairo_status_t cs = cairo_status(cr);
+    cairo_destroy(cr);
+    if (ok && !cs)
+        return UG_OK;
+    ug_fail(err, cs == CAIRO_STATUS_NO_MEMORY ? UG_ENOMEM : UG_ERENDER,
+            ug_mark_file(NULL), "a glyph could not be drawn: %s",
+            !ok && gerr && gerr->message ? gerr->message : cairo_status_to_string(cs));
+    g_clear_error(&gerr);
+    return err->status;
+}
+
+/* Glyph markup as our sanitizer leaves it is filled by glyph_shape with
+** cairo directly (linear in its size); anything else goes through librsvg. */
+static bool record_shape(const icon_look *l, const char *body, cairo_t *cr)
+{
+    glyph_shape *shape = NULL;
+    ug_error ignored = {0};
+    if (glyph_shape_parse(body, ug_mark_file(NULL), &shape, &ignored))
+        return false;
+    cairo_scale(cr, l->w / 100, l->h / 100); /* the symbol's viewBox 0 0 100 100 */
+    cairo_set_source_rgb(cr, (l->rgb >> 16 & 255) / 255.0, (l->rgb >> 8 & 255) / 255.0,
+                         (l->rgb & 255) / 255.0);
+    glyph_shape_draw(shape, cr);
+    glyph_shape_free(shape);
+    return true;
+}
+
+static ug_status record_rsvg(icon_look *l, const ug_buf *body, cairo_t *cr, ug_error *err)
 {
     ug_buf doc;
     ug_buf_init(&doc);
     ug_buf_printf(&doc, "<svg xmlns=\"%s\" width=\"%.17g\" height=\"%.17g\" "
                         "viewBox=\"0 0 100 100\"><g fill=\"#%06x\">",
                   SVG_NS, l->w, l->h, l->rgb);
-    xmlBuffer *xb = xmlBufferCreate();
-    for (xmlNode *k = l->symbol->children; k && xb; k = k->next)
-        xmlNodeDump(xb, l->symbol->doc, k, 0, 0);
-    if (xb)
-        ug_buf_add(&doc, (const char *)xmlBufferContent(xb), (size_t)xmlBufferLength(xb));
+    ug_buf_add(&doc, body->data, body->len);
     ug_buf_puts(&doc, "</g></svg>");
-    if (xb)
-        xmlBufferFree(xb);
-    if (!xb || doc.failed) {
-        ug_buf_free(&doc);
-        return ug_fail(err, UG_ENOMEM, ug_mark_file(NULL), "out of memory");
-    }
     GError *gerr = NULL;
-    RsvgHandle *h = rsvg_handle_new_from_data((const guint8 *)doc.data, doc.len, &gerr);
+    RsvgHandle *h = doc.failed ? NULL
+                               : rsvg_handle_new_from_data((const guint8 *)doc.data,
+                                                           doc.len, &gerr);
+    bool nomem = doc.failed;
     ug_buf_free(&doc);
     if (!h) {
+        cairo_destroy(cr);
+        if (nomem)
+            return ug_fail(err, UG_ENOMEM, ug_mark_file(NULL), "out of memory");
         ug_fail(err, UG_ERENDER, ug_mark_file(NULL), "a glyph could not be read: %s",
                 gerr && gerr->message ? gerr->message : "unknown librsvg error");
         g_clear_error(&gerr);
         return err->status;
     }
-    /* Bounded to the symbol's viewport, which clips what it draws. */
+    RsvgRectangle vp = {0, 0, l->w, l->h};
+    gboolean ok = rsvg_handle_render_document(h, cr, &vp, &gerr);
+    g_object_unref(h);
+    return recorded(cr, ok, gerr, err);
+}
+
+/* The glyph once, at its icon size and in its colour, bounded to the
+** symbol's viewport, which clips what it draws. */
+static ug_status record(icon_look *l, ug_error *err)
+{
+    ug_buf body;
+    ug_buf_init(&body);
+    xmlBuffer *xb = xmlBufferCreate();
+    for (xmlNode *k = l->symbol->children; k && xb; k = k->next)
+        xmlNodeDump(xb, l->symbol->doc, k, 0, 0);
+    if (xb)
+        ug_buf_add(&body, (const char *)xmlBufferContent(xb), (size_t)xmlBufferLength(xb));
+    ug_buf_add(&body, "", 1);
+    if (xb)
+        xmlBufferFree(xb);
+    if (!xb || body.failed) {
+        ug_buf_free(&body);
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(NULL), "out of memory");
+    }
+    body.len--; /* the NUL stays for the parser */
     cairo_rectangle_t box = {0, 0, l->w, l->h};
     l->rec = cairo_recording_surface_create(CAIRO_CONTENT_COLOR_ALPHA, &box);
     cairo_t *cr = cairo_create(l->rec);
-    RsvgRectangle vp = {0, 0, l->w, l->h};
-    gboolean ok = rsvg_handle_render_document(h, cr, &vp, &gerr);
-    cairo_status_t cs = cairo_status(cr);
-    cairo_destroy(cr);
-    g_object_unref(h);
-    if (!ok || cs) {
-        ug_fail(err, cs == CAIRO_STATUS_NO_MEMORY ? UG_ENOMEM : UG_ERENDER,
-                ug_mark_file(NULL), "a glyph could not be drawn: %s",
-                !ok && gerr && gerr->message ? gerr->message : cairo_status_to_string(cs));
-        g_clear_error(&gerr);
-        return err->status;
-    }
-    return UG_OK;
+    ug_status st = record_shape(l, body.data, cr) ? recorded(cr, true, NULL, err)
+                                                  : record_rsvg(l, &body, cr, err);
+    ug_buf_free(&body);
+    return st;
 }
 
 /* The look drawn once at device scale `scale`, shifted by (fx, fy) px. */

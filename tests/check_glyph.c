@@ -316,8 +316,8 @@ START_TEST(test_same_footprint)
     ck_assert_int_eq(load_in(SHAPES, c->user, &a, &err), UG_OK);
     ck_assert_int_eq(load_in(SHAPES, c->unit, &b, &err), UG_OK);
     unsigned char pa[64 * 64], pb[64 * 64];
-    ck_assert_int_eq(glyph_rasterize(a->body, 64, pa, here(), &err), UG_OK);
-    ck_assert_int_eq(glyph_rasterize(b->body, 64, pb, here(), &err), UG_OK);
+    ck_assert_int_eq(glyph_rasterize(a->shape, 64, pa, here(), &err), UG_OK);
+    ck_assert_int_eq(glyph_rasterize(b->shape, 64, pb, here(), &err), UG_OK);
     double diff = 0;
     int worst = 0;
     for (size_t i = 0; i < sizeof pa; i++) {
@@ -331,6 +331,67 @@ START_TEST(test_same_footprint)
     ck_assert_double_eq_tol(a->ink, b->ink, 0.01 * b->ink);
     glyph_free(a);
     glyph_free(b);
+}
+END_TEST
+
+/* A staircase of n segments: h and v steps, an h when n - 1 is odd, the close. */
+static void write_staircase(const char *path, int n)
+{
+    FILE *f = fopen(path, "w");
+    ck_assert_ptr_nonnull(f);
+    fputs("<svg xmlns=\"http://www.w3.org/2000/svg\"><path d=\"M0 0", f);
+    for (int i = 0; i < n - 1; i++)
+        fputs(i % 2 ? "v1" : "h1", f);
+    fputs("Z\"/></svg>", f);
+    fclose(f);
+}
+
+/* GLYPH_MAX_SEGMENTS lines and curves load; one more is refused, naming the
+** file, the count and the limit. */
+START_TEST(test_segment_limit)
+{
+    char dir[] = "/tmp/ug-segments-XXXXXX", path[100];
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    ug_glyph *g = NULL;
+    ug_error err;
+    snprintf(path, sizeof path, "%s/at.svg", dir);
+    write_staircase(path, GLYPH_MAX_SEGMENTS);
+    ck_assert_int_eq(load_in(dir, "./at.svg", &g, &err), UG_OK);
+    ck_assert_uint_eq(g->segments, GLYPH_MAX_SEGMENTS);
+    ck_assert_uint_eq(glyph_shape_segments(g->shape), GLYPH_MAX_SEGMENTS);
+    glyph_free(g);
+    unlink(path);
+    snprintf(path, sizeof path, "%s/over.svg", dir);
+    write_staircase(path, GLYPH_MAX_SEGMENTS + 1);
+    ck_assert_int_eq(load_in(dir, "./over.svg", &g, &err), UG_ELIMIT);
+    char want[300];
+    snprintf(want, sizeof want, "over.svg' has %d segments (lines and curves), more than %d",
+             GLYPH_MAX_SEGMENTS + 1, GLYPH_MAX_SEGMENTS);
+    ck_assert_msg(strstr(err.msg, want), "%s", err.msg);
+    unlink(path);
+    rmdir(dir);
+}
+END_TEST
+
+/* Malformed geometry that passed the sanitizer's character check is refused
+** with the file's name and the place in the attribute. */
+START_TEST(test_malformed_path_named)
+{
+    char dir[] = "/tmp/ug-malformed-XXXXXX", path[100];
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    snprintf(path, sizeof path, "%s/bad.svg", dir);
+    FILE *f = fopen(path, "w");
+    ck_assert_ptr_nonnull(f);
+    fputs("<svg xmlns=\"http://www.w3.org/2000/svg\"><path d=\"M0 0 L10 10 L\"/></svg>", f);
+    fclose(f);
+    ug_glyph *g = NULL;
+    ug_error err;
+    ck_assert_int_eq(load_in(dir, "./bad.svg", &g, &err), UG_ESYNTAX);
+    ck_assert_msg(strstr(err.msg, "bad.svg': glyph attribute d=\"M0 0 L10 10 L\" is "
+                                  "malformed at character 14: expected a number"),
+                  "%s", err.msg);
+    unlink(path);
+    rmdir(dir);
 }
 END_TEST
 
@@ -541,6 +602,8 @@ static Suite *glyph_suite(void)
     tcase_add_test(t, test_fill_rule_kept);
     tcase_add_loop_test(t, test_same_footprint, 0, sizeof pairs / sizeof *pairs);
     tcase_add_test(t, test_fitted_box);
+    tcase_add_test(t, test_segment_limit);
+    tcase_add_test(t, test_malformed_path_named);
     suite_add_tcase(s, t);
     t = tcase_create("library");
     tcase_set_timeout(t, 60);

@@ -1,8 +1,10 @@
 #!/usr/bin/env bash
 # make bench: how cost grows with the work, side by side in one run.
-# Usage: run.sh BUILD_DIR   (prints a table, writes BUILD_DIR/bench/results.csv)
+# Usage: run.sh BUILD_DIR [glyphs]  (prints a table, writes BUILD_DIR/bench/results.csv;
+#        with "glyphs", only the glyph-loading rows)
 set -euo pipefail
 build=${1:-build}
+only=${2:-all}
 bin=$build/unitgram
 work=$build/bench
 mkdir -p "$work"
@@ -30,6 +32,52 @@ layout() { # form icons file
     } > "$f"
 }
 
+median() { sort -g | awk '{v[NR]=$1} END {print v[int((NR+1)/2)]}'; }
+
+# Glyph loading (issue #15): a user's glyph of N segments in one path across
+# the box, random lines and random cubics (the costliest to fill), loaded by
+# `glyphs --check` (sanitize, measure, fit, 64x64 ink); median of 3, up to
+# GLYPH_MAX_SEGMENTS (src/glyph.h). Linear when seconds per segment stay flat.
+glyph_file() { # kind n file: M, n-1 random segments, Z (test data)
+    awk -v n="$2" -v kind="$1" 'BEGIN { srand(n)
+        printf "<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 100 100\"><path d=\"M50 50"
+        for (i = 1; i < n; i++)
+            if (kind == "lines") printf " L%.2f %.2f", 100 * rand(), 100 * rand()
+            else printf " C%.2f %.2f %.2f %.2f %.2f %.2f", 200 * rand() - 50, 200 * rand() - 50,
+                        200 * rand() - 50, 200 * rand() - 50, 100 * rand(), 100 * rand()
+        print " Z\"/></svg>" }' > "$3"
+}
+glyph_sizes="2500 5000 10000"
+glyph_base=4 # start-up and a trivial glyph: subtracted to give the cost per segment
+glyph_rows() {
+    for kind in lines cubics; do
+        for n in $glyph_base $glyph_sizes; do
+            f=$work/glyph-$kind-$n.svg
+            glyph_file $kind $n "$f"
+            runs=()
+            for i in 1 2 3; do
+                read -r s _ < <(measure "$bin" glyphs --check "$f")
+                runs+=("$s")
+            done
+            echo "glyph-$kind,$n,$(printf '%s\n' "${runs[@]}" | median),,," >> "$csv"
+        done
+    done
+}
+glyph_summary() {
+    for kind in lines cubics; do
+        awk -F, -v c="glyph-$kind" -v b="$glyph_base" '$1==c && $2==b {t0=$3}
+            $1==c && $2!=b {printf "%s%s segments %.3f s (%.1f us each above start-up %.3f s)",
+                            sep, $2, $3, 1e6 * ($3 - t0) / $2, t0; sep="; "}
+            END {print ""}' "$csv" | sed "s/^/glyph loading, random $kind: /"
+    done
+}
+if [ "$only" = glyphs ]; then
+    glyph_rows
+    glyph_summary
+    exit 0
+fi
+glyph_rows
+
 sizes="100 1000 10000 100000 1000000"
 for form in rows waffle; do
     for n in $sizes; do
@@ -47,7 +95,7 @@ done
 
 # The renderer: our PNG against rsvg-convert on the same SVG, alternating,
 # median of 7 runs each (single runs of half a second vary by 20 % here).
-median() { sort -g | awk '{v[NR]=$1} END {print v[int((NR+1)/2)]}'; }
+
 n=10000
 ours_runs=() theirs_runs=()
 for i in 1 2 3 4 5 6 7; do
@@ -153,4 +201,5 @@ echo "suppression 1,000 x 12 ($supp_cells): pattern + LP audit $supp s (median o
      "unitgram audit end to end $(get audit-suppress-1000x12 12000) s"
 awk -F, '$1 ~ /^limit-/ {if ($3 > t) t = $3; if ($4 > m) m = $4; n++}
     END {printf "at the stated limits (%d runs): slowest %.2f s, largest %.0f MiB (promise: 10 s, 1024 MiB)\n", n, t, m / 1024}' "$csv"
+glyph_summary
 echo "results: $csv"
