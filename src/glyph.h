@@ -75,6 +75,11 @@ void glyph_free_dirs(char **dirs);
 /* A name the library can hold: [a-z0-9-], 1..64 characters, no leading '-'. */
 bool glyph_is_library_name(const char *ref);
 
+/* The library over exactly the given folders (NULL-terminated), without the
+** default ones: for the index fuzzer, which would otherwise spend its time
+** re-reading the project's own glyphs/. */
+ug_status glyph_library_open_path(const char *const *path, ug_glyph_library **out,
+                                  ug_error *err);
 /* The inked area index.yaml states for library entry i (-1 when none). */
 double glyph_library_weight(const ug_glyph_library *lib, size_t i);
 

@@ -503,6 +503,28 @@ START_TEST(test_bad_index)
     ck_assert_uint_eq(err.where.line, 1);
     ck_assert_uint_eq(err.where.column, 1);
     ck_assert_ptr_null(lib);
+    /* strtod(3) reads "nan", "inf" and hex floats; a weight is a plain share
+    ** from 0 to 1 (the fuzzer's regress/glyph-index-weight-nan.yaml) */
+    static const char *const weights[] = {"nan", "NaN", "inf", "-inf", "0x1p-2", "1.5", "-0.1",
+                                          "1e-1"};
+    char svg[512];
+    snprintf(svg, sizeof svg, "%s/x.svg", tmp); /* an entry without a file is skipped */
+    write_text(svg, "<svg xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 100 100\">"
+                    "<rect width=\"50\" height=\"50\"/></svg>");
+    write_text(p, "- {name: x, keywords: [a], weight: 0.25}\n");
+    ug_error_clear(&err);
+    ck_assert_int_eq(ug_glyph_library_open(dirs, 1, &lib, &err), UG_OK);
+    ug_glyph_library_free(lib);
+    lib = NULL;
+    for (size_t k = 0; k < sizeof weights / sizeof *weights; k++) {
+        char index[96];
+        snprintf(index, sizeof index, "- {name: x, keywords: [a], weight: %s}\n", weights[k]);
+        write_text(p, index);
+        ug_error_clear(&err);
+        ck_assert_msg(ug_glyph_library_open(dirs, 1, &lib, &err) != UG_OK, "weight %s accepted",
+                      weights[k]);
+        ck_assert_ptr_null(lib);
+    }
 }
 END_TEST
 

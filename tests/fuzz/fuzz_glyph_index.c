@@ -33,9 +33,6 @@ static const char *const first_glyphs[] = {"book", "first-only"};
 static const char first_index[] = "- {name: book, keywords: [reading], weight: 0.48}\n"
                                   "- {name: first-only, keywords: [x, y]}\n";
 
-ug_status glyph_library_open_path(const char *const *path, ug_glyph_library **out,
-                                  ug_error *err);
-
 static char top[64], first[80], dir[80];
 
 typedef struct {
