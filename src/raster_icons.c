@@ -266,15 +266,14 @@ static bool lift_icon(raster_icons *ri, xmlNode *u, const walk_state *st)
         !sized_use(ri->ids, target(ri->ids, attr(u, "href"), false), &symbol, &w, &h))
         return false;
     size_t look = look_for(ri, symbol, w, h, st->rgb);
-    lifted_icon icon = {st->tx + x, st->ty + y, st->clip, look};
+    /* the clip rectangle is in the same user space as the icon's x and y */
+    clip_rect clip = st->clip;
+    clip.x += st->tx;
+    clip.y += st->ty;
+    lifted_icon icon = {st->tx + x, st->ty + y, clip, look};
     if (look == SIZE_MAX || !add_icon(ri, &icon)) {
         ri->failed = true;
         return false;
-    }
-    if (icon.clip.on) {
-        icon.clip.x += st->tx;
-        icon.clip.y += st->ty;
-        ri->icons[ri->nicons - 1].clip = icon.clip;
     }
     return true;
 }
