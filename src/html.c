@@ -10,6 +10,8 @@
 ** Every text from the input goes through svg_escape_text, the SVG's own rule
 ** (text_clean): a CSV field holding U+FFFE cannot break the page.
 */
+#include <math.h>
+#include <stdlib.h>
 #include <string.h>
 #include <strings.h>
 
@@ -118,22 +120,48 @@ static void table(ug_buf *b, const ug_allocation *a)
 static const char page_css[] =
     "body{font-family:'DejaVu Sans',sans-serif;color:#222;background:#fff;"
     "margin:2em auto;max-width:60em;padding:0 1em}"
-    "svg{max-width:100%;height:auto}"
+    "figure{margin:1em 0}svg{max-width:100%;height:auto}"
     "table{border-collapse:collapse;margin:1.5em 0}"
     "caption{text-align:left;font-weight:bold;padding-bottom:.4em}"
     "th,td{border:1px solid #767676;padding:.25em .6em}"
     "td{text-align:right}thead th{background:#eee}"
     "tbody th{text-align:left;font-weight:normal}";
 
-static void page_head(ug_buf *b, const char *title)
+/* The root <svg>'s width in CSS px from its width attribute (px, mm, in, pt
+** or no unit; CSS Values and Units §5.2), 0 when it states none we read. */
+static double svg_width_px(const char *svg, size_t len)
+{
+    const char *end = memchr(svg, '>', len);
+    size_t n = end ? (size_t)(end - svg) : len;
+    for (size_t i = 0; i + 7 < n; i++) {
+        if (memcmp(svg + i, " width=\"", 8) != 0)
+            continue;
+        char *unit;
+        double v = strtod(svg + i + 8, &unit);
+        static const struct { const char *name; double px; } units[] = {
+            {"\"", 1}, {"px\"", 1}, {"mm\"", 96 / 25.4}, {"in\"", 96}, {"pt\"", 96.0 / 72}};
+        for (size_t k = 0; k < sizeof units / sizeof *units; k++)
+            if (!strncmp(unit, units[k].name, strlen(units[k].name)))
+                return v > 0 && v < 1e6 ? v * units[k].px : 0;
+        return 0;
+    }
+    return 0;
+}
+
+/* The page is as wide as its picture (or 60em, whichever is more), so a
+** wide chart is shown at its own size, icons unscaled; a narrow screen
+** still shrinks it (svg max-width 100%). */
+static void page_head(ug_buf *b, const char *title, double picture_px)
 {
     ug_buf_puts(b, "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n"
                    "<meta charset=\"utf-8\"/>\n"
                    "<meta name=\"viewport\" content=\"width=device-width\"/>\n"
                    "<title>");
     svg_escape_text(b, title);
-    ug_buf_printf(b, "</title>\n<style>%s</style>\n</head>\n<body>\n<main>\n<h1>",
-                  page_css);
+    ug_buf_printf(b, "</title>\n<style>%s", page_css);
+    if (picture_px > 0)
+        ug_buf_printf(b, "body{max-width:max(60em,%.0fpx)}", ceil(picture_px));
+    ug_buf_puts(b, "</style>\n</head>\n<body>\n<main>\n<h1>");
     svg_escape_text(b, title);
     ug_buf_puts(b, "</h1>\n");
 }
@@ -159,7 +187,7 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
         description = first->description.text;
     ug_buf b;
     ug_buf_init(&b);
-    page_head(&b, title);
+    page_head(&b, title, svg_width_px(svg + at, svg_len - at));
     ug_buf_puts(&b, "<figure>\n");
     ug_buf_add(&b, svg + at, svg_len - at);
     ug_buf_puts(&b, "\n</figure>\n");
