@@ -248,9 +248,10 @@ grep -q "symbolic link" "$T/err.txt" || fail "batch through a symlinked folder: 
 stopped_run() { # stopped_run SIG FOLDER ARGS...: stop the run once a temporary exists
   local sig=$1 dir=$2
   shift 2
-  # env: a background job of a script starts with SIGINT ignored, and an
-  # ignored signal stays ignored (as under nohup).
-  env --default-signal=INT strace -f -qq -o /dev/null -e trace=write,fsync \
+  # env: a background job of a script starts with SIGINT ignored, and under
+  # nohup SIGHUP is ignored too; an ignored signal stays ignored (POSIX exec),
+  # so all three are reset to their default before the run.
+  env --default-signal=INT,HUP,TERM strace -f -qq -o /dev/null -e trace=write,fsync \
     -e inject=write,fsync:delay_enter=1500000 "$BIN" "$@" 2> /dev/null &
   local tracer=$! pid="" waited=0
   while [ "$waited" -lt 400 ] && ! ls -A "$dir" 2> /dev/null | grep -q tmp; do
