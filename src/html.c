@@ -11,11 +11,11 @@
 ** (text_clean): a CSV field holding U+FFFE cannot break the page.
 */
 #include <math.h>
-#include <stdlib.h>
 #include <string.h>
 #include <strings.h>
 
 #include "alloc.h"
+#include "layout.h"
 #include "raster.h"
 #include "svg.h"
 
@@ -127,23 +127,19 @@ static const char page_css[] =
     "td{text-align:right}thead th{background:#eee}"
     "tbody th{text-align:left;font-weight:normal}";
 
-/* The root <svg>'s width in CSS px from its width attribute (px, mm, in, pt
-** or no unit; CSS Values and Units §5.2), 0 when it states none we read. */
+/* The root <svg>'s width in CSS px from its width attribute, read as a
+** layout's length is (our writers give px or mm); 0 when it states none. */
 static double svg_width_px(const char *svg, size_t len)
 {
     const char *end = memchr(svg, '>', len);
     size_t n = end ? (size_t)(end - svg) : len;
-    for (size_t i = 0; i + 7 < n; i++) {
+    for (size_t i = 0; i + 8 < n; i++) {
         if (memcmp(svg + i, " width=\"", 8) != 0)
             continue;
-        char *unit;
-        double v = strtod(svg + i + 8, &unit);
-        static const struct { const char *name; double px; } units[] = {
-            {"\"", 1}, {"px\"", 1}, {"mm\"", 96 / 25.4}, {"in\"", 96}, {"pt\"", 96.0 / 72}};
-        for (size_t k = 0; k < sizeof units / sizeof *units; k++)
-            if (!strncmp(unit, units[k].name, strlen(units[k].name)))
-                return v > 0 && v < 1e6 ? v * units[k].px : 0;
-        return 0;
+        const char *v = svg + i + 8, *q = memchr(v, '"', n - i - 8);
+        double px;
+        return q && layout_parse_length(v, (size_t)(q - v), &px) && px > 0 && px < 1e6
+                   ? px : 0;
     }
     return 0;
 }

@@ -440,7 +440,7 @@ static ug_status read_long(loader *l, const layout_node *n, long lo, long hi,
 
 /* Absolute lengths of W3C CSS Values and Units (§ absolute lengths): 1in =
 ** 96px = 72pt = 25.4mm. A bare number is in px. */
-static bool parse_length(const char *s, size_t n, double *px)
+bool layout_parse_length(const char *s, size_t n, double *px)
 {
     static const struct { const char *unit; double per_px; } units[] = {
         {"px", 1.0}, {"in", 96.0}, {"pt", 96.0 / 72.0}, {"mm", 96.0 / 25.4}};
@@ -470,7 +470,7 @@ static ug_status read_length(loader *l, const layout_node *n, bool positive,
     ug_status st = want_scalar(l, n, "a length");
     if (st)
         return st;
-    if (!parse_length(n->text, n->len, out) || (positive && *out <= 0))
+    if (!layout_parse_length(n->text, n->len, out) || (positive && *out <= 0))
         return ug_fail(l->err, UG_ESCHEMA, n->mark,
                        "'%s' expects a %slength such as 24, 24px, 12mm, 0.5in "
                        "or 10pt (found '%s')",
@@ -1590,7 +1590,7 @@ static bool custom_size(const char *s, double *w, double *h)
     const char *rest = x + 1;
     while (*rest == ' ')
         rest++;
-    return parse_length(s, n, w) && parse_length(rest, strlen(rest), h) && *w > 0 &&
+    return layout_parse_length(s, n, w) && layout_parse_length(rest, strlen(rest), h) && *w > 0 &&
            *w <= LAYOUT_MAX_LENGTH_PX && *h <= LAYOUT_MAX_LENGTH_PX &&
            *h > 0;
 }

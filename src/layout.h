@@ -27,6 +27,9 @@ struct layout_node {
 /* Read a whole file, refusing one larger than max bytes. Errors blame `at`
 ** (the file itself, or the place in a layout that named it). *text is
 ** ug_malloc'd and NUL-ended. */
+/* A length as layouts write it (a bare number is px; px, in, pt, mm), in
+** CSS px; false when it is not one. */
+bool layout_parse_length(const char *s, size_t n, double *px);
 /* A batch template (FORMAT.md §5): a chart layout whose categories need no
 ** counts and whose `data` needs no `file`, since the CSV given with
 ** --each-row supplies both. */

@@ -292,11 +292,18 @@ static rows_frame rows_setup(packer *p)
     return f;
 }
 
+/* Slots a placeholder box takes on a line (at least one). */
+static long holder_slots(const packer *p)
+{
+    long slots = (long)ceil((p->holder_w + p->gap) / p->pitch);
+    return slots < 1 ? 1 : slots;
+}
+
 /* Slots the longest line could fill: `columns`, unless no group holds that
 ** many icons and placeholders (a line never needs more than its band). */
 static long longest_line(const packer *p)
 {
-    long most = 0, slots_per_holder = (long)ceil((p->holder_w + p->gap) / p->pitch);
+    long most = 0, slots_per_holder = holder_slots(p);
     for (size_t g = 0; g < chart_ngroups(p->c); g++) {
         long n = 0;
         for (size_t i = 0; i < p->c->ncats; i++) {
@@ -386,8 +393,8 @@ static void rows_category(packer *p, const rows_frame *f, rows_cursor *cur,
     const alloc_share *sh = alloc_at(p->a, g, i);
     double dy = (f->line_h - p->size) / 2;
     if (alloc_hidden(sh)) {
-        long slots = (long)ceil((p->holder_w + p->gap) / p->pitch);
-        slots = slots < 1 ? 1 : slots > f->cols ? f->cols : slots;
+        long slots = holder_slots(p);
+        slots = slots > f->cols ? f->cols : slots;
         if (cur->k > 0 && cur->k + slots > f->cols)
             new_line(p, f, cur);
         put_holder(p, slot_x(p, f->x0, cur->k), cur->top + (f->line_h - p->holder_h) / 2,
