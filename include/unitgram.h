@@ -230,6 +230,18 @@ UG_API ug_status ug_batch_path(const ug_batch *batch, size_t i, const char *patt
 ** call or ug_batch_free. */
 UG_API ug_status ug_batch_chart(ug_batch *batch, size_t i, const ug_chart **out,
                                 ug_error *err);
+/* Row i as a chart the caller owns (release with ug_chart_free, before the
+** batch: it borrows the batch's template). Rows may be taken and drawn in
+** several threads at once, one row per thread. */
+UG_API ug_status ug_batch_row(const ug_batch *batch, size_t i, ug_chart **out,
+                              ug_error *err);
+/* Pack a row's chart (from ug_batch_chart or ug_batch_row) in the layout the
+** batch shares: every row gets the same canvas size, line length and place
+** for each category's icons, label and key entry, sized for the largest row
+** (FORMAT.md §5). Reads the batch only, so threads may call it at once. */
+UG_API ug_status ug_batch_pack(const ug_batch *batch, const ug_chart *row,
+                               const ug_allocation *alloc, const ug_pack_options *opt,
+                               ug_scene **out, ug_error *err);
 
 /* ---- output: PNG, PDF and a web page (src/raster.c, src/html.c) -------- */
 

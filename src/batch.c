@@ -9,6 +9,12 @@
 ** row of all — and pinned on every row's chart, so the charts of a batch can
 ** be compared icon for icon. A row's chart is a shallow view of the
 ** template: its counts point into the template's columns.
+**
+** The batch is also laid out once for all its rows (FORMAT.md §5): every
+** row is measured when the batch opens, and each row's chart is then packed
+** in that shared frame (ug_batch_pack): one canvas, one line length, one
+** place for each category's icons, label and key entry, so charts of a
+** batch laid side by side differ only where their counts differ.
 */
 #include <stdlib.h>
 #include <string.h>
@@ -16,6 +22,7 @@
 #include "alloc.h"
 #include "batch.h"
 #include "layout.h"
+#include "pack.h"
 
 #define SLUG_MAX 64
 
@@ -24,9 +31,8 @@ struct ug_batch {
     bool pin;                /* the rows share rule.value */
     ug_dec value;
     char (*slugs)[SLUG_MAX + 8];
-    ug_chart row;            /* the current row's chart, a view of tmpl */
-    ug_category *cats;       /* row.cats */
-    char *title, *subtitle;  /* the current row's texts, {group} replaced */
+    pack_frame *frame;       /* the layout every row shares */
+    ug_chart *row;           /* the chart ug_batch_chart handed out last */
 };
 
 /* ---- names ---------------------------------------------------------------- */
@@ -171,6 +177,8 @@ static ug_status make_slugs(ug_batch *b, ug_error *err)
     return UG_OK;
 }
 
+static ug_status plan_layout(ug_batch *b, ug_error *err);
+
 static ug_status share_value(ug_batch *b, ug_error *err)
 {
     alloc_rule rule;
@@ -193,12 +201,12 @@ ug_status ug_batch_open(const char *template_path, const char *csv_path,
     ug_status st = layout_load_template(template_path, limits, &b->tmpl, err);
     if (!st)
         st = take_csv(b->tmpl, csv_path, err);
-    if (!st && !(b->cats = ug_calloc(b->tmpl->ncats, sizeof *b->cats)))
-        st = ug_fail(err, UG_ENOMEM, ug_mark_file(template_path), "out of memory");
     if (!st)
         st = make_slugs(b, err);
     if (!st)
         st = share_value(b, err);
+    if (!st)
+        st = plan_layout(b, err);
     if (st) {
         ug_batch_free(b);
         return st;
@@ -211,11 +219,10 @@ void ug_batch_free(ug_batch *b)
 {
     if (!b)
         return;
+    ug_chart_free(b->row);
+    pack_frame_free(b->frame);
     ug_chart_free(b->tmpl);
     ug_free(b->slugs);
-    ug_free(b->cats);
-    ug_free(b->title);
-    ug_free(b->subtitle);
     ug_free(b);
 }
 
@@ -261,48 +268,116 @@ ug_status ug_batch_path(const ug_batch *b, size_t i, const char *pattern,
     return *out ? UG_OK : ug_fail(err, UG_ENOMEM, ug_mark_file(pattern), "out of memory");
 }
 
-/* Replace {group} in one of the row's texts; the copy lives in *keep. */
-static ug_status row_text(ug_text *t, const char *name, char **keep, ug_error *err)
+/* Replace {group} in one of the row's texts; the copy lives in the row's
+** own arena. */
+static ug_status row_text(ug_chart *r, ug_text *t, const char *name, ug_error *err)
 {
-    ug_free(*keep);
-    *keep = NULL;
     if (!t->text || !strstr(t->text, "{group}"))
         return UG_OK;
-    if (!(*keep = replace_group(t->text, name)))
-        return ug_fail(err, UG_ENOMEM, t->mark, "out of memory");
-    t->text = *keep;
-    return UG_OK;
+    char *s = replace_group(t->text, name);
+    t->text = s ? ug_arena_strdup(&r->arena, s) : NULL;
+    ug_free(s);
+    return t->text ? UG_OK : ug_fail(err, UG_ENOMEM, t->mark, "out of memory");
 }
 
-ug_status ug_batch_chart(ug_batch *b, size_t i, const ug_chart **out, ug_error *err)
+/* Row i as a view of the template: only its category array and its texts
+** are its own, in its own arena; the rest is the template's. */
+static ug_status make_row(const ug_batch *b, size_t i, ug_chart **out, ug_error *err)
 {
-    ug_error_clear(err);
-    *out = NULL;
     const ug_chart *t = b->tmpl;
-    if (i >= ug_batch_count(b))
-        return ug_fail(err, UG_ELIMIT, ug_mark_file(t->path),
-                       "row %zu of %zu does not exist", i + 1, ug_batch_count(b));
-    ug_chart *r = &b->row;
+    ug_chart *r = ug_malloc(sizeof *r);
+    if (!r)
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(t->path), "out of memory");
     *r = *t;
-    memset(&r->arena, 0, sizeof r->arena); /* never freed: the template owns it */
+    memset(&r->arena, 0, sizeof r->arena);
     memset(&r->groups, 0, sizeof r->groups);
-    for (size_t c = 0; c < t->ncats; c++) {
-        b->cats[c] = t->cats[c];
-        b->cats[c].counts = t->cats[c].counts + i;
-        b->cats[c].count_marks = t->cats[c].count_marks + i;
-        b->cats[c].withheld = t->cats[c].withheld ? t->cats[c].withheld + i : NULL;
+    r->cats = ug_arena_alloc(&r->arena, (t->ncats ? t->ncats : 1) * sizeof *r->cats);
+    ug_status st = r->cats ? UG_OK
+                           : ug_fail(err, UG_ENOMEM, ug_mark_file(t->path), "out of memory");
+    for (size_t c = 0; !st && c < t->ncats; c++) {
+        r->cats[c] = t->cats[c];
+        r->cats[c].counts = t->cats[c].counts + i;
+        r->cats[c].count_marks = t->cats[c].count_marks + i;
+        r->cats[c].withheld = t->cats[c].withheld ? t->cats[c].withheld + i : NULL;
     }
-    r->cats = b->cats;
     if (b->pin) {
         r->has_icon_value = true;
         r->icon_value_auto = false;
         r->icon_value = b->value;
     }
     const char *name = t->groups.items[i].text;
-    ug_status st = row_text(&r->title, name, &b->title, err);
     if (!st)
-        st = row_text(&r->subtitle, name, &b->subtitle, err);
+        st = row_text(r, &r->title, name, err);
     if (!st)
-        *out = r;
+        st = row_text(r, &r->subtitle, name, err);
+    if (st) {
+        ug_chart_free(r);
+        return st;
+    }
+    *out = r;
+    return UG_OK;
+}
+
+ug_status ug_batch_row(const ug_batch *b, size_t i, ug_chart **out, ug_error *err)
+{
+    ug_error_clear(err);
+    *out = NULL;
+    if (i >= ug_batch_count(b))
+        return ug_fail(err, UG_ELIMIT, ug_mark_file(b->tmpl->path),
+                       "row %zu of %zu does not exist", i + 1, ug_batch_count(b));
+    return make_row(b, i, out, err);
+}
+
+ug_status ug_batch_chart(ug_batch *b, size_t i, const ug_chart **out, ug_error *err)
+{
+    ug_error_clear(err);
+    *out = NULL;
+    ug_chart *r = NULL;
+    ug_status st = ug_batch_row(b, i, &r, err);
+    if (st)
+        return st;
+    ug_chart_free(b->row);
+    b->row = r;
+    *out = r;
+    return UG_OK;
+}
+
+/* ---- one layout for every row ------------------------------------------------ */
+
+/* Measure row i into the frame. A row that cannot be allocated or packed is
+** left out: drawing it fails with its own message, naming the row. */
+static ug_status measure_row(ug_batch *b, size_t i, ug_error *err)
+{
+    ug_error e = {0};
+    ug_chart *row = NULL;
+    ug_allocation *a = NULL;
+    ug_scene *s = NULL;
+    ug_status st = make_row(b, i, &row, &e);
+    if (!st)
+        st = ug_chart_allocate(row, &a, &e);
+    if (!st)
+        st = pack_scene(row, a, NULL, b->frame, true, &s, &e);
+    ug_scene_free(s);
+    ug_allocation_free(a);
+    ug_chart_free(row);
+    if (st == UG_ENOMEM)
+        *err = e;
+    return st == UG_ENOMEM ? st : UG_OK;
+}
+
+static ug_status plan_layout(ug_batch *b, ug_error *err)
+{
+    if (!(b->frame = pack_frame_new(b->tmpl->ncats)))
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(b->tmpl->path), "out of memory");
+    ug_status st = UG_OK;
+    for (size_t i = 0; !st && i < ug_batch_count(b); i++)
+        st = measure_row(b, i, err);
     return st;
+}
+
+ug_status ug_batch_pack(const ug_batch *b, const ug_chart *row, const ug_allocation *alloc,
+                        const ug_pack_options *opt, ug_scene **out, ug_error *err)
+{
+    ug_error_clear(err);
+    return pack_scene(row, alloc, opt, b->frame, false, out, err);
 }

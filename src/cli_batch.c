@@ -89,7 +89,7 @@ static int draw_row(ug_batch *b, size_t i, const char *path, const out_folder *d
     size_t len = 0;
     int rc = EXIT_OK;
     if (ug_batch_chart(b, i, &chart, &err) || ug_chart_allocate(chart, &alloc, &err) ||
-        ug_scene_pack_with(chart, alloc, popt, &scene, &err) ||
+        ug_batch_pack(b, chart, alloc, popt, &scene, &err) ||
         ug_scene_svg(scene, &svg, &len, &err) ||
         cli_chart_bytes(chart, alloc, o, svg, len, &bytes, &len, &err)) {
         cli_report_error(&err);

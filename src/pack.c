@@ -34,6 +34,24 @@
 #define DEFAULT_ICON 24.0
 #define DEFAULT_WIDTH 800.0
 
+struct pack_frame {
+    size_t ncats;
+    double width, height, title_h, subtitle_h;
+    double lw, tw;           /* rows: the text columns */
+    long longest;            /* rows: the longest line any row fills */
+    bool holders;            /* some row hides a count */
+    double holder_w, holder_h;
+    double band_h;           /* rows, one line of categories: the band */
+    long *slots;             /* rows, one line: slots per category */
+    bool *may_hide;          /* rows, one line: hidden in some row */
+    double *cat_adv;         /* rows, a line each: top to the next one's top */
+    double *side_h;          /* rows: the texts beside a category's icons */
+    long cells;              /* waffle: the grid */
+    double head_h;           /* waffle: group name and total */
+    double foot_h;           /* value statement, notes, source */
+    double *key_adv;         /* key entries */
+};
+
 typedef struct {
     const ug_chart *c;
     const ug_allocation *a;
@@ -48,7 +66,84 @@ typedef struct {
     /* hidden-count placeholder, one size for the chart whatever it says */
     bool holders;
     double holder_w, holder_h;
+    pack_frame *frame; /* a batch's shared layout, or NULL */
+    bool measuring;    /* filling the frame rather than reading it */
 } packer;
+
+pack_frame *pack_frame_new(size_t ncats)
+{
+    pack_frame *f = ug_calloc(1, sizeof *f);
+    size_t n = ncats ? ncats : 1;
+    if (!f)
+        return NULL;
+    f->ncats = ncats;
+    f->slots = ug_calloc(n, sizeof *f->slots);
+    f->may_hide = ug_calloc(n, sizeof *f->may_hide);
+    f->cat_adv = ug_calloc(n, sizeof *f->cat_adv);
+    f->side_h = ug_calloc(n, sizeof *f->side_h);
+    f->key_adv = ug_calloc(n, sizeof *f->key_adv);
+    if (!f->slots || !f->may_hide || !f->cat_adv || !f->side_h || !f->key_adv) {
+        pack_frame_free(f);
+        return NULL;
+    }
+    return f;
+}
+
+void pack_frame_free(pack_frame *f)
+{
+    if (!f)
+        return;
+    ug_free(f->slots);
+    ug_free(f->may_hide);
+    ug_free(f->cat_adv);
+    ug_free(f->side_h);
+    ug_free(f->key_adv);
+    ug_free(f);
+}
+
+/* The room a part of the chart takes: what it needs on its own, or in a
+** batch the most any row needs (recorded while measuring). */
+static double reserved(const packer *p, double *kept, double need)
+{
+    if (!kept)
+        return need;
+    if (p->measuring) {
+        *kept = fmax(*kept, need);
+        return need;
+    }
+    return fmax(*kept, need);
+}
+
+static long reserved_count(const packer *p, long *kept, long need)
+{
+    if (!kept)
+        return need;
+    if (p->measuring) {
+        *kept = need > *kept ? need : *kept;
+        return need;
+    }
+    return need > *kept ? need : *kept;
+}
+
+/* A size every chart of a batch shares (a text column, the canvas width):
+** each row's own while measuring, then the largest of them whatever the row
+** needs, so every row computes the same line length from the same inputs. */
+static double shared(const packer *p, double *kept, double own)
+{
+    if (!kept)
+        return own;
+    if (p->measuring) {
+        *kept = fmax(*kept, own);
+        return own;
+    }
+    return *kept;
+}
+
+/* The frame's record of a part, or NULL outside a batch. */
+#define KEPT(p, field) ((p)->frame ? &(p)->frame->field : NULL)
+
+/* Reading a frame: measuring a row must not depend on the rows before it. */
+static bool framed(const packer *p) { return p->frame && !p->measuring; }
 
 static void fail(packer *p, ug_status st)
 {
@@ -131,14 +226,16 @@ static double line_box(packer *p, double px, bool bold)
     return put_text(p, "Ag", 0, 0, 0, px, bold, SCENE_START, false).line;
 }
 
-/* A text as a block of its own, spanning the content width; moves p->y. */
-static void put_block(packer *p, const char *s, double px, bool bold, double after)
+/* A text as a block of its own, spanning the content width; moves p->y by
+** its height, or by what the frame reserves for it (kept may be NULL). */
+static void put_block(packer *p, const char *s, double px, bool bold, double after,
+                      double *kept)
 {
     if (!s)
         return;
     text_size ts = put_text(p, s, p->left, p->y, content_width(p), px, bold,
                             SCENE_START, true);
-    p->y += ts.h + after;
+    p->y += reserved(p, kept, ts.h) + after;
 }
 
 /* A string built in a buffer, placed, then dropped. */
@@ -281,8 +378,8 @@ static rows_frame rows_setup(packer *p)
 {
     rows_frame f;
     double cw = content_width(p);
-    f.lw = fmin(widest_side(p, true), 0.3 * cw);
-    f.tw = fmin(widest_side(p, false), 0.3 * cw);
+    f.lw = shared(p, KEPT(p, lw), fmin(widest_side(p, true), 0.3 * cw));
+    f.tw = shared(p, KEPT(p, tw), fmin(widest_side(p, false), 0.3 * cw));
     f.x0 = p->left + (f.lw > 0 ? f.lw + COL_GAP : 0);
     f.avail = p->right - (f.tw > 0 ? f.tw + COL_GAP : 0) - f.x0;
     f.cols = fit_columns(p, f.x0, f.avail);
@@ -327,7 +424,7 @@ static void honour_columns(packer *p)
 {
     if (p->c->form != UG_FORM_ROWS || p->c->columns <= 0)
         return;
-    long want = longest_line(p);
+    long want = reserved_count(p, KEPT(p, longest), longest_line(p));
     for (int pass = 0; pass < 3 && !p->st; pass++) {
         rows_frame f = rows_setup(p);
         double short_by = slot_x(p, f.x0, want - 1) + p->size - f.x0 - f.avail;
@@ -348,7 +445,7 @@ static void honour_columns(packer *p)
 
 typedef struct {
     double top, floor; /* current line's top; lowest text bottom so far */
-    long k;            /* slots used on the current line */
+    long line, k;      /* lines begun before the current one; slots used on it */
     bool fresh;        /* nothing on the current line yet */
 } rows_cursor;
 
@@ -357,8 +454,66 @@ static void new_line(const packer *p, const rows_frame *f, rows_cursor *cur)
     if (cur->fresh)
         return;
     cur->top = fmax(cur->top + f->line_h + p->gap, ceil(cur->floor));
+    cur->line++;
     cur->k = 0;
     cur->fresh = true;
+}
+
+/* Slots category i takes on its line: icons and a clipped last icon, or the
+** placeholder of a hidden count. */
+static long category_slots(const packer *p, size_t g, size_t i)
+{
+    const alloc_share *sh = alloc_at(p->a, g, i);
+    return alloc_hidden(sh) ? holder_slots(p) : sh->icons + (sh->partial ? 1 : 0);
+}
+
+/* Where category i starts on a line shared by all categories when each one
+** before it takes the most slots it takes in any row of the batch, placed as
+** rows_category places them (a placeholder never splits across lines); for
+** i == ncats, where the last one's reserved slots end. */
+static void reserved_start(const packer *p, const rows_frame *f, size_t i, long *line,
+                           long *k)
+{
+    const pack_frame *fr = p->frame;
+    long hs = holder_slots(p) < f->cols ? holder_slots(p) : f->cols;
+    *line = 0;
+    *k = 0;
+    for (size_t j = 0; j <= i; j++) {
+        if (j < fr->ncats && fr->may_hide[j] && *k > 0 && *k + hs > f->cols) {
+            ++*line;
+            *k = 0;
+        }
+        if (j == i)
+            return;
+        if (fr->slots[j] > 0) {
+            long pos = *line * f->cols + *k + fr->slots[j];
+            *line = (pos - 1) / f->cols;
+            *k = (pos - 1) % f->cols + 1;
+        }
+    }
+}
+
+/* In a batch's frame, move to category i's own place on the shared line, so
+** that a change in another category's count moves none of its icons. */
+static void go_to_reserved(packer *p, const rows_frame *f, rows_cursor *cur, size_t g,
+                           size_t i)
+{
+    if (p->measuring && i < p->c->ncats) {
+        long n = category_slots(p, g, i);
+        p->frame->slots[i] = n > p->frame->slots[i] ? n : p->frame->slots[i];
+        p->frame->may_hide[i] |= alloc_hidden(alloc_at(p->a, g, i));
+        return;
+    }
+    long line, k;
+    reserved_start(p, f, i, &line, &k);
+    while (cur->line < line) {
+        cur->fresh = false;
+        new_line(p, f, cur);
+    }
+    if (k > cur->k) {
+        cur->k = k;
+        cur->fresh = false;
+    }
 }
 
 static void side_texts(packer *p, const rows_frame *f, rows_cursor *cur,
@@ -383,8 +538,8 @@ static void side_texts(packer *p, const rows_frame *f, rows_cursor *cur,
                     true);
     }
     /* the next line's text starts above its icons when text is taller */
-    cur->floor = fmax(cur->floor, top + fmax(l.h, r.h) + p->gap +
-                                      fmax(0, (lb - f->line_h) / 2));
+    double h = reserved(p, p->frame ? &p->frame->side_h[i] : NULL, fmax(l.h, r.h));
+    cur->floor = fmax(cur->floor, top + h + p->gap + fmax(0, (lb - f->line_h) / 2));
 }
 
 static void rows_category(packer *p, const rows_frame *f, rows_cursor *cur,
@@ -414,22 +569,44 @@ static void rows_category(packer *p, const rows_frame *f, rows_cursor *cur,
     }
 }
 
+/* The next category's line under `split`: in a batch's frame, as far below
+** this one as the most lines this category takes in any row. */
+static void next_category_line(packer *p, const rows_frame *f, rows_cursor *cur,
+                               size_t i, double *cat_top)
+{
+    cur->fresh = false; /* an empty category still gets its line */
+    new_line(p, f, cur);
+    double adv = reserved(p, p->frame ? &p->frame->cat_adv[i] : NULL,
+                          cur->top - *cat_top);
+    cur->top = *cat_top + adv;
+    *cat_top = cur->top;
+}
+
 static void rows_band(packer *p, const rows_frame *f, size_t g)
 {
     bool split = p->c->arrangement == UG_ARRANGE_SPLIT;
     double lb = line_box(p, LABEL_PX, false);
     /* whole-pixel tops keep icon edges crisp when rendered */
-    rows_cursor cur = {ceil(p->y + fmax(0, (lb - f->line_h) / 2)), p->y, 0, true};
+    rows_cursor cur = {ceil(p->y + fmax(0, (lb - f->line_h) / 2)), p->y, 0, 0, true};
+    double band_top = cur.top, cat_top = cur.top;
     for (size_t i = 0; i < p->c->ncats && !p->st; i++) {
-        if (split && i > 0) {
-            cur.fresh = false; /* an empty category still gets its line */
-            new_line(p, f, &cur);
-        }
+        if (split && i > 0)
+            next_category_line(p, f, &cur, i - 1, &cat_top);
         if (i == 0 || split)
             side_texts(p, f, &cur, g, i, i == 0);
+        if (p->frame && !split)
+            go_to_reserved(p, f, &cur, g, i);
         rows_category(p, f, &cur, g, i);
     }
-    p->y = fmax(cur.top + f->line_h + p->gap, cur.floor) - p->gap + f->band_gap;
+    if (framed(p) && !split) /* the band holds every category's reserved slots */
+        go_to_reserved(p, f, &cur, g, p->c->ncats);
+    double end = fmax(cur.top + f->line_h + p->gap, cur.floor);
+    if (split && p->c->ncats)
+        end = cat_top + reserved(p, p->frame ? &p->frame->cat_adv[p->c->ncats - 1] : NULL,
+                                 end - cat_top);
+    else
+        end = band_top + reserved(p, KEPT(p, band_h), end - band_top);
+    p->y = end - p->gap + f->band_gap;
 }
 
 static void pack_rows(packer *p)
@@ -457,6 +634,7 @@ static waffle_frame waffle_setup(const packer *p)
     for (size_t g = 0; !a->rule.by_cells && g < a->ngroups; g++)
         if (a->group_icons[g] > f.cells)
             f.cells = a->group_icons[g];
+    f.cells = reserved_count(p, KEPT(p, cells), f.cells);
     f.rows = (f.cells + f.cols - 1) / f.cols;
     f.w = (double)f.cols * p->pitch - p->gap;
     f.h = f.rows ? (double)f.rows * p->pitch - p->gap : 0;
@@ -530,6 +708,7 @@ static void pack_waffle(packer *p)
         double head = 0;
         for (size_t g = g0; g < g1; g++)
             head = fmax(head, ceil(panel_header(p, &f, g, 0, false)));
+        head = reserved(p, KEPT(p, head_h), head);
         for (size_t g = g0; g < g1 && !p->st; g++) {
             double x = p->left + (double)(g - g0) * (f.w + f.gap);
             panel_header(p, &f, g, x, true);
@@ -575,7 +754,7 @@ static void key_entry(packer *p, size_t i, double lw)
                                 p->right - lx, SMALL_PX, false, SCENE_START, true);
         bottom += 4 + nt.h;
     }
-    p->y = bottom + 12;
+    p->y = top + reserved(p, p->frame ? &p->frame->key_adv[i] : NULL, bottom - top) + 12;
 }
 
 static void pack_key(packer *p)
@@ -590,7 +769,7 @@ static void pack_key(packer *p)
     p->y += BLOCK_GAP - 12;
 }
 
-static void pack_foot(packer *p)
+static void pack_foot_texts(packer *p)
 {
     ug_buf b;
     ug_buf_init(&b);
@@ -608,7 +787,7 @@ static void pack_foot(packer *p)
         ug_buf_free(&b);
     }
     for (size_t i = 0; i < p->c->notes.n; i++)
-        put_block(p, p->c->notes.items[i].text, SMALL_PX, false, 6);
+        put_block(p, p->c->notes.items[i].text, SMALL_PX, false, 6, NULL);
     if (p->c->source.n) {
         ug_buf_init(&b);
         ug_buf_puts(&b, "Source: ");
@@ -618,6 +797,15 @@ static void pack_foot(packer *p)
                      SCENE_START, true);
         p->y += 4 + ts.h;
     }
+}
+
+/* The foot says what was hidden only in rows that hide something, so in a
+** batch it takes the room of the longest one. */
+static void pack_foot(packer *p)
+{
+    double top = p->y;
+    pack_foot_texts(p);
+    p->y = top + reserved(p, KEPT(p, foot_h), p->y - top);
 }
 
 /* ---- set-up -------------------------------------------------------------------- */
@@ -702,7 +890,7 @@ static void setup_categories(packer *p)
         scene_category *sc = &s->cats[i];
         sc->color = rgb_or(p->c->cats[i].color, (scene_rgb){0x55, 0x55, 0x55});
         sc->id = safe_id(p, i);
-        sc->glyph = glyph_index(p, i);
+        sc->glyph = p->measuring ? 0 : glyph_index(p, i);
         ug_buf b;
         ug_buf_init(&b);
         ug_buf_printf(&b, "%s: ", cat_label(p->c, i));
@@ -722,6 +910,12 @@ static void setup_categories(packer *p)
 static void setup_holder(packer *p)
 {
     const pub_table *t = p->a->pub;
+    if (framed(p)) {
+        p->holders = p->frame->holders;
+        p->holder_w = p->frame->holder_w;
+        p->holder_h = p->frame->holder_h;
+        return;
+    }
     if (!t->nhidden)
         return;
     p->holders = true;
@@ -731,6 +925,11 @@ static void setup_holder(packer *p)
                                 false);
         p->holder_w = fmax(p->holder_w, ts.w + 12);
         p->holder_h = fmax(p->holder_h, fmax(p->size, ts.line + 8));
+    }
+    if (p->frame) {
+        p->frame->holders = true;
+        p->frame->holder_w = fmax(p->frame->holder_w, p->holder_w);
+        p->frame->holder_h = fmax(p->frame->holder_h, p->holder_h);
     }
 }
 
@@ -766,19 +965,21 @@ static void setup(packer *p)
         return;
     }
     setup_holder(p);
-    s->width = canvas_width(p);
+    s->width = framed(p) ? p->frame->width : canvas_width(p);
     p->left = MARGIN;
     p->right = s->width - MARGIN;
     p->y = MARGIN;
     setup_categories(p);
     if (!p->st)
         honour_columns(p);
+    if (p->frame && p->measuring)
+        p->frame->width = fmax(p->frame->width, s->width);
 }
 
 static void set_desc(packer *p)
 {
     char *d = NULL;
-    if (p->st)
+    if (p->st || p->measuring)
         return;
     if ((p->st = ug_chart_describe(p->c, p->a, &d, NULL, p->err)))
         return;
@@ -802,6 +1003,13 @@ ug_status ug_scene_pack_with(const ug_chart *c, const ug_allocation *a,
                              ug_error *err)
 {
     ug_error_clear(err);
+    return pack_scene(c, a, opt, NULL, false, out, err);
+}
+
+ug_status pack_scene(const ug_chart *c, const ug_allocation *a,
+                     const ug_pack_options *opt, pack_frame *frame, bool measuring,
+                     ug_scene **out, ug_error *err)
+{
     static const ug_pack_options defaults = {NULL, 0, NULL};
     *out = NULL;
     packer p;
@@ -810,20 +1018,24 @@ ug_status ug_scene_pack_with(const ug_chart *c, const ug_allocation *a,
     p.a = a;
     p.err = err;
     p.opt = opt ? opt : &defaults;
+    p.frame = frame;
+    p.measuring = frame && measuring;
     if (!(p.s = ug_calloc(1, sizeof *p.s)))
         return ug_fail(err, UG_ENOMEM, ug_mark_file(c->path), "out of memory");
     setup(&p);
     if (!p.st && c->title.text)
-        put_block(&p, c->title.text, TITLE_PX, true, c->subtitle.text ? 6 : BLOCK_GAP);
+        put_block(&p, c->title.text, TITLE_PX, true, c->subtitle.text ? 6 : BLOCK_GAP,
+                  KEPT(&p, title_h));
     if (!p.st && c->subtitle.text)
-        put_block(&p, c->subtitle.text, SUBTITLE_PX, false, BLOCK_GAP);
+        put_block(&p, c->subtitle.text, SUBTITLE_PX, false, BLOCK_GAP,
+                  KEPT(&p, subtitle_h));
     if (!p.st)
         (c->form == UG_FORM_WAFFLE ? pack_waffle : pack_rows)(&p);
     if (!p.st)
         pack_key(&p);
     if (!p.st)
         pack_foot(&p);
-    p.s->height = ceil(p.y + MARGIN);
+    p.s->height = reserved(&p, KEPT(&p, height), ceil(p.y + MARGIN));
     if (!p.st)
         sort_icons(&p);
     set_desc(&p);

@@ -41,6 +41,20 @@ char *pack_icons_text(const alloc_share *s, char *buf);
 /* "icon"/"icons" or "square"/"squares" by chart form. */
 const char *pack_icon_word(const ug_chart *c, bool plural);
 
+/* A batch's shared layout: what every row's chart reserves so that the
+** charts of a batch have one canvas and one place for each category's line,
+** label and key entry, sized for the largest row. Filled by packing every row
+** with measuring set; then every row is packed reading it (never writing),
+** so rows can be packed in several threads at once. */
+typedef struct pack_frame pack_frame;
+pack_frame *pack_frame_new(size_t ncats);
+void pack_frame_free(pack_frame *f);
+/* ug_scene_pack_with in a batch's frame (NULL: on its own). Measuring packs
+** no glyphs and writes no description: only the sizes count. */
+ug_status pack_scene(const ug_chart *c, const ug_allocation *a,
+                     const ug_pack_options *opt, pack_frame *frame, bool measuring,
+                     ug_scene **out, ug_error *err);
+
 /* The generated description (describe.c); the layout's `description:`
 ** replaces it when given. */
 void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b);
