@@ -142,7 +142,7 @@ static double shared(const packer *p, double *kept, double own)
 /* The frame's record of a part, or NULL outside a batch. */
 #define KEPT(p, field) ((p)->frame ? &(p)->frame->field : NULL)
 
-/* Reading a frame: measuring a row must not depend on the rows before it. */
+/* Packing in a batch's frame that measuring has filled: read it, never write. */
 static bool framed(const packer *p) { return p->frame && !p->measuring; }
 
 static void fail(packer *p, ug_status st)
