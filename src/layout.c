@@ -954,6 +954,7 @@ static ug_status key_font(loader *l, void *base, const layout_node *v)
                            "(letters, digits, spaces, '-', '_', '.', ','); found '%c'",
                            *p);
     ((ug_chart *)base)->style.font = t.text;
+    ((ug_chart *)base)->style.font_mark = v->mark;
     return UG_OK;
 }
 
@@ -1360,6 +1361,7 @@ static ug_chart *chart_new(const char *path, const char *dir, const ug_limits *l
     c->icon_gap = 4;
     c->style.width = 0; /* not given: the packer's 800 px, which a `columns:` may widen */
     c->style.font = "DejaVu Sans";
+    c->style.font_mark = ug_mark_file(c->path);
     c->style.background = (ug_color){0xFF, 0xFF, 0xFF, true, {NULL, 0, 0}};
     c->style.ink = (ug_color){0x22, 0x22, 0x22, true, {NULL, 0, 0}};
     c->audit.tolerance_percent.v = 10 * UG_DEC_SCALE;

@@ -168,6 +168,7 @@ struct ug_chart {
     struct {
         double width;            /* px, default 800 */
         const char *font;        /* default "DejaVu Sans" */
+        ug_mark font_mark;       /* where it was named; the file when not */
         ug_color background;     /* default #ffffff */
         ug_color ink;            /* default #222222 */
         ug_palette palette;

@@ -189,7 +189,7 @@ static text_size put_text(packer *p, const char *s, double x, double top,
 {
     text_size ts = {0, 0, 0};
     char *clean = s && !p->st ? text_clean(s) : NULL;
-    text_font f = {p->s->font, px, bold};
+    text_font f = {p->s->font, px, bold, p->c->style.font_mark};
     text_block b;
     if (!clean) {
         if (s && !p->st)

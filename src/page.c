@@ -78,6 +78,7 @@ typedef struct {
     page_result *r;
     ug_error *err;
     const char *font;
+    ug_mark font_mark; /* where the font was named, for messages */
     scene_rgb ink, paper;
     page_grid g;
     char **svgs;          /* one per panel; NULL for text */
@@ -319,7 +320,7 @@ static void join_lines(char *s)
 
 static ug_status text_panel(composer *k, size_t i)
 {
-    text_font f = {k->font, PAGE_TEXT_PX, false};
+    text_font f = {k->font, PAGE_TEXT_PX, false, k->font_mark};
     char *clean = text_clean(k->p->panels[i].text.text ? k->p->panels[i].text.text : "");
     if (!clean)
         return nomem(k);
@@ -375,7 +376,7 @@ static ug_status foot(composer *k)
     ug_free(text);
     if (!clean)
         return ug_fail(k->err, UG_ENOMEM, ug_mark_file(k->p->path), "out of memory");
-    text_font f = {k->font, PAGE_SOURCE_PX, false};
+    text_font f = {k->font, PAGE_SOURCE_PX, false, k->font_mark};
     st = text_wrap(&f, clean, k->g.width - 2 * k->g.margin, &k->foot, k->err);
     ug_free(clean);
     return st;
@@ -383,7 +384,7 @@ static ug_status foot(composer *k)
 
 static ug_status title(composer *k)
 {
-    text_font f = {k->font, PAGE_TITLE_PX, true};
+    text_font f = {k->font, PAGE_TITLE_PX, true, k->font_mark};
     char *clean = text_clean(k->p->title.text ? k->p->title.text : "");
     if (!clean)
         return nomem(k);
@@ -547,6 +548,7 @@ static ug_status set_up(composer *k)
     for (size_t i = 0; i < n && !first; i++)
         first = p->panels[i].chart;
     k->font = first && first->style.font ? first->style.font : "DejaVu Sans";
+    k->font_mark = first ? first->style.font_mark : ug_mark_file(p->path);
     k->ink = first && first->style.ink.set
                  ? (scene_rgb){first->style.ink.r, first->style.ink.g, first->style.ink.b}
                  : (scene_rgb){0x22, 0x22, 0x22};

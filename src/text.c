@@ -70,11 +70,15 @@ static PangoContext *this_thread_context(void)
     return thread_context;
 }
 
+static const char *family_of(const text_font *f)
+{
+    return f->family && *f->family ? f->family : "DejaVu Sans";
+}
+
 static PangoLayout *layout_for(const text_font *f, const char *s)
 {
     PangoLayout *l = pango_layout_new(this_thread_context());
-    PangoFontDescription *d = pango_font_description_from_string(
-        f->family && *f->family ? f->family : "DejaVu Sans");
+    PangoFontDescription *d = pango_font_description_from_string(family_of(f));
     pango_font_description_set_absolute_size(d, f->size * PANGO_SCALE);
     pango_font_description_set_weight(d, f->bold ? PANGO_WEIGHT_BOLD
                                                  : PANGO_WEIGHT_NORMAL);
@@ -142,10 +146,106 @@ static ug_status take_lines(PangoLayout *l, const char *s, text_block *b)
     return UG_OK;
 }
 
+/* CSS Fonts Level 4 §2.1.1's generic families and fontconfig's own short
+** names for two of them: any installed font may stand for these. */
+static bool generic_family(const char *name, size_t len)
+{
+    static const char *const generic[] = {"serif", "sans-serif", "cursive", "fantasy",
+                                          "monospace", "system-ui", "sans", "mono"};
+    for (size_t i = 0; i < sizeof generic / sizeof *generic; i++)
+        if (strlen(generic[i]) == len && g_ascii_strncasecmp(name, generic[i], len) == 0)
+            return true;
+    return false;
+}
+
+/* Is `got` one of the comma-separated families in `want`, or may any font
+** stand for one of them? */
+static bool family_listed(const char *want, const char *got)
+{
+    for (const char *p = want; *p;) {
+        const char *end = strchr(p, ',');
+        size_t len = end ? (size_t)(end - p) : strlen(p);
+        while (len && *p == ' ')
+            p++, len--;
+        while (len && p[len - 1] == ' ')
+            len--;
+        if (generic_family(p, len) ||
+            (strlen(got) == len && g_ascii_strncasecmp(p, got, len) == 0))
+            return true;
+        if (!end)
+            break;
+        p = end + 1;
+    }
+    return false;
+}
+
+/* The family fontconfig actually gives for `want`; NULL when it gives none. */
+static char *resolved_family(const char *want)
+{
+    PangoFontDescription *d = pango_font_description_from_string(want);
+    pango_font_description_set_absolute_size(d, 16 * PANGO_SCALE);
+    PangoFont *font = pango_context_load_font(this_thread_context(), d);
+    pango_font_description_free(d);
+    if (!font)
+        return NULL;
+    PangoFontDescription *got = pango_font_describe(font);
+    const char *name = pango_font_description_get_family(got);
+    char *copy = name && *name ? ug_strdup(name) : NULL;
+    pango_font_description_free(got);
+    g_object_unref(font);
+    return copy;
+}
+
+/* Measuring with another font than the one asked for gives a different
+** chart with no word said: pango quietly substitutes a font that is not
+** installed, and when fontconfig cannot set itself up (no configuration, or
+** no memory for its caches) it measures every string as empty boxes. Either
+** is an error here. Checked once per family and thread: a chart asks for the
+** same family hundreds of times. */
+static _Thread_local char checked_family[256];
+
+static ug_status check_family(const text_font *f, ug_error *err)
+{
+    const char *want = family_of(f);
+    if (strcmp(checked_family, want) == 0)
+        return UG_OK;
+    char *got = resolved_family(want);
+    bool ok = got && family_listed(want, got);
+    ug_status st = UG_OK;
+    if (!got)
+        st = ug_fail(err, UG_ERENDER, f->named,
+                     "no font can be loaded for '%s': fontconfig found no fonts "
+                     "(is fonts-dejavu-core installed and fontconfig's "
+                     "configuration readable, and was there memory for it?)", want);
+    else if (!ok)
+        st = ug_fail(err, UG_ERENDER, f->named,
+                     "font '%s' is not installed here: fontconfig would measure and "
+                     "draw '%s' in its place, so the chart would not be the one the "
+                     "layout asks for; install it, or name an installed family under "
+                     "style: font", want, got);
+    else if (strlen(want) < sizeof checked_family)
+        strcpy(checked_family, want);
+    ug_free(got);
+    return st;
+}
+
+/* Letters and digits always take width in a font that loaded; other marks
+** (spaces, joiners) may rightly take none. */
+static bool has_letter_or_digit(const char *s)
+{
+    for (; *s; s++)
+        if (g_ascii_isalnum(*s))
+            return true;
+    return false;
+}
+
 ug_status text_wrap(const text_font *f, const char *s, double max_width,
                     text_block *out, ug_error *err)
 {
     memset(out, 0, sizeof *out);
+    ug_status checked = check_family(f, err);
+    if (checked)
+        return checked;
     PangoLayout *l = layout_for(f, s);
     if (max_width > 0) {
         /* pango widths are ints in 1/1024 px: keep far from INT_MAX */
@@ -159,6 +259,12 @@ ug_status text_wrap(const text_font *f, const char *s, double max_width,
     if (st) {
         text_block_free(out);
         return ug_fail(err, st, ug_mark_file(NULL), "out of memory");
+    }
+    if (out->width <= 0 && has_letter_or_digit(s)) {
+        text_block_free(out);
+        return ug_fail(err, UG_ERENDER, f->named,
+                       "the font '%s' was found but measured '%.40s' as empty: its "
+                       "file could not be loaded (out of memory?)", family_of(f), s);
     }
     return UG_OK;
 }

@@ -15,6 +15,7 @@ typedef struct {
     const char *family; /* "DejaVu Sans" */
     double size;        /* px */
     bool bold;
+    ug_mark named;      /* where the family was asked for, for messages */
 } text_font;
 
 typedef struct {

@@ -30,7 +30,7 @@ START_TEST(test_width_matches_librsvg)
         ck_assert_ptr_nonnull(r);
         RsvgRectangle vp = {0, 0, 800, 100}, ink, logical;
         ck_assert(rsvg_handle_get_geometry_for_layer(r, "#t", &vp, &ink, &logical, &e));
-        text_font f = {"DejaVu Sans", 16, false};
+        text_font f = {"DejaVu Sans", 16, false, {NULL, 0, 0}};
         double w = text_width(&f, samples[i]);
         double left = ink.x - 10, right = ink.x + ink.width - 10;
         (void)logical;
@@ -59,7 +59,7 @@ START_TEST(test_points_and_pixels)
     pango_layout_set_text(l, "Hamburgefonts", -1);
     int w, h;
     pango_layout_get_size(l, &w, &h);
-    text_font f = {"DejaVu Sans", 16, false};
+    text_font f = {"DejaVu Sans", 16, false, {NULL, 0, 0}};
     ck_assert_double_eq_tol(text_width(&f, "Hamburgefonts"), (double)w / PANGO_SCALE, 0.01);
     pango_font_description_free(d);
     g_object_unref(l);
@@ -72,7 +72,7 @@ END_TEST
 START_TEST(test_wrap_keeps_words_and_width)
 {
     const char *s = "Who the Alder Lane pantry served in 2025, by type of household";
-    text_font f = {"DejaVu Sans", 16, true};
+    text_font f = {"DejaVu Sans", 16, true, {NULL, 0, 0}};
     text_block b;
     ug_error err;
     memset(&err, 0, sizeof err);
@@ -130,6 +130,54 @@ static const clean_case cleans[] = {
     {"del\x7f c1\xc2\x85\xc2\x9f", "del  c1  "},
 };
 
+/* The family fontconfig substitutes for `name`, as its own command-line tool
+** says (fc-match(1), fontconfig-bin): the outside answer our message must give. */
+static void fc_match(const char *name, char *out, size_t size)
+{
+    char cmd[256];
+    snprintf(cmd, sizeof cmd, "fc-match -f '%%{family[0]}' '%s'", name);
+    FILE *f = popen(cmd, "r");
+    ck_assert_ptr_nonnull(f);
+    size_t n = fread(out, 1, size - 1, f);
+    out[n] = '\0';
+    ck_assert_int_eq(pclose(f), 0);
+    ck_assert_uint_gt(n, 0);
+}
+
+/* A family that is not installed is an error naming what would be drawn
+** instead; a generic family, an installed one, or a list holding one is not. */
+START_TEST(test_family_must_be_installed)
+{
+    static const char absent[] = "Unitgram Absent Family";
+    char substitute[128];
+    fc_match(absent, substitute, sizeof substitute);
+    text_font f = {absent, 16, false, {"layout.yaml", 7, 9}};
+    text_block b;
+    ug_error err;
+    memset(&err, 0, sizeof err);
+    ck_assert_int_eq(text_wrap(&f, "Households", 0, &b, &err), UG_ERENDER);
+    ck_assert_ptr_nonnull(strstr(err.msg, absent));
+    ck_assert_msg(strstr(err.msg, substitute), "fc-match says '%s'; we said: %s",
+                  substitute, err.msg);
+    ck_assert_uint_eq(err.where.line, 7);
+    ck_assert_uint_eq(err.where.column, 9);
+    ck_assert_uint_eq(b.n, 0);
+    static const char *const fine[] = {"DejaVu Serif", "sans-serif", "Monospace",
+                                       "Unitgram Absent Family, DejaVu Sans",
+                                       "Unitgram Absent Family, serif"};
+    for (size_t i = 0; i < sizeof fine / sizeof *fine; i++) {
+        f.family = fine[i];
+        ck_assert_msg(text_wrap(&f, "Households", 0, &b, &err) == UG_OK, "%s: %s",
+                      fine[i], err.msg);
+        ck_assert_uint_eq(b.n, 1);
+        text_block_free(&b);
+    }
+    /* asked again after a good family, the absent one is still refused */
+    f.family = absent;
+    ck_assert_int_eq(text_wrap(&f, "Households", 0, &b, &err), UG_ERENDER);
+}
+END_TEST
+
 START_TEST(test_clean)
 {
     char *c = text_clean(cleans[_i].in);
@@ -145,6 +193,7 @@ static Suite *text_suite(void)
     tcase_add_test(t, test_width_matches_librsvg);
     tcase_add_test(t, test_points_and_pixels);
     tcase_add_test(t, test_wrap_keeps_words_and_width);
+    tcase_add_test(t, test_family_must_be_installed);
     tcase_add_loop_test(t, test_clean, 0, sizeof cleans / sizeof cleans[0]);
     suite_add_tcase(s, t);
     return s;

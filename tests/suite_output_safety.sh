@@ -58,6 +58,26 @@ expect_fail "over --max-input-bytes" 1 draw "$GOOD" --max-input-bytes 64 -o "$O"
 expect_fail "bad --max-icons" 2 draw "$GOOD" --max-icons 0 -o "$O"
 expect_fail "--max-icons above its ceiling" 2 draw "$GOOD" --max-icons 10000001 -o "$O"
 expect_fail "page over --max-panels" 1 draw "$ROOT/layouts/handout.yaml" --max-panels 2 -o "$O"
+# Fonts that cannot be had: with no fontconfig configuration (fonts-conf(5):
+# FONTCONFIG_FILE names the file read) pango finds no font and would measure
+# every string as empty; a family that is not installed would be measured and
+# drawn as another. Either would be a different chart with exit 0.
+printf '<?xml version="1.0"?>\n<fontconfig></fontconfig>\n' > "$T/no-fonts.conf"
+for f in svg png; do
+  printf '%s' "$OLD" > "$T/out/out.svg"
+  FONTCONFIG_FILE=$T/no-fonts.conf "$BIN" draw "$GOOD" -o "$T/out/x.$f" 2> "$T/err.txt"
+  rc=$?
+  checks=$((checks + 1))
+  [ "$rc" = 1 ] && grep -q "no font can be loaded" "$T/err.txt" \
+    || fail "no fonts ($f): exit $rc, $(head -c 200 "$T/err.txt")"
+  [ ! -e "$T/out/x.$f" ] || { fail "no fonts ($f): an output was written"; rm -f "$T/out/x.$f"; }
+  only_old "no fonts ($f)"
+done
+sed 's/^title:/style: {font: Unitgram Absent Family}\ntitle:/' "$GOOD" > "$T/absent-font.yaml"
+grep -q '^style:' "$GOOD" && fail "pantry.yaml has a style: the absent-font case needs another edit"
+expect_fail "font not installed" 1 draw "$T/absent-font.yaml" -o "$O"
+grep -q "absent-font.yaml:[0-9]*:[0-9]*: .*'Unitgram Absent Family' is not installed" "$T/err.txt" \
+  || fail "font not installed: message $(head -c 300 "$T/err.txt")"
 expect_fail "--max-panels above its ceiling" 2 draw "$ROOT/layouts/handout.yaml" \
   --max-panels 1001 -o "$O"
 expect_fail "hostile glyph file" 1 draw "$H/glyph_xxe_passwd.yaml" -o "$O"
