@@ -168,7 +168,8 @@ UG_API ug_status ug_chart_describe(const ug_chart *chart, const ug_allocation *a
 
 /* Glyphs loaded once and shared: a batch of charts asks the cache instead of
 ** reading, sanitizing and measuring the same glyph files again. One cache
-** serves one set of glyph folders (the options it is used with). */
+** serves one set of glyph folders (the options it is used with); threads
+** drawing at once may share it. */
 typedef struct ug_glyph_cache ug_glyph_cache;
 
 UG_API ug_status ug_glyph_cache_new(ug_glyph_cache **out, ug_error *err);
@@ -222,6 +223,10 @@ UG_API const char *ug_batch_name(const ug_batch *batch, size_t i);
 ** else a '-', no leading '-'; an empty result becomes "row-N" (N the row's
 ** 1-based number). NULL when i is out of range. */
 UG_API const char *ug_batch_slug(const ug_batch *batch, size_t i);
+/* Whether the template's title or subtitle holds {group}, so that each
+** chart says which row it shows; when not, *where (may be NULL) is the
+** title's place, for a warning. 1 or 0. */
+UG_API int ug_batch_names_rows(const ug_batch *batch, ug_mark *where);
 /* `pattern` with every "{group}" replaced by slug i; *out malloc'd (free()). */
 UG_API ug_status ug_batch_path(const ug_batch *batch, size_t i, const char *pattern,
                                char **out, ug_error *err);
@@ -266,6 +271,15 @@ UG_API ug_status ug_render_svg(const char *svg, size_t len, ug_output_format fmt
 UG_API ug_status ug_render_svg_file(const char *svg, size_t len, ug_output_format fmt,
                                     double dpi, double scale, const char *path,
                                     ug_error *err);
+
+/* Several SVGs as one PDF, a page each in order, every page sized to its SVG
+** as ug_render_svg sizes a one-page PDF. titles (may be NULL, or hold NULLs)
+** name the pages in the document's outline, which PDF readers show as
+** bookmarks. Used for a batch drawn to one file. *out is malloc'd. */
+UG_API ug_status ug_render_pdf_pages(const char *const *svgs, const size_t *lens,
+                                     const char *const *titles, size_t n,
+                                     double scale, char **out, size_t *out_len,
+                                     ug_error *err);
 
 /* One self-contained web page: the SVG inline, the description in a
 ** paragraph and, as the picture's text alternative, one data table per

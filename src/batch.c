@@ -268,6 +268,17 @@ ug_status ug_batch_path(const ug_batch *b, size_t i, const char *pattern,
     return *out ? UG_OK : ug_fail(err, UG_ENOMEM, ug_mark_file(pattern), "out of memory");
 }
 
+int ug_batch_names_rows(const ug_batch *b, ug_mark *where)
+{
+    const ug_chart *t = b->tmpl;
+    if ((t->title.text && strstr(t->title.text, "{group}")) ||
+        (t->subtitle.text && strstr(t->subtitle.text, "{group}")))
+        return 1;
+    if (where)
+        *where = t->title.text ? t->title.mark : ug_mark_file(t->path);
+    return 0;
+}
+
 /* Replace {group} in one of the row's texts; the copy lives in the row's
 ** own arena. */
 static ug_status row_text(ug_chart *r, ug_text *t, const char *name, ug_error *err)

@@ -98,6 +98,7 @@ void cli_glyph_warnings(const ug_scene *scene, const ug_chart *chart);
 /* ---- draw, batch and watch (cli_draw.c, cli_batch.c, cli_watch.c) ---- */
 
 #define CLI_MAX_DIRS 32
+#define CLI_MAX_JOBS 32 /* threads drawing a batch (--jobs) */
 
 typedef struct {
     const char *layout, *out, *format;
@@ -111,6 +112,7 @@ typedef struct {
     bool quiet;              /* no progress bar or summary */
     double dpi, scale;       /* PNG and PDF (raster.c); 0: 96 dpi, scale 1 */
     bool strict;             /* audit findings stop the drawing (exit 3) */
+    long jobs;               /* --jobs: batch threads; 0: one per processor */
 } cli_draw_opts;
 
 /* Output format from --format or the file's extension: "svg", "png", "pdf",

@@ -52,7 +52,11 @@ static const char draw_help[] =
     "  --each-row CSV        draw one chart per row of CSV: the row's group-column\n"
     "                        value (or first column) names it and replaces {group}\n"
     "                        in -o and in the template's title and subtitle; all\n"
-    "                        charts share one icon value and one icon size\n"
+    "                        charts share one icon value and one layout; an -o\n"
+    "                        ending in .pdf without {group} gives one PDF with a\n"
+    "                        page per row\n"
+    "  --jobs N              with --each-row: draw with N threads, 1 to 32\n"
+    "                        (default: one per processor)\n"
     "  --strict              audit findings (printed as warnings on every draw)\n"
     "                        stop the drawing: nothing is written, exit 3\n"
     "  --quiet               no progress bar or summary line (--each-row)\n"
@@ -119,6 +123,11 @@ static int number_option(int argc, char **argv, int *i, cli_draw_opts *o)
         (m = cli_number_option("draw", argc, argv, i, "--scale", SCALE_MIN,
                                SCALE_MAX, false, &o->scale)))
         return m;
+    if ((m = cli_number_option("draw", argc, argv, i, "--jobs", 1, CLI_MAX_JOBS, true,
+                               &v)) > 0)
+        o->jobs = (long)v;
+    if (m)
+        return m;
     if ((m = cli_number_option("draw", argc, argv, i, "--watch-limit", 1,
                                WATCH_LIMIT_MAX, true, &v)) > 0)
         o->watch_limit = (long)v;
@@ -173,12 +182,15 @@ static int check_draw(const cli_draw_opts *o)
                                  "not '-'");
     if (o->watch_option && !o->watch)
         return cli_usage("draw", "%s only works with --watch", o->watch_option);
-    if (o->each_row && !strstr(o->out, "{group}"))
-        return cli_usage("draw", "with --each-row, -o must contain {group} "
-                                 "(for instance 'out/{group}.svg')");
     const char *fmt = cli_output_format(o->out, o->format);
     if (!fmt)
         return EXIT_USAGE;
+    if (o->each_row && !strstr(o->out, "{group}") && strcmp(fmt, "pdf"))
+        return cli_usage("draw", "with --each-row, -o must contain {group} "
+                                 "(for instance 'out/{group}.svg'), or name one PDF "
+                                 "to get a page per row ('out/all.pdf')");
+    if (o->jobs && !o->each_row)
+        return cli_usage("draw", "--jobs only works with --each-row");
     if ((o->each_row || o->watch) && cli_is_page_file(o->layout))
         return cli_usage("draw", "a page file is drawn once: no --each-row or --watch");
     return EXIT_OK;

@@ -4,7 +4,11 @@
 ** it once to measure its ink; a batch of a thousand charts naming the same
 ** three glyphs should do that three times, not three thousand. The cache
 ** hands out deep copies, so every scene still owns (and frees) its glyphs.
+** Threads drawing the rows of one batch share the cache: a lock guards the
+** table, and a glyph once kept is never changed, so copies of it are made
+** outside the lock.
 */
+#include <pthread.h>
 #include <string.h>
 
 #include "glyph_cache.h"
@@ -15,6 +19,7 @@ typedef struct {
 } entry;
 
 struct ug_glyph_cache {
+    pthread_mutex_t lock;
     entry *items;
     size_t n, cap;
 };
@@ -23,6 +28,10 @@ ug_status ug_glyph_cache_new(ug_glyph_cache **out, ug_error *err)
 {
     ug_error_clear(err);
     *out = ug_calloc(1, sizeof **out);
+    if (*out && pthread_mutex_init(&(*out)->lock, NULL) != 0) {
+        ug_free(*out);
+        *out = NULL;
+    }
     return *out ? UG_OK : ug_fail(err, UG_ENOMEM, ug_mark_file(NULL), "out of memory");
 }
 
@@ -36,6 +45,7 @@ void ug_glyph_cache_free(ug_glyph_cache *cache)
         glyph_free(cache->items[i].glyph);
     }
     ug_free(cache->items);
+    pthread_mutex_destroy(&cache->lock);
     ug_free(cache);
 }
 
@@ -113,16 +123,21 @@ ug_status glyph_cache_load(ug_glyph_cache *cache, const char *ref,
         return glyph_load(ref, search, where, out, err);
     *out = NULL;
     const char *dir = search->layout_dir ? search->layout_dir : "";
+    /* Loading under the lock too: two threads asking for one new glyph load
+    ** it once, and a batch's glyphs are few. */
+    pthread_mutex_lock(&cache->lock);
     const ug_glyph *hit = find(cache, ref, dir);
+    ug_status st = UG_OK;
     if (!hit) {
         ug_glyph *g = NULL;
-        ug_status st = glyph_load(ref, search, where, &g, err);
+        st = glyph_load(ref, search, where, &g, err);
         if (!st && (st = keep(cache, ref, dir, g, where, err)))
             glyph_free(g);
-        if (st)
-            return st;
-        hit = g;
+        hit = st ? NULL : g;
     }
+    pthread_mutex_unlock(&cache->lock);
+    if (st)
+        return st;
     *out = glyph_copy(hit);
     return *out ? UG_OK : ug_fail(err, UG_ENOMEM, where, "out of memory");
 }

@@ -14,6 +14,8 @@
 ** PDF's creation date, the only varying bytes, is dropped.
 */
 #include <assert.h>
+#include <limits.h>
+#include <stdio.h>
 #include <cairo-pdf.h>
 #include <cairo.h>
 #include <librsvg/rsvg.h>
@@ -282,27 +284,6 @@ out:
     return st;
 }
 
-static ug_status render_pdf(const drawing *d, double scale, ug_buf *b, ug_error *err)
-{
-    double w = d->w, h = d->h;
-    double pw = 0, ph = 0;
-    ug_status st = pdf_size(w, h, scale, &pw, &ph, err);
-    if (st)
-        return st;
-    cairo_surface_t *s = cairo_pdf_surface_create_for_stream(to_buf, b, pw, ph);
-    if ((st = surface_done(s, b, err)))
-        goto out;
-    /* The creation date is the only byte that changes run to run. */
-    cairo_pdf_surface_set_metadata(s, CAIRO_PDF_METADATA_CREATE_DATE, "");
-    if ((st = draw(d, s, pw, ph, err)))
-        goto out;
-    cairo_surface_finish(s);
-    st = surface_done(s, b, err);
-out:
-    cairo_surface_destroy(s);
-    return st;
-}
-
 /* The handle librsvg draws: of the document without its icons when they
 ** could be lifted out (d->icons set), else of the document itself. */
 static ug_status open_drawing(const char *svg, size_t len, RsvgHandle *whole,
@@ -325,26 +306,99 @@ static ug_status open_drawing(const char *svg, size_t len, RsvgHandle *whole,
     return st;
 }
 
-static ug_status render(RsvgHandle *whole, const char *svg, size_t len,
-                        ug_output_format fmt, double dpi, double scale, ug_buf *b,
-                        ug_error *err)
+/* The document's surface made at its first page's size, or the next page
+** sized. The creation date is the only byte that changes run to run. */
+static ug_status pdf_surface(cairo_surface_t **s, ug_buf *b, double pw, double ph,
+                             ug_error *err)
+{
+    if (*s) {
+        cairo_pdf_surface_set_size(*s, pw, ph);
+        return UG_OK;
+    }
+    *s = cairo_pdf_surface_create_for_stream(to_buf, b, pw, ph);
+    cairo_pdf_surface_set_metadata(*s, CAIRO_PDF_METADATA_CREATE_DATE, "");
+    return surface_done(*s, b, err);
+}
+
+/* Draw one SVG as the next page of a PDF document, the page sized to it;
+** `title`, when given, is the page's entry in the document outline (the
+** reader's bookmarks). */
+static ug_status pdf_page(cairo_surface_t **sp, ug_buf *b, const char *svg,
+                          size_t len, const char *title, int page, double scale,
+                          ug_error *err)
+{
+    RsvgHandle *whole;
+    ug_status st = open_svg(svg, len, &whole, err);
+    if (st)
+        return st;
+    drawing d = {.handle = whole};
+    double pw = 0, ph = 0;
+    if (!(st = handle_size(whole, &d.w, &d.h, err)) &&
+        !(st = pdf_size(d.w, d.h, scale, &pw, &ph, err)) &&
+        !(st = open_drawing(svg, len, whole, &d, err)) &&
+        !(st = pdf_surface(sp, b, pw, ph, err))) {
+        cairo_surface_t *s = *sp;
+        if (title && *title) {
+            char link[32];
+            snprintf(link, sizeof link, "page=%d", page);
+            cairo_pdf_surface_add_outline(s, CAIRO_PDF_OUTLINE_ROOT, title, link, 0);
+        }
+        if (!(st = draw(&d, s, pw, ph, err)))
+            cairo_surface_show_page(s);
+    }
+    if (d.handle != whole)
+        g_object_unref(d.handle);
+    raster_icons_free(d.icons);
+    g_object_unref(whole);
+    return st;
+}
+
+ug_status ug_render_pdf_pages(const char *const *svgs, const size_t *lens,
+                              const char *const *titles, size_t n, double scale,
+                              char **out, size_t *out_len, ug_error *err)
+{
+    ug_error_clear(err);
+    *out = NULL;
+    if (out_len)
+        *out_len = 0;
+    ug_status st = check_factors(RASTER_CSS_DPI, scale, err);
+    if (st)
+        return st;
+    if (n == 0 || n > INT_MAX)
+        return ug_fail(err, UG_ELIMIT, ug_mark_file(NULL),
+                       "a PDF needs from 1 to %d pages (asked for %zu)", INT_MAX, n);
+    ug_buf b;
+    ug_buf_init(&b);
+    cairo_surface_t *s = NULL;
+    for (size_t i = 0; i < n && !st; i++)
+        st = pdf_page(&s, &b, svgs[i], lens[i], titles ? titles[i] : NULL, (int)i + 1,
+                      scale, err);
+    if (s) {
+        cairo_surface_finish(s);
+        if (!st)
+            st = surface_done(s, &b, err);
+        cairo_surface_destroy(s);
+    }
+    if (!st)
+        st = ug_buf_take(&b, out, out_len, err);
+    ug_buf_free(&b);
+    return st;
+}
+
+static ug_status render(RsvgHandle *whole, const char *svg, size_t len, double dpi,
+                        double scale, ug_buf *b, ug_error *err)
 {
     drawing d = {.handle = whole};
     int pw, ph;
-    double pt_w, pt_h;
     ug_status st = handle_size(whole, &d.w, &d.h, err);
     /* Sizes are refused before the icons are lifted, which costs memory. */
     if (!st)
-        st = fmt == UG_OUT_PNG ? png_size(d.w, d.h, dpi, scale, &pw, &ph, err)
-                               : pdf_size(d.w, d.h, scale, &pt_w, &pt_h, err);
+        st = png_size(d.w, d.h, dpi, scale, &pw, &ph, err);
     if (!st)
         st = open_drawing(svg, len, whole, &d, err);
     if (st)
         return st;
-    if (fmt == UG_OUT_PNG)
-        st = render_png(&d, dpi, scale, b, err);
-    else
-        st = render_pdf(&d, scale, b, err);
+    st = render_png(&d, dpi, scale, b, err);
     if (d.handle != whole)
         g_object_unref(d.handle);
     raster_icons_free(d.icons);
@@ -363,6 +417,8 @@ ug_status ug_render_svg(const char *svg, size_t len, ug_output_format fmt,
     ug_status st = check_factors(dpi, scale, err);
     if (st)
         return st;
+    if (fmt == UG_OUT_PDF)
+        return ug_render_pdf_pages(&svg, &len, NULL, 1, scale, out, out_len, err);
     RsvgHandle *handle;
     double w, h;
     if ((st = open_svg(svg, len, &handle, err)))
@@ -374,7 +430,7 @@ ug_status ug_render_svg(const char *svg, size_t len, ug_output_format fmt,
     if (fmt == UG_OUT_SVG)
         ug_buf_add(&b, svg, len); /* read above, so known to be a valid SVG */
     else
-        st = render(handle, svg, len, fmt, dpi, scale, &b, err);
+        st = render(handle, svg, len, dpi, scale, &b, err);
     if (!st)
         st = ug_buf_take(&b, out, out_len, err);
 out:

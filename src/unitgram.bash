@@ -14,7 +14,7 @@ _unitgram()
         return
     fi
     case $prev in
-        --dpi|--scale|--watch-limit|--watch-timeout|--max-icons|--max-input-bytes|--max-panels)
+        --dpi|--scale|--jobs|--watch-limit|--watch-timeout|--max-icons|--max-input-bytes|--max-panels)
             return ;;
         -o|--output|--each-row|--sheet|--check)
             COMPREPLY=($(compgen -f -- "$cur")); return ;;
@@ -30,7 +30,7 @@ _unitgram()
     case $cur in
         -*)
             case $cmd in
-                draw) COMPREPLY=($(compgen -W "-o --output --format --dpi --scale --glyph-dir --each-row --quiet --watch --watch-limit --watch-timeout --strict --max-icons --max-input-bytes --max-panels --help" -- "$cur")) ;;
+                draw) COMPREPLY=($(compgen -W "-o --output --format --dpi --scale --glyph-dir --each-row --jobs --quiet --watch --watch-limit --watch-timeout --strict --max-icons --max-input-bytes --max-panels --help" -- "$cur")) ;;
                 tally) COMPREPLY=($(compgen -W "--format --internal --max-icons --max-input-bytes --help" -- "$cur")) ;;
                 audit) COMPREPLY=($(compgen -W "--strict --format --max-icons --max-input-bytes --max-panels --help" -- "$cur")) ;;
                 describe) COMPREPLY=($(compgen -W "--max-icons --max-input-bytes --max-panels --help" -- "$cur")) ;;

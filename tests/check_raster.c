@@ -175,6 +175,69 @@ START_TEST(test_pdf_page_in_points)
 }
 END_TEST
 
+/* Pages of one PDF: each sized to its SVG (ISO 32000-1 §14.11.2: MediaBox),
+** named in the outline (§12.3.3: /Title), in order; pdfinfo(1) of
+** poppler-utils, a reader we did not write, counts them. */
+START_TEST(test_pdf_pages)
+{
+    static const char *const sizes[] = {"288\" height=\"192", "96\" height=\"96",
+                                        "400\" height=\"100"};
+    char svgs[3][256];
+    const char *docs[3];
+    size_t lens[3];
+    for (int i = 0; i < 3; i++) {
+        snprintf(svgs[i], sizeof svgs[i],
+                 "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"%s\">"
+                 "<rect width=\"50\" height=\"50\" fill=\"#c00\"/></svg>", sizes[i]);
+        docs[i] = svgs[i];
+        lens[i] = strlen(svgs[i]);
+    }
+    const char *titles[3] = {"First row", NULL, "Th\xc3\xa9 third"};
+    char *pdf = NULL;
+    size_t len = 0;
+    ug_error err = {0};
+    ck_assert_int_eq(ug_render_pdf_pages(docs, lens, titles, 3, 1, &pdf, &len, &err), UG_OK);
+    ck_assert(contains(pdf, len, "/MediaBox [ 0 0 216 144 ]"));
+    ck_assert(contains(pdf, len, "/MediaBox [ 0 0 72 72 ]"));
+    ck_assert(contains(pdf, len, "/MediaBox [ 0 0 300 75 ]"));
+    ck_assert(contains(pdf, len, "/Title (First row)"));
+    ck_assert(!contains(pdf, len, "/CreationDate"));
+    char path[] = "/tmp/check-raster-XXXXXX";
+    int fd = mkstemp(path);
+    ck_assert_int_ge(fd, 0);
+    ck_assert_int_eq(write(fd, pdf, len), (ssize_t)len);
+    close(fd);
+    char cmd[128];
+    snprintf(cmd, sizeof cmd, "pdfinfo %s | sed -n 's/^Pages: *//p'", path);
+    FILE *f = popen(cmd, "r");
+    ck_assert_ptr_nonnull(f);
+    int pages = 0;
+    ck_assert_int_eq(fscanf(f, "%d", &pages), 1);
+    ck_assert_int_eq(pclose(f), 0);
+    ck_assert_int_eq(pages, 3);
+    unlink(path);
+    /* one page is the very PDF ug_render_svg writes */
+    char *one = NULL;
+    size_t one_len = 0;
+    ck_assert_int_eq(ug_render_svg(docs[0], lens[0], UG_OUT_PDF, 96, 1, &one, &one_len,
+                                   &err), UG_OK);
+    ug_free(pdf);
+    ck_assert_int_eq(ug_render_pdf_pages(docs, lens, NULL, 1, 1, &pdf, &len, &err), UG_OK);
+    ck_assert(len == one_len && memcmp(pdf, one, len) == 0);
+    ug_free(pdf);
+    ug_free(one);
+    /* a page that cannot be read: an error, and no document */
+    docs[1] = "<svg";
+    lens[1] = 4;
+    pdf = (char *)1;
+    ck_assert_int_eq(ug_render_pdf_pages(docs, lens, titles, 3, 1, &pdf, &len, &err),
+                     UG_ERENDER);
+    ck_assert_ptr_null(pdf);
+    ck_assert_int_eq(ug_render_pdf_pages(docs, lens, NULL, 0, 1, &pdf, &len, &err),
+                     UG_ELIMIT);
+}
+END_TEST
+
 START_TEST(test_svg_passes_through)
 {
     size_t len;
@@ -590,6 +653,7 @@ static Suite *raster_suite(void)
                         (int)(sizeof png_cases / sizeof png_cases[0]));
     tcase_add_test(tc, test_renders_are_byte_identical);
     tcase_add_test(tc, test_pdf_page_in_points);
+    tcase_add_test(tc, test_pdf_pages);
     tcase_add_test(tc, test_svg_passes_through);
     tcase_add_loop_test(tc, test_svg_size_table, 0,
                         (int)(sizeof size_cases / sizeof size_cases[0]));

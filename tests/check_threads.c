@@ -347,6 +347,143 @@ static void in_fresh_process(bool (*body)(char *why))
                   n ? msg : "(a sanitizer report, above?)");
 }
 
+/* ---- the rows of one batch drawn by threads sharing one glyph cache ------ */
+
+enum { BATCH_ROWS = 40 };
+
+typedef struct {
+    ug_batch *b;
+    ug_glyph_cache *cache;
+    pthread_barrier_t *start;
+    int first;              /* this thread draws rows first, first + NTHREADS, ... */
+    blob png[BATCH_ROWS];
+    bool ok;
+    char why[WHY];
+} row_worker;
+
+/* Row i through the calls a threaded batch makes (cli_batch.c): a row chart
+** of its own, packed in the batch's shared frame with the shared cache. */
+static ug_status row_png(ug_batch *b, ug_glyph_cache *cache, size_t i, blob *out,
+                         ug_error *err)
+{
+    ug_pack_options opt = {NULL, 0, cache};
+    ug_chart *row = NULL;
+    ug_allocation *alloc = NULL;
+    ug_scene *scene = NULL;
+    char *svg = NULL;
+    size_t len = 0;
+    ug_status st = ug_batch_row(b, i, &row, err);
+    if (!st)
+        st = ug_chart_allocate(row, &alloc, err);
+    if (!st)
+        st = ug_batch_pack(b, row, alloc, &opt, &scene, err);
+    if (!st)
+        st = ug_scene_svg(scene, &svg, &len, err);
+    if (!st)
+        st = ug_render_svg(svg, len, UG_OUT_PNG, 96, 1, &out->data, &out->len, err);
+    free(svg);
+    ug_scene_free(scene);
+    ug_allocation_free(alloc);
+    ug_chart_free(row);
+    return st;
+}
+
+static void *draw_rows(void *arg)
+{
+    row_worker *w = arg;
+    ug_error err = {0};
+    pthread_barrier_wait(w->start);
+    w->ok = true;
+    for (size_t i = (size_t)w->first; w->ok && i < BATCH_ROWS; i += NTHREADS)
+        if (row_png(w->b, w->cache, i, &w->png[i], &err)) {
+            w->ok = false;
+            snprintf(w->why, WHY, "row %zu: %.900s", i, err.msg);
+        }
+    return NULL;
+}
+
+/* A template and a CSV of BATCH_ROWS rows (test data) in a fresh folder. */
+static bool write_batch_files(char *dir, char *tmpl, char *csv)
+{
+    if (!mkdtemp(dir))
+        return false;
+    sprintf(tmpl, "%s/t.yaml", dir);
+    sprintf(csv, "%s/rows.csv", dir);
+    FILE *t = fopen(tmpl, "w"), *c = fopen(csv, "w");
+    bool ok = t && c;
+    if (ok) {
+        fputs("title: \"Visits in {group}\"\nsource: s (test data)\n"
+              "unit-label: visits\nicon-value: 5\ndata: {group-column: site}\n"
+              "categories:\n  - {label: Adults, glyph: person, column: a}\n"
+              "  - {label: Children, glyph: child, column: c}\n"
+              "  - {label: Meals, glyph: house, column: m}\n", t);
+        fputs("site,a,c,m\n", c);
+        for (int i = 0; i < BATCH_ROWS; i++)
+            fprintf(c, "Site %d,%d,%d,%d\n", i, 20 + i * 7 % 90, 5 + i * 3 % 40, i * 11 % 60);
+    }
+    ok = (!t || fclose(t) == 0) && (!c || fclose(c) == 0) && ok;
+    return ok;
+}
+
+static bool batch_rows_in_threads(char *why)
+{
+    static row_worker w[NTHREADS];
+    char dir[] = "/tmp/check-threads-XXXXXX", tmpl[64], csv[64];
+    ug_error err = {0};
+    ug_batch *b = NULL;
+    ug_glyph_cache *shared = NULL, *own = NULL;
+    if (!write_batch_files(dir, tmpl, csv) ||
+        ug_batch_open(tmpl, csv, NULL, &b, &err) || ug_glyph_cache_new(&shared, &err) ||
+        ug_glyph_cache_new(&own, &err)) {
+        snprintf(why, WHY, "setting up: %.900s", err.msg);
+        return false;
+    }
+    pthread_barrier_t start;
+    pthread_t t[NTHREADS];
+    pthread_barrier_init(&start, NULL, NTHREADS);
+    for (int i = 0; i < NTHREADS; i++) {
+        w[i] = (row_worker){.b = b, .cache = shared, .start = &start, .first = i};
+        if (pthread_create(&t[i], NULL, draw_rows, &w[i]) != 0)
+            abort(); /* the barrier would wait for it forever */
+    }
+    for (int i = 0; i < NTHREADS; i++)
+        pthread_join(t[i], NULL);
+    pthread_barrier_destroy(&start);
+    bool ok = true;
+    for (int i = 0; i < NTHREADS && ok; i++)
+        if (!(ok = w[i].ok))
+            snprintf(why, WHY, "thread %d: %.900s", i, w[i].why);
+    /* then each row again in this thread alone, with a cache of its own */
+    for (size_t i = 0; ok && i < BATCH_ROWS; i++) {
+        blob ref = {0};
+        const blob *got = &w[i % NTHREADS].png[i];
+        if (row_png(b, own, i, &ref, &err)) {
+            snprintf(why, WHY, "row %zu alone: %.900s", i, err.msg);
+            ok = false;
+        } else if (ref.len != got->len || memcmp(ref.data, got->data, ref.len)) {
+            snprintf(why, WHY, "row %zu: the PNG drawn in a thread differs", i);
+            ok = false;
+        }
+        free(ref.data);
+    }
+    for (int i = 0; i < NTHREADS; i++)
+        for (size_t r = 0; r < BATCH_ROWS; r++)
+            free(w[i].png[r].data);
+    ug_glyph_cache_free(own);
+    ug_glyph_cache_free(shared);
+    ug_batch_free(b);
+    unlink(tmpl);
+    unlink(csv);
+    rmdir(dir);
+    return ok;
+}
+
+START_TEST(batch_rows_share_a_cache)
+{
+    in_fresh_process(batch_rows_in_threads);
+}
+END_TEST
+
 START_TEST(first_drawing_is_concurrent)
 {
     find_layouts();
@@ -375,6 +512,7 @@ int main(void)
     tcase_add_test(t, first_drawing_is_concurrent);
     tcase_add_test(t, threads_after_a_drawing);
     tcase_add_test(t, fault_counters_per_thread);
+    tcase_add_test(t, batch_rows_share_a_cache);
     /* ThreadSanitizer slows drawing five to fifteen times (from memory) */
     tcase_set_timeout(t, 600);
     suite_add_tcase(s, t);

@@ -301,6 +301,52 @@ desc() { sed -n 's/.*<desc[^>]*>\(.*\)<\/desc>.*/\1/p' "$1"; }
 # (IHDR, PNG spec §11.2.2: bytes 16..23 of the file)
 [ "$(for f in "$T"/fmt-png/*.png; do od -An -tx1 -j16 -N8 "$f"; done | sort -u | wc -l)" = 1 ] \
   || fail "the PNGs of one batch differ in size"
+# no {group} in a .pdf name: one PDF, a page per row in row order, each page
+# the size of that row's own PDF and bookmarked with the row's name (read back
+# with poppler-utils: pdfinfo(1), pdftotext(1); outline entries are /Title
+# strings, ISO 32000-1 §12.3.3)
+(cd "$T" && expect 0 "$BIN" draw tmpl.yaml --each-row rows.csv -o all.pdf)
+grep -q "drew 6 pages to all.pdf in" "$T/err" || fail "one-PDF summary: $(cat "$T/err")"
+[ "$(pdfinfo "$T/all.pdf" | awk '/^Pages:/ {print $2}')" = 6 ] \
+  || fail "one PDF: $(pdfinfo "$T/all.pdf" | grep Pages)"
+page_text() { pdftotext -f "$2" -l "$2" "$1" - 2> /dev/null | head -1; }
+[ "$(page_text "$T/all.pdf" 1)" = "Card holders in ../etc" ] \
+  && [ "$(page_text "$T/all.pdf" 4)" = "Card holders in Ünïcode" ] \
+  && [ "$(page_text "$T/all.pdf" 6)" = "Card holders in .hidden" ] \
+  || fail "one PDF: pages out of row order ($(page_text "$T/all.pdf" 1); $(page_text "$T/all.pdf" 4))"
+[ "$(pdfinfo -f 1 -l 6 "$T/all.pdf" | grep -c "size: *$(pdfinfo "$T/fmt-pdf/etc.pdf" \
+     | sed -n 's/^Page size: *//p')")" = 6 ] || fail "one PDF: a page of another size"
+[ "$(grep -a -o '/Title ([^)]*)' "$T/all.pdf" | sed -n 2p)" = "/Title (a/b)" ] \
+  || fail "one PDF: bookmarks $(grep -a -o '/Title ([^)]*)' "$T/all.pdf" | tr '\n' ' ')"
+expect 2 "$BIN" draw "$T/tmpl.yaml" --each-row "$T/rows.csv" -o "$T/all.html"
+grep -q "one PDF" "$T/err" || fail "no {group} and not a PDF: $(cat "$T/err")"
+expect 4 "$BIN" draw "$T/tmpl.yaml" --each-row "$T/rows.csv" -o "$T/no-such/all.pdf"
+# a template that never names its row is said to (the PDF's bookmarks still do)
+printf 'ward,adults,children\nOne,1,2\nTwo,3,4\n' > "$T/two.csv"
+sed 's/^title: .*/title: Card holders (demo data)/' "$T/tmpl.yaml" > "$T/unnamed.yaml"
+expect 0 "$BIN" draw "$T/unnamed.yaml" --each-row "$T/two.csv" -o "$T/unnamed.pdf"
+grep -q "unnamed.yaml:1:8: warning: .*{group}.*2 charts will not say which row" "$T/err" \
+  || fail "unnamed rows: $(cat "$T/err")"
+(cd "$T" && expect 0 "$BIN" draw tmpl.yaml --each-row two.csv -o named.pdf)
+grep -q "will not say" "$T/err" && fail "named rows warned: $(cat "$T/err")"
+# threads: the same files and the same messages, in row order, whatever
+# --jobs is; two rows whose output place is taken by a folder fail, the
+# others are drawn
+for j in 1 4; do
+  mkdir -p "$T/jobs$j/etc.png" "$T/jobs$j/lead.png"
+  (cd "$T" && "$BIN" draw tmpl.yaml --each-row rows.csv -o "jobs$j/{group}.png" --jobs $j \
+     2> "jobs$j.err"; echo $? > "jobs$j.rc")
+  sed -i "s/ in [0-9.]* s\$//; s/jobs$j/jobsN/g" "$T/jobs$j.err"
+done
+[ "$(cat "$T/jobs1.rc")" = 4 ] && [ "$(cat "$T/jobs4.rc")" = 4 ] \
+  || fail "--jobs: exit $(cat "$T/jobs1.rc") and $(cat "$T/jobs4.rc"), expected 4"
+diff -r "$T/jobs1" "$T/jobs4" > /dev/null || fail "--jobs 1 and --jobs 4 drew other files"
+cmp -s "$T/jobs1.err" "$T/jobs4.err" || fail "--jobs 1 and 4 said other things: $(diff "$T/jobs1.err" "$T/jobs4.err")"
+[ "$(grep -o 'jobsN/[a-z]*\.png' "$T/jobs4.err" | tr '\n' ' ')" = "jobsN/etc.png jobsN/lead.png " ] \
+  || fail "--jobs 4: messages not in row order: $(cat "$T/jobs4.err")"
+grep -q "drew 4 charts to jobsN/" "$T/jobs4.err" || fail "--jobs 4 summary: $(cat "$T/jobs4.err")"
+expect 2 "$BIN" draw "$T/tmpl.yaml" -o "$T/j.svg" --jobs 2
+expect 2 "$BIN" draw "$T/tmpl.yaml" --each-row "$T/rows.csv" -o "$T/j/{group}.svg" --jobs 0
 # collisions and duplicates: an error naming the row, and nothing written
 printf 'ward,adults,children\na/b,30,5\na-b,1,1\n' > "$T/clash.csv"
 (cd "$T" && expect 1 "$BIN" draw tmpl.yaml --each-row clash.csv -o 'clash/{group}.svg')

@@ -139,6 +139,22 @@ rm -rf "$work/batch-out"; mkdir -p "$work/batch-out"
 read -r s kib < <(measure "$bin" draw "$work/batch.yaml" --each-row "$work/batch.csv" -o "$work/batch-out/{group}.svg")
 echo "batch-1000,1000,$s,$kib,," >> "$csv"
 
+# The same batch to PNG in-process, a thread per core (issue #17), at 250 and
+# 1,000 rows (linear when the seconds per row stay flat), against
+# rsvg-convert run once per SVG file of that batch (the process a script
+# would start per chart). Target: at most 0.25 of rsvg-convert's time.
+for rows in 250 1000; do
+    head -n $((rows + 1)) "$work/batch.csv" > "$work/batch-$rows.csv"
+    rm -rf "$work/batch-png"; mkdir -p "$work/batch-png"
+    read -r s kib < <(measure "$bin" draw "$work/batch.yaml" --each-row "$work/batch-$rows.csv" \
+                      -o "$work/batch-png/{group}.png" --quiet)
+    echo "batch-png,$rows,$s,$kib,," >> "$csv"
+done
+rm -rf "$work/batch-rsvg"; mkdir -p "$work/batch-rsvg"
+read -r s kib < <(measure bash -c 'for f in "$1"/*.svg; do rsvg-convert -o "$2/$(basename "$f" .svg).png" "$f" || exit 1; done' \
+                  _ "$work/batch-out" "$work/batch-rsvg")
+echo "batch-png-rsvg-convert,1000,$s,$kib,," >> "$csv"
+
 # Start-up: the small pantry example, median of 21 runs.
 times=()
 for i in $(seq 1 21); do
@@ -197,6 +213,9 @@ echo "1M icons to SVG: rows $(get rows $big) s, waffle $(get waffle $big) s;" \
      "ratio to printf loop: $(awk -v a="$(get rows $big)" -v b="$(get printf-limit $big)" 'BEGIN{printf "%.2f", a/b}')"
 echo "PNG vs rsvg-convert (10,000 icons): wall $(awk -v a="$ours" -v b="$theirs" 'BEGIN{printf "%.2f", a/b}')x (medians of 7), instructions ${png_ratio_instr}x (callgrind)"
 echo "batch of 1,000 charts: $(get batch-1000 1000) s; start-up median: $median s"
+echo "batch of 1,000 charts to PNG: $(get batch-png 1000) s ($(nproc) threads), rsvg-convert per SVG $(get batch-png-rsvg-convert 1000) s:" \
+     "$(awk -v a="$(get batch-png 1000)" -v b="$(get batch-png-rsvg-convert 1000)" 'BEGIN{printf "%.2f", a/b}')x (target <= 0.25);" \
+     "per row at 250 and 1,000 rows: $(awk -v a="$(get batch-png 250)" -v b="$(get batch-png 1000)" 'BEGIN{printf "%.2f and %.2f ms", a/250*1000, b/1000*1000}')"
 echo "suppression 1,000 x 12 ($supp_cells): pattern + LP audit $supp s (median of 5);" \
      "unitgram audit end to end $(get audit-suppress-1000x12 12000) s"
 awk -F, '$1 ~ /^limit-/ {if ($3 > t) t = $3; if ($4 > m) m = $4; n++}
