@@ -176,6 +176,116 @@ START_TEST(test_shared_layout)
 }
 END_TEST
 
+static void write_text(const char *path, const char *text)
+{
+    FILE *f = fopen(path, "w");
+    ck_assert_ptr_nonnull(f);
+    ck_assert_int_ge(fputs(text, f), 0);
+    ck_assert_int_eq(fclose(f), 0);
+}
+
+/* Every byte a batch publishes for row i: its SVG and its CSV table. */
+static char *published(ug_batch *b, size_t i, size_t *len)
+{
+    ug_error err = {0};
+    ug_chart *row = NULL;
+    ug_allocation *a = NULL;
+    ug_scene *s = NULL;
+    char *svg = NULL, *table = NULL;
+    size_t svg_len = 0, table_len = 0;
+    ck_assert_msg(!ug_batch_row(b, i, &row, &err), "%s", err.msg);
+    ck_assert_msg(!ug_chart_allocate(row, &a, &err), "%s", err.msg);
+    ck_assert_msg(!ug_batch_pack(b, row, a, NULL, &s, &err), "%s", err.msg);
+    ck_assert_msg(!ug_scene_svg(s, &svg, &svg_len, &err), "%s", err.msg);
+    const ug_allocation *one[1] = {a};
+    ck_assert_msg(!ug_table_csv(one, 1, &table, &table_len, &err), "%s", err.msg);
+    char *both = malloc(svg_len + table_len);
+    ck_assert_ptr_nonnull(both);
+    memcpy(both, svg, svg_len);
+    memcpy(both + svg_len, table, table_len);
+    *len = svg_len + table_len;
+    free(svg);
+    free(table);
+    ug_scene_free(s);
+    ug_allocation_free(a);
+    ug_chart_free(row);
+    return both;
+}
+
+/* Changing a hidden count changes no published byte of any row of the
+** batch: not the shared icon value (`auto` looks at every row), not the
+** shared frame (sized for the largest row), not a neighbour's icons or the
+** complement chosen. Random batches of 6 rows, most with one count below
+** 10; each hidden count in turn is moved to another value below 10. */
+START_TEST(test_hidden_count_changes_no_byte)
+{
+    enum { ROWS = 6 };
+    char dir[] = "/tmp/ug-batch-XXXXXX", tmpl[64], csv[64];
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    snprintf(tmpl, sizeof tmpl, "%s/t.yaml", dir);
+    snprintf(csv, sizeof csv, "%s/r.csv", dir);
+    unsigned long st = (unsigned long)_i * 2654435761UL + 7;
+    char text[512];
+    snprintf(text, sizeof text,
+             "title: \"Row {group}\"\nunit-label: people\nicon-value: %s\n"
+             "arrangement: %s\nsuppress: {below: 10}\ncategories:\n"
+             "  - {id: c0, label: A}\n  - {id: c1, label: B}\n"
+             "  - {id: c2, label: C}\n  - {id: c3, label: D}\n",
+             _i % 2 ? "auto" : "5", _i % 3 ? "inline" : "split");
+    write_text(tmpl, text);
+    unsigned long v[ROWS][NCATS];
+    for (int r = 0; r < ROWS; r++) {
+        /* at most one small count a row: a row is a chart of its own, and
+        ** two small counts among four leave too few cells to hide them */
+        int small = lcg(&st) % 3 ? (int)(lcg(&st) % NCATS) : -1;
+        for (int c = 0; c < NCATS; c++)
+            v[r][c] = c == small ? 1 + lcg(&st) % 9 : 10 + lcg(&st) % 300;
+    }
+    size_t before_len[ROWS];
+    char *before[ROWS];
+    for (int pass = -1; pass < ROWS * NCATS; pass++) {
+        int r0 = pass / NCATS, c0 = pass % NCATS;
+        unsigned long keep = 0;
+        if (pass >= 0) {
+            if (v[r0][c0] >= 10)
+                continue;
+            keep = v[r0][c0];
+            v[r0][c0] = 1 + (keep + lcg(&st) % 8) % 9; /* another value below 10 */
+        }
+        FILE *f = fopen(csv, "w");
+        ck_assert_ptr_nonnull(f);
+        fprintf(f, "name,c0,c1,c2,c3\n");
+        for (int r = 0; r < ROWS; r++)
+            fprintf(f, "r%d,%lu,%lu,%lu,%lu\n", r, v[r][0], v[r][1], v[r][2], v[r][3]);
+        ck_assert_int_eq(fclose(f), 0);
+        ug_error err = {0};
+        ug_batch *b = NULL;
+        ck_assert_msg(!ug_batch_open(tmpl, csv, NULL, &b, &err), "%s", err.msg);
+        for (size_t r = 0; r < ROWS; r++) {
+            size_t len;
+            char *now = published(b, r, &len);
+            if (pass < 0) {
+                before[r] = now, before_len[r] = len;
+                continue;
+            }
+            ck_assert_msg(len == before_len[r] && !memcmp(now, before[r], len),
+                          "seed %d: row %zu's bytes change when the hidden count of "
+                          "row %d, category %d goes from %lu to %lu",
+                          _i, r, r0, c0, keep, v[r0][c0]);
+            free(now);
+        }
+        ug_batch_free(b);
+        if (pass >= 0)
+            v[r0][c0] = keep;
+    }
+    for (int r = 0; r < ROWS; r++)
+        free(before[r]);
+    unlink(tmpl);
+    unlink(csv);
+    rmdir(dir);
+}
+END_TEST
+
 /* The property can fail: two rows packed on their own (no shared frame)
 ** differ in canvas height when one row's count needs more lines. */
 START_TEST(test_unshared_rows_differ)
@@ -184,13 +294,9 @@ START_TEST(test_unshared_rows_differ)
     ck_assert_ptr_nonnull(mkdtemp(dir));
     snprintf(tmpl, sizeof tmpl, "%s/t.yaml", dir);
     snprintf(csv, sizeof csv, "%s/r.csv", dir);
-    FILE *f = fopen(tmpl, "w");
-    fprintf(f, "title: Row {group}\nicon-value: 1\ncolumns: 10\ncategories:\n"
-               "  - {id: a, label: A}\n  - {id: b, label: B}\n");
-    fclose(f);
-    f = fopen(csv, "w");
-    fprintf(f, "name,a,b\nsmall,3,4\nlarge,95,4\n");
-    fclose(f);
+    write_text(tmpl, "title: Row {group}\nicon-value: 1\ncolumns: 10\ncategories:\n"
+                     "  - {id: a, label: A}\n  - {id: b, label: B}\n");
+    write_text(csv, "name,a,b\nsmall,3,4\nlarge,95,4\n");
     ug_error err = {0};
     ug_batch *b = NULL;
     ck_assert_msg(!ug_batch_open(tmpl, csv, NULL, &b, &err), "%s", err.msg);
@@ -229,6 +335,7 @@ static Suite *batch_suite(void)
     tcase_set_timeout(t, 60);
     tcase_add_loop_test(t, test_shared_layout, 0, 60);
     tcase_add_test(t, test_unshared_rows_differ);
+    tcase_add_loop_test(t, test_hidden_count_changes_no_byte, 0, 30);
     suite_add_tcase(s, t);
     return s;
 }
