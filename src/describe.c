@@ -195,7 +195,7 @@ static void category_change_phrase(const ug_allocation *a, size_t i, ug_buf *b)
     change_note(from, to, b);
 }
 
-void pack_group_phrase(const ug_allocation *a, size_t g, ug_buf *b)
+static void group_total_phrase(const ug_allocation *a, size_t g, ug_buf *b)
 {
     line_sum s = {0};
     for (size_t gi = 0; gi < a->ngroups; gi++)
@@ -203,9 +203,19 @@ void pack_group_phrase(const ug_allocation *a, size_t g, ug_buf *b)
             for (size_t i = 0; i < a->ncats; i++)
                 add_cell(a, gi, i, &s);
     margin_phrase(a, g == SIZE_MAX ? &a->pub->grand : &a->pub->group_totals[g], &s, b);
+}
+
+static void group_change_note(const ug_allocation *a, size_t g, ug_buf *b)
+{
     size_t ref = g == SIZE_MAX ? SIZE_MAX : pack_change_ref(a, g);
     if (ref != SIZE_MAX)
         change_note(&a->pub->group_totals[ref], &a->pub->group_totals[g], b);
+}
+
+void pack_group_phrase(const ug_allocation *a, size_t g, ug_buf *b)
+{
+    group_total_phrase(a, g, b);
+    group_change_note(a, g, b);
 }
 
 void pack_category_phrase(const ug_allocation *a, size_t i, ug_buf *b)
@@ -333,8 +343,11 @@ static void group_sentence(const ug_chart *c, const ug_allocation *a, size_t g,
                            ug_buf *b)
 {
     ug_buf_printf(b, " %s, ", c->groups.items[g].text);
-    pack_group_phrase(a, g, b);
-    ug_buf_puts(b, " in all: ");
+    /* "1,057 households in all (+34, +3 %):", the change after "in all" */
+    group_total_phrase(a, g, b);
+    ug_buf_puts(b, " in all");
+    group_change_note(a, g, b);
+    ug_buf_puts(b, ": ");
     for (size_t i = 0; i < c->ncats; i++)
         cell_phrase(c, a, g, i, " ", b), ug_buf_puts(b, i + 1 < c->ncats ? ", " : ".");
 }

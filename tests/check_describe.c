@@ -94,7 +94,7 @@ START_TEST(test_change_between_periods)
     ug_chart *c = fx_chart(UG_FORM_ROWS, "Pantry visits", groups, 2, cats, 2);
     c->change = UG_CHANGE_PREVIOUS;
     char *d = describe(c);
-    ck_assert_msg(strstr(d, "Q3 2026, 606 households (+44, +8 %) in all"), "%s", d);
+    ck_assert_msg(strstr(d, "Q3 2026, 606 households in all (+44, +8 %):"), "%s", d);
     ck_assert_msg(strstr(d, "From Q2 2026 to Q3 2026: Adults 412 \u2192 446 households "
                             "(+34, +8 %); Children 150 \u2192 160 households (+10, +7 %)."),
                   "%s", d);
