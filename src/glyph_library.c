@@ -18,8 +18,50 @@
 
 typedef struct {
     char *name, *dir, *keywords; /* keywords joined with ", " */
+    char *description;           /* the accessible name; NULL if the index gives none */
+    int subject;                 /* index into glyph_subjects, -1 if none */
     double weight;               /* the index's stated inked area, -1 if none */
 } entry;
+
+/* The subject sets in display order. A glyph whose index entry names no
+** subject (a user's own folder) is listed after them, under "Other". */
+static const struct {
+    const char *id, *title;
+} subjects[] = {
+    {"people", "People"},
+    {"health-care", "Health and care"},
+    {"housing", "Housing and homelessness"},
+    {"food", "Food"},
+    {"education", "Education"},
+    {"work-money", "Work and money"},
+    {"transport", "Transport"},
+    {"environment-energy", "Environment and energy"},
+    {"community", "Community services"},
+    {"communication", "Communication and digital access"},
+    {"safety-justice", "Safety and justice"},
+};
+#define NSUBJECTS (sizeof subjects / sizeof subjects[0])
+
+/* Long enough for "A hospital bed with a raised head end" and its kind, short
+** enough to read aloud as a screen reader's name for one icon. */
+#define DESCRIPTION_MAX 80
+
+size_t ug_glyph_subject_count(void) { return NSUBJECTS; }
+
+const char *ug_glyph_subject_id(size_t i) { return i < NSUBJECTS ? subjects[i].id : NULL; }
+
+const char *ug_glyph_subject_title(size_t i)
+{
+    return i < NSUBJECTS ? subjects[i].title : NULL;
+}
+
+static int subject_index(const char *id)
+{
+    for (size_t i = 0; i < NSUBJECTS; i++)
+        if (strcmp(subjects[i].id, id) == 0)
+            return (int)i;
+    return -1;
+}
 
 struct ug_glyph_library {
     entry *e;
@@ -36,6 +78,7 @@ void ug_glyph_library_free(ug_glyph_library *lib)
         ug_free(lib->e[i].name);
         ug_free(lib->e[i].dir);
         ug_free(lib->e[i].keywords);
+        ug_free(lib->e[i].description);
     }
     for (size_t i = 0; i < lib->nextra; i++)
         ug_free(lib->extra[i]);
@@ -59,7 +102,7 @@ static bool add_entry(ug_glyph_library *lib, const char *name, size_t len, const
         return false;
     lib->e = grown;
     entry *e = &lib->e[lib->n];
-    *e = (entry){ug_strndup(name, len), ug_strdup(dir), ug_strdup(""), -1};
+    *e = (entry){ug_strndup(name, len), ug_strdup(dir), ug_strdup(""), NULL, -1, -1};
     if (e->name && e->dir && e->keywords) {
         lib->n++;
         return true;
@@ -128,6 +171,68 @@ static char *join_keywords(const layout_node *kw)
     return out;
 }
 
+static ug_mark mark_of(const layout_node *key_value, ug_mark fallback)
+{
+    return key_value ? key_value->mark : fallback;
+}
+
+/* A description is read aloud as the icon's name, so it is one short line. */
+static ug_status index_description(entry *e, const layout_node *item, ug_error *err)
+{
+    const layout_node *v = get_key(item, "description");
+    const char *d = scalar(v);
+    if (!v)
+        return ug_fail(err, UG_ESCHEMA, item->mark,
+                       "glyph '%s' has a subject but no 'description'", e->name);
+    if (!d || !*d)
+        return ug_fail(err, UG_ESCHEMA, v->mark, "'description' of '%s' must be text", e->name);
+    size_t n = strlen(d);
+    if (n > DESCRIPTION_MAX)
+        return ug_fail(err, UG_ESCHEMA, v->mark,
+                       "'description' of '%s' is %zu bytes long (at most %d)", e->name, n,
+                       DESCRIPTION_MAX);
+    for (const unsigned char *c = (const unsigned char *)d; *c; c++)
+        if (*c < 0x20 || *c == 0x7f)
+            return ug_fail(err, UG_ESCHEMA, v->mark,
+                           "'description' of '%s' must be one line of text", e->name);
+    ug_free(e->description);
+    if (!(e->description = ug_strdup(d)))
+        return ug_fail(err, UG_ENOMEM, v->mark, "out of memory");
+    return UG_OK;
+}
+
+static ug_status unknown_subject(const layout_node *v, const char *id, ug_error *err)
+{
+    ug_buf b;
+    ug_buf_init(&b);
+    for (size_t i = 0; i < NSUBJECTS; i++)
+        ug_buf_printf(&b, "%s%s", i ? ", " : "", subjects[i].id);
+    ug_status st = ug_fail(err, UG_ESCHEMA, v->mark, "unknown subject '%s' (one of: %s)",
+                           id, b.failed ? "" : b.data);
+    ug_buf_free(&b);
+    return st;
+}
+
+/* Subject and description come together: a glyph in a subject set is one
+** the library lists for readers, so it must say what it shows. */
+static ug_status index_subject(entry *e, const layout_node *item, ug_error *err)
+{
+    const layout_node *v = get_key(item, "subject");
+    e->subject = -1;
+    if (!v) {
+        if (get_key(item, "description"))
+            return index_description(e, item, err);
+        return UG_OK;
+    }
+    const char *id = scalar(v);
+    if (!id)
+        return ug_fail(err, UG_ESCHEMA, mark_of(v, item->mark),
+                       "'subject' of '%s' must be one word", e->name);
+    if ((e->subject = subject_index(id)) < 0)
+        return unknown_subject(v, id, err);
+    return index_description(e, item, err);
+}
+
 static ug_status index_item(ug_glyph_library *lib, const char *dir,
                             const layout_node *item, ug_error *err)
 {
@@ -145,6 +250,9 @@ static ug_status index_item(ug_glyph_library *lib, const char *dir,
         return ug_fail(err, UG_ENOMEM, m, "out of memory");
     ug_free(e->keywords);
     e->keywords = kw;
+    ug_status st = index_subject(e, item, err);
+    if (st)
+        return st;
     const char *w = scalar(get_key(item, "weight"));
     e->weight = -1;
     if (!w)
@@ -286,6 +394,16 @@ const char *ug_glyph_library_keywords(const ug_glyph_library *lib, size_t i)
 const char *ug_glyph_library_folder(const ug_glyph_library *lib, size_t i)
 {
     return i < lib->n ? lib->e[i].dir : NULL;
+}
+
+const char *ug_glyph_library_description(const ug_glyph_library *lib, size_t i)
+{
+    return i < lib->n ? lib->e[i].description : NULL;
+}
+
+const char *ug_glyph_library_subject(const ug_glyph_library *lib, size_t i)
+{
+    return i < lib->n && lib->e[i].subject >= 0 ? subjects[lib->e[i].subject].id : NULL;
 }
 
 double glyph_library_weight(const ug_glyph_library *lib, size_t i)
