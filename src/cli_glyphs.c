@@ -37,7 +37,8 @@ static void help(FILE *to)
             "options:\n"
             "  --glyph-dir DIR       also look for NAME.svg in DIR (after the library,\n"
             "                        the installed glyphs and UNITGRAM_GLYPH_PATH)\n"
-            "  --subject ID          list one subject set (people, health-care, ...)\n"
+            "  --subject ID          list (or, with --sheet, draw) one subject set:\n"
+            "                        people, health-care, ..., other\n"
             "  --search WORD         list the glyphs whose name, keywords, description\n"
             "                        or subject contain WORD (any case); given several\n"
             "                        times, a glyph must match every word\n"
@@ -177,12 +178,12 @@ static int list(const ug_glyph_library *lib, options *o)
     return EXIT_OK;
 }
 
-static int sheet(const ug_glyph_library *lib, const char *path)
+static int sheet(const ug_glyph_library *lib, const char *path, const char *subject)
 {
     ug_error err = {0};
     char *svg = NULL;
     size_t len = 0;
-    if (ug_glyph_library_sheet_svg(lib, &svg, &len, &err)) {
+    if (ug_glyph_library_subject_sheet_svg(lib, subject, &svg, &len, &err)) {
         cli_report_error(&err);
         return cli_exit_for(&err);
     }
@@ -238,7 +239,7 @@ int cli_glyphs(int argc, char **argv)
         cli_report_error(&err);
         return cli_exit_for(&err);
     }
-    rc = o.sheet ? sheet(lib, o.sheet) : list(lib, &o);
+    rc = o.sheet ? sheet(lib, o.sheet, o.subject) : list(lib, &o);
     ug_glyph_library_free(lib);
     return rc;
 }
