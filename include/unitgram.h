@@ -323,9 +323,26 @@ UG_API size_t ug_glyph_library_count(const ug_glyph_library *lib);
 UG_API const char *ug_glyph_library_name(const ug_glyph_library *lib, size_t i);
 UG_API const char *ug_glyph_library_keywords(const ug_glyph_library *lib, size_t i);
 UG_API const char *ug_glyph_library_folder(const ug_glyph_library *lib, size_t i);
-/* A labelled contact sheet (SVG) of every glyph; *out is malloc'd. */
+/* The index's one-line description (the glyph's accessible name) and subject
+** identifier; NULL when the index gives none or i is out of range. */
+UG_API const char *ug_glyph_library_description(const ug_glyph_library *lib, size_t i);
+UG_API const char *ug_glyph_library_subject(const ug_glyph_library *lib, size_t i);
+/* The subject sets in display order: identifier ("health-care") and title
+** ("Health and care"); NULL when i is out of range. */
+UG_API size_t ug_glyph_subject_count(void);
+UG_API const char *ug_glyph_subject_id(size_t i);
+UG_API const char *ug_glyph_subject_title(size_t i);
+/* The built-in shapes (square, circle, ...) a chart can name as glyphs. */
+UG_API size_t ug_glyph_primitive_count(void);
+UG_API const char *ug_glyph_primitive_name(size_t i);
+/* A labelled contact sheet (SVG) of every glyph, a heading per subject set
+** in display order ("Other" last for glyphs without one); *out is malloc'd. */
 UG_API ug_status ug_glyph_library_sheet_svg(const ug_glyph_library *lib, char **out,
                                             size_t *len, ug_error *err);
+/* The same for one set (a subject id, or "other"); UG_ESCHEMA if unknown. */
+UG_API ug_status ug_glyph_library_subject_sheet_svg(const ug_glyph_library *lib,
+                                                    const char *subject, char **out,
+                                                    size_t *len, ug_error *err);
 /* Load one glyph reference as a layout in base_dir would (a library name, a
 ** primitive or a path). *warnings (malloc'd, "" if none) gets one line per
 ** thing sanitizing removed; *ink the covered fraction of the unit box. */

@@ -3,6 +3,7 @@
 ** a glyph file of one's own. A thin layer over ug_glyph_library_* and
 ** ug_glyph_check.
 */
+#include <ctype.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -15,22 +16,32 @@ typedef struct {
     const char *dirs[MAX_DIRS];
     size_t ndirs;
     const char *sheet;
+    const char *search[MAX_DIRS];
+    size_t nsearch;
+    const char *subject;
     const char *check[MAX_DIRS];
     size_t ncheck;
+    int printed_heading; /* a blank line goes between headings, not before the first */
 } options;
 
 static void help(FILE *to)
 {
     fprintf(to,
-            "usage: unitgram glyphs [--glyph-dir DIR]... [--sheet FILE]\n"
+            "usage: unitgram glyphs [--glyph-dir DIR]... [--subject ID] [--search WORD]...\n"
+            "       unitgram glyphs [--glyph-dir DIR]... [--sheet FILE]\n"
             "       unitgram glyphs [--glyph-dir DIR]... --check GLYPH...\n"
             "\n"
-            "List the glyph library: each glyph's name and keywords (a chart names\n"
-            "a glyph with `glyph: NAME`).\n"
+            "List the glyph library by subject: each glyph's name and keywords (a\n"
+            "chart names a glyph with `glyph: NAME`), the built-in shapes last.\n"
             "\n"
             "options:\n"
             "  --glyph-dir DIR       also look for NAME.svg in DIR (after the library,\n"
             "                        the installed glyphs and UNITGRAM_GLYPH_PATH)\n"
+            "  --subject ID          list (or, with --sheet, draw) one subject set:\n"
+            "                        people, health-care, ..., other\n"
+            "  --search WORD         list the glyphs whose name, keywords, description\n"
+            "                        or subject contain WORD (any case); given several\n"
+            "                        times, a glyph must match every word\n"
             "  --sheet FILE          write a contact sheet: every glyph with its name\n"
             "                        (.svg, .png or .pdf, by the extension)\n"
             "  --check GLYPH         load a glyph as a layout in the current folder\n"
@@ -49,12 +60,17 @@ static int parse(int argc, char **argv, options *o)
             help(stdout);
             return -1;
         } else if (!next && (!strcmp(a, "--glyph-dir") || !strcmp(a, "--sheet") ||
-                             !strcmp(a, "--check"))) {
+                             !strcmp(a, "--check") || !strcmp(a, "--search") ||
+                             !strcmp(a, "--subject"))) {
             return cli_usage("glyphs", "%s needs a value", a);
         } else if (!strcmp(a, "--glyph-dir") && o->ndirs < MAX_DIRS) {
             o->dirs[o->ndirs++] = argv[++i];
         } else if (!strcmp(a, "--sheet")) {
             o->sheet = argv[++i];
+        } else if (!strcmp(a, "--search") && o->nsearch < MAX_DIRS) {
+            o->search[o->nsearch++] = argv[++i];
+        } else if (!strcmp(a, "--subject")) {
+            o->subject = argv[++i];
         } else if (!strcmp(a, "--check") && o->ncheck < MAX_DIRS) {
             o->check[o->ncheck++] = argv[++i];
         } else {
@@ -64,23 +80,110 @@ static int parse(int argc, char **argv, options *o)
     return EXIT_OK;
 }
 
-static int list(const ug_glyph_library *lib)
+/* Case-insensitive substring test; glyph text is ASCII or UTF-8, and only
+** ASCII letters fold, so a search never depends on the locale. */
+static bool contains(const char *hay, const char *needle)
 {
+    if (!hay)
+        return false;
+    size_t n = strlen(needle);
+    for (; *hay; hay++) {
+        size_t k = 0;
+        while (k < n && hay[k] &&
+               tolower((unsigned char)hay[k]) == tolower((unsigned char)needle[k]))
+            k++;
+        if (k == n)
+            return true;
+    }
+    return n == 0;
+}
+
+static bool matches(const options *o, const char *name, const char *kw, const char *desc,
+                    const char *subject)
+{
+    for (size_t w = 0; w < o->nsearch; w++)
+        if (!contains(name, o->search[w]) && !contains(kw, o->search[w]) &&
+            !contains(desc, o->search[w]) && !contains(subject, o->search[w]))
+            return false;
+    return true;
+}
+
+static bool same_subject(const char *a, const char *b)
+{
+    return a && b ? strcmp(a, b) == 0 : a == b;
+}
+
+/* One set: a heading (when anything in it matches), then name and keywords. */
+static size_t list_set(const ug_glyph_library *lib, options *o, const char *id,
+                       const char *title)
+{
+    size_t shown = 0;
     for (size_t i = 0; i < ug_glyph_library_count(lib); i++) {
+        const char *subj = ug_glyph_library_subject(lib, i);
         const char *kw = ug_glyph_library_keywords(lib, i);
-        printf("%-16s ", ug_glyph_library_name(lib, i));
+        const char *name = ug_glyph_library_name(lib, i);
+        if (!same_subject(subj, id) ||
+            !matches(o, name, kw, ug_glyph_library_description(lib, i), subj))
+            continue;
+        if (!shown++)
+            printf("%s%s\n", o->printed_heading++ ? "\n" : "", title);
+        printf("  %-16s ", name);
         cli_put_visible(kw, stdout);
         putchar('\n');
+    }
+    return shown;
+}
+
+static size_t list_shapes(options *o)
+{
+    size_t shown = 0;
+    for (size_t i = 0; i < ug_glyph_primitive_count(); i++) {
+        const char *name = ug_glyph_primitive_name(i);
+        if (!matches(o, name, "shape, built-in", NULL, "shapes"))
+            continue;
+        if (!shown++)
+            printf("%sShapes\n", o->printed_heading++ ? "\n" : "");
+        printf("  %-16s built-in\n", name);
+    }
+    return shown;
+}
+
+static bool wanted(const options *o, const char *id)
+{
+    return !o->subject || (id && strcmp(o->subject, id) == 0);
+}
+
+static int list(const ug_glyph_library *lib, options *o)
+{
+    size_t shown = 0, n = ug_glyph_subject_count();
+    bool known = !o->subject || !strcmp(o->subject, "shapes") || !strcmp(o->subject, "other");
+    for (size_t s = 0; s < n; s++)
+        known = known || wanted(o, ug_glyph_subject_id(s));
+    if (!known)
+        return cli_usage("glyphs", "unknown subject '%s' (see `unitgram glyphs`)", o->subject);
+    for (size_t s = 0; s < n; s++)
+        if (wanted(o, ug_glyph_subject_id(s)))
+            shown += list_set(lib, o, ug_glyph_subject_id(s), ug_glyph_subject_title(s));
+    if (wanted(o, "other"))
+        shown += list_set(lib, o, NULL, "Other");
+    if (wanted(o, "shapes"))
+        shown += list_shapes(o);
+    if (!shown && o->nsearch) {
+        fprintf(stderr, "unitgram glyphs: no glyph matches");
+        for (size_t w = 0; w < o->nsearch; w++)
+            fprintf(stderr, " '%s'", o->search[w]);
+        fprintf(stderr, "\n");
+        return EXIT_INPUT;
     }
     return EXIT_OK;
 }
 
-static int sheet(const ug_glyph_library *lib, const char *path)
+static int sheet(const ug_glyph_library *lib, const char *path, const char *subject)
 {
     ug_error err = {0};
     char *svg = NULL;
     size_t len = 0;
-    if (ug_glyph_library_sheet_svg(lib, &svg, &len, &err)) {
+    if (ug_glyph_library_subject_sheet_svg(lib, subject, &svg, &len, &err)) {
         cli_report_error(&err);
         return cli_exit_for(&err);
     }
@@ -136,7 +239,7 @@ int cli_glyphs(int argc, char **argv)
         cli_report_error(&err);
         return cli_exit_for(&err);
     }
-    rc = o.sheet ? sheet(lib, o.sheet) : list(lib);
+    rc = o.sheet ? sheet(lib, o.sheet, o.subject) : list(lib, &o);
     ug_glyph_library_free(lib);
     return rc;
 }

@@ -49,6 +49,12 @@ static const char *const primitives[][2] = {
     {"circle", "<circle cx=\"50\" cy=\"50\" r=\"50\"/>"},
 };
 
+#define NPRIMITIVES (sizeof primitives / sizeof primitives[0])
+
+size_t ug_glyph_primitive_count(void) { return NPRIMITIVES; }
+
+const char *ug_glyph_primitive_name(size_t i) { return i < NPRIMITIVES ? primitives[i][0] : NULL; }
+
 static const char *const kept_elements[] = {
     "g", "path", "circle", "ellipse", "rect", "polyline", "polygon"};
 

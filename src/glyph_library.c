@@ -18,8 +18,50 @@
 
 typedef struct {
     char *name, *dir, *keywords; /* keywords joined with ", " */
+    char *description;           /* the accessible name; NULL if the index gives none */
+    int subject;                 /* index into glyph_subjects, -1 if none */
     double weight;               /* the index's stated inked area, -1 if none */
 } entry;
+
+/* The subject sets in display order. A glyph whose index entry names no
+** subject (a user's own folder) is listed after them, under "Other". */
+static const struct {
+    const char *id, *title;
+} subjects[] = {
+    {"people", "People"},
+    {"health-care", "Health and care"},
+    {"housing", "Housing and homelessness"},
+    {"food", "Food"},
+    {"education", "Education"},
+    {"work-money", "Work and money"},
+    {"transport", "Transport"},
+    {"environment-energy", "Environment and energy"},
+    {"community", "Community services"},
+    {"communication", "Communication and digital access"},
+    {"safety-justice", "Safety and justice"},
+};
+#define NSUBJECTS (sizeof subjects / sizeof subjects[0])
+
+/* Long enough for "A hospital bed with a raised head end" and its kind, short
+** enough to read aloud as a screen reader's name for one icon. */
+#define DESCRIPTION_MAX 80
+
+size_t ug_glyph_subject_count(void) { return NSUBJECTS; }
+
+const char *ug_glyph_subject_id(size_t i) { return i < NSUBJECTS ? subjects[i].id : NULL; }
+
+const char *ug_glyph_subject_title(size_t i)
+{
+    return i < NSUBJECTS ? subjects[i].title : NULL;
+}
+
+static int subject_index(const char *id)
+{
+    for (size_t i = 0; i < NSUBJECTS; i++)
+        if (strcmp(subjects[i].id, id) == 0)
+            return (int)i;
+    return -1;
+}
 
 struct ug_glyph_library {
     entry *e;
@@ -36,6 +78,7 @@ void ug_glyph_library_free(ug_glyph_library *lib)
         ug_free(lib->e[i].name);
         ug_free(lib->e[i].dir);
         ug_free(lib->e[i].keywords);
+        ug_free(lib->e[i].description);
     }
     for (size_t i = 0; i < lib->nextra; i++)
         ug_free(lib->extra[i]);
@@ -59,7 +102,7 @@ static bool add_entry(ug_glyph_library *lib, const char *name, size_t len, const
         return false;
     lib->e = grown;
     entry *e = &lib->e[lib->n];
-    *e = (entry){ug_strndup(name, len), ug_strdup(dir), ug_strdup(""), -1};
+    *e = (entry){ug_strndup(name, len), ug_strdup(dir), ug_strdup(""), NULL, -1, -1};
     if (e->name && e->dir && e->keywords) {
         lib->n++;
         return true;
@@ -128,6 +171,68 @@ static char *join_keywords(const layout_node *kw)
     return out;
 }
 
+static ug_mark mark_of(const layout_node *key_value, ug_mark fallback)
+{
+    return key_value ? key_value->mark : fallback;
+}
+
+/* A description is read aloud as the icon's name, so it is one short line. */
+static ug_status index_description(entry *e, const layout_node *item, ug_error *err)
+{
+    const layout_node *v = get_key(item, "description");
+    const char *d = scalar(v);
+    if (!v)
+        return ug_fail(err, UG_ESCHEMA, item->mark,
+                       "glyph '%s' has a subject but no 'description'", e->name);
+    if (!d || !*d)
+        return ug_fail(err, UG_ESCHEMA, v->mark, "'description' of '%s' must be text", e->name);
+    size_t n = strlen(d);
+    if (n > DESCRIPTION_MAX)
+        return ug_fail(err, UG_ESCHEMA, v->mark,
+                       "'description' of '%s' is %zu bytes long (at most %d)", e->name, n,
+                       DESCRIPTION_MAX);
+    for (const unsigned char *c = (const unsigned char *)d; *c; c++)
+        if (*c < 0x20 || *c == 0x7f)
+            return ug_fail(err, UG_ESCHEMA, v->mark,
+                           "'description' of '%s' must be one line of text", e->name);
+    ug_free(e->description);
+    if (!(e->description = ug_strdup(d)))
+        return ug_fail(err, UG_ENOMEM, v->mark, "out of memory");
+    return UG_OK;
+}
+
+static ug_status unknown_subject(const layout_node *v, const char *id, ug_error *err)
+{
+    ug_buf b;
+    ug_buf_init(&b);
+    for (size_t i = 0; i < NSUBJECTS; i++)
+        ug_buf_printf(&b, "%s%s", i ? ", " : "", subjects[i].id);
+    ug_status st = ug_fail(err, UG_ESCHEMA, v->mark, "unknown subject '%s' (one of: %s)",
+                           id, b.failed ? "" : b.data);
+    ug_buf_free(&b);
+    return st;
+}
+
+/* Subject and description come together: a glyph in a subject set is one
+** the library lists for readers, so it must say what it shows. */
+static ug_status index_subject(entry *e, const layout_node *item, ug_error *err)
+{
+    const layout_node *v = get_key(item, "subject");
+    e->subject = -1;
+    if (!v) {
+        if (get_key(item, "description"))
+            return index_description(e, item, err);
+        return UG_OK;
+    }
+    const char *id = scalar(v);
+    if (!id)
+        return ug_fail(err, UG_ESCHEMA, mark_of(v, item->mark),
+                       "'subject' of '%s' must be one word", e->name);
+    if ((e->subject = subject_index(id)) < 0)
+        return unknown_subject(v, id, err);
+    return index_description(e, item, err);
+}
+
 static ug_status index_item(ug_glyph_library *lib, const char *dir,
                             const layout_node *item, ug_error *err)
 {
@@ -145,6 +250,9 @@ static ug_status index_item(ug_glyph_library *lib, const char *dir,
         return ug_fail(err, UG_ENOMEM, m, "out of memory");
     ug_free(e->keywords);
     e->keywords = kw;
+    ug_status st = index_subject(e, item, err);
+    if (st)
+        return st;
     const char *w = scalar(get_key(item, "weight"));
     e->weight = -1;
     if (!w)
@@ -288,6 +396,16 @@ const char *ug_glyph_library_folder(const ug_glyph_library *lib, size_t i)
     return i < lib->n ? lib->e[i].dir : NULL;
 }
 
+const char *ug_glyph_library_description(const ug_glyph_library *lib, size_t i)
+{
+    return i < lib->n ? lib->e[i].description : NULL;
+}
+
+const char *ug_glyph_library_subject(const ug_glyph_library *lib, size_t i)
+{
+    return i < lib->n && lib->e[i].subject >= 0 ? subjects[lib->e[i].subject].id : NULL;
+}
+
 double glyph_library_weight(const ug_glyph_library *lib, size_t i)
 {
     return i < lib->n ? lib->e[i].weight : -1;
@@ -302,10 +420,48 @@ double glyph_library_weight(const ug_glyph_library *lib, size_t i)
 #define SHEET_PAD 16
 #define SHEET_TOP 56
 
-static void sheet_cell(ug_buf *b, size_t i, const char *name)
+#define SHEET_HEADING 40
+
+static const char *entry_subject(const entry *e)
+{
+    return e->subject >= 0 ? subjects[e->subject].id : NULL;
+}
+
+static bool in_group(const entry *e, const char *id)
+{
+    const char *s = entry_subject(e);
+    return s && id ? strcmp(s, id) == 0 : s == id;
+}
+
+/* The groups drawn, in display order: every set (or only the one asked for),
+** then "Other" for glyphs whose index names no subject. */
+typedef struct {
+    const char *id, *title;
+} group;
+
+static size_t sheet_groups(const char *only, group *g)
+{
+    size_t n = 0;
+    for (size_t i = 0; i < NSUBJECTS; i++)
+        if (!only || strcmp(only, subjects[i].id) == 0)
+            g[n++] = (group){subjects[i].id, subjects[i].title};
+    if (!only || strcmp(only, "other") == 0)
+        g[n++] = (group){NULL, "Other"};
+    return n;
+}
+
+static size_t group_size(const ug_glyph_library *lib, const char *id)
+{
+    size_t k = 0;
+    for (size_t i = 0; i < lib->n; i++)
+        k += in_group(&lib->e[i], id);
+    return k;
+}
+
+static void sheet_cell(ug_buf *b, size_t i, int top, const char *name)
 {
     int x = SHEET_PAD + (int)(i % SHEET_COLUMNS) * SHEET_CELL_W;
-    int y = SHEET_TOP + (int)(i / SHEET_COLUMNS) * SHEET_CELL_H;
+    int y = top + (int)(i / SHEET_COLUMNS) * SHEET_CELL_H;
     int gx = x + (SHEET_CELL_W - SHEET_GLYPH) / 2;
     ug_buf_printf(b, "<rect x=\"%d\" y=\"%d\" width=\"%d\" height=\"%d\" fill=\"none\" "
                      "stroke=\"#d0d0d0\"/>\n", gx, y, SHEET_GLYPH, SHEET_GLYPH);
@@ -315,11 +471,35 @@ static void sheet_cell(ug_buf *b, size_t i, const char *name)
                   y + SHEET_GLYPH + 22, name);
 }
 
-static void sheet_head(ug_buf *b, size_t n)
+/* One group: its title as a heading, then its cells; returns the next top. */
+static int sheet_group(ug_buf *b, const ug_glyph_library *lib, const group *g, int top)
 {
-    size_t rows = (n + SHEET_COLUMNS - 1) / SHEET_COLUMNS;
+    size_t k = group_size(lib, g->id);
+    if (!k)
+        return top;
+    ug_buf_printf(b, "<text x=\"%d\" y=\"%d\" text-anchor=\"start\" font-size=\"17\" "
+                     "font-weight=\"bold\">%s</text>\n", SHEET_PAD, top + 26, g->title);
+    top += SHEET_HEADING;
+    for (size_t i = 0, j = 0; i < lib->n; i++)
+        if (in_group(&lib->e[i], g->id))
+            sheet_cell(b, j++, top, lib->e[i].name);
+    return top + (int)((k + SHEET_COLUMNS - 1) / SHEET_COLUMNS) * SHEET_CELL_H;
+}
+
+static int sheet_height(const ug_glyph_library *lib, const group *g, size_t ng)
+{
+    int h = SHEET_TOP;
+    for (size_t i = 0; i < ng; i++) {
+        size_t k = group_size(lib, g[i].id);
+        if (k)
+            h += SHEET_HEADING + (int)((k + SHEET_COLUMNS - 1) / SHEET_COLUMNS) * SHEET_CELL_H;
+    }
+    return h + SHEET_PAD;
+}
+
+static void sheet_head(ug_buf *b, size_t n, int h)
+{
     int w = 2 * SHEET_PAD + SHEET_COLUMNS * SHEET_CELL_W;
-    int h = SHEET_TOP + (int)rows * SHEET_CELL_H + SHEET_PAD;
     ug_buf_printf(b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
                      "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"%d\" height=\"%d\" "
                      "viewBox=\"0 0 %d %d\" role=\"img\" aria-labelledby=\"sheet-title\">\n"
@@ -331,35 +511,58 @@ static void sheet_head(ug_buf *b, size_t n)
                      "frame = the 0 0 100 100 unit box)</text>\n", SHEET_PAD, n);
 }
 
-/* Names are library names ([a-z0-9-]), so they are safe as ids and as text. */
-ug_status ug_glyph_library_sheet_svg(const ug_glyph_library *lib, char **out,
-                                     size_t *len, ug_error *err)
+static ug_status sheet_defs(ug_buf *b, const ug_glyph_library *lib, const group *g,
+                            size_t ng, ug_error *err)
+{
+    glyph_search s = {(const char *const *)lib->extra, lib->nextra, NULL};
+    ug_status st = UG_OK;
+    for (size_t k = 0; k < ng; k++)
+        for (size_t i = 0; !st && i < lib->n; i++) {
+            if (!in_group(&lib->e[i], g[k].id))
+                continue;
+            ug_glyph *gl = NULL;
+            st = glyph_load(lib->e[i].name, &s, ug_mark_file(NULL), &gl, err);
+            if (!st)
+                ug_buf_printf(b, "<symbol id=\"glyph-%s\" viewBox=\"0 0 100 100\">%s</symbol>\n",
+                              gl->name, gl->body);
+            glyph_free(gl);
+        }
+    return st;
+}
+
+/* Names are library names ([a-z0-9-]) and titles come from the table above,
+** so both are safe as ids and as text. */
+ug_status ug_glyph_library_subject_sheet_svg(const ug_glyph_library *lib, const char *subject,
+                                             char **out, size_t *len, ug_error *err)
 {
     ug_error_clear(err);
     *out = NULL;
-    glyph_search s = {(const char *const *)lib->extra, lib->nextra, NULL};
+    group g[NSUBJECTS + 1];
+    size_t ng = sheet_groups(subject, g), n = 0;
+    if (!ng)
+        return ug_fail(err, UG_ESCHEMA, ug_mark_file(NULL), "unknown subject '%s'", subject);
+    for (size_t k = 0; k < ng; k++)
+        n += group_size(lib, g[k].id);
     ug_buf b;
     ug_buf_init(&b);
-    sheet_head(&b, lib->n);
+    sheet_head(&b, n, sheet_height(lib, g, ng));
     ug_buf_puts(&b, "<defs>\n");
-    ug_status st = UG_OK;
-    for (size_t i = 0; !st && i < lib->n; i++) {
-        ug_glyph *g = NULL;
-        st = glyph_load(lib->e[i].name, &s, ug_mark_file(NULL), &g, err);
-        if (!st)
-            ug_buf_printf(&b, "<symbol id=\"glyph-%s\" viewBox=\"0 0 100 100\">%s</symbol>\n",
-                          g->name, g->body);
-        glyph_free(g);
-    }
+    ug_status st = sheet_defs(&b, lib, g, ng, err);
     ug_buf_puts(&b, "</defs>\n<g fill=\"#222222\" font-family=\"DejaVu Sans, sans-serif\" "
                     "font-size=\"13\" text-anchor=\"middle\">\n");
-    for (size_t i = 0; i < lib->n; i++)
-        sheet_cell(&b, i, lib->e[i].name);
+    for (size_t k = 0, top = SHEET_TOP; k < ng; k++)
+        top = (size_t)sheet_group(&b, lib, &g[k], (int)top);
     ug_buf_puts(&b, "</g>\n</svg>\n");
     if (!st)
         st = ug_buf_take(&b, out, len, err);
     ug_buf_free(&b);
     return st;
+}
+
+ug_status ug_glyph_library_sheet_svg(const ug_glyph_library *lib, char **out, size_t *len,
+                                     ug_error *err)
+{
+    return ug_glyph_library_subject_sheet_svg(lib, NULL, out, len, err);
 }
 
 /* ---- one glyph, as a layout would load it ------------------------------------ */

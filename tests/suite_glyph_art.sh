@@ -13,6 +13,11 @@
 # For the index:
 #   - one entry per svg and vice versa, sorted by name, licence line present,
 #     weight equal to the measured fraction (2 decimals, +-0.01 tolerance)
+#   - a subject (one of the sets src/glyph_library.c reads) and a one-line
+#     description of at most 80 bytes without a trailing full stop
+#   - each subject set's inked fractions lie within the band, and its spread
+#     (largest minus smallest) is printed and must not exceed the band's width
+# At chart size: tests/glyph_small.py (legible and distinct at 10 px).
 #
 # Usage: tests/suite_glyph_art.sh   (UG_GLYPH_ART_DIR overrides <repo>/glyphs)
 # Prints a table "name fraction status" and exits non-zero on any failure.
@@ -72,6 +77,11 @@ ALLOWED_EL = {'svg', 'path', 'circle', 'ellipse', 'rect', 'polygon', 'g'}
 ALLOWED_FILL_ATTR = {'fill-rule', 'clip-rule'}
 NUM = re.compile(r'[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?')
 LICENCE = 'unitgram project (original work)'
+# The sets unitgram reads; a copy, so a subject the C table lacks fails here
+# and in the reader alike.
+SUBJECTS = ['people', 'health-care', 'housing', 'food', 'education', 'work-money',
+            'transport', 'environment-energy', 'community', 'communication',
+            'safety-justice']
 
 # The PNG reader is tests/colour_areas.py's (standard library only).
 sys.path.insert(0, os.environ['UG_TESTS_DIR'])
@@ -209,12 +219,27 @@ else:
         kw = e.get('keywords', '')
         if not re.match(r'^\[[^\[\]]+\]$', kw):
             probs.append('index: %s keywords must be a non-empty [list]' % n)
+        if e.get('subject') not in SUBJECTS:
+            probs.append('index: %s subject %r is not one of the sets' % (n, e.get('subject')))
+        desc = e.get('description', '')
+        if not desc or len(desc.encode('utf-8')) > 80 or desc.endswith('.'):
+            probs.append('index: %s description must be one line of 1-80 bytes, '
+                         'no trailing full stop' % n)
         try:
             wt = float(e.get('weight', 'x'))
             if n in measured and abs(wt - measured[n]) > 0.0101:
                 probs.append('index: %s weight %.2f but measured %.3f' % (n, wt, measured[n]))
         except ValueError:
             probs.append('index: %s weight missing or not a number' % n)
+    for s in SUBJECTS:
+        inked = sorted(measured[n] for n, e in entries.items()
+                       if e.get('subject') == s and n in measured)
+        if not inked:
+            continue
+        spread = inked[-1] - inked[0]
+        print('set %-20s %3d glyphs  inked %.3f-%.3f  spread %.3f' % (s, len(inked), inked[0], inked[-1], spread))
+        if inked[0] < lo or inked[-1] > hi or spread > hi - lo:
+            probs.append('set %s: inked area %.3f-%.3f leaves the band %.2f-%.2f' % (s, inked[0], inked[-1], lo, hi))
     for p in probs:
         print('FAIL ' + p)
     if probs:
@@ -225,6 +250,8 @@ else:
 sys.exit(1 if fail else 0)
 PYEOF
 pyrc=$?
+
+"$PY" "$here/glyph_small.py" "$dir" --self-test || pyrc=1
 
 if [ "$fail" -ne 0 ] || [ "$pyrc" -ne 0 ]; then
     echo "glyphs_check: FAILED"

@@ -22,9 +22,26 @@ expect_rc "unknown option is a usage error" 2 "$BIN" glyphs --frobnicate
 expect_rc "missing value is a usage error" 2 "$BIN" glyphs --sheet
 
 expect_rc "listing with --glyph-dir" 0 "$BIN" glyphs --glyph-dir "$D/lib-a" --glyph-dir "$D/noindex"
-grep -Eq '^test-dot +circle, point$' "$T/out" && ok "keywords from index.yaml" || bad "keywords"
-grep -Eq '^test-plain *$' "$T/out" && ok "names without an index" || bad "names without index"
-sort -c "$T/out" && ok "listing sorted" || bad "listing sorted"
+grep -Eq '^  test-dot +circle, point$' "$T/out" && ok "keywords from index.yaml" || bad "keywords"
+grep -Eq '^  test-plain *$' "$T/out" && ok "names without an index" || bad "names without index"
+# Glyphs without a subject come under Other, after the sets; the primitives
+# (src/glyph.c) under Shapes, last.
+[ "$(grep -v '^ ' "$T/out" | grep -v '^$' | tail -2 | tr '\n' ,)" = "Other,Shapes," ] \
+    && ok "headings Other, Shapes" || bad "headings: $(grep -v '^ ' "$T/out" | tr '\n' ,)"
+grep -Eq '^  square +built-in$' "$T/out" && ok "primitives listed" || bad "primitives listed"
+sed -n '/^Other$/,/^$/p' "$T/out" | grep '^  ' | sort -c && ok "set sorted by name" || bad "set sorted"
+
+# Index checks: an unknown subject, a subject without a description and an
+# overlong description name the file, line and column (1-based).
+for c in bad-subject:3:12:"unknown subject 'peoples'" \
+         no-description:2:3:"has a subject but no 'description'" \
+         long-description:4:16:"is 90 bytes long (at most 80)"; do
+    dir=${c%%:*}; rest=${c#*:}; want="$D/$dir/index.yaml:${rest%:*}"; msg=${rest##*:}
+    msg=${msg//\"/}
+    expect_rc "index $dir is an input error" 1 "$BIN" glyphs --glyph-dir "$D/$dir"
+    grep -qF "$want" "$T/err" && grep -qF "$msg" "$T/err" && ok "index $dir message" \
+        || bad "index $dir message: $(cat "$T/err") (wanted $want ... $msg)"
+done
 
 expect_rc "contact sheet" 0 "$BIN" glyphs --glyph-dir "$D/lib-a" --sheet "$T/sheet.svg"
 xmllint --noout --nonet "$T/sheet.svg" && ok "sheet well-formed" || bad "sheet well-formed"
@@ -51,8 +68,10 @@ if [ -f glyphs/index.yaml ]; then
     LIBDIR=()
     [ "$(dirname "$BIN")" = "$PWD/build" ] || LIBDIR=(--glyph-dir "$PWD/glyphs")
     expect_rc "project listing" 0 "$BIN" glyphs "${LIBDIR[@]}"
-    grep -Eq '^person +' "$T/out" && ok "library found" || bad "library not found"
-    n_svg=$(ls glyphs/*.svg | wc -l); n_list=$(wc -l <"$T/out")
+    grep -Eq '^  person +' "$T/out" && ok "library found" || bad "library not found"
+    grep -qx 'People' "$T/out" && grep -qx 'Shapes' "$T/out" && ok "subject headings" \
+        || bad "subject headings"
+    n_svg=$(ls glyphs/*.svg | wc -l); n_list=$(grep -c '^  ' "$T/out")
     [ "$n_svg" -le "$n_list" ] && ok "all $n_svg library glyphs listed" || bad "listed $n_list of $n_svg"
     expect_rc "project sheet" 0 "$BIN" glyphs "${LIBDIR[@]}" --sheet "$T/lib.svg"
     for f in glyphs/*.svg; do
@@ -60,6 +79,21 @@ if [ -f glyphs/index.yaml ]; then
         grep -q ">$n</text>" "$T/lib.svg" || bad "sheet lacks $n"
     done
     ok "project sheet has every glyph"
+
+    # Search: any case, name/keywords/description/subject, every word must match.
+    expect_rc "search by keyword, any case" 0 "$BIN" glyphs "${LIBDIR[@]}" --search VACCINE
+    grep -Eq '^  syringe ' "$T/out" && grep -qx 'Health and care' "$T/out" \
+        && ok "search finds syringe under its heading" || bad "search vaccine: $(cat "$T/out")"
+    expect_rc "search by subject" 0 "$BIN" glyphs "${LIBDIR[@]}" --search transport
+    grep -Eq '^  wheelchair ' "$T/out" && ok "search matches the subject" || bad "search subject"
+    expect_rc "two words, both must match" 0 "$BIN" glyphs "${LIBDIR[@]}" --search person --search stick
+    [ "$(grep -c '^  ' "$T/out")" = 1 ] && grep -q '^  older-person ' "$T/out" \
+        && ok "two words narrow to one" || bad "two words: $(cat "$T/out")"
+    expect_rc "no match is exit 1" 1 "$BIN" glyphs "${LIBDIR[@]}" --search qqqxyz
+    grep -q "no glyph matches 'qqqxyz'" "$T/err" && ok "no-match message" || bad "no-match message"
+    expect_rc "one subject" 0 "$BIN" glyphs "${LIBDIR[@]}" --subject food
+    [ "$(grep -v '^ ' "$T/out")" = "Food" ] && ok "--subject lists one set" || bad "--subject"
+    expect_rc "unknown subject is a usage error" 2 "$BIN" glyphs "${LIBDIR[@]}" --subject foods
 else
     echo "skip project library: glyphs/index.yaml is not merged yet"
 fi
