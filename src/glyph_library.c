@@ -15,6 +15,7 @@
 
 #include "glyph.h"
 #include "layout.h"
+#include "svg.h"
 
 typedef struct {
     char *name, *dir, *keywords; /* keywords joined with ", " */
@@ -458,17 +459,27 @@ static size_t group_size(const ug_glyph_library *lib, const char *id)
     return k;
 }
 
-static void sheet_cell(ug_buf *b, size_t i, int top, const char *name)
+/* Each cell is an image of its own, named by the glyph's description (the
+** index's accessible name for it), so a screen reader can walk the sheet
+** glyph by glyph (WAI-ARIA Graphics Module: graphics-document holding img). */
+static void sheet_cell(ug_buf *b, size_t i, int top, const entry *e)
 {
+    const char *name = e->name;
     int x = SHEET_PAD + (int)(i % SHEET_COLUMNS) * SHEET_CELL_W;
     int y = top + (int)(i / SHEET_COLUMNS) * SHEET_CELL_H;
     int gx = x + (SHEET_CELL_W - SHEET_GLYPH) / 2;
+    ug_buf_printf(b, "<g role=\"img\"><title>%s", name);
+    if (e->description) {
+        ug_buf_puts(b, ": ");
+        svg_escape_text(b, e->description);
+    }
+    ug_buf_puts(b, "</title>\n");
     ug_buf_printf(b, "<rect x=\"%d\" y=\"%d\" width=\"%d\" height=\"%d\" fill=\"none\" "
                      "stroke=\"#d0d0d0\"/>\n", gx, y, SHEET_GLYPH, SHEET_GLYPH);
     ug_buf_printf(b, "<use href=\"#glyph-%s\" x=\"%d\" y=\"%d\" width=\"%d\" height=\"%d\"/>\n",
                   name, gx, y, SHEET_GLYPH, SHEET_GLYPH);
-    ug_buf_printf(b, "<text x=\"%d\" y=\"%d\">%s</text>\n", x + SHEET_CELL_W / 2,
-                  y + SHEET_GLYPH + 22, name);
+    ug_buf_printf(b, "<text x=\"%d\" y=\"%d\" aria-hidden=\"true\">%s</text></g>\n",
+                  x + SHEET_CELL_W / 2, y + SHEET_GLYPH + 22, name);
 }
 
 /* One group: its title as a heading, then its cells; returns the next top. */
@@ -482,7 +493,7 @@ static int sheet_group(ug_buf *b, const ug_glyph_library *lib, const group *g, i
     top += SHEET_HEADING;
     for (size_t i = 0, j = 0; i < lib->n; i++)
         if (in_group(&lib->e[i], g->id))
-            sheet_cell(b, j++, top, lib->e[i].name);
+            sheet_cell(b, j++, top, &lib->e[i]);
     return top + (int)((k + SHEET_COLUMNS - 1) / SHEET_COLUMNS) * SHEET_CELL_H;
 }
 
@@ -502,7 +513,8 @@ static void sheet_head(ug_buf *b, size_t n, int h)
     int w = 2 * SHEET_PAD + SHEET_COLUMNS * SHEET_CELL_W;
     ug_buf_printf(b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
                      "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"%d\" height=\"%d\" "
-                     "viewBox=\"0 0 %d %d\" role=\"img\" aria-labelledby=\"sheet-title\">\n"
+                     "viewBox=\"0 0 %d %d\" role=\"graphics-document\" "
+                     "aria-labelledby=\"sheet-title\">\n"
                      "<title id=\"sheet-title\">unitgram glyph library: %zu glyphs</title>\n"
                      "<rect width=\"%d\" height=\"%d\" fill=\"#ffffff\"/>\n",
                   w, h, w, h, n, w, h);

@@ -20,6 +20,10 @@ _unitgram()
             COMPREPLY=($(compgen -f -- "$cur")); return ;;
         --glyph-dir)
             COMPREPLY=($(compgen -d -- "$cur")); return ;;
+        --subject)
+            COMPREPLY=($(compgen -W "people health-care housing food education work-money transport environment-energy community communication safety-justice other" -- "$cur")); return ;;
+        --search)
+            return ;;
         --format)
             case $cmd in
                 draw) COMPREPLY=($(compgen -W "svg png pdf html csv" -- "$cur")) ;;
@@ -34,7 +38,7 @@ _unitgram()
                 tally) COMPREPLY=($(compgen -W "--format --internal --max-icons --max-input-bytes --help" -- "$cur")) ;;
                 audit) COMPREPLY=($(compgen -W "--strict --format --max-icons --max-input-bytes --max-panels --help" -- "$cur")) ;;
                 describe) COMPREPLY=($(compgen -W "--max-icons --max-input-bytes --max-panels --help" -- "$cur")) ;;
-                glyphs) COMPREPLY=($(compgen -W "--sheet --check --glyph-dir --help" -- "$cur")) ;;
+                glyphs) COMPREPLY=($(compgen -W "--subject --search --sheet --check --glyph-dir --help" -- "$cur")) ;;
                 init) COMPREPLY=($(compgen -W "--page -o --output --replace --help" -- "$cur")) ;;
                 *) COMPREPLY=($(compgen -W "--help" -- "$cur")) ;;
             esac ;;

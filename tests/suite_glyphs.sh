@@ -76,9 +76,18 @@ if [ -f glyphs/index.yaml ]; then
     expect_rc "project sheet" 0 "$BIN" glyphs "${LIBDIR[@]}" --sheet "$T/lib.svg"
     for f in glyphs/*.svg; do
         n=$(basename "$f" .svg)
-        grep -q ">$n</text>" "$T/lib.svg" || bad "sheet lacks $n"
+        grep -q "aria-hidden=\"true\">$n</text>" "$T/lib.svg" || bad "sheet lacks $n"
     done
     ok "project sheet has every glyph"
+    # each cell is an image named by the index's description, read back with
+    # libxml2's XPath (xmllint): as many named cells as described entries
+    named=$(xmllint --xpath 'count(//*[local-name()="g"][@role="img"]/*[local-name()="title"][contains(., ": ")])' "$T/lib.svg")
+    described=$(grep -c '^  description: ' glyphs/index.yaml)
+    [ "$named" = "$described" ] && ok "sheet cells named by their descriptions ($named)" \
+        || bad "sheet: $named named cells, $described descriptions"
+    grep -q 'aria-hidden="true">syringe</text>' "$T/lib.svg" \
+      && grep -q "<title>syringe: $(sed -n '/^- name: syringe$/,/^- name/s/^  description: //p' glyphs/index.yaml)</title>" "$T/lib.svg" \
+      && ok "syringe's cell says its description" || bad "syringe's cell title"
 
     # Search: any case, name/keywords/description/subject, every word must match.
     expect_rc "search by keyword, any case" 0 "$BIN" glyphs "${LIBDIR[@]}" --search VACCINE
