@@ -46,17 +46,14 @@ static char latin1_base(unsigned long cp)
     return cp >= 0xC0 && cp <= 0xFF ? map[cp - 0xC0] : 0;
 }
 
-/* One UTF-8 character at s: its code point (0xFFFD beyond Latin-1 or when
-** malformed) and its length in bytes. */
-static size_t utf8_next(const unsigned char *s, unsigned long *cp)
+/* One character of the NUL-terminated s: its code point and length; a byte
+** that starts no valid sequence is U+FFFD, one byte long. */
+static size_t utf8_next(const char *s, unsigned long *cp)
 {
-    size_t n = s[0] < 0x80 ? 1 : s[0] >= 0xF0 ? 4 : s[0] >= 0xE0 ? 3 : s[0] >= 0xC0 ? 2 : 1;
-    for (size_t k = 1; k < n; k++)
-        if ((s[k] & 0xC0) != 0x80)
-            n = 1; /* a malformed sequence: step one byte */
-    *cp = n == 1 ? (s[0] < 0x80 ? s[0] : 0xFFFD)
-        : n == 2 ? ((unsigned long)(s[0] & 0x1F) << 6) | (s[1] & 0x3F) : 0xFFFD;
-    return n;
+    size_t k = ug_utf8_decode(s, strnlen(s, 4), cp);
+    if (!k)
+        *cp = 0xFFFD;
+    return k ? k : 1;
 }
 
 /* Combining Diacritical Marks (Unicode block U+0300..U+036F): "e" followed
@@ -71,7 +68,7 @@ size_t batch_slug(const char *name, char *buf, size_t size)
 {
     size_t n = 0;
     bool dash = false; /* a '-' is owed before the next kept character */
-    for (const unsigned char *s = (const unsigned char *)name; *s && n + 2 < size;) {
+    for (const char *s = name; *s && n + 2 < size;) {
         unsigned long cp;
         s += utf8_next(s, &cp);
         if (is_combining(cp))

@@ -76,27 +76,6 @@ out:
     return rc;
 }
 
-/* Decode one UTF-8 sequence at s (n bytes left); 0 when invalid (overlong,
-** surrogate, beyond U+10FFFF or cut short). */
-static size_t utf8_step(const unsigned char *s, size_t n, unsigned long *cp)
-{
-    static const unsigned long min[] = {0, 0, 0x80, 0x800, 0x10000};
-    size_t k = s[0] < 0x80 ? 1 : (s[0] & 0xE0) == 0xC0 ? 2
-             : (s[0] & 0xF0) == 0xE0 ? 3 : (s[0] & 0xF8) == 0xF0 ? 4 : 0;
-    if (!k || k > n)
-        return 0;
-    unsigned long c = k == 1 ? s[0] : s[0] & (0x7F >> k);
-    for (size_t i = 1; i < k; i++) {
-        if ((s[i] & 0xC0) != 0x80)
-            return 0;
-        c = c << 6 | (s[i] & 0x3F);
-    }
-    if (c < min[k] || c > 0x10FFFF || (c >= 0xD800 && c <= 0xDFFF))
-        return 0;
-    *cp = c;
-    return k;
-}
-
 static bool is_control(unsigned long cp)
 {
     return cp < 0x20 || cp == 0x7F || (cp >= 0x80 && cp <= 0x9F);
@@ -108,7 +87,7 @@ ug_status layout_check_text(const char *s, size_t n, bool multiline, ug_mark at,
     const unsigned char *u = (const unsigned char *)s;
     for (size_t i = 0; i < n;) {
         unsigned long cp;
-        size_t k = utf8_step(u + i, n - i, &cp);
+        size_t k = ug_utf8_decode(s + i, n - i, &cp);
         if (!k)
             return ug_fail(err, UG_EDATA, at, "not UTF-8: invalid byte 0x%02X",
                            u[i]);
@@ -134,7 +113,7 @@ static ug_status scan_file(const char *text, size_t len, const char *file,
     size_t i = len >= 3 && !memcmp(text, "\xEF\xBB\xBF", 3) ? 3 : 0;
     while (i < len) {
         unsigned long cp;
-        size_t k = utf8_step(u + i, len - i, &cp);
+        size_t k = ug_utf8_decode(text + i, len - i, &cp);
         if (!k)
             return ug_fail(err, UG_EDATA, m, "not UTF-8: invalid byte 0x%02X",
                            u[i]);

@@ -273,10 +273,12 @@ ug_status text_wrap(const text_font *f, const char *s, double max_width,
 ** last two code points of each of the 17 planes. XML 1.0 (§2.2, production
 ** [2] Char) forbids U+FFFE and U+FFFF and discourages the rest; the HTML
 ** Living Standard (§13.2.3.5) makes every one a parse error. */
-static bool noncharacter(gunichar c)
+static bool noncharacter(unsigned long c)
 {
     return (c >= 0xFDD0 && c <= 0xFDEF) || (c & 0xFFFE) == 0xFFFE;
 }
+
+#define REPLACEMENT "\xEF\xBF\xBD" /* U+FFFD in UTF-8 */
 
 /* Text for every document we write (SVG, the web page) and for pango: valid
 ** UTF-8, no control character but the newline (XML 1.0 §2.2 allows no C0
@@ -289,22 +291,18 @@ char *text_clean(const char *s)
         return NULL;
     const char *p = s, *end = s + n;
     while (p < end) {
-        gunichar c = g_utf8_get_char_validated(p, end - p);
-        if (c == (gunichar)-1 || c == (gunichar)-2) {
-            o += g_unichar_to_utf8(0xFFFD, o);
-            p++;
-            continue;
-        }
-        const char *next = g_utf8_next_char(p);
-        if ((c < 0x20 && c != '\n') || (c >= 0x7F && c <= 0x9F))
+        unsigned long c;
+        size_t k = ug_utf8_decode(p, (size_t)(end - p), &c);
+        if (!k || noncharacter(c)) {
+            memcpy(o, REPLACEMENT, 3);
+            o += 3;
+        } else if ((c < 0x20 && c != '\n') || (c >= 0x7F && c <= 0x9F)) {
             *o++ = ' ';
-        else if (noncharacter(c))
-            o += g_unichar_to_utf8(0xFFFD, o);
-        else {
-            memcpy(o, p, (size_t)(next - p));
-            o += next - p;
+        } else {
+            memcpy(o, p, k);
+            o += k;
         }
-        p = next;
+        p += k ? k : 1;
     }
     *o = '\0';
     return out;

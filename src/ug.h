@@ -43,6 +43,9 @@ void *ug_calloc(size_t count, size_t size);
 void *ug_realloc(void *p, size_t n);
 void ug_free(void *p);
 char *ug_strdup(const char *s);
+/* One UTF-8 sequence at s (n bytes there): its length, and its code point in
+** *cp; 0 when the bytes start no valid sequence (RFC 3629). */
+size_t ug_utf8_decode(const char *s, size_t n, unsigned long *cp);
 char *ug_strndup(const char *s, size_t n);
 /* Fail every allocation after the next n successful ones; -1 turns it off.
 ** Returns how many allocations have been made since the last call. Both

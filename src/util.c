@@ -6,7 +6,6 @@
 #define _POSIX_C_SOURCE 200809L
 #include <errno.h>
 #include <fontconfig/fontconfig.h>
-#include <glib.h>
 #include <libxml/parser.h>
 #include <pthread.h>
 #include <stdio.h>
@@ -78,8 +77,9 @@ const char *ug_status_name(ug_status st)
 ** parser.c); librsvg parses with libxml2 too. FcInit loads fontconfig's
 ** configuration, and once it is loaded later calls do nothing (FcInit(3)):
 ** done here, before any thread makes a font map, it is loaded once and every
-** font map finds it ready. Its result is not needed: without a
-** configuration pango falls back as it would have. */
+** font map finds it ready. Its result is not needed here: the text stage
+** checks each family it measures with, and stops when fontconfig found no
+** font (text.c, check_family). */
 static void init_libraries(void)
 {
     xmlInitParser();
@@ -296,11 +296,35 @@ void ug_buf_csv_field(ug_buf *b, const char *s)
 ** DEL (ECMA-48), the line and paragraph separators, and the explicit
 ** directional formatting characters of Unicode UAX #9 (ALM U+061C, LRM, RLM,
 ** LRE..RLO, LRI..PDI), the "Trojan Source" set of CVE-2021-42574. */
-static bool hidden_in_terminal(gunichar c)
+static bool hidden_in_terminal(unsigned long c)
 {
     return c < 0x20 || (c >= 0x7F && c <= 0x9F) || c == 0x061C || c == 0x200E ||
            c == 0x200F || c == 0x2028 || c == 0x2029 || (c >= 0x202A && c <= 0x202E) ||
            (c >= 0x2066 && c <= 0x2069);
+}
+
+/* The one UTF-8 decoder of our own code (RFC 3629 §3-4): overlong forms,
+** surrogates, code points past U+10FFFF and cut sequences are invalid. */
+size_t ug_utf8_decode(const char *s, size_t n, unsigned long *cp)
+{
+    static const unsigned long min[] = {0, 0, 0x80, 0x800, 0x10000};
+    const unsigned char *u = (const unsigned char *)s;
+    if (!n)
+        return 0;
+    size_t k = u[0] < 0x80 ? 1 : (u[0] & 0xE0) == 0xC0 ? 2
+             : (u[0] & 0xF0) == 0xE0 ? 3 : (u[0] & 0xF8) == 0xF0 ? 4 : 0;
+    if (!k || k > n)
+        return 0;
+    unsigned long c = k == 1 ? u[0] : u[0] & (0x7F >> k);
+    for (size_t i = 1; i < k; i++) {
+        if ((u[i] & 0xC0) != 0x80)
+            return 0;
+        c = c << 6 | (u[i] & 0x3F);
+    }
+    if (c < min[k] || c > 0x10FFFF || (c >= 0xD800 && c <= 0xDFFF))
+        return 0;
+    *cp = c;
+    return k;
 }
 
 /* The next character of s (before end): its length in bytes and, when it
@@ -308,15 +332,16 @@ static bool hidden_in_terminal(gunichar c)
 ** starts no valid UTF-8 sequence is one character of its own. */
 static size_t visible_piece(const char *s, const char *end, char esc[16])
 {
-    gunichar c = g_utf8_get_char_validated(s, end - s);
+    unsigned long c;
+    size_t k = ug_utf8_decode(s, (size_t)(end - s), &c);
     esc[0] = '\0';
-    if (c == (gunichar)-1 || c == (gunichar)-2) {
+    if (!k) {
         snprintf(esc, 16, "<0x%02X>", (unsigned)(unsigned char)*s);
         return 1;
     }
     if (hidden_in_terminal(c))
-        snprintf(esc, 16, "<U+%04X>", (unsigned)c);
-    return (size_t)(g_utf8_next_char(s) - s);
+        snprintf(esc, 16, "<U+%04lX>", c);
+    return k;
 }
 
 void ug_buf_visible(ug_buf *b, const char *s)

@@ -2,6 +2,7 @@
 ** text escaped for terminals. */
 #define _POSIX_C_SOURCE 200809L
 #include <check.h>
+#include <glib.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -178,6 +179,61 @@ static const visible_case visible_cases[] = {
     {"\u200d\u00a0\u2069x", "\u200d\u00a0<U+2069>x"},
 };
 
+/* Every scalar value U+0000..U+10FFFF (surrogates excluded), encoded by
+** GLib's g_unichar_to_utf8 (an encoder we did not write), decodes to itself
+** with GLib's length; and GLib's validating decoder agrees with ours on
+** every 1- to 4-byte sequence of a sample that covers each lead byte with
+** good and bad continuations. */
+START_TEST(test_utf8_decode_against_glib)
+{
+    char buf[8];
+    for (unsigned long c = 0; c <= 0x10FFFF; c++) {
+        if (c >= 0xD800 && c <= 0xDFFF)
+            continue;
+        int n = g_unichar_to_utf8((gunichar)c, buf);
+        unsigned long got = 0;
+        /* plain tests in the loop: each ck_assert writes a checkpoint */
+        if (ug_utf8_decode(buf, (size_t)n, &got) != (size_t)n || got != c)
+            ck_abort_msg("U+%04lX: decoded as U+%04lX", c, got);
+        if (n > 1 && ug_utf8_decode(buf, (size_t)n - 1, &got) != 0) /* cut short */
+            ck_abort_msg("U+%04lX cut short was accepted", c);
+    }
+    static const unsigned char conts[] = {0x00, 0x7F, 0x80, 0x8F, 0x90, 0x9F, 0xA0, 0xBF, 0xC0};
+    /* from 1: GLib's validating decoder takes a NUL byte as the end of the
+    ** text, where ours reads U+0000 (our callers stop at NUL first) */
+    for (unsigned lead = 1; lead < 256; lead++)
+        for (size_t a = 0; a < sizeof conts; a++)
+            for (size_t b = 0; b < sizeof conts; b++)
+                for (size_t d = 0; d < sizeof conts; d++) {
+                    char s[4] = {(char)lead, (char)conts[a], (char)conts[b], (char)conts[d]};
+                    unsigned long ours = 0;
+                    size_t k = ug_utf8_decode(s, 4, &ours);
+                    gunichar theirs = g_utf8_get_char_validated(s, 4);
+                    bool valid = theirs != (gunichar)-1 && theirs != (gunichar)-2;
+                    if (valid != (k > 0) ||
+                        (valid && (ours != theirs ||
+                                   k != (size_t)(g_utf8_next_char(s) - s))))
+                        ck_abort_msg("%02X %02X %02X %02X: ours %zu bytes U+%04lX, "
+                                     "GLib %s", lead, conts[a], conts[b], conts[d], k,
+                                     ours, valid ? "valid" : "invalid");
+                }
+}
+END_TEST
+
+/* RFC 3629 §10: overlong forms ("C0 AF" for '/') and surrogates (§3:
+** "ED A0 80") must be refused, as must code points past U+10FFFF. */
+START_TEST(test_utf8_decode_refuses)
+{
+    static const char *const bad[] = {"\xC0\xAF", "\xE0\x80\xAF", "\xED\xA0\x80",
+                                      "\xF4\x90\x80\x80", "\xF8\x88\x80\x80\x80", "\x80",
+                                      "\xFF"};
+    unsigned long c;
+    for (size_t i = 0; i < sizeof bad / sizeof *bad; i++)
+        ck_assert_uint_eq(ug_utf8_decode(bad[i], strlen(bad[i]), &c), 0);
+    ck_assert_uint_eq(ug_utf8_decode("", 0, &c), 0);
+}
+END_TEST
+
 START_TEST(test_text_visible)
 {
     const visible_case *c = &visible_cases[_i];
@@ -224,6 +280,8 @@ static Suite *util_suite(void)
     tcase_add_loop_test(tc, test_text_visible, 0,
                         sizeof visible_cases / sizeof visible_cases[0]);
     tcase_add_test(tc, test_text_visible_truncates_whole);
+    tcase_add_test(tc, test_utf8_decode_against_glib);
+    tcase_add_test(tc, test_utf8_decode_refuses);
     suite_add_tcase(s, tc);
     return s;
 }
