@@ -92,46 +92,6 @@ size_t batch_slug(const char *name, char *buf, size_t size)
 
 /* ---- opening ---------------------------------------------------------------- */
 
-/* The first field of the CSV's header line (quotes undone), for the default
-** group column; the delimiters are the ones the data reader detects. */
-static char *first_header_field(const char *text, size_t len)
-{
-    size_t i = len >= 3 && !memcmp(text, "\xEF\xBB\xBF", 3) ? 3 : 0;
-    char *out = ug_malloc(len - i + 1);
-    size_t n = 0;
-    if (!out)
-        return NULL;
-    bool quoted = i < len && text[i] == '"';
-    for (i += quoted; i < len; i++) {
-        char ch = text[i];
-        if (quoted && ch == '"' && i + 1 < len && text[i + 1] == '"')
-            i++;
-        else if (quoted && ch == '"')
-            break;
-        else if (!quoted && strchr(",;\t\r\n", ch))
-            break;
-        out[n++] = ch;
-    }
-    out[n] = '\0';
-    return out;
-}
-
-static ug_status default_group_column(ug_chart *t, ug_error *err)
-{
-    char *text = NULL, *name = NULL;
-    size_t len = 0;
-    ug_status st = layout_read_file(t->data.file, t->limits.max_file_bytes,
-                                    ug_mark_file(t->data.file), &text, &len, err);
-    if (!st && !(name = first_header_field(text, len)))
-        st = ug_fail(err, UG_ENOMEM, ug_mark_file(t->data.file), "out of memory");
-    if (!st && !(t->data.group_column.text = ug_arena_strdup(&t->arena, name)))
-        st = ug_fail(err, UG_ENOMEM, ug_mark_file(t->data.file), "out of memory");
-    t->data.group_column.mark = ug_mark_file(t->data.file);
-    ug_free(name);
-    ug_free(text);
-    return st;
-}
-
 /* Give the template the CSV as its data, one group per row. */
 static ug_status take_csv(ug_chart *t, const char *csv, ug_error *err)
 {
@@ -150,7 +110,7 @@ static ug_status take_csv(ug_chart *t, const char *csv, ug_error *err)
         t->cats[i].count_marks = NULL;
         t->cats[i].withheld = NULL;
     }
-    ug_status st = t->data.group_column.text ? UG_OK : default_group_column(t, err);
+    ug_status st = t->data.group_column.text ? UG_OK : data_first_header(t, err);
     return st ? st : data_load(t, err);
 }
 

@@ -456,28 +456,56 @@ static ug_status read_table(reader *r)
     return st;
 }
 
+/* The whole of the chart's CSV file parsed into r's rows; `from` is where
+** the file was named, for a file that cannot be read. */
+static ug_status read_csv_file(reader *r, const ug_chart *c, ug_mark from)
+{
+    r->file = c->data.file;
+    char *text = NULL;
+    size_t len;
+    ug_status st = layout_read_file(r->file, c->limits.max_file_bytes, from, &text, &len,
+                                    r->err);
+    if (st)
+        return st;
+    size_t bom = len >= 3 && !memcmp(text, "\xEF\xBB\xBF", 3) ? 3 : 0;
+    st = parse_csv(r, text + bom, len - bom);
+    if (!st && r->nrows == 0)
+        st = ug_fail(r->err, UG_EDATA, ug_mark_file(r->file), "the CSV file is empty");
+    ug_free(text);
+    return st;
+}
+
+static void reader_free(reader *r)
+{
+    ug_free(r->rows);
+    ug_free(r->cur);
+    ug_arena_free(&r->tmp);
+}
+
 ug_status data_load(ug_chart *c, ug_error *err)
 {
     reader r;
     memset(&r, 0, sizeof r);
     r.c = c;
     r.err = err;
-    r.file = c->data.file;
-    char *text = NULL;
-    size_t len;
-    ug_status st = layout_read_file(r.file, c->limits.max_file_bytes,
-                                    c->data.file_text.mark, &text, &len, err);
-    if (st)
-        return st;
-    size_t bom = len >= 3 && !memcmp(text, "\xEF\xBB\xBF", 3) ? 3 : 0;
-    st = parse_csv(&r, text + bom, len - bom);
-    if (!st && r.nrows == 0)
-        st = ug_fail(err, UG_EDATA, ug_mark_file(r.file), "the CSV file is empty");
+    ug_status st = read_csv_file(&r, c, c->data.file_text.mark);
     if (!st)
         st = read_table(&r);
-    ug_free(text);
-    ug_free(r.rows);
-    ug_free(r.cur);
-    ug_arena_free(&r.tmp);
+    reader_free(&r);
+    return st;
+}
+
+ug_status data_first_header(ug_chart *c, ug_error *err)
+{
+    reader r;
+    memset(&r, 0, sizeof r);
+    r.err = err;
+    ug_mark whole = ug_mark_file(c->data.file);
+    ug_status st = read_csv_file(&r, c, whole);
+    const char *first = !st && r.rows[0].n ? r.rows[0].f[0] : "";
+    if (!st && !(c->data.group_column.text = ug_arena_strdup(&c->arena, first)))
+        st = ug_fail(err, UG_ENOMEM, whole, "out of memory");
+    c->data.group_column.mark = whole;
+    reader_free(&r);
     return st;
 }

@@ -53,5 +53,8 @@ char *layout_join(ug_arena *a, const char *dir, const char *rel);
 /* Counts from the CSV named in chart->data: fills groups (when the layout
 ** lists none) and every category's counts and count_marks. */
 ug_status data_load(ug_chart *chart, ug_error *err);
+/* The first field of the header of chart->data.file, read with the same
+** parser and delimiter rule as the counts, as the chart's group column. */
+ug_status data_first_header(ug_chart *chart, ug_error *err);
 
 #endif

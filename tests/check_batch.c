@@ -286,6 +286,34 @@ START_TEST(test_hidden_count_changes_no_byte)
 }
 END_TEST
 
+/* The row names' column defaults to the header's first field as the counts'
+** own reader reads it: here ',' is the delimiter (more commas than
+** semicolons), so the first field is "site;code", not "site". */
+START_TEST(test_first_column_read_like_the_counts)
+{
+    char dir[] = "/tmp/ug-batch-XXXXXX", tmpl[64], csv[64];
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    snprintf(tmpl, sizeof tmpl, "%s/t.yaml", dir);
+    snprintf(csv, sizeof csv, "%s/r.csv", dir);
+    write_text(tmpl, "title: Row {group}\nicon-value: 1\ncategories:\n"
+                     "  - {id: a, label: A}\n  - {id: b, label: B}\n");
+    write_text(csv, "\"site;code\",a,b\nNorth;1,12,14\nSouth;2,30,11\n");
+    ug_error err = {0};
+    ug_batch *b = NULL;
+    ck_assert_msg(!ug_batch_open(tmpl, csv, NULL, &b, &err), "%s", err.msg);
+    ck_assert_uint_eq(ug_batch_count(b), 2);
+    ck_assert_str_eq(ug_batch_name(b, 1), "South;2");
+    ug_batch_free(b);
+    write_text(csv, "site;code,a,b\nNorth;1,12,14\n");
+    ck_assert_msg(!ug_batch_open(tmpl, csv, NULL, &b, &err), "%s", err.msg);
+    ck_assert_str_eq(ug_batch_name(b, 0), "North;1");
+    ug_batch_free(b);
+    unlink(tmpl);
+    unlink(csv);
+    rmdir(dir);
+}
+END_TEST
+
 /* The property can fail: two rows packed on their own (no shared frame)
 ** differ in canvas height when one row's count needs more lines. */
 START_TEST(test_unshared_rows_differ)
@@ -335,6 +363,7 @@ static Suite *batch_suite(void)
     tcase_set_timeout(t, 60);
     tcase_add_loop_test(t, test_shared_layout, 0, 60);
     tcase_add_test(t, test_unshared_rows_differ);
+    tcase_add_test(t, test_first_column_read_like_the_counts);
     tcase_add_loop_test(t, test_hidden_count_changes_no_byte, 0, 30);
     suite_add_tcase(s, t);
     return s;
