@@ -72,10 +72,14 @@ typedef struct ug_chart ug_chart;
 /* The caps a loader enforces. A value above its ceiling is refused with
 ** UG_ELIMIT rather than quietly lowered. */
 typedef struct {
-    size_t max_file_bytes;   /* 0 = default (4 MiB) */
-    size_t max_icons;        /* 0 = default (100 000); at most UG_CEILING_ICONS */
-    size_t max_panels;       /* 0 = default (48); at most UG_CEILING_PANELS */
+    size_t max_file_bytes;   /* 0 = UG_DEFAULT_MAX_FILE */
+    size_t max_icons;        /* 0 = UG_DEFAULT_MAX_ICONS; at most UG_CEILING_ICONS */
+    size_t max_panels;       /* 0 = UG_DEFAULT_MAX_PANELS; at most UG_CEILING_PANELS */
 } ug_limits;
+
+#define UG_DEFAULT_MAX_FILE 4194304 /* 4 MiB */
+#define UG_DEFAULT_MAX_ICONS 100000
+#define UG_DEFAULT_MAX_PANELS 48
 
 #define UG_CEILING_ICONS 10000000
 #define UG_CEILING_PANELS 1000

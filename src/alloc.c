@@ -196,7 +196,7 @@ static void set_shown(alloc_share *s, size_t n, const alloc_rule *rule,
 ** products up to count * N * 2 * 10^6; with counts of 10^15 scaled by 10^6
 ** that overflows 128 bits near N = 8 * 10^10. 10^7 keeps a wide margin,
 ** bounds the time highest averages take, and is far beyond a readable chart. */
-static long icon_ceiling(const alloc_rule *rule)
+long alloc_icon_ceiling(const alloc_rule *rule)
 {
     if (rule->max_icons > 0 && rule->max_icons < ALLOC_MAX_ICONS)
         return rule->max_icons;
@@ -209,7 +209,7 @@ static ug_status house_size(const alloc_rule *rule, ug_dec total, long *out,
     ug_i128 n = rule->by_cells ? rule->cells : alloc_icons_for_value(total, rule->value);
     if (rule->by_cells && total.v == 0)
         n = 0;
-    long limit = icon_ceiling(rule);
+    long limit = alloc_icon_ceiling(rule);
     if (n > limit && rule->by_cells)
         return ug_fail(err, UG_ELIMIT, where,
                        "%ld cells are more than %ld, the limit on icons; "

@@ -6,8 +6,9 @@
 
 #include "disclose.h"
 
-/* No rule may ask for more icons than this (see icon_ceiling in alloc.c). */
-#define ALLOC_MAX_ICONS 10000000L
+/* No rule may ask for more icons than this: the public ceiling on
+** --max-icons (see alloc_icon_ceiling in alloc.c for why). */
+#define ALLOC_MAX_ICONS ((long)UG_CEILING_ICONS)
 
 typedef struct {
     ug_method method;
@@ -71,6 +72,8 @@ static inline const alloc_share *alloc_at(const ug_allocation *a, size_t g, size
 
 /* Icons per line: `columns`, or 20 for rows and 10 for waffles. */
 long alloc_default_columns(const ug_chart *chart);
+/* The most icons `rule` allows: its max_icons, never above ALLOC_MAX_ICONS. */
+long alloc_icon_ceiling(const alloc_rule *rule);
 
 /* Build the allocation rule a chart states; an auto icon value is worked out
 ** from the published table t. */

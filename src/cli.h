@@ -95,6 +95,20 @@ int cli_print_findings(ug_findings *f, bool strict);
 /* Print each glyph sanitizer warning of a packed scene. */
 void cli_glyph_warnings(const ug_scene *scene, const ug_chart *chart);
 
+/* The limit options cli_limit_option reads, as each command's help lists
+** them: the figures come from unitgram.h, so help and library agree. */
+#define CLI_STR_(x) #x
+#define CLI_STR(x) CLI_STR_(x)
+#define CLI_LIMITS_HELP                                                                  \
+    "  --max-icons N         refuse charts of more than N icons (default "                \
+    CLI_STR(UG_DEFAULT_MAX_ICONS) ",\n"                                                   \
+    "                        at most " CLI_STR(UG_CEILING_ICONS) ")\n"                     \
+    "  --max-input-bytes N   refuse layout or CSV files larger than N bytes\n"            \
+    "                        (default " CLI_STR(UG_DEFAULT_MAX_FILE) ")\n"                 \
+    "  --max-panels N        refuse a page of more than N panels (default "               \
+    CLI_STR(UG_DEFAULT_MAX_PANELS) ",\n"                                                  \
+    "                        at most " CLI_STR(UG_CEILING_PANELS) ")\n"
+
 /* ---- draw, batch and watch (cli_draw.c, cli_batch.c, cli_watch.c) ---- */
 
 #define CLI_MAX_DIRS 32

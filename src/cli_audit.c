@@ -24,9 +24,7 @@ static const char audit_help[] =
     "options:\n"
     "  --strict              exit 3 when there is any warning or error\n"
     "  --format FORMAT       text (default) or json\n"
-    "  --max-icons N         refuse a chart of more than N icons (default 100000)\n"
-    "  --max-input-bytes N   refuse input files larger than N bytes\n"
-    "  --max-panels N        refuse a page of more than N panels (default 48)\n"
+    CLI_LIMITS_HELP
     "  -h, --help            show this help\n"
     "\n" CLI_EXIT_CODES;
 

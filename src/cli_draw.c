@@ -65,12 +65,7 @@ static const char draw_help[] =
     "  --watch-limit N       with --watch: exit after N redraws (1 to " STR(WATCH_LIMIT_MAX) ")\n"
     "  --watch-timeout SECS  with --watch: exit after SECS seconds (" STR(WATCH_TIMEOUT_MIN) " to\n"
     "                        " STR(WATCH_TIMEOUT_MAX) ", a year)\n"
-    "  --max-icons N         refuse charts of more than N icons (default 100000,\n"
-    "                        at most 10000000)\n"
-    "  --max-input-bytes N   refuse layout or CSV files larger than N bytes\n"
-    "                        (default 4194304)\n"
-    "  --max-panels N        refuse a page of more than N panels (default 48,\n"
-    "                        at most 1000)\n"
+    CLI_LIMITS_HELP
     "  -h, --help            show this help\n"
     "\n" CLI_EXIT_CODES;
 

@@ -12,9 +12,7 @@
 #define UG_MAX_GROUPS 1000
 #define UG_MAX_STRING 4096     /* bytes in one text value */
 #define UG_MAX_DEPTH 32        /* YAML nesting */
-#define UG_DEFAULT_MAX_FILE (4u << 20)
-#define UG_DEFAULT_MAX_ICONS 100000
-#define UG_DEFAULT_MAX_PANELS 48
+/* the limits' defaults are public (unitgram.h: UG_DEFAULT_*) */
 
 typedef enum { UG_FORM_ROWS, UG_FORM_WAFFLE } ug_form;
 /* `change:` (FORMAT.md §5): against the period before, or the first. */

@@ -68,8 +68,7 @@ ug_status alloc_rule_for_chart(const ug_chart *c, alloc_rule *rule, ug_error *er
 static ug_status check_chart_icons(const ug_allocation *a, size_t upto, ug_mark where,
                                    ug_error *err)
 {
-    long limit = a->rule.max_icons > 0 && a->rule.max_icons < ALLOC_MAX_ICONS
-                     ? a->rule.max_icons : ALLOC_MAX_ICONS;
+    long limit = alloc_icon_ceiling(&a->rule);
     long sum = 0;
     for (size_t g = 0; g <= upto; g++)
         sum += a->group_icons[g];
