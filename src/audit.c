@@ -533,8 +533,8 @@ static ug_status check_small(audit_ctx *x)
     char *fix = suppress_fix(c, keep, zeros, comp);
     if (!fix)
         return oom(x);
-    char b[48], cnt[48], grp[256];
-    ug_dec_format(below, b);
+    char b[64], cnt[64], grp[256];
+    ug_dec_format_grouped(below, b);
     ug_status st = UG_OK;
     for (size_t i = 0; !st && i < c->ncats; i++)
         for (size_t g = 0; !st && g < chart_ngroups(c); g++) {
@@ -545,7 +545,7 @@ static ug_status check_small(audit_ctx *x)
             st = add(x, "small-count", UG_SEVERITY_WARNING, count_mark(c, i, g), fix,
                      "'%s'%s is %s %s, under %s%s%s: so few can identify people",
                      cat_name(c, i), in_group(c, g, grp, sizeof grp),
-                     ug_dec_format(v, cnt), unit(c), b, p ? "; " : "", p ? p->rule : "");
+                     ug_dec_format_grouped(v, cnt), unit(c), b, p ? "; " : "", p ? p->rule : "");
         }
     ug_free(fix);
     return st;

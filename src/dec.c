@@ -122,6 +122,21 @@ char *ug_i128_format_scaled(ug_i128 v, char *buf)
 
 char *ug_dec_format(ug_dec d, char *buf) { return ug_i128_format_scaled(d.v, buf); }
 
+char *ug_dec_format_grouped(ug_dec d, char *buf)
+{
+    char raw[48];
+    ug_dec_format(d, raw);
+    size_t sign = raw[0] == '-', digits = strcspn(raw + sign, "."), o = 0;
+    for (size_t i = 0; raw[i]; i++) {
+        size_t left = sign + digits - i; /* whole digits from here on */
+        if (i > sign && i < sign + digits && left % 3 == 0)
+            buf[o++] = ',';
+        buf[o++] = raw[i];
+    }
+    buf[o] = '\0';
+    return buf;
+}
+
 double ug_dec_to_double(ug_dec d)
 {
     return (double)(d.v / UG_DEC_SCALE) + (double)(d.v % UG_DEC_SCALE) / 1e6;

@@ -18,24 +18,10 @@ const char *pack_placeholder(const ug_allocation *a, pub_status s)
     return pub_placeholder(a->pub, s);
 }
 
-char *pack_number(ug_dec d, char *buf)
-{
-    char raw[48];
-    ug_dec_format(d, raw);
-    size_t whole = strcspn(raw, "."), o = 0;
-    for (size_t i = 0; raw[i]; i++) {
-        if (i > 0 && i < whole && (whole - i) % 3 == 0 && whole >= 4)
-            buf[o++] = ',';
-        buf[o++] = raw[i];
-    }
-    buf[o] = '\0';
-    return buf;
-}
-
 void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b)
 {
     char n[64];
-    ug_buf_puts(b, pack_number(count, n));
+    ug_buf_puts(b, ug_dec_format_grouped(count, n));
     if (c->unit_label.text)
         ug_buf_printf(b, " %s", c->unit_label.text);
 }
@@ -82,11 +68,11 @@ void pack_disclosure_notes(const ug_allocation *a, ug_buf *b)
     char n[64];
     if (t->rounded)
         ug_buf_printf(b, "Counts are rounded to multiples of %s to protect privacy. ",
-                      pack_number(t->round_to, n));
+                      ug_dec_format_grouped(t->round_to, n));
     if (any_status(t, PUB_SMALL) && t->below.v > 0)
         ug_buf_printf(b, "Counts of %s%s%s%s are not shown (\u201c%s\u201d). ",
                       t->zeros_hidden ? "0 to " : "1 to ",
-                      pack_number((ug_dec){t->below.v - UG_DEC_SCALE}, n),
+                      ug_dec_format_grouped((ug_dec){t->below.v - UG_DEC_SCALE}, n),
                       unit ? " " : "", unit ? unit : "", t->small_label);
     if (any_status(t, PUB_COMPLEMENT))
         ug_buf_printf(b, "Some larger counts are not shown either (\u201c%s\u201d), so "
@@ -153,7 +139,7 @@ static void change_amount(ug_dec from, ug_dec to, ug_buf *b)
     char n[64];
     ug_dec d = {to.v - from.v};
     ug_dec mag = {d.v < 0 ? -d.v : d.v};
-    ug_buf_printf(b, "%s%s", d.v < 0 ? "-" : d.v > 0 ? "+" : "\u00b1", pack_number(mag, n));
+    ug_buf_printf(b, "%s%s", d.v < 0 ? "-" : d.v > 0 ? "+" : "\u00b1", ug_dec_format_grouped(mag, n));
     if (from.v <= 0)
         return;
     ug_i128 num = mag.v * 100, q = num / from.v;
@@ -186,7 +172,7 @@ static void category_change_phrase(const ug_allocation *a, size_t i, ug_buf *b)
     if (pub_hidden(from->status))
         ug_buf_puts(b, pack_placeholder(a, from->status));
     else
-        ug_buf_puts(b, pack_number(from->value, n));
+        ug_buf_puts(b, ug_dec_format_grouped(from->value, n));
     ug_buf_puts(b, " \u2192 ");
     if (pub_hidden(to->status))
         ug_buf_puts(b, pack_placeholder(a, to->status));
@@ -242,7 +228,7 @@ void pack_category_cell(const ug_allocation *a, size_t g, size_t i, ug_buf *b)
         ug_buf_puts(b, pack_placeholder(a, cell->status));
     } else {
         char n[64];
-        ug_buf_puts(b, pack_number(cell->value, n));
+        ug_buf_puts(b, ug_dec_format_grouped(cell->value, n));
     }
     size_t ref = pack_change_ref(a, g);
     if (ref != SIZE_MAX)
@@ -273,7 +259,7 @@ static void share_of_whole(const ug_allocation *a, ug_buf *b)
         ug_buf_puts(b, shown);
     } else {
         char n[64];
-        ug_buf_printf(b, " of the total%s, %s", shown, pack_number(a->group_totals[0], n));
+        ug_buf_printf(b, " of the total%s, %s", shown, ug_dec_format_grouped(a->group_totals[0], n));
     }
 }
 

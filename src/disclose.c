@@ -58,8 +58,8 @@ static const char *default_small_label(const ug_chart *c, char *buf, size_t size
         return c->suppress_label.text;
     if (!c->has_suppress || c->suppress_below.v <= 0)
         return OTHER_LABEL;
-    char n[48];
-    snprintf(buf, size, "fewer than %s", ug_dec_format(c->suppress_below, n));
+    char n[64];
+    snprintf(buf, size, "fewer than %s", ug_dec_format_grouped(c->suppress_below, n));
     return buf;
 }
 

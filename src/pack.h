@@ -15,8 +15,6 @@
 
 /* The placeholder text of a hidden cell ("fewer than 10", "not shown"). */
 const char *pack_placeholder(const ug_allocation *a, pub_status s);
-/* 1234567.5 -> "1,234,567.5"; buf needs 64 bytes. */
-char *pack_number(ug_dec d, char *buf);
 /* "835 households", or without a unit "835". */
 void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b);
 /* The total of group g (of the whole chart when g == SIZE_MAX) as published:

@@ -120,6 +120,9 @@ ug_dec_result ug_dec_parse(const char *s, size_t n, ug_dec *out);
 const char *ug_dec_result_text(ug_dec_result r);
 /* Shortest exact text: 41.25, 412, 0.000001. buf needs 48 bytes. */
 char *ug_dec_format(ug_dec d, char *buf);
+/* 1234567.5 -> "1,234,567.5", -1234 -> "-1,234": how every number a reader
+** sees is written; buf needs 64 bytes. */
+char *ug_dec_format_grouped(ug_dec d, char *buf);
 /* Signed variant for differences. */
 char *ug_i128_format_scaled(ug_i128 v, char *buf);
 double ug_dec_to_double(ug_dec d);

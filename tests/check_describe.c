@@ -148,7 +148,7 @@ static const number_case numbers[] = {
 START_TEST(test_number_grouping)
 {
     char buf[64];
-    ck_assert_str_eq(pack_number(fx_dec(numbers[_i].in), buf), numbers[_i].out);
+    ck_assert_str_eq(ug_dec_format_grouped(fx_dec(numbers[_i].in), buf), numbers[_i].out);
 }
 END_TEST
 

@@ -66,6 +66,30 @@ START_TEST(test_dec_sum_is_exact)
 }
 END_TEST
 
+/* Grouping by threes (CLDR en: "#,##0.###", minimum grouping digits 1, from
+** common/main/en.xml and common/main/root.xml; python3-babel 2.10's
+** format_decimal(v, locale="en") gave the same strings, checked by hand on
+** 2026-12-03). */
+START_TEST(test_dec_format_grouped)
+{
+    static const struct {
+        ug_i128 v;
+        const char *want;
+    } cases[] = {
+        {0, "0"}, {999, "999"}, {1000, "1,000"}, {-123, "-123"}, {-1234, "-1,234"},
+        {1234567, "1,234,567"}, {-100000, "-100,000"}, {12345, "12,345"},
+    };
+    char buf[64];
+    for (size_t i = 0; i < sizeof cases / sizeof *cases; i++)
+        ck_assert_str_eq(ug_dec_format_grouped((ug_dec){cases[i].v * UG_DEC_SCALE}, buf),
+                         cases[i].want);
+    ck_assert_str_eq(ug_dec_format_grouped((ug_dec){12345 * UG_DEC_SCALE + UG_DEC_SCALE / 2}, buf),
+                     "12,345.5");
+    ck_assert_str_eq(ug_dec_format_grouped((ug_dec){-(1234 * UG_DEC_SCALE + UG_DEC_SCALE / 4)}, buf),
+                     "-1,234.25");
+}
+END_TEST
+
 START_TEST(test_ratio_format_half_up)
 {
     char buf[64];
@@ -272,6 +296,7 @@ static Suite *util_suite(void)
                         (int)(sizeof dec_cases / sizeof dec_cases[0]));
     tcase_add_test(tc, test_dec_sum_is_exact);
     tcase_add_test(tc, test_ratio_format_half_up);
+    tcase_add_test(tc, test_dec_format_grouped);
     tcase_add_test(tc, test_buf_grows_and_takes);
     tcase_add_test(tc, test_buf_out_of_memory_is_reported);
     tcase_add_test(tc, test_mem_fail_modes);

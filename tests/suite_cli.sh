@@ -368,6 +368,12 @@ grep -q "warning: .*\[small-count\]" "$T/err" || fail "batch rows were not audit
 (cd "$T" && expect 3 "$BIN" draw tmpl.yaml --each-row rows.csv -o 'strict/{group}.svg' --strict)
 [ -e "$T/strict" ] && fail "a strict batch with findings wrote files"
 
+# a placeholder's number is written as every other number is (1,000, not 1000)
+printf 'title: Big (test data)\nsource: s (test data)\nunit-label: people\nicon-value: 1000\nsuppress: {below: 1000}\ncategories:\n  - {label: A, glyph: square, count: 5000}\n  - {label: B, glyph: square, count: 400}\n  - {label: C, glyph: square, count: 7000}\n' > "$T/big.yaml"
+expect 0 "$BIN" draw "$T/big.yaml" -o "$T/big.svg"
+grep -q "fewer than 1000" "$T/big.svg" && fail "placeholder says 1000 where the text says 1,000"
+grep -q "B: fewer than 1,000\." "$T/big.svg" || fail "placeholder wording: $(grep -o 'fewer than [0-9,]*' "$T/big.svg" | head -2)"
+
 # ---- init writes files that draw without edits
 expect 0 "$BIN" init -o "$T/start.yaml"
 expect 0 "$BIN" draw "$T/start.yaml" -o "$T/start.svg"
