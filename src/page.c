@@ -55,15 +55,17 @@ size_t page_place(const page_grid *g, const long *spans, const double *heights,
         out[i].h = heights[i];
         used += spans[i];
     }
-    size_t first = n;
+    /* the panel reaching lowest: its overrun is what the page lacks, so the
+    ** message names one panel and one figure */
+    size_t lowest = n;
     for (size_t i = 0; i < n; i++) {
         double past = out[i].y + out[i].h - g->bottom;
-        if (past > 1e-9 && first == n)
-            first = i;
-        if (past > *over)
+        if (past > 1e-9 && past > *over) {
             *over = past;
+            lowest = i;
+        }
     }
-    return first;
+    return lowest;
 }
 
 /* ---- composing the page -------------------------------------------------- */
@@ -533,11 +535,11 @@ static ug_status overflow(composer *k, size_t i, double over)
     char name[160];
     panel_name(k->p, i, name, sizeof name);
     return ug_fail(k->err, UG_ELIMIT, k->p->panels[i].mark,
-                   "the content does not fit on the page: %s ends %.1f mm below "
-                   "the room above the sources, and the page needs %.1f mm more; "
-                   "use a larger page, more columns, fewer panels or smaller icons "
-                   "(nothing is shrunk to fit)",
-                   name, mm(k->boxes[i].y + k->boxes[i].h - k->g.bottom), mm(over));
+                   "the content does not fit on the page: %s reaches %.1f mm "
+                   "below the room above the sources, so the page needs %.1f mm "
+                   "more; use a larger page, more columns, fewer panels or smaller "
+                   "icons (nothing is shrunk to fit)",
+                   name, mm(over), mm(over));
 }
 
 static ug_status set_up(composer *k)

@@ -29,9 +29,9 @@ double page_span_width(const page_grid *g, long span);
 
 /* Place n panels in reading order: a panel takes the next `span` columns of
 ** the current row, or starts a new row when they are not free; a row is as
-** tall as its tallest panel. Panels start on whole pixels. Returns the index of the first panel whose
-** bottom passes g->bottom, or n when all fit; *over gets how far the
-** lowest panel passes it (px), the height the content lacks. */
+** tall as its tallest panel. Panels start on whole pixels. Returns the index
+** of the panel reaching lowest past g->bottom, or n when all fit; *over gets
+** how far it passes (px), the height the content lacks. */
 size_t page_place(const page_grid *g, const long *spans, const double *heights,
                   size_t n, page_box *out, double *over);
 
