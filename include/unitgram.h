@@ -398,8 +398,15 @@ UG_API const char *ug_severity_name(ug_severity s); /* "error", "warning", "note
 ** and returns the length the whole result needs, like snprintf. */
 UG_API size_t ug_text_visible(const char *s, char *out, size_t size);
 
-/* The commented starter layout `unitgram init` writes (page != 0: a page file). */
+/* The commented starter layout `unitgram init` writes (page != 0: a page file),
+** its first comment naming chart.yaml (handout.yaml); NULL when out of memory. */
 UG_API const char *ug_starter_layout(int page);
+/* The same, its comment naming `path` as the file to draw and the output the
+** draw command writes beside it ("out/foo.yaml" -> "out/foo.svg", a page's
+** .pdf), quoted for the shell when needed; a path holding a control
+** character, "-" or NULL gives the usual names. malloc'd (free()); NULL when
+** out of memory. */
+UG_API char *ug_starter_layout_for(int page, const char *path);
 
 /* Write len bytes to path through a temporary file in the same folder and
 ** rename(2), so a failure leaves any previous file untouched. "-" = stdout.

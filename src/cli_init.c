@@ -9,6 +9,7 @@
 ** dangling symlink or a file it may not read, and blocks on a FIFO.
 */
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
 
@@ -113,8 +114,14 @@ int cli_init(int argc, char **argv)
     }
     if (replace && !strcmp(out, "-"))
         return cli_usage("init", "--replace needs -o FILE");
-    const char *text = ug_starter_layout(page);
-    if (!strcmp(out, "-"))
-        return write_atomic(out, text);
-    return replace ? replace_starter(out, text) : write_starter(out, text);
+    char *text = ug_starter_layout_for(page, out);
+    if (!text) {
+        fputs("unitgram: error: out of memory\n", stderr);
+        return EXIT_INPUT;
+    }
+    int rc = !strcmp(out, "-") ? write_atomic(out, text)
+             : replace       ? replace_starter(out, text)
+                             : write_starter(out, text);
+    free(text);
+    return rc;
 }
