@@ -578,8 +578,25 @@ static const char *near_key(const char *key, const key_rule *t)
     return guess;
 }
 
-static ug_status unknown_key(loader *l, const layout_node *k, const key_rule *t)
+/* "{label: Adults, over 65}": in a flow mapping the comma ends the label and
+** "over 65" becomes a key with no value. Said as such, with the fix. */
+static bool split_by_comma(const layout_node *k, const layout_node *prev_v)
 {
+    const layout_node *v = k->next;
+    return prev_v && prev_v->kind == LAYOUT_SCALAR && prev_v->plain && k->plain &&
+           v->kind == LAYOUT_SCALAR && v->plain && v->len == 0 &&
+           prev_v->mark.line == k->mark.line;
+}
+
+static ug_status unknown_key(loader *l, const layout_node *k, const key_rule *t,
+                             const layout_node *prev_k)
+{
+    if (prev_k && split_by_comma(k, prev_k->next))
+        return ug_fail(l->err, UG_ESCHEMA, k->mark,
+                       "unknown key '%s': a comma inside { } ends the value before it, "
+                       "so '%s, %s' was read as two entries; put the value in quotes: "
+                       "%s: \"%s, %s\"", k->text, prev_k->next->text, k->text,
+                       prev_k->text, prev_k->next->text, k->text);
     const char *guess = near_key(k->text, t);
     if (guess)
         return ug_fail(l->err, UG_ESCHEMA, k->mark,
@@ -655,7 +672,8 @@ static ug_status walk_map(loader *l, void *base, const layout_node *map,
         return ug_fail(l->err, UG_ESCHEMA, map->mark, "'%s' expects a mapping, not %s",
                        l->key ? l->key : "the file", kind_name(map));
     ug_mark seen[32] = {{0}};
-    for (const layout_node *k = map->first; k; k = k->next->next) {
+    const layout_node *prev_k = NULL;
+    for (const layout_node *k = map->first; k; prev_k = k, k = k->next->next) {
         const layout_node *v = k->next;
         ug_status st = layout_check_text(k->text, k->len, false, k->mark, l->err);
         if (st)
@@ -664,7 +682,7 @@ static ug_status walk_map(loader *l, void *base, const layout_node *map,
         while (t[i].name && strcmp(t[i].name, k->text))
             i++;
         if (!t[i].name)
-            return unknown_key(l, k, t);
+            return unknown_key(l, k, t, prev_k);
         assert(i < 32);
         if (seen[i].line)
             return ug_fail(l->err, UG_ESCHEMA, k->mark,
