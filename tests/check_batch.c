@@ -51,14 +51,27 @@ static unsigned long lcg(unsigned long *state)
     return *state >> 33;
 }
 
+/* A fresh folder for a test's template t.yaml and CSV r.csv. */
+static void temp_files(char *dir, char *tmpl, char *csv, size_t size)
+{
+    ck_assert_ptr_nonnull(mkdtemp(dir));
+    snprintf(tmpl, size, "%s/t.yaml", dir);
+    snprintf(csv, size, "%s/r.csv", dir);
+}
+
+static void remove_files(const char *dir, const char *tmpl, const char *csv)
+{
+    unlink(tmpl);
+    unlink(csv);
+    rmdir(dir);
+}
+
 /* Row 0 is the base; rows 1 + 2c and 2 + 2c change category c only. The
 ** counts are random (seeded by the test number); split or inline lines,
 ** and a suppression threshold that may hide a changed count. */
-static void write_batch(const char *dir, int seed, char *tmpl, char *csv, size_t size)
+static void write_batch(int seed, const char *tmpl, const char *csv)
 {
     unsigned long st = (unsigned long)seed * 2654435761UL + 1;
-    snprintf(tmpl, size, "%s/t.yaml", dir);
-    snprintf(csv, size, "%s/r.csv", dir);
     FILE *f = fopen(tmpl, "w");
     ck_assert_ptr_nonnull(f);
     fprintf(f, "title: \"Row {group}\"\nunit-label: people\nicon-value: 5\n"
@@ -151,8 +164,8 @@ static void assert_same_places(const ug_scene *x, const ug_scene *y, unsigned c)
 START_TEST(test_shared_layout)
 {
     char dir[] = "/tmp/ug-batch-XXXXXX", tmpl[64], csv[64];
-    ck_assert_ptr_nonnull(mkdtemp(dir));
-    write_batch(dir, _i, tmpl, csv, sizeof tmpl);
+    temp_files(dir, tmpl, csv, sizeof tmpl);
+    write_batch(_i, tmpl, csv);
     ug_error err = {0};
     ug_batch *b = NULL;
     ck_assert_msg(!ug_batch_open(tmpl, csv, NULL, &b, &err), "%s", err.msg);
@@ -170,9 +183,7 @@ START_TEST(test_shared_layout)
     }
     ug_scene_free(base);
     ug_batch_free(b);
-    unlink(tmpl);
-    unlink(csv);
-    rmdir(dir);
+    remove_files(dir, tmpl, csv);
 }
 END_TEST
 
@@ -221,9 +232,7 @@ START_TEST(test_hidden_count_changes_no_byte)
 {
     enum { ROWS = 6 };
     char dir[] = "/tmp/ug-batch-XXXXXX", tmpl[64], csv[64];
-    ck_assert_ptr_nonnull(mkdtemp(dir));
-    snprintf(tmpl, sizeof tmpl, "%s/t.yaml", dir);
-    snprintf(csv, sizeof csv, "%s/r.csv", dir);
+    temp_files(dir, tmpl, csv, sizeof tmpl);
     unsigned long st = (unsigned long)_i * 2654435761UL + 7;
     char text[512];
     snprintf(text, sizeof text,
@@ -280,9 +289,7 @@ START_TEST(test_hidden_count_changes_no_byte)
     }
     for (int r = 0; r < ROWS; r++)
         free(before[r]);
-    unlink(tmpl);
-    unlink(csv);
-    rmdir(dir);
+    remove_files(dir, tmpl, csv);
 }
 END_TEST
 
@@ -292,9 +299,7 @@ END_TEST
 START_TEST(test_first_column_read_like_the_counts)
 {
     char dir[] = "/tmp/ug-batch-XXXXXX", tmpl[64], csv[64];
-    ck_assert_ptr_nonnull(mkdtemp(dir));
-    snprintf(tmpl, sizeof tmpl, "%s/t.yaml", dir);
-    snprintf(csv, sizeof csv, "%s/r.csv", dir);
+    temp_files(dir, tmpl, csv, sizeof tmpl);
     write_text(tmpl, "title: Row {group}\nicon-value: 1\ncategories:\n"
                      "  - {id: a, label: A}\n  - {id: b, label: B}\n");
     write_text(csv, "\"site;code\",a,b\nNorth;1,12,14\nSouth;2,30,11\n");
@@ -308,9 +313,7 @@ START_TEST(test_first_column_read_like_the_counts)
     ck_assert_msg(!ug_batch_open(tmpl, csv, NULL, &b, &err), "%s", err.msg);
     ck_assert_str_eq(ug_batch_name(b, 0), "North;1");
     ug_batch_free(b);
-    unlink(tmpl);
-    unlink(csv);
-    rmdir(dir);
+    remove_files(dir, tmpl, csv);
 }
 END_TEST
 
@@ -319,9 +322,7 @@ END_TEST
 START_TEST(test_unshared_rows_differ)
 {
     char dir[] = "/tmp/ug-batch-XXXXXX", tmpl[64], csv[64];
-    ck_assert_ptr_nonnull(mkdtemp(dir));
-    snprintf(tmpl, sizeof tmpl, "%s/t.yaml", dir);
-    snprintf(csv, sizeof csv, "%s/r.csv", dir);
+    temp_files(dir, tmpl, csv, sizeof tmpl);
     write_text(tmpl, "title: Row {group}\nicon-value: 1\ncolumns: 10\ncategories:\n"
                      "  - {id: a, label: A}\n  - {id: b, label: B}\n");
     write_text(csv, "name,a,b\nsmall,3,4\nlarge,95,4\n");
@@ -347,9 +348,7 @@ START_TEST(test_unshared_rows_differ)
         ug_scene_free(shared[r]);
     }
     ug_batch_free(b);
-    unlink(tmpl);
-    unlink(csv);
-    rmdir(dir);
+    remove_files(dir, tmpl, csv);
 }
 END_TEST
 
