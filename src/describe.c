@@ -289,9 +289,20 @@ char *pack_icons_text(const alloc_share *s, char *buf)
     return buf;
 }
 
+/* The noun follows what is drawn: "square" only when every category is
+** drawn as a square (the default glyph), so a waffle of person glyphs says
+** "icons", never "41 squares". */
+static bool all_squares(const ug_chart *c)
+{
+    for (size_t i = 0; i < c->ncats; i++)
+        if (c->cats[i].glyph.text && strcmp(c->cats[i].glyph.text, "square"))
+            return false;
+    return true;
+}
+
 const char *pack_icon_word(const ug_chart *c, bool plural)
 {
-    if (c->form == UG_FORM_WAFFLE)
+    if (c->form == UG_FORM_WAFFLE && all_squares(c))
         return plural ? "squares" : "square";
     return plural ? "icons" : "icon";
 }

@@ -125,7 +125,12 @@ static const char page_css[] =
     "caption{text-align:left;font-weight:bold;padding-bottom:.4em}"
     "th,td{border:1px solid #767676;padding:.25em .6em}"
     "td{text-align:right}thead th{background:#eee}"
-    "tbody th{text-align:left;font-weight:normal}";
+    "tbody th{text-align:left;font-weight:normal}"
+    /* the picture shows the title: the heading stays for screen readers and
+    ** page navigation, out of sight (clipped to nothing, not display:none,
+    ** which would hide it from them too) */
+    ".in-picture{position:absolute;width:1px;height:1px;overflow:hidden;"
+    "clip:rect(0 0 0 0);clip-path:inset(50%);white-space:nowrap}";
 
 /* The root <svg>'s width in CSS px from its width attribute, read as a
 ** layout's length is (our writers give px or mm); 0 when it states none. */
@@ -157,7 +162,7 @@ static void page_head(ug_buf *b, const char *title, double picture_px)
     ug_buf_printf(b, "</title>\n<style>%s", page_css);
     if (picture_px > 0)
         ug_buf_printf(b, "body{max-width:max(60em,%.0fpx)}", ceil(picture_px));
-    ug_buf_puts(b, "</style>\n</head>\n<body>\n<main>\n<h1>");
+    ug_buf_puts(b, "</style>\n</head>\n<body>\n<main>\n<h1 class=\"in-picture\">");
     svg_escape_text(b, title);
     ug_buf_puts(b, "</h1>\n");
 }

@@ -44,6 +44,21 @@ START_TEST(test_waffle_sentences)
 }
 END_TEST
 
+/* The cell noun follows the glyph: a waffle of person glyphs has icons, not
+** squares; one square among them is not enough to call them squares. */
+START_TEST(test_waffle_of_glyphs_says_icons)
+{
+    const fx_cat cats[] = {{"Families", "family", 0x0072B2, {"412"}, NULL},
+                           {"Adults", "square", 0xE69F00, {"300"}, NULL}};
+    ug_chart *c = fx_chart(UG_FORM_WAFFLE, "t", NULL, 0, cats, 2);
+    char *d = describe(c);
+    ck_assert_msg(strstr(d, "Each icon is 1% of the 712 households.") &&
+                      !strstr(d, "square"), "%s", d);
+    ug_free(d);
+    fx_free(c);
+}
+END_TEST
+
 /* 1/200 of the whole is 0.5%. */
 START_TEST(test_half_percent_cells)
 {
@@ -160,6 +175,7 @@ static Suite *describe_suite(void)
     tcase_add_test(t, test_half_percent_cells);
     tcase_add_test(t, test_groups_and_suppression);
     tcase_add_test(t, test_change_between_periods);
+    tcase_add_test(t, test_waffle_of_glyphs_says_icons);
     tcase_add_test(t, test_layout_description_wins);
     tcase_add_loop_test(t, test_number_grouping, 0, sizeof numbers / sizeof numbers[0]);
     suite_add_tcase(s, t);
