@@ -282,6 +282,14 @@ render-demo: $(BIN)
 	  $(BIN) draw $$f -o out/$$n.svg && echo "out/$$n.svg"; \
 	  rsvg-convert out/$$n.svg -o layouts/gallery/$$n.png \
 	    && echo "layouts/gallery/$$n.png"; done
+	@set -e; for s in $(GLYPH_SUBJECTS); do \
+	  $(BIN) glyphs --subject $$s --sheet layouts/gallery/glyphs-$$s.png \
+	    && echo "layouts/gallery/glyphs-$$s.png"; done
+
+# The glyph library's subject sets, each drawn as a contact sheet for the
+# README's glyph gallery.
+GLYPH_SUBJECTS = people health-care housing food education work-money transport \
+  environment-energy community communication safety-justice
 
 # ---- install ----------------------------------------------------------------
 # Build and install with the same PREFIX: the glyph folder is compiled in.
