@@ -314,6 +314,10 @@ static long jobs_for(const cli_draw_opts *o, size_t rows)
 static int draw_rows(batch_run *r)
 {
     const cli_draw_opts *o = r->o;
+    if (!r->n) { /* ug_batch_open refuses a CSV without rows; never draw row 0 of none */
+        fputs("unitgram: error: the batch has no rows to draw\n", stderr);
+        return EXIT_INPUT;
+    }
     r->res = calloc(r->n, sizeof *r->res);
     if (!r->res || pthread_mutex_init(&r->lock, NULL) != 0) {
         free(r->res);
