@@ -565,6 +565,56 @@ END_TEST
 ** band and the +-0.01 tolerance on each glyph's index.yaml `weight` are the
 ** artist's (tests/suite_glyph_art.sh measures them its own way); our 64 x 64
 ** coverage must agree with both. */
+/* Every library glyph is in one of the subject sets and has a description
+** of one short line: what the sheet and the listing read out for it. */
+static void assert_in_a_set(const ug_glyph_library *lib, size_t i)
+{
+    const char *name = ug_glyph_library_name(lib, i);
+    const char *subject = ug_glyph_library_subject(lib, i);
+    const char *desc = ug_glyph_library_description(lib, i);
+    ck_assert_msg(subject, "%s has no subject", name);
+    bool known = false;
+    for (size_t k = 0; k < ug_glyph_subject_count(); k++)
+        known = known || !strcmp(ug_glyph_subject_id(k), subject);
+    ck_assert_msg(known, "%s: unknown subject %s", name, subject);
+    ck_assert_msg(desc && *desc && strlen(desc) <= 80 && !strchr(desc, '\n'),
+                  "%s: description '%s'", name, desc ? desc : "(none)");
+}
+
+/* One sheet per set: as many named cells as the set has glyphs, and an
+** unknown set is refused. */
+static void assert_subject_sheets(const ug_glyph_library *lib)
+{
+    ug_error err = {0};
+    for (size_t k = 0; k < ug_glyph_subject_count(); k++) {
+        const char *id = ug_glyph_subject_id(k);
+        size_t want = 0;
+        for (size_t i = 0; i < ug_glyph_library_count(lib); i++) {
+            const char *subject = ug_glyph_library_subject(lib, i);
+            want += subject && !strcmp(subject, id);
+        }
+        char *svg = NULL;
+        size_t len = 0;
+        ck_assert_int_eq(ug_glyph_library_subject_sheet_svg(lib, id, &svg, &len, &err), UG_OK);
+        size_t cells = 0;
+        for (const char *p = svg; (p = strstr(p, "<g role=\"img\"><title>")); p++)
+            cells++;
+        ck_assert_msg(cells == want, "%s: %zu cells for %zu glyphs", id, cells, want);
+        ck_assert_ptr_nonnull(strstr(svg, ug_glyph_subject_title(k)));
+        free(svg);
+    }
+    char *svg = (char *)1;
+    size_t len = 0;
+    ck_assert_int_eq(ug_glyph_library_subject_sheet_svg(lib, "no-such-set", &svg, &len, &err),
+                     UG_ESCHEMA);
+    ck_assert_ptr_null(svg);
+    ck_assert_ptr_null(ug_glyph_subject_id(ug_glyph_subject_count()));
+    bool square = false;
+    for (size_t k = 0; k < ug_glyph_primitive_count(); k++)
+        square = square || !strcmp(ug_glyph_primitive_name(k), "square");
+    ck_assert(square);
+}
+
 START_TEST(test_project_library)
 {
     struct stat sb;
@@ -601,9 +651,11 @@ START_TEST(test_project_library)
                       "%s: ink %.3f outside the band", name, g->ink);
         assert_inert(g->body);
         glyph_free(g);
+        assert_in_a_set(lib, i);
     }
     ck_assert_uint_gt(n, 0);
     assert_sheet(lib);
+    assert_subject_sheets(lib);
     ug_glyph_library_free(lib);
 }
 END_TEST
