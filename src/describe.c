@@ -252,7 +252,10 @@ static void share_of_whole(const ug_allocation *a, ug_buf *b)
     const char *unit = c->unit_label.text;
     const char *shown = a->pub->nhidden ? " shown" : "";
     if (c->groups.n) {
-        ug_buf_printf(b, " of a group's %s%s", unit ? unit : "total", shown);
+        /* "1% of each school's pupils": the layout names what a group is
+        ** ("each", not "a", which would need "an" before some names) */
+        const char *group = c->group_label.text ? c->group_label.text : "group";
+        ug_buf_printf(b, " of each %s's %s%s", group, unit ? unit : "total", shown);
     } else if (unit) {
         ug_buf_puts(b, " of the ");
         pack_count_phrase(c, (ug_dec){a->group_totals[0].v}, b);

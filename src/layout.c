@@ -1013,6 +1013,7 @@ static const key_rule chart_keys[] = {
     {.name = "icon-value", .kind = K_FN, .fn = key_icon_value,
      .mark = CH(icon_value_mark), .flag = CH(has_icon_value)},
     {.name = "unit-label", .kind = K_TEXT, .off = CH(unit_label)},
+    {.name = "group-label", .kind = K_TEXT, .off = CH(group_label)},
     {.name = "rounding", .kind = K_ENUM, .off = CH(rounding),
      .mark = CH(rounding_mark), .choices = roundings},
     {.name = "method", .kind = K_ENUM, .off = CH(method), .mark = CH(method_mark),

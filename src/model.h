@@ -96,6 +96,7 @@ struct ug_chart {
     const char *dir;         /* its folder, for relative paths */
 
     ug_text title, subtitle, description, unit_label;
+    ug_text group_label;         /* what one group is ("school"); NULL: "group" */
     ug_text_list source, notes;
 
     ug_form form;

@@ -59,6 +59,25 @@ START_TEST(test_waffle_of_glyphs_says_icons)
 }
 END_TEST
 
+/* A waffle of groups says what a group is when the layout names it. */
+START_TEST(test_group_label_names_the_share)
+{
+    const char *groups[] = {"Oakfield", "Millbrook"};
+    const fx_cat cats[] = {{"Walk", "square", 0x009E73, {"212", "148"}, NULL},
+                           {"Bus", "square", 0x0072B2, {"87", "119"}, NULL}};
+    ug_chart *c = fx_chart(UG_FORM_WAFFLE, "t", groups, 2, cats, 2);
+    c->unit_label.text = "pupils";
+    char *d = describe(c);
+    ck_assert_msg(strstr(d, "Each square is 1% of each group's pupils."), "%s", d);
+    ug_free(d);
+    c->group_label.text = "school";
+    d = describe(c);
+    ck_assert_msg(strstr(d, "Each square is 1% of each school's pupils."), "%s", d);
+    ug_free(d);
+    fx_free(c);
+}
+END_TEST
+
 /* 1/200 of the whole is 0.5%. */
 START_TEST(test_half_percent_cells)
 {
@@ -176,6 +195,7 @@ static Suite *describe_suite(void)
     tcase_add_test(t, test_groups_and_suppression);
     tcase_add_test(t, test_change_between_periods);
     tcase_add_test(t, test_waffle_of_glyphs_says_icons);
+    tcase_add_test(t, test_group_label_names_the_share);
     tcase_add_test(t, test_layout_description_wins);
     tcase_add_loop_test(t, test_number_grouping, 0, sizeof numbers / sizeof numbers[0]);
     suite_add_tcase(s, t);
