@@ -74,7 +74,7 @@ make -s -j4 BUILD="$T/build2" PREFIX="$P2" install > "$T/log" 2>&1 \
 mkdir -p "$T/elsewhere" && cp layouts/pantry.yaml "$T/elsewhere/"
 (cd "$T/elsewhere" && "$P2/bin/unitgram" draw pantry.yaml -o pantry.svg) \
   || fail "installed binary cannot draw far from the sources"
-"$P2/bin/unitgram" glyphs | grep -q '^person ' || fail "installed glyph library not listed"
+"$P2/bin/unitgram" glyphs | grep -qE '^ *person ' || fail "installed glyph library not listed"
 make -s BUILD="$T/build2" PREFIX="$P2" uninstall > "$T/log" 2>&1
 left=$(find "$P2" -type f)
 [ -z "$left" ] || fail "left after uninstall: $left"
