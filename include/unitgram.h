@@ -65,6 +65,77 @@ typedef struct {
 UG_API const char *ug_error_format(const ug_error *err, char *buf, size_t size);
 UG_API const char *ug_status_name(ug_status st);
 
+/* ---- option structs ---------------------------------------------------- */
+
+/* Every option struct has a `size` member: 0, or sizeof the struct as the
+** caller's copy of this header declares it. Fields added in later versions
+** go after `size` and are read only when size covers them, so a program
+** built against an older header keeps working; 0 means the struct as first
+** released (zero-initialised and designated-initialiser code needs no
+** change). Fill them with designated initialisers ({.glyph_cache = c}):
+** a positional one stops short of `size` and compilers warn about it
+** (-Wmissing-field-initializers, part of GCC's -Wextra). */
+
+/* ---- the context: where the library gets memory, files and glyphs ------ */
+
+/* A context holds what would otherwise be process-wide: the allocator, the
+** glyph roots, default limits, a hook reading files from memory and the
+** fault-injection counters of the tests. Every call made on a thread uses
+** the context bound to that thread (ug_context_use); a thread that binds
+** none has its own default context (libc's allocator, the installed glyph
+** folder, the UG_DEFAULT_* limits), so code that never names a context works
+** as before, thread by thread.
+**
+** One context per thread: a context must not be bound on two threads at once
+** (its fault counters change on every allocation). Objects and *out buffers
+** made while a context is bound come from its allocator: free them while the
+** same context (or one with the same allocator) is bound. The libraries
+** unitgram uses (libyaml, libxml2, cairo, pango, librsvg, GLPK) keep their
+** own allocators. */
+typedef struct ug_context ug_context;
+
+/* The file hook: serve path's bytes from memory. Return 1 with *data and *len
+** set (borrowed; the library copies them before the hook is called again),
+** 0 to let the library read the file from disk, -1 to refuse the file (the
+** call fails with UG_EIO naming it). Layout files, CSV files and glyph
+** folders' index.yaml go through it; glyph files are read from the glyph
+** roots on disk. The stated limits apply to served bytes too. */
+typedef int (*ug_read_hook)(void *ud, const char *path, const char **data, size_t *len);
+
+/* The allocator, in the manner of Lua's lua_Alloc: n == 0 frees ptr (which may
+** be NULL) and returns NULL; otherwise it returns a block of n bytes holding
+** what ptr (NULL for a new block) held, or NULL when out of memory, leaving
+** ptr untouched. Blocks need the alignment malloc(3) gives. */
+typedef void *(*ug_alloc_fn)(void *ud, void *ptr, size_t n);
+
+typedef struct {
+    size_t size;                    /* see "option structs" above */
+    ug_alloc_fn alloc;              /* NULL: malloc, realloc and free */
+    void *alloc_ud;
+    const char *const *glyph_roots; /* the library's glyph folders, searched in
+                                       order in place of the installed data
+                                       folder; copied. NULL: that folder */
+    size_t nglyph_roots;
+    size_t max_file_bytes, max_icons, max_panels; /* defaults for loads whose
+                                       ug_limits leave them 0; 0: UG_DEFAULT_* */
+    ug_read_hook read_file;         /* NULL: every file from disk */
+    void *read_ud;
+} ug_context_options;
+
+/* A new context (allocated with opt's allocator); opt may be NULL. Limits
+** above their ceilings are refused with UG_ELIMIT. */
+UG_API ug_status ug_context_new(const ug_context_options *opt, ug_context **out,
+                                ug_error *err);
+/* Unbinds it first when it is bound on the calling thread. Free it after
+** every object made under it. NULL is allowed. */
+UG_API void ug_context_free(ug_context *ctx);
+/* Bind ctx to the calling thread (NULL: the thread's default context) and
+** return the context bound before (NULL: the default), so a library can
+** bind its own and restore the caller's. */
+UG_API ug_context *ug_context_use(ug_context *ctx);
+/* The context calls on this thread use now (never NULL). */
+UG_API ug_context *ug_context_current(void);
+
 /* ---- the chart model (layout files, FORMAT.md §1) --------------------- */
 
 typedef struct ug_chart ug_chart;
@@ -72,9 +143,10 @@ typedef struct ug_chart ug_chart;
 /* The caps a loader enforces. A value above its ceiling is refused with
 ** UG_ELIMIT rather than quietly lowered. */
 typedef struct {
-    size_t max_file_bytes;   /* 0 = UG_DEFAULT_MAX_FILE */
+    size_t max_file_bytes;   /* 0 = the context's default (UG_DEFAULT_MAX_FILE) */
     size_t max_icons;        /* 0 = UG_DEFAULT_MAX_ICONS; at most UG_CEILING_ICONS */
     size_t max_panels;       /* 0 = UG_DEFAULT_MAX_PANELS; at most UG_CEILING_PANELS */
+    size_t size;             /* see "option structs" */
 } ug_limits;
 
 #define UG_DEFAULT_MAX_FILE 4194304 /* 4 MiB */
@@ -184,6 +256,7 @@ typedef struct {
                                       after the library; may be NULL */
     size_t nglyph_dirs;
     ug_glyph_cache *glyph_cache;   /* optional; borrowed, must outlive the call */
+    size_t size;                   /* see "option structs" */
 } ug_pack_options;
 
 /* ug_scene_pack with options; opt may be NULL (the defaults). */
@@ -313,8 +386,8 @@ UG_API ug_status ug_page_describe(const ug_page *page, char **out, size_t *len,
 
 /* ---- the glyph library ------------------------------------------------ */
 
-/* Every glyph the search path offers (the project's glyphs/, the installed
-** data folder, UNITGRAM_GLYPH_PATH, then dirs), sorted by name; a name in
+/* Every glyph the search path offers (the context's glyph roots or the
+** installed data folder, UNITGRAM_GLYPH_PATH, then dirs), sorted by name; a name in
 ** several folders is the first one found, as when a chart names it. */
 typedef struct ug_glyph_library ug_glyph_library;
 

@@ -74,6 +74,15 @@ int cli_number_option(const char *cmd, int argc, char **argv, int *i,
 /* "-h" or "--help". */
 bool cli_is_help(const char *arg);
 
+/* The library's context for this program: its glyph roots are the source
+** tree's glyphs/ when the binary runs from its build folder, then the
+** installed data folder. cli_bind_context finds the tree and binds a context
+** to the calling thread (NULL, with a message, when out of memory); a thread
+** the program starts binds its own from cli_new_context (NULL when out of
+** memory) and frees it when done. */
+ug_context *cli_bind_context(void);
+ug_context *cli_new_context(void);
+
 /* --max-icons N and --max-input-bytes N (also --opt=N): the limits every
 ** later cli_load_chart uses. Returns 1 when argv[*i] was one of them (and
 ** steps *i past its value), 0 when it was not, -1 after a usage error. */

@@ -156,15 +156,21 @@ static void draw_row(batch_run *r, size_t i)
     ug_chart_free(chart);
 }
 
+/* Each thread draws under a context of its own (one per thread, as
+** unitgram.h asks); one that cannot make one leaves its rows to the others. */
 static void *worker(void *arg)
 {
     batch_run *r = arg;
+    ug_context *ctx = cli_new_context();
+    if (!ctx)
+        return NULL;
+    ug_context *before = ug_context_use(ctx);
     for (;;) {
         pthread_mutex_lock(&r->lock);
         size_t i = r->next++;
         pthread_mutex_unlock(&r->lock);
         if (i >= r->n)
-            return NULL;
+            break;
         draw_row(r, i);
         pthread_mutex_lock(&r->lock);
         r->done++;
@@ -172,6 +178,9 @@ static void *worker(void *arg)
             progress(r->done, r->n, r->start, &r->shown);
         pthread_mutex_unlock(&r->lock);
     }
+    ug_context_use(before);
+    ug_context_free(ctx);
+    return NULL;
 }
 
 /* Threads for rows 1.. (row 0 is drawn first, alone, so its warnings come
@@ -363,7 +372,8 @@ static void unnamed_rows_warning(const ug_batch *b, bool one_pdf)
 static int run(ug_batch *b, char **paths, const cli_draw_opts *o,
                ug_glyph_cache *cache)
 {
-    ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, cache};
+    ug_pack_options popt = {.glyph_dirs = o->glyph_dirs, .nglyph_dirs = o->nglyph_dirs,
+                            .glyph_cache = cache};
     int audited = audit_rows(b, &popt, o->strict);
     if (audited)
         return audited;

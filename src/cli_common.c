@@ -12,6 +12,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
+#include <sys/stat.h>
 #include <time.h>
 #include <unistd.h>
 
@@ -146,6 +147,58 @@ int cli_number_option(const char *cmd, int argc, char **argv, int *i,
     cli_usage(cmd, "%s expects %s from %.15g to %.15g (found '%s')", lng,
               whole ? "a whole number" : "a number", lo, hi, v);
     return -1;
+}
+
+/* ---- the library's context: where the glyphs are ---- */
+
+#ifndef UG_DATADIR
+#define UG_DATADIR "/usr/local/share/unitgram/glyphs"
+#endif
+
+/* The glyphs/ folder of the source tree this binary was built in (build/unitgram
+** -> ../glyphs, up to three folders up), so a build runs before it is
+** installed; "" when there is none. Found once, before any thread starts. */
+static char project_glyphs[4096];
+
+static void find_project_glyphs(void)
+{
+    char exe[3000];
+    ssize_t n = readlink("/proc/self/exe", exe, sizeof exe - 1);
+    struct stat sb;
+    for (int up = 0; n > 0 && up < 3; up++) {
+        exe[n] = '\0';
+        char *slash = strrchr(exe, '/');
+        if (!slash)
+            return;
+        *slash = '\0';
+        n = slash - exe;
+        snprintf(project_glyphs, sizeof project_glyphs, "%s/../glyphs", exe);
+        if (stat(project_glyphs, &sb) == 0 && S_ISDIR(sb.st_mode))
+            return;
+    }
+    project_glyphs[0] = '\0';
+}
+
+ug_context *cli_new_context(void)
+{
+    const char *roots[] = {project_glyphs, UG_DATADIR};
+    bool in_tree = project_glyphs[0] != '\0';
+    ug_context_options o = {.size = sizeof o, .glyph_roots = roots + !in_tree,
+                            .nglyph_roots = 1 + in_tree};
+    ug_context *ctx = NULL;
+    ug_error err;
+    return ug_context_new(&o, &ctx, &err) == UG_OK ? ctx : NULL;
+}
+
+ug_context *cli_bind_context(void)
+{
+    find_project_glyphs();
+    ug_context *ctx = cli_new_context();
+    if (ctx)
+        ug_context_use(ctx);
+    else
+        fputs("unitgram: out of memory\n", stderr);
+    return ctx;
 }
 
 /* Set by --max-icons, --max-input-bytes and --max-panels; zeros are the

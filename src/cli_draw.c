@@ -256,7 +256,7 @@ static int draw_page(const cli_draw_opts *o)
     size_t len = 0;
     int rc = EXIT_OK;
     ug_findings *f = NULL;
-    ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, NULL};
+    ug_pack_options popt = {.glyph_dirs = o->glyph_dirs, .nglyph_dirs = o->nglyph_dirs};
     if (ug_page_load(o->layout, cli_limits(), &page, &err) ||
         ug_page_draw_with(page, &popt, format_of(o), o->dpi > 0 ? o->dpi : 96,
                           o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
@@ -283,7 +283,7 @@ int cli_draw_one(const cli_draw_opts *o, char ***inputs)
     int rc = load(o->layout, &l, &err);
     if (rc)
         return rc;
-    ug_pack_options popt = {o->glyph_dirs, o->nglyph_dirs, NULL};
+    ug_pack_options popt = {.glyph_dirs = o->glyph_dirs, .nglyph_dirs = o->nglyph_dirs};
     ug_scene *scene = NULL;
     char *svg = NULL, *bytes = NULL;
     size_t len = 0;

@@ -38,6 +38,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include "context.h"
 #include "glyph.h"
 #include "svg.h"
 
@@ -731,42 +732,15 @@ static ug_status load_file(ug_glyph *g, const char *root, bool library, ug_mark 
 #define UG_DATADIR "/usr/local/share/unitgram/glyphs"
 #endif
 
-/* Written once, by find_default_dirs, then only read: threads drawing at
-** once would otherwise fill them together (pthread_once, POSIX.1-2008). */
-static char project[4096];
-static const char *default_dirs[3];
-static pthread_once_t default_dirs_once = PTHREAD_ONCE_INIT;
+static const char *const installed_dirs[] = {UG_DATADIR, NULL};
 
-static void find_default_dirs(void)
-{
-    char exe[3000];
-    ssize_t n = readlink("/proc/self/exe", exe, sizeof exe - 1);
-    size_t k = 0;
-    struct stat sb;
-    for (int up = 0; n > 0 && up < 3; up++) {
-        exe[n] = '\0';
-        char *slash = strrchr(exe, '/');
-        if (!slash)
-            break;
-        *slash = '\0';
-        n = slash - exe;
-        snprintf(project, sizeof project, "%s/../glyphs", exe);
-        if (stat(project, &sb) == 0 && S_ISDIR(sb.st_mode)) {
-            default_dirs[k++] = project;
-            break;
-        }
-    }
-    default_dirs[k++] = UG_DATADIR;
-    default_dirs[k] = NULL;
-}
-
-/* The project's own glyphs/ folder, found from the running binary
-** (build/unitgram or build/tests/x -> the first ../glyphs that exists), then
-** the installed data folder. */
+/* The context's glyph roots, else the installed data folder. The library
+** never guesses a folder from the running program: a host (the CLI run from
+** its build folder, a test) names its own roots in its context. */
 const char *const *glyph_default_dirs(void)
 {
-    pthread_once(&default_dirs_once, find_default_dirs);
-    return default_dirs;
+    const ug_context *c = ug_ctx();
+    return c->glyph_roots ? (const char *const *)c->glyph_roots : installed_dirs;
 }
 
 static size_t count_path_list(const char *list)

@@ -4,7 +4,7 @@
 ** A glyph reference in a layout is one of
 **   - a primitive: "square", "rounded-square", "circle" (drawn in code);
 **   - a library name: "person" -> NAME.svg found on the search path
-**     (the project's glyphs/, the installed data folder, UNITGRAM_GLYPH_PATH,
+**     (the context's glyph roots or the installed data folder, UNITGRAM_GLYPH_PATH,
 **     then --glyph-dir folders);
 **   - a path to the user's own SVG file ("./icons/boat.svg"), relative to the
 **     layout's folder, which is sanitized and normalised into the unit box.

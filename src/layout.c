@@ -22,6 +22,7 @@
 #include "colorparse.h"
 #include "audit.h"
 #include "color.h"
+#include "context.h"
 #include "layout.h"
 
 /* A list or mapping longer than this is refused while parsing, before any
@@ -31,10 +32,46 @@
 
 /* ---- files and text ------------------------------------------------------ */
 
+static ug_status too_large(const char *path, size_t max, ug_mark at, ug_error *err)
+{
+    return ug_fail(err, UG_ELIMIT, at, "'%s' is larger than the limit of %zu bytes "
+                   "(raise it with --max-input-bytes)", path, max);
+}
+
+/* The host's file hook (ug_context_options.read_file) first: 1 when it
+** served the file (or refused it, with the error raised), 0 for the disk. */
+static int read_hooked(const char *path, size_t max, ug_mark at, char **text,
+                       size_t *len, ug_status *rc, ug_error *err)
+{
+    const ug_context *c = ug_ctx();
+    const char *data = NULL;
+    size_t n = 0;
+    int got = c->read_file ? c->read_file(c->read_ud, path, &data, &n) : 0;
+    if (got == 0)
+        return 0;
+    if (got < 0 || (!data && n))
+        *rc = ug_fail(err, UG_EIO, at, "cannot read '%s': refused by the host's reader", path);
+    else if (n > max)
+        *rc = too_large(path, max, at, err);
+    else if (!(*text = ug_malloc(n + 1)))
+        *rc = ug_fail(err, UG_ENOMEM, at, "out of memory");
+    else {
+        if (n)
+            memcpy(*text, data, n);
+        (*text)[n] = '\0';
+        *len = n;
+        *rc = UG_OK;
+    }
+    return 1;
+}
+
 ug_status layout_read_file(const char *path, size_t max, ug_mark at,
                            char **text, size_t *len, ug_error *err)
 {
     *text = NULL;
+    ug_status hooked;
+    if (read_hooked(path, max, at, text, len, &hooked, err))
+        return hooked;
     /* Non-blocking, so a FIFO is refused below instead of waiting for a writer. */
     int fd = open(path, O_RDONLY | O_NONBLOCK | O_CLOEXEC);
     FILE *f = fd < 0 ? NULL : fdopen(fd, "rb");
@@ -52,9 +89,7 @@ ug_status layout_read_file(const char *path, size_t max, ug_mark at,
         goto out;
     }
     if ((unsigned long long)st.st_size > max) {
-        rc = ug_fail(err, UG_ELIMIT, at,
-                     "'%s' is larger than the limit of %zu bytes "
-                     "(raise it with --max-input-bytes)", path, max);
+        rc = too_large(path, max, at, err);
         goto out;
     }
     size_t size = (size_t)st.st_size;
@@ -1290,12 +1325,14 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
 
 /* ---- loading a chart ----------------------------------------------------- */
 
+/* A limit the caller leaves 0 comes from the thread's context. */
 static void resolve_limits(ug_limits *out, const ug_limits *in)
 {
-    out->max_file_bytes = in && in->max_file_bytes ? in->max_file_bytes
-                                                   : UG_DEFAULT_MAX_FILE;
-    out->max_icons = in && in->max_icons ? in->max_icons : UG_DEFAULT_MAX_ICONS;
-    out->max_panels = in && in->max_panels ? in->max_panels : UG_DEFAULT_MAX_PANELS;
+    const ug_limits *d = &ug_ctx()->limits;
+    out->max_file_bytes = in && in->max_file_bytes ? in->max_file_bytes : d->max_file_bytes;
+    out->max_icons = in && in->max_icons ? in->max_icons : d->max_icons;
+    out->max_panels = in && in->max_panels ? in->max_panels : d->max_panels;
+    out->size = 0;
 }
 
 static ug_status check_ceilings(const ug_limits *lim, const char *path, ug_error *err)

@@ -99,5 +99,8 @@ static int close_stdout(int rc)
 
 int main(int argc, char **argv)
 {
-    return close_stdout(run(argc, argv));
+    ug_context *ctx = cli_bind_context();
+    int rc = close_stdout(ctx ? run(argc, argv) : EXIT_INPUT);
+    ug_context_free(ctx);
+    return rc;
 }

@@ -1010,7 +1010,7 @@ ug_status pack_scene(const ug_chart *c, const ug_allocation *a,
                      const ug_pack_options *opt, pack_frame *frame, bool measuring,
                      ug_scene **out, ug_error *err)
 {
-    static const ug_pack_options defaults = {NULL, 0, NULL};
+    static const ug_pack_options defaults = {0};
     *out = NULL;
     packer p;
     memset(&p, 0, sizeof p);

@@ -92,57 +92,7 @@ void ug_init_libraries(void)
     pthread_once(&once, init_libraries);
 }
 
-/* ---- memory ------------------------------------------------------------- */
-
-/* Per thread: a test arming a failure fails its own thread's allocations,
-** never those of threads drawing beside it, and counts only its own. */
-static _Thread_local long allocs_left = -1; /* -1: never fail */
-static _Thread_local long allocs_made;
-static _Thread_local bool fail_just_one;
-
-static bool may_allocate(void)
-{
-    allocs_made++;
-    if (allocs_left < 0)
-        return true;
-    if (allocs_left == 0) {
-        if (fail_just_one)
-            allocs_left = -1;
-        return false;
-    }
-    allocs_left--;
-    return true;
-}
-
-long ug_mem_fail_after(long n)
-{
-    long made = allocs_made;
-    allocs_left = n;
-    allocs_made = 0;
-    fail_just_one = false;
-    return made;
-}
-
-long ug_mem_fail_once(long n)
-{
-    long made = ug_mem_fail_after(n);
-    fail_just_one = true;
-    return made;
-}
-
-void *ug_malloc(size_t n) { return may_allocate() ? malloc(n ? n : 1) : NULL; }
-
-void *ug_calloc(size_t count, size_t size)
-{
-    return may_allocate() ? calloc(count ? count : 1, size ? size : 1) : NULL;
-}
-
-void *ug_realloc(void *p, size_t n)
-{
-    return may_allocate() ? realloc(p, n ? n : 1) : NULL;
-}
-
-void ug_free(void *p) { free(p); }
+/* ---- strings (ug_malloc and its kin live in context.c) ---------------- */
 
 char *ug_strndup(const char *s, size_t n)
 {

@@ -5,8 +5,10 @@
 ** for drawing (as tests/example/draw.c does); the fault-injection test alone
 ** reaches into src/ug.h for ug_mem_fail_after.
 **
-** The library sets itself up on its first drawing (fonts, the text context,
-** the glyph folders), so that set-up is what races: every test runs in a
+** Each thread draws under a context of its own, as unitgram.h asks (one
+** context per thread); the contexts name the same glyph roots.
+** The library sets itself up on its first drawing (fonts, the text context),
+** so that set-up is what races: every test runs in a
 ** process forked for it, where the concurrent drawing is the first one and
 ** the single-threaded reference is drawn after it (or, in the warm test,
 ** first). A forked child also lets LeakSanitizer and ThreadSanitizer judge
@@ -190,6 +192,8 @@ typedef struct {
 static void *work(void *arg)
 {
     worker *w = arg;
+    ug_context *ctx = check_context();
+    ug_context_use(ctx);
     pthread_barrier_wait(w->start);
     w->ok = draw_all(&w->first, w->why);
     for (int r = 1; w->ok && r < ROUNDS; r++) {
@@ -197,6 +201,7 @@ static void *work(void *arg)
         w->ok = draw_all(&again, w->why) && same(&again, &w->first, "a later round", w->why);
         drawing_free(&again);
     }
+    ug_context_free(ctx);
     return NULL;
 }
 
@@ -275,9 +280,12 @@ static void *other_thread(void *arg)
 {
     fault_run *f = arg;
     blob b = {0};
+    ug_context *ctx = check_context();
+    ug_context_use(ctx);
     pthread_barrier_wait(&f->step);
     f->other_ok = draw_one(layouts[0], 0 /* SVG */, &b, f->why);
     free(b.data);
+    ug_context_free(ctx);
     pthread_barrier_wait(&f->step);
     return NULL;
 }
@@ -366,7 +374,7 @@ typedef struct {
 static ug_status row_png(ug_batch *b, ug_glyph_cache *cache, size_t i, blob *out,
                          ug_error *err)
 {
-    ug_pack_options opt = {NULL, 0, cache};
+    ug_pack_options opt = {.glyph_cache = cache};
     ug_chart *row = NULL;
     ug_allocation *alloc = NULL;
     ug_scene *scene = NULL;
@@ -392,6 +400,8 @@ static void *draw_rows(void *arg)
 {
     row_worker *w = arg;
     ug_error err = {0};
+    ug_context *ctx = check_context();
+    ug_context_use(ctx);
     pthread_barrier_wait(w->start);
     w->ok = true;
     for (size_t i = (size_t)w->first; w->ok && i < BATCH_ROWS; i += NTHREADS)
@@ -399,6 +409,7 @@ static void *draw_rows(void *arg)
             w->ok = false;
             snprintf(w->why, WHY, "row %zu: %.900s", i, err.msg);
         }
+    ug_context_free(ctx);
     return NULL;
 }
 

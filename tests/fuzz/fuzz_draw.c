@@ -21,6 +21,23 @@
 #include "unitgram.h"
 
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
+int LLVMFuzzerInitialize(int *argc, char ***argv);
+
+/* Library glyph names resolve in the project's glyphs/ (the fuzzer runs from
+** the repository root): the context every run on this thread uses. */
+int LLVMFuzzerInitialize(int *argc, char ***argv)
+{
+    (void)argc;
+    (void)argv;
+    const char *roots[] = {"glyphs"};
+    ug_context_options o = {.size = sizeof o, .glyph_roots = roots, .nglyph_roots = 1};
+    ug_context *ctx = NULL;
+    ug_error err = {0};
+    if (ug_context_new(&o, &ctx, &err) != UG_OK)
+        abort();
+    ug_context_use(ctx);
+    return 0;
+}
 
 /* Hand-written compares, not the C library's: libFuzzer hooks those, which
 ** slows every run and steers mutation towards the checker's own strings. */
