@@ -12,7 +12,6 @@
 
 #include "pack.h"
 #include "page.h"
-#include "raster.h"
 #include "svg.h"
 #include "text.h"
 
@@ -83,7 +82,7 @@ typedef struct {
     ug_mark font_mark; /* where the font was named, for messages */
     scene_rgb ink, paper;
     page_grid g;
-    char **svgs;          /* one per panel; NULL for text */
+    ug_scene **scenes;    /* one per panel; NULL for text */
     text_block *texts;    /* one per panel; n == 0 for charts */
     text_block title, foot;
     long *spans;
@@ -293,7 +292,8 @@ static ug_status chart_panel(composer *k, size_t i)
                      "give it a larger span, use fewer columns or smaller icons",
                      name, mm(k->crops[i].w), mm(room));
     } else {
-        st = ug_scene_svg(s, &k->svgs[i], NULL, k->err);
+        k->scenes[i] = s;
+        return UG_OK;
     }
     ug_scene_free(s);
     return st;
@@ -413,119 +413,86 @@ static void fit_header_and_foot(composer *k)
 
 /* ---- writing the page ------------------------------------------------------------ */
 
-static void num_attr(ug_buf *b, const char *name, double v, const char *unit)
+/* A text block's lines as scene text, top-left at (x, top). */
+static void add_lines(ug_scene *sheet, const text_block *t, double x, double top,
+                      double px, bool bold)
 {
-    char t[32];
-    svg_number(v, t);
-    ug_buf_printf(b, " %s=\"%s%s\"", name, t, unit);
+    for (size_t i = 0; i < t->n; i++)
+        if (t->lines[i][0])
+            sheet->texts[sheet->ntexts++] = (scene_text){
+                .x = x, .y = top + t->ascent + (double)i * t->pitch, .size = px,
+                .bold = bold, .anchor = SCENE_START, .text = t->lines[i]};
 }
 
-static void text_lines(ug_buf *b, const text_block *t, double x, double top,
-                       double px, bool bold)
+static ug_status sheet_texts(composer *k, ug_scene *sheet)
 {
-    for (size_t i = 0; i < t->n; i++) {
-        if (!t->lines[i][0])
+    const text_block *blocks[] = {&k->title, &k->foot};
+    size_t n = blocks[0]->n + blocks[1]->n;
+    for (size_t i = 0; i < k->p->npanels; i++)
+        n += k->texts[i].n;
+    if (n && !(sheet->texts = ug_arena_alloc(&sheet->arena, n * sizeof *sheet->texts)))
+        return nomem(k);
+    add_lines(sheet, &k->title, k->g.margin, k->g.margin, PAGE_TITLE_PX, true);
+    for (size_t i = 0; i < k->p->npanels; i++)
+        add_lines(sheet, &k->texts[i], k->boxes[i].x, k->boxes[i].y, PAGE_TEXT_PX, false);
+    add_lines(sheet, &k->foot, k->g.margin,
+              k->g.height - k->g.margin - block_height(&k->foot), PAGE_SOURCE_PX, false);
+    return UG_OK;
+}
+
+/* Each chart's scene placed in its box, cropped to its content. */
+static ug_status sheet_children(composer *k, ug_scene *sheet)
+{
+    size_t n = k->p->npanels;
+    if (!(sheet->children = ug_arena_alloc(&sheet->arena, (n ? n : 1) * sizeof(scene_child))))
+        return nomem(k);
+    for (size_t i = 0; i < n; i++) {
+        if (!k->scenes[i])
             continue;
-        ug_buf_puts(b, "<text");
-        num_attr(b, "x", x, "");
-        num_attr(b, "y", top + t->ascent + (double)i * t->pitch, "");
-        num_attr(b, "font-size", px, "");
-        ug_buf_puts(b, bold ? " font-weight=\"bold\">" : ">");
-        svg_escape(b, t->lines[i]);
-        ug_buf_puts(b, "</text>\n");
+        scene_child *c = &sheet->children[sheet->nchildren++];
+        *c = (scene_child){k->scenes[i], k->boxes[i].x, k->boxes[i].y, k->crops[i].x,
+                           k->crops[i].y, k->crops[i].w, k->crops[i].h, ""};
+        snprintf(c->id_prefix, sizeof c->id_prefix, "p%zu-", i + 1);
     }
+    return UG_OK;
 }
 
-/* A chart's own SVG, cropped to `crop` and placed at box: an outer <svg>
-** whose viewBox is the crop holds the chart's document unchanged, so no
-** icon is scaled. The chart's ids (glyph symbols, clip paths, title and
-** description) get a per-panel prefix so two charts never share one; the
-** SVG writer escapes every quote in text, so these quoted patterns occur
-** only in attributes. */
-static void nest(ug_buf *b, const char *svg, size_t panel, const page_box *box,
-                 const page_box *crop)
+/* Text straight from the input, cleaned as the packer cleans a chart's. */
+static const char *sheet_string(ug_scene *sheet, const char *s)
 {
-    static const char *const refs[] = {" id=\"", "href=\"#", "\"url(#",
-                                       "aria-labelledby=\"", "aria-describedby=\""};
-    size_t len = strlen(svg), run = raster_svg_body(svg, len);
-    char prefix[32], v[4][32];
-    snprintf(prefix, sizeof prefix, "p%zu-", panel + 1);
-    ug_buf_puts(b, "<svg");
-    num_attr(b, "x", box->x, "");
-    num_attr(b, "y", box->y, "");
-    num_attr(b, "width", crop->w, "");
-    num_attr(b, "height", crop->h, "");
-    svg_number(crop->x, v[0]);
-    svg_number(crop->y, v[1]);
-    svg_number(crop->w, v[2]);
-    svg_number(crop->h, v[3]);
-    ug_buf_printf(b, " viewBox=\"%s %s %s %s\">\n", v[0], v[1], v[2], v[3]);
-    for (size_t i = run; i < len; i++)
-        for (size_t r = 0; r < sizeof refs / sizeof refs[0]; r++) {
-            size_t n = strlen(refs[r]);
-            if (len - i >= n && memcmp(svg + i, refs[r], n) == 0) {
-                ug_buf_add(b, svg + run, i + n - run);
-                ug_buf_puts(b, prefix);
-                run = i + n;
-                i += n - 1;
-                break;
-            }
-        }
-    ug_buf_add(b, svg + run, len - run);
-    ug_buf_puts(b, "</svg>\n");
+    char *clean = text_clean(s);
+    const char *kept = clean ? ug_arena_strdup(&sheet->arena, clean) : NULL;
+    ug_free(clean);
+    return kept;
 }
 
-static void color_attr(ug_buf *b, const char *name, scene_rgb c)
-{
-    ug_buf_printf(b, " %s=\"#%02x%02x%02x\"", name, c.r, c.g, c.b);
-}
-
-static void page_head(composer *k, ug_buf *b)
-{
-    const ug_page *p = k->p;
-    ug_buf_puts(b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
-                   "<svg xmlns=\"http://www.w3.org/2000/svg\"");
-    /* stated in mm, so the sheet is exact whatever rounding the px carry */
-    num_attr(b, "width", mm(p->width), "mm");
-    num_attr(b, "height", mm(p->height), "mm");
-    char w[32], h[32];
-    svg_number(k->g.width, w);
-    svg_number(k->g.height, h);
-    ug_buf_printf(b, " viewBox=\"0 0 %s %s\"", w, h);
-    ug_buf_puts(b, " aria-labelledby=\"page-title\" aria-describedby=\"page-desc\""
-                   " font-family=\"");
-    svg_escape_text(b, k->font);
-    ug_buf_puts(b, "\">\n<title id=\"page-title\">");
-    svg_escape_text(b, p->title.text ? p->title.text : "Handout");
-    ug_buf_puts(b, "</title>\n<desc id=\"page-desc\">");
-    svg_escape_text(b, k->r->desc);
-    ug_buf_puts(b, "</desc>\n<rect");
-    num_attr(b, "width", k->g.width, "");
-    num_attr(b, "height", k->g.height, "");
-    color_attr(b, "fill", k->paper);
-    ug_buf_puts(b, "/>\n");
-}
-
+/* The sheet is a scene of its own: its text lines, and the charts' scenes as
+** children, written by the one SVG writer (svg.c). */
 static ug_status write_page(composer *k)
 {
-    ug_buf b;
-    ug_buf_init(&b);
-    page_head(k, &b);
-    ug_buf_puts(&b, "<g");
-    color_attr(&b, "fill", k->ink);
-    ug_buf_puts(&b, ">\n");
-    text_lines(&b, &k->title, k->g.margin, k->g.margin, PAGE_TITLE_PX, true);
-    for (size_t i = 0; i < k->p->npanels; i++)
-        text_lines(&b, &k->texts[i], k->boxes[i].x, k->boxes[i].y, PAGE_TEXT_PX, false);
-    text_lines(&b, &k->foot, k->g.margin,
-               k->g.height - k->g.margin - block_height(&k->foot), PAGE_SOURCE_PX,
-               false);
-    ug_buf_puts(&b, "</g>\n");
-    for (size_t i = 0; i < k->p->npanels; i++)
-        if (k->svgs[i])
-            nest(&b, k->svgs[i], i, &k->boxes[i], &k->crops[i]);
-    ug_buf_puts(&b, "</svg>\n");
-    return ug_buf_take(&b, &k->r->svg, &k->r->len, k->err);
+    const ug_page *p = k->p;
+    ug_scene sheet;
+    memset(&sheet, 0, sizeof sheet);
+    sheet.sheet = true;
+    sheet.width = k->g.width;
+    sheet.height = k->g.height;
+    /* stated in mm, so the sheet is exact whatever rounding the px carry */
+    sheet.width_mm = mm(p->width);
+    sheet.height_mm = mm(p->height);
+    sheet.background = k->paper;
+    sheet.ink = k->ink;
+    sheet.font = sheet_string(&sheet, k->font);
+    sheet.title = sheet_string(&sheet, p->title.text ? p->title.text : "Handout");
+    sheet.desc = sheet_string(&sheet, k->r->desc);
+    ug_status st = !sheet.font || !sheet.title || !sheet.desc ? nomem(k) : UG_OK;
+    if (!st)
+        st = sheet_texts(k, &sheet);
+    if (!st)
+        st = sheet_children(k, &sheet);
+    if (!st)
+        st = ug_scene_svg(&sheet, &k->r->svg, &k->r->len, k->err);
+    ug_arena_free(&sheet.arena);
+    return st;
 }
 
 /* ---- the stage ------------------------------------------------------------------ */
@@ -557,13 +524,13 @@ static ug_status set_up(composer *k)
     k->paper = (scene_rgb){0xff, 0xff, 0xff};
     k->r->charts = ug_calloc(n, sizeof *k->r->charts);
     k->r->allocs = ug_calloc(n, sizeof *k->r->allocs);
-    k->svgs = ug_calloc(n, sizeof *k->svgs);
+    k->scenes = ug_calloc(n, sizeof *k->scenes);
     k->texts = ug_calloc(n, sizeof *k->texts);
     k->spans = ug_calloc(n, sizeof *k->spans);
     k->heights = ug_calloc(n, sizeof *k->heights);
     k->boxes = ug_calloc(n, sizeof *k->boxes);
     k->crops = ug_calloc(n, sizeof *k->crops);
-    if (!k->r->charts || !k->r->allocs || !k->svgs || !k->texts || !k->spans ||
+    if (!k->r->charts || !k->r->allocs || !k->scenes || !k->texts || !k->spans ||
         !k->heights || !k->boxes || !k->crops)
         return nomem(k);
     set_grid(k);
@@ -618,11 +585,11 @@ ug_status page_compose(const ug_page *page, const ug_pack_options *opt,
     ug_glyph_cache_free(own);
     /* Each array is checked on its own: set_up may have made some of them
     ** and not the rest. */
-    for (size_t i = 0; k.svgs && i < page->npanels; i++)
-        ug_free(k.svgs[i]);
+    for (size_t i = 0; k.scenes && i < page->npanels; i++)
+        ug_scene_free(k.scenes[i]);
     for (size_t i = 0; k.texts && i < page->npanels; i++)
         text_block_free(&k.texts[i]);
-    ug_free(k.svgs);
+    ug_free(k.scenes);
     ug_free(k.texts);
     ug_free(k.spans);
     ug_free(k.heights);

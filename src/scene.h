@@ -54,6 +54,17 @@ typedef struct {
     size_t glyph;         /* index into glyphs */
 } scene_category;
 
+/* A chart's scene drawn inside a handout sheet's: placed with its crop's
+** top-left corner at (x, y), showing only crop (in the child's own units, so
+** no icon is scaled), every id and reference in it prefixed so two children
+** never share one. Borrowed from whoever packed it. */
+typedef struct {
+    const ug_scene *scene;
+    double x, y;
+    double crop_x, crop_y, crop_w, crop_h;
+    char id_prefix[24];
+} scene_child;
+
 /* The markup of a chart's distinct glyphs together (a single glyph file may
 ** hold 1 MiB): beyond it a chart is refused, not drawn slowly. */
 #define SCENE_MAX_GLYPH_BYTES (4u << 20)
@@ -81,6 +92,14 @@ struct ug_scene {
     size_t nholders;
     scene_rect *rects;
     size_t nrects;
+
+    /* A handout sheet (page.c): sized in mm (width_mm, height_mm) on the
+    ** printed page, named as a document rather than an image, and holding its
+    ** charts as children; a chart's scene has none. */
+    bool sheet;
+    double width_mm, height_mm;
+    scene_child *children;
+    size_t nchildren;
 };
 
 /* The box a text line occupies (for layout checks). */

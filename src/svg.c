@@ -82,46 +82,55 @@ static void num(ug_buf *b, double v)
     ug_buf_add(b, t, svg_number(v, t));
 }
 
-/* name="value" with a number */
-static void attr(ug_buf *b, const char *name, double v)
+/* name="value" with a number and its unit */
+static void attr_unit(ug_buf *b, const char *name, double v, const char *unit)
 {
     ug_buf_printf(b, " %s=\"", name);
     num(b, v);
-    ug_buf_puts(b, "\"");
+    ug_buf_printf(b, "%s\"", unit);
 }
+
+static void attr(ug_buf *b, const char *name, double v) { attr_unit(b, name, v, ""); }
 
 static void color(ug_buf *b, const char *name, scene_rgb c)
 {
     ug_buf_printf(b, " %s=\"#%02x%02x%02x\"", name, c.r, c.g, c.b);
 }
 
-static void head(ug_buf *b, const ug_scene *s)
+/* The root element's size and names: a chart is an image titled ug-title;
+** a handout sheet is a document sized in mm on paper. */
+static void root_attributes(ug_buf *b, const ug_scene *s, const char *idp)
 {
-    ug_buf_puts(b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n"
-                   "<svg xmlns=\"http://www.w3.org/2000/svg\"");
-    attr(b, "width", s->width);
-    attr(b, "height", s->height);
+    if (s->sheet) {
+        attr_unit(b, "width", s->width_mm, "mm");
+        attr_unit(b, "height", s->height_mm, "mm");
+    } else {
+        attr(b, "width", s->width);
+        attr(b, "height", s->height);
+    }
     ug_buf_puts(b, " viewBox=\"0 0 ");
     num(b, s->width);
     ug_buf_puts(b, " ");
     num(b, s->height);
-    ug_buf_puts(b, "\" role=\"img\" aria-labelledby=\"ug-title\" "
-                   "aria-describedby=\"ug-desc\" font-family=\"");
+    const char *name = s->sheet ? "page" : "ug";
+    ug_buf_printf(b, "\"%s aria-labelledby=\"%s%s-title\" aria-describedby=\"%s%s-desc\""
+                     " font-family=\"", s->sheet ? "" : " role=\"img\"", idp, name, idp,
+                  name);
     svg_escape(b, s->font);
-    ug_buf_puts(b, "\">\n<title id=\"ug-title\">");
+    ug_buf_printf(b, "\">\n<title id=\"%s%s-title\">", idp, name);
     svg_escape(b, s->title);
-    ug_buf_puts(b, "</title>\n<desc id=\"ug-desc\">");
+    ug_buf_printf(b, "</title>\n<desc id=\"%s%s-desc\">", idp, name);
     svg_escape(b, s->desc ? s->desc : "");
     ug_buf_puts(b, "</desc>\n");
 }
 
-static void defs(ug_buf *b, const ug_scene *s)
+static void defs(ug_buf *b, const ug_scene *s, const char *idp)
 {
     ug_buf_puts(b, "<defs>\n");
     for (size_t k = 0; k < s->nglyphs; k++) {
-        ug_buf_printf(b, "<symbol id=\"g-%zu\" viewBox=\"0 0 100 100\">%s</symbol>"
-                         "<use id=\"u-%zu\" href=\"#g-%zu\"",
-                      k, s->glyphs[k]->body, k, k);
+        ug_buf_printf(b, "<symbol id=\"%sg-%zu\" viewBox=\"0 0 100 100\">%s</symbol>"
+                         "<use id=\"%su-%zu\" href=\"#%sg-%zu\"",
+                      idp, k, s->glyphs[k]->body, idp, k, idp, k);
         attr(b, "width", s->icon_size);
         attr(b, "height", s->icon_size);
         ug_buf_puts(b, "/>\n");
@@ -131,7 +140,7 @@ static void defs(ug_buf *b, const ug_scene *s)
         const scene_icon *ic = &s->icons[i];
         if (ic->fraction >= 1.0)
             continue;
-        ug_buf_printf(b, "<clipPath id=\"clip-%zu\"><rect", clip++);
+        ug_buf_printf(b, "<clipPath id=\"%sclip-%zu\"><rect", idp, clip++);
         attr(b, "x", ic->x);
         attr(b, "y", ic->y);
         attr(b, "width", s->icon_size * ic->fraction);
@@ -202,12 +211,13 @@ static void icon(ug_buf *b, const char *ref, size_t reflen, const scene_icon *ic
     ug_buf_add(b, line, o + 4);
 }
 
-static size_t category(ug_buf *b, const ug_scene *s, size_t c, size_t first,
-                       size_t *clip)
+static size_t category(ug_buf *b, const ug_scene *s, const char *idp, size_t c,
+                       size_t first, size_t *clip)
 {
     char ref[64];
-    int reflen = snprintf(ref, sizeof ref, "<use href=\"#u-%zu\" x=\"", s->cats[c].glyph);
-    ug_buf_puts(b, "<g id=\"");
+    int reflen = snprintf(ref, sizeof ref, "<use href=\"#%su-%zu\" x=\"", idp,
+                          s->cats[c].glyph);
+    ug_buf_printf(b, "<g id=\"%s", idp);
     svg_escape(b, s->cats[c].id);
     ug_buf_puts(b, "\"");
     color(b, "fill", s->cats[c].color);
@@ -220,7 +230,7 @@ static size_t category(ug_buf *b, const ug_scene *s, size_t c, size_t first,
     size_t i = first;
     for (; i < s->nicons && s->icons[i].cat == c && !b->failed; i++) {
         if (s->icons[i].fraction < 1.0) {
-            ug_buf_printf(b, "<g clip-path=\"url(#clip-%zu)\">", (*clip)++);
+            ug_buf_printf(b, "<g clip-path=\"url(#%sclip-%zu)\">", idp, (*clip)++);
             icon(b, ref, (size_t)reflen, &s->icons[i]);
             ug_buf_puts(b, "</g>\n");
         } else {
@@ -231,27 +241,61 @@ static size_t category(ug_buf *b, const ug_scene *s, size_t c, size_t first,
     return i;
 }
 
+static void svg_element(ug_buf *b, const ug_scene *s, const char *idp);
+
+/* A child inside an outer <svg> whose viewBox is its crop. */
+static void child(ug_buf *b, const scene_child *c)
+{
+    ug_buf_puts(b, "<svg");
+    attr(b, "x", c->x);
+    attr(b, "y", c->y);
+    attr(b, "width", c->crop_w);
+    attr(b, "height", c->crop_h);
+    ug_buf_puts(b, " viewBox=\"");
+    num(b, c->crop_x);
+    ug_buf_puts(b, " ");
+    num(b, c->crop_y);
+    ug_buf_puts(b, " ");
+    num(b, c->crop_w);
+    ug_buf_puts(b, " ");
+    num(b, c->crop_h);
+    ug_buf_puts(b, "\">\n");
+    svg_element(b, c->scene, c->id_prefix);
+    ug_buf_puts(b, "</svg>\n");
+}
+
+/* The scene's <svg> element, ids prefixed with idp. */
+static void svg_element(ug_buf *b, const ug_scene *s, const char *idp)
+{
+    ug_buf_puts(b, "<svg xmlns=\"http://www.w3.org/2000/svg\"");
+    root_attributes(b, s, idp);
+    if (!s->sheet)
+        defs(b, s, idp);
+    ug_buf_puts(b, "<rect");
+    attr(b, "width", s->width);
+    attr(b, "height", s->height);
+    color(b, "fill", s->background);
+    ug_buf_puts(b, "/>\n<g");
+    color(b, "fill", s->ink);
+    ug_buf_puts(b, ">\n");
+    for (size_t i = 0; i < s->ntexts; i++)
+        text_line(b, &s->texts[i]);
+    ug_buf_puts(b, "</g>\n");
+    boxes(b, s);
+    size_t next = 0, clip = 0;
+    for (size_t c = 0; c < s->ncats; c++)
+        next = category(b, s, idp, c, next, &clip);
+    for (size_t i = 0; i < s->nchildren; i++)
+        child(b, &s->children[i]);
+    ug_buf_puts(b, "</svg>\n");
+}
+
 ug_status ug_scene_svg(const ug_scene *s, char **out, size_t *len, ug_error *err)
 {
     ug_error_clear(err);
     ug_buf b;
     ug_buf_init(&b);
-    head(&b, s);
-    defs(&b, s);
-    ug_buf_puts(&b, "<rect");
-    attr(&b, "width", s->width);
-    attr(&b, "height", s->height);
-    color(&b, "fill", s->background);
-    ug_buf_puts(&b, "/>\n<g");
-    color(&b, "fill", s->ink);
-    ug_buf_puts(&b, ">\n");
-    for (size_t i = 0; i < s->ntexts; i++)
-        text_line(&b, &s->texts[i]);
-    ug_buf_puts(&b, "</g>\n");
-    boxes(&b, s);
-    size_t next = 0, clip = 0;
-    for (size_t c = 0; c < s->ncats; c++)
-        next = category(&b, s, c, next, &clip);
-    ug_buf_puts(&b, "</svg>\n");
+    ug_buf_puts(&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
+    svg_element(&b, s, "");
     return ug_buf_take(&b, out, len, err);
 }

@@ -1,6 +1,7 @@
 /*
-** SVG stage: scene -> SVG bytes. Also the number formatter and the XML
-** escaping, which other writers of SVG text (the handout page) can share.
+** SVG stage: scene -> SVG bytes, the one SVG writer: a handout sheet is a
+** scene too, holding its charts' scenes as children (scene_child). Also the
+** number formatter and the XML escaping, which the web page shares.
 */
 #ifndef UG_SVG_H
 #define UG_SVG_H

@@ -274,6 +274,93 @@ START_TEST(test_partial_icon_renders_clipped)
 }
 END_TEST
 
+/* ---- a sheet holding charts' scenes -------------------------------------------- */
+
+static void collect_ids(xmlNode *n, char ids[][64], size_t *nids)
+{
+    if (n->type == XML_ELEMENT_NODE) {
+        xmlChar *v = xmlGetProp(n, (const xmlChar *)"id");
+        if (v && *nids < 256)
+            snprintf(ids[(*nids)++], 64, "%s", (char *)v);
+        xmlFree(v);
+    }
+    for (xmlNode *k = n->children; k; k = k->next)
+        collect_ids(k, ids, nids);
+}
+
+/* Every "#name" an href, url() or aria attribute refers to. */
+static size_t count_dangling(xmlNode *n, char ids[][64], size_t nids, size_t *refs)
+{
+    static const char *const attrs[] = {"href", "clip-path", "aria-labelledby",
+                                        "aria-describedby"};
+    size_t bad = 0;
+    for (size_t a = 0; n->type == XML_ELEMENT_NODE && a < 4; a++) {
+        xmlChar *v = xmlGetProp(n, (const xmlChar *)attrs[a]);
+        if (v) {
+            char name[64];
+            const char *at = (char *)v;
+            at += strncmp(at, "url(#", 5) == 0 ? 5 : *at == '#';
+            snprintf(name, sizeof name, "%.*s", (int)strcspn(at, ")"), at);
+            bool found = false;
+            for (size_t i = 0; i < nids && !found; i++)
+                found = strcmp(ids[i], name) == 0;
+            bad += !found;
+            ++*refs;
+        }
+        xmlFree(v);
+    }
+    for (xmlNode *k = n->children; k; k = k->next)
+        bad += count_dangling(k, ids, nids, refs);
+    return bad;
+}
+
+/* A sheet with two children of one chart scene (a clipped icon among them):
+** every id in the document is unique, every reference names one of them, and
+** each child is an <svg> whose viewBox is its crop. */
+START_TEST(test_children_ids_prefixed)
+{
+    const fx_cat cats[] = {{"Red", "square", 0xD00000, {"15"}, NULL}};
+    ug_chart *c = fx_chart(UG_FORM_ROWS, "Half", NULL, 0, cats, 1);
+    c->rounding = UG_ROUND_PARTIAL;
+    ug_error err = {0};
+    ug_allocation *a = NULL;
+    ug_scene *chart = NULL;
+    ck_assert_int_eq(ug_chart_allocate(c, &a, &err), UG_OK);
+    ck_assert_int_eq(ug_scene_pack(c, a, &chart, &err), UG_OK);
+    scene_child kids[2] = {{chart, 10, 20, 5, 6, 100, 50, "p1-"},
+                           {chart, 10, 90, 0, 0, 120, 60, "p2-"}};
+    ug_scene sheet;
+    memset(&sheet, 0, sizeof sheet);
+    sheet.sheet = true;
+    sheet.width = 300, sheet.height = 200, sheet.width_mm = 79.38, sheet.height_mm = 52.92;
+    sheet.font = "DejaVu Sans", sheet.title = "Sheet", sheet.desc = "Two charts";
+    sheet.children = kids, sheet.nchildren = 2;
+    char *svg = NULL;
+    size_t len = 0;
+    ck_assert_int_eq(ug_scene_svg(&sheet, &svg, &len, &err), UG_OK);
+    xmlDoc *d = parse(svg, len);
+    xmlNode *root = xmlDocGetRootElement(d);
+    static char ids[256][64];
+    size_t nids = 0, refs = 0;
+    collect_ids(root, ids, &nids);
+    for (size_t i = 0; i < nids; i++)
+        for (size_t j = i + 1; j < nids; j++)
+            ck_assert_msg(strcmp(ids[i], ids[j]) != 0, "id '%s' twice", ids[i]);
+    ck_assert_uint_eq(count_dangling(root, ids, nids, &refs), 0);
+    ck_assert_uint_gt(refs, 8); /* the titles, glyph uses and the clip path, twice */
+    ck_assert(strstr(svg, "<svg x=\"10\" y=\"20\" width=\"100\" height=\"50\" "
+                          "viewBox=\"5 6 100 50\">") != NULL);
+    ck_assert(strstr(svg, "url(#p2-clip-0)") != NULL);
+    ck_assert(strstr(svg, " width=\"79.38mm\" height=\"52.92mm\"") != NULL);
+    ck_assert(strstr(svg, "role=\"img\" aria-labelledby=\"p1-ug-title\"") != NULL);
+    xmlFreeDoc(d);
+    ug_free(svg);
+    ug_scene_free(chart);
+    ug_allocation_free(a);
+    fx_free(c);
+}
+END_TEST
+
 /* ---- size and speed: a million icons in a hand-made scene ---------------------- */
 
 START_TEST(test_million_icons_small_and_fast)
@@ -337,6 +424,7 @@ static Suite *svg_suite(void)
     tcase_add_test(t, test_two_runs_identical);
     tcase_add_test(t, test_rendered_pixels_match_counts);
     tcase_add_test(t, test_partial_icon_renders_clipped);
+    tcase_add_test(t, test_children_ids_prefixed);
     tcase_add_test(t, test_million_icons_small_and_fast);
     suite_add_tcase(s, t);
     return s;
