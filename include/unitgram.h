@@ -437,6 +437,8 @@ typedef struct {
     ug_mark where;        /* the model mark the finding is about */
     const char *message;  /* plain language */
     const char *fix;      /* a computed suggestion; NULL when there is none */
+    const char *source;   /* where the rule comes from (a standard, a published
+                             rule, or "common practice, no source") */
 } ug_finding;
 
 typedef struct ug_findings ug_findings;
@@ -451,6 +453,13 @@ UG_API ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
 /* The same, finding glyphs as ug_scene_pack_with does (opt may be NULL). */
 UG_API ug_status ug_chart_audit_with(const ug_chart *chart, const ug_pack_options *opt,
                                      ug_findings **out, ug_error *err);
+/* The audit of a chart as drawn: it reads alloc (from ug_chart_allocate of
+** this chart) and, when given, the glyphs of scene (from packing them)
+** instead of allocating and loading the glyphs again; the findings are those
+** ug_chart_audit_with gives. Both are borrowed for the call; scene may be NULL. */
+UG_API ug_status ug_chart_audit_drawn(const ug_chart *chart, const ug_allocation *alloc,
+                                      const ug_scene *scene, ug_findings **out,
+                                      ug_error *err);
 UG_API size_t ug_findings_count(const ug_findings *f);
 /* How many findings have at least this severity. */
 UG_API size_t ug_findings_count_severity(const ug_findings *f, ug_severity at_least);

@@ -35,6 +35,7 @@
 #include "audit.h"
 #include "glyph.h"
 #include "glyph_cache.h"
+#include "scene.h"
 #include "color.h"
 
 struct ug_findings {
@@ -49,15 +50,22 @@ typedef struct {
     ug_error *err;
     const ug_pack_options *opt; /* where glyphs are found; may be NULL */
     bool keep_scale; /* a page panel compared with others: its icon value stays */
+    const struct audit_rule *rule; /* the rule being checked; add() files under it */
+    const ug_scene *scene; /* what was drawn, when the caller has it: its glyphs */
 } audit_ctx;
 
-static const char *const rule_names[] = {
-    "vanished-category", "rounding-difference", "total-mismatch",
-    "small-count", "derivable-suppression", "low-contrast-icon",
-    "low-contrast-text", "confusable-colors", "too-many-categories",
-    "missing-title", "missing-source", "missing-unit-label", "glyph-weight",
-    "page-scale-mismatch",
-};
+/* One audit rule: its stable name, the severity of its findings, the check
+** that finds them (NULL for a rule checked across a page's charts) and where
+** the rule comes from. The table of rules (`rules`, below the checks) is the
+** only list of them: audit.ignore, the order checks run in and each
+** finding's name and severity all come from it. */
+typedef struct audit_rule {
+    const char *name;
+    ug_severity severity;
+    ug_status (*check)(audit_ctx *x);
+    const char *source;
+} audit_rule;
+
 
 /* REFERENCES.md §7. */
 static const audit_small_preset presets[] = {
@@ -74,14 +82,6 @@ const audit_small_preset *audit_small_count_preset(const char *name)
         if (!strcmp(presets[i].name, name))
             return &presets[i];
     return NULL;
-}
-
-bool audit_rule_known(const char *name)
-{
-    for (size_t i = 0; name && i < COUNT(rule_names); i++)
-        if (!strcmp(rule_names[i], name))
-            return true;
-    return false;
 }
 
 const char *ug_severity_name(ug_severity s)
@@ -105,14 +105,14 @@ static ug_status oom(audit_ctx *x)
     return ug_fail(x->err, UG_ENOMEM, ug_mark_file(x->c->path), "out of memory");
 }
 
-/* Add a finding unless the layout ignores its rule. fix may be NULL. */
-static ug_status add(audit_ctx *x, const char *rule, ug_severity sev, ug_mark where,
-                     const char *fix, const char *fmt, ...) UG_PRINTF(6, 7);
+/* Add a finding of the current rule (x->rule) unless the layout ignores it.
+** fix may be NULL. */
+static ug_status add(audit_ctx *x, ug_mark where, const char *fix, const char *fmt, ...)
+    UG_PRINTF(4, 5);
 
-static ug_status add(audit_ctx *x, const char *rule, ug_severity sev, ug_mark where,
-                     const char *fix, const char *fmt, ...)
+static ug_status add(audit_ctx *x, ug_mark where, const char *fix, const char *fmt, ...)
 {
-    if (ignored(x->c, rule))
+    if (ignored(x->c, x->rule->name))
         return UG_OK;
     ug_findings *f = x->f;
     if (f->n == f->cap) {
@@ -130,7 +130,8 @@ static ug_status add(audit_ctx *x, const char *rule, ug_severity sev, ug_mark wh
     va_end(ap);
     const char *file = where.file ? where.file : x->c->path;
     ug_finding *it = &f->items[f->n];
-    *it = (ug_finding){rule, sev, where, ug_strdup(msg), fix ? ug_strdup(fix) : NULL};
+    *it = (ug_finding){x->rule->name, x->rule->severity, where, ug_strdup(msg),
+                       fix ? ug_strdup(fix) : NULL, x->rule->source};
     it->where.file = file ? ug_strdup(file) : NULL;
     f->n++; /* counted before checking, so ug_findings_free releases partial copies */
     if (!it->message || (fix && !it->fix) || (file && !it->where.file))
@@ -202,24 +203,29 @@ static ug_mark file_start(const ug_chart *c)
 
 /* ---- missing title, source, unit label ---------------------------------- */
 
-static ug_status check_labels(audit_ctx *x)
+static ug_status check_title(audit_ctx *x)
 {
-    const ug_chart *c = x->c;
-    ug_status st = UG_OK;
-    if (!c->title.text)
-        st = add(x, "missing-title", UG_SEVERITY_WARNING, file_start(c),
-                 "title: <what the chart shows, where and when>",
-                 "the chart has no title; a reader cannot tell what is counted");
-    if (!st && !c->source.n)
-        st = add(x, "missing-source", UG_SEVERITY_WARNING, file_start(c),
-                 "source: <who counted, and when>",
-                 "the chart names no source for its counts");
-    if (!st && !c->unit_label.text)
-        st = add(x, "missing-unit-label", UG_SEVERITY_WARNING, file_start(c),
-                 "unit-label: <what one icon counts, e.g. households>",
-                 "the chart does not say what is counted, so its key cannot say "
-                 "what one icon stands for");
-    return st;
+    if (x->c->title.text)
+        return UG_OK;
+    return add(x, file_start(x->c), "title: <what the chart shows, where and when>",
+               "the chart has no title; a reader cannot tell what is counted");
+}
+
+static ug_status check_source(audit_ctx *x)
+{
+    if (x->c->source.n)
+        return UG_OK;
+    return add(x, file_start(x->c), "source: <who counted, and when>",
+               "the chart names no source for its counts");
+}
+
+static ug_status check_unit_label(audit_ctx *x)
+{
+    if (x->c->unit_label.text)
+        return UG_OK;
+    return add(x, file_start(x->c), "unit-label: <what one icon counts, e.g. households>",
+               "the chart does not say what is counted, so its key cannot say "
+               "what one icon stands for");
 }
 
 /* ---- stated total --------------------------------------------------------- */
@@ -244,7 +250,7 @@ static ug_status check_total(audit_ctx *x)
     ug_dec_format(c->total, t);
     ug_dec_format(sum, s);
     snprintf(fix, sizeof fix, "total: %s (or correct the counts)", s);
-    return add(x, "total-mismatch", UG_SEVERITY_ERROR, c->total_mark, fix,
+    return add(x, c->total_mark, fix,
                "the stated total is %s but the counts add up to %s", t, s);
 }
 
@@ -428,24 +434,25 @@ static ug_status report_share(audit_ctx *x, size_t i, size_t g, share_verdict v,
     ug_ratio_format(s->shown_num, s->shown_den * UG_DEC_SCALE, 2, shown);
     const char *grp = in_group(c, g, buf, sizeof buf);
     if (v == SHARE_VANISHED)
-        return add(x, "vanished-category", UG_SEVERITY_ERROR, count_mark(c, i, g), fix,
+        return add(x, count_mark(c, i, g), fix,
                    "'%s'%s has %s %s but gets no icon, so it disappears from the "
                    "picture", cat_name(c, i), grp, cnt, unit(c));
     char tol[48];
-    return add(x, "rounding-difference", UG_SEVERITY_WARNING, count_mark(c, i, g), fix,
+    return add(x, count_mark(c, i, g), fix,
                "'%s'%s has %s %s but its icons show %s, more than %s %% off",
                cat_name(c, i), grp, cnt, unit(c), shown,
                ug_dec_format(tolerance(c), tol));
 }
 
-static ug_status check_rounding(audit_ctx *x)
+/* Every share judged `want`, with one computed fix for them all. */
+static ug_status check_shares(audit_ctx *x, share_verdict want)
 {
     char fix[256] = "";
     ug_status st = UG_OK;
     for (size_t g = 0; !st && g < x->a->ngroups; g++)
         for (size_t i = 0; !st && i < x->a->ncats; i++) {
             share_verdict v = judge(x->c, alloc_at(x->a, g, i));
-            if (v == SHARE_OK)
+            if (v != want)
                 continue;
             if (!fix[0] && (st = rounding_fix(x, fix, sizeof fix)))
                 break;
@@ -453,6 +460,10 @@ static ug_status check_rounding(audit_ctx *x)
         }
     return st;
 }
+
+static ug_status check_vanished(audit_ctx *x) { return check_shares(x, SHARE_VANISHED); }
+
+static ug_status check_rounded(audit_ctx *x) { return check_shares(x, SHARE_ROUNDED); }
 
 /* ---- small counts and derivable suppression ------------------------------ */
 
@@ -542,7 +553,7 @@ static ug_status check_small(audit_ctx *x)
             ug_dec v = s->count;
             if (s->status != PUB_EXACT || (v.v == 0 && !zero_too) || v.v >= below.v)
                 continue;
-            st = add(x, "small-count", UG_SEVERITY_WARNING, count_mark(c, i, g), fix,
+            st = add(x, count_mark(c, i, g), fix,
                      "'%s'%s is %s %s, under %s%s%s: so few can identify people",
                      cat_name(c, i), in_group(c, g, grp, sizeof grp),
                      ug_dec_format_grouped(v, cnt), unit(c), b, p ? "; " : "", p ? p->rule : "");
@@ -571,7 +582,7 @@ static ug_status report_narrowed(audit_ctx *x, const disclose_interval *iv)
     char lo[32], hi[32], grp[256];
     interval_text(iv->min, lo, sizeof lo);
     interval_text(iv->max, hi, sizeof hi);
-    ug_status st = add(x, "derivable-suppression", UG_SEVERITY_ERROR, count_mark(c, i, g),
+    ug_status st = add(x, count_mark(c, i, g),
                        fix ? fix : "suppress: {margins: hidden} only if no totals of "
                                    "this table are published anywhere",
                        "'%s'%s is hidden, but the published counts and the totals "
@@ -635,7 +646,7 @@ typedef struct {
     const char *key, *close;
 } fix_form;
 
-static ug_status contrast_finding(audit_ctx *x, const char *rule, ug_mark where,
+static ug_status contrast_finding(audit_ctx *x, ug_mark where,
                                   fix_form form, const char *what, ug_color fg,
                                   ug_color bg, double threshold, const char *criterion)
 {
@@ -648,29 +659,37 @@ static ug_status contrast_finding(audit_ctx *x, const char *rule, ug_mark where,
     if (fixable)
         snprintf(fix, sizeof fix, "%s\"%s\"%s (%.2f:1)", form.key,
                  color_format_hex(shade, hs), form.close, color_contrast(shade, bg));
-    return add(x, rule, UG_SEVERITY_WARNING, where, fixable ? fix : NULL,
+    return add(x, where, fixable ? fix : NULL,
                "%s %s has contrast %.2f:1 against the background %s; %s asks for "
                "at least %g:1", what, color_format_hex(fg, h), r,
                color_format_hex(bg, hb), criterion, threshold);
 }
 
-static ug_status check_contrast(audit_ctx *x)
+static ug_color chart_background(const ug_chart *c)
+{
+    return style_color(c->style.background, 0xffffff);
+}
+
+static ug_status check_text_contrast(audit_ctx *x)
 {
     const ug_chart *c = x->c;
-    ug_color bg = style_color(c->style.background, 0xffffff);
     ug_color ink = style_color(c->style.ink, 0x222222);
-    ug_status st = contrast_finding(x, "low-contrast-text",
-                                    c->style.ink.set ? c->style.ink.mark : file_start(c),
-                                    c->style.ink.set ? (fix_form){"ink: ", ""}
-                                                     : (fix_form){"style: {ink: ", "}"},
-                                    "the text colour", ink, bg, COLOR_WCAG_TEXT,
-                                    "WCAG 2.1 SC 1.4.3 (AA, normal text)");
+    return contrast_finding(x, c->style.ink.set ? c->style.ink.mark : file_start(c),
+                            c->style.ink.set ? (fix_form){"ink: ", ""}
+                                             : (fix_form){"style: {ink: ", "}"},
+                            "the text colour", ink, chart_background(c), COLOR_WCAG_TEXT,
+                            "WCAG 2.1 SC 1.4.3 (AA, normal text)");
+}
+
+static ug_status check_icon_contrast(audit_ctx *x)
+{
+    const ug_chart *c = x->c;
+    ug_status st = UG_OK;
     for (size_t i = 0; !st && i < c->ncats; i++) {
         char what[300];
         snprintf(what, sizeof what, "the icon colour of '%s'", cat_name(c, i));
-        st = contrast_finding(x, "low-contrast-icon", color_mark(c, i),
-                              (fix_form){"color: ", ""}, what,
-                              cat_color(c, i), bg, COLOR_WCAG_NON_TEXT,
+        st = contrast_finding(x, color_mark(c, i), (fix_form){"color: ", ""}, what,
+                              cat_color(c, i), chart_background(c), COLOR_WCAG_NON_TEXT,
                               "WCAG 2.1 SC 1.4.11 (non-text contrast)");
     }
     return st;
@@ -739,7 +758,7 @@ static ug_status confusable_with_earlier(audit_ctx *x, const color_lab *lab, siz
     ug_status st = replacement(x, j, fix, sizeof fix);
     if (st)
         return st;
-    return add(x, "confusable-colors", UG_SEVERITY_WARNING, color_mark(x->c, j),
+    return add(x, color_mark(x->c, j),
                fix[0] ? fix : NULL,
                "'%s' (%s) and '%s' (%s) differ by CIEDE2000 %.1f under %s; unitgram "
                "asks for at least %g (its own threshold)",
@@ -750,8 +769,6 @@ static ug_status confusable_with_earlier(audit_ctx *x, const color_lab *lab, siz
 
 static ug_status check_confusable(audit_ctx *x)
 {
-    if (ignored(x->c, "confusable-colors"))
-        return UG_OK; /* the pairwise search is the audit's costliest part */
     color_lab *lab;
     ug_status st = category_labs(x, &lab);
     for (size_t j = 1; !st && j < x->c->ncats; j++)
@@ -765,7 +782,7 @@ static ug_status check_category_count(audit_ctx *x)
     const ug_chart *c = x->c;
     if (c->ncats <= AUDIT_MAX_CATEGORIES)
         return UG_OK;
-    return add(x, "too-many-categories", UG_SEVERITY_WARNING, c->categories_mark,
+    return add(x, c->categories_mark,
                "combine the smallest categories into one, e.g. 'Other'",
                "%zu categories are more than a reader can hold while reading the "
                "picture (unitgram's limit is %d, common practice)", c->ncats,
@@ -782,6 +799,10 @@ static ug_status check_category_count(audit_ctx *x)
 
 static ug_status category_ink(audit_ctx *x, size_t i, double *ink)
 {
+    if (x->scene) { /* the glyphs as drawn: not loaded a second time */
+        *ink = x->scene->glyphs[x->scene->cats[i].glyph]->ink;
+        return UG_OK;
+    }
     const ug_category *cat = &x->c->cats[i];
     glyph_search search = {x->opt ? x->opt->glyph_dirs : NULL,
                            x->opt ? x->opt->nglyph_dirs : 0, x->c->dir};
@@ -816,8 +837,7 @@ static ug_status check_glyph_weight(audit_ctx *x)
     char fix[256];
     snprintf(fix, sizeof fix, "a glyph for '%s' that covers at least %.0f%% of its box "
              "(half of '%s')", cat_name(c, light), 50 * hi + 0.5, cat_name(c, heavy));
-    return add(x, "glyph-weight", UG_SEVERITY_WARNING,
-               cat->glyph.text ? cat->glyph.mark : cat->mark, fix,
+    return add(x, cat->glyph.text ? cat->glyph.mark : cat->mark, fix,
                "the glyph of '%s' inks %.0f%% of its box and that of '%s' %.0f%%: more "
                "than %.0fx apart, so equal counts will not look equal",
                cat_name(c, light), 100 * lo, cat_name(c, heavy), 100 * hi,
@@ -825,6 +845,52 @@ static ug_status check_glyph_weight(audit_ctx *x)
 }
 
 /* ---- the audit ------------------------------------------------------------ */
+
+/* In the order findings are reported. */
+static const audit_rule rules[] = {
+    {"missing-title", UG_SEVERITY_WARNING, check_title,
+     "SVG accessibility: an image needs an accessible name (REFERENCES.md §9)"},
+    {"missing-source", UG_SEVERITY_WARNING, check_source, "common practice, no source"},
+    {"missing-unit-label", UG_SEVERITY_WARNING, check_unit_label,
+     "isotype: the key says what one icon stands for (REFERENCES.md §6)"},
+    {"total-mismatch", UG_SEVERITY_ERROR, check_total, "FORMAT.md §1 (total)"},
+    {"vanished-category", UG_SEVERITY_ERROR, check_vanished,
+     "unitgram's own rule: a counted category never disappears (FORMAT.md §3)"},
+    {"rounding-difference", UG_SEVERITY_WARNING, check_rounded,
+     "FORMAT.md §3 (audit.tolerance); the default tolerance is common practice, "
+     "no source"},
+    {"small-count", UG_SEVERITY_WARNING, check_small,
+     "small-count suppression rules of statistical agencies (REFERENCES.md §7)"},
+    {"derivable-suppression", UG_SEVERITY_ERROR, check_derivable,
+     "cell suppression audited by linear programming (REFERENCES.md §11)"},
+    {"too-many-categories", UG_SEVERITY_WARNING, check_category_count,
+     "common practice, no source"},
+    {"low-contrast-text", UG_SEVERITY_WARNING, check_text_contrast,
+     "WCAG 2.1 SC 1.4.3 (REFERENCES.md §3)"},
+    {"low-contrast-icon", UG_SEVERITY_WARNING, check_icon_contrast,
+     "WCAG 2.1 SC 1.4.11 (REFERENCES.md §3)"},
+    {"confusable-colors", UG_SEVERITY_WARNING, check_confusable,
+     "CIEDE2000 under simulated colour-vision deficiency (REFERENCES.md §4, §5)"},
+    {"glyph-weight", UG_SEVERITY_WARNING, check_glyph_weight, "common practice, no source"},
+    {"page-scale-mismatch", UG_SEVERITY_WARNING, NULL,
+     "isotype: one scale for charts compared (REFERENCES.md §6)"},
+};
+
+static const audit_rule *rule_named(const char *name)
+{
+    for (size_t i = 0; name && i < COUNT(rules); i++)
+        if (!strcmp(rules[i].name, name))
+            return &rules[i];
+    return NULL;
+}
+
+bool audit_rule_known(const char *name) { return rule_named(name) != NULL; }
+
+size_t audit_rule_count(void) { return COUNT(rules); }
+
+const char *audit_rule_name(size_t i) { return i < COUNT(rules) ? rules[i].name : NULL; }
+
+const char *audit_rule_source(size_t i) { return i < COUNT(rules) ? rules[i].source : NULL; }
 
 static ug_status check_ignore_list(audit_ctx *x)
 {
@@ -846,17 +912,18 @@ ug_status ug_chart_audit(const ug_chart *chart, ug_findings **out, ug_error *err
 /* Every chart rule on one chart, adding to x->f. */
 static ug_status audit_one(audit_ctx *x)
 {
-    static ug_status (*const checks[])(audit_ctx *) = {
-        check_labels, check_total, check_rounding, check_small, check_derivable,
-        check_category_count, check_contrast, check_confusable, check_glyph_weight,
-    };
     ug_allocation *a = NULL;
     ug_status st = check_ignore_list(x);
-    if (!st)
+    if (!st && !x->a) /* nothing drawn yet: allocate as a drawing would */
         st = ug_chart_allocate(x->c, &a, x->err);
-    x->a = a;
-    for (size_t i = 0; !st && i < COUNT(checks); i++)
-        st = checks[i](x);
+    if (a)
+        x->a = a;
+    /* an ignored rule is not checked at all: the colour search is costly */
+    for (size_t i = 0; !st && i < COUNT(rules); i++)
+        if (rules[i].check && !ignored(x->c, rules[i].name)) {
+            x->rule = &rules[i];
+            st = rules[i].check(x);
+        }
     ug_allocation_free(a);
     x->a = NULL;
     return st;
@@ -876,7 +943,16 @@ ug_status ug_chart_audit_with(const ug_chart *chart, const ug_pack_options *opt,
                               ug_findings **out, ug_error *err)
 {
     ug_error_clear(err);
-    audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt, false};
+    audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt, false, NULL, NULL};
+    return finish(&x, x.f ? audit_one(&x) : oom(&x), out);
+}
+
+ug_status ug_chart_audit_drawn(const ug_chart *chart, const ug_allocation *alloc,
+                               const ug_scene *scene, ug_findings **out, ug_error *err)
+{
+    ug_error_clear(err);
+    audit_ctx x = {chart, alloc, ug_calloc(1, sizeof(ug_findings)), err, NULL, false, NULL,
+                   scene};
     return finish(&x, x.f ? audit_one(&x) : oom(&x), out);
 }
 
@@ -945,6 +1021,7 @@ static bool shares_unit(const ug_page *page, size_t i)
 static ug_status check_page_scale(audit_ctx *x, const scale_of *s, size_t n)
 {
     ug_status st = UG_OK;
+    x->rule = rule_named("page-scale-mismatch");
     for (size_t j = 1; j < n && !st; j++) {
         size_t i = 0;
         while (i < j && (!same_unit(s[i].c, s[j].c) || same_scale(&s[i], &s[j])))
@@ -955,8 +1032,7 @@ static ug_status check_page_scale(audit_ctx *x, const scale_of *s, size_t n)
         char fix[160];
         scale_fix(&s[i], &s[j], fix, sizeof fix);
         x->c = s[j].c; /* one finding per chart, against the first it differs from */
-        st = add(x, "page-scale-mismatch", UG_SEVERITY_WARNING, s[j].c->categories_mark,
-                 fix,
+        st = add(x, s[j].c->categories_mark, fix,
                  "'%s' and '%s' both count %s but draw them at different scales "
                  "(%s at %g px against %s at %g px)",
                  s[i].c->title.text ? s[i].c->title.text : "(untitled)",
@@ -974,7 +1050,7 @@ ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
                         ug_findings **out, ug_error *err)
 {
     ug_error_clear(err);
-    audit_ctx x = {NULL, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt, false};
+    audit_ctx x = {NULL, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt, false, NULL, NULL};
     scale_of *scales = ug_calloc(page->npanels ? page->npanels : 1, sizeof *scales);
     size_t n = 0;
     ug_status st = x.f && scales ? UG_OK : UG_ENOMEM;
@@ -1029,6 +1105,8 @@ static void json_finding(ug_buf *b, const ug_finding *it, bool last)
         ug_buf_json_string(b, it->fix);
     else
         ug_buf_puts(b, "null");
+    ug_buf_puts(b, ", \"source\": ");
+    ug_buf_json_string(b, it->source);
     ug_buf_puts(b, last ? "}\n" : "},\n");
 }
 

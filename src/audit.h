@@ -33,5 +33,10 @@ typedef struct {
 const audit_small_preset *audit_small_count_preset(const char *name);
 /* Whether name is a rule audit.ignore may name. */
 bool audit_rule_known(const char *name);
+/* The rules in the order findings are reported: name and source; NULL when
+** i is out of range. */
+size_t audit_rule_count(void);
+const char *audit_rule_name(size_t i);
+const char *audit_rule_source(size_t i);
 
 #endif

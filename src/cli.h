@@ -96,6 +96,10 @@ int cli_load_chart(const char *path, ug_chart **out);
 ** fix as a note. Returns EXIT_AUDIT when strict and any finding is a warning
 ** or an error, EXIT_INPUT when the audit could not run, else EXIT_OK. */
 int cli_print_audit(const ug_chart *chart, const ug_pack_options *opt, bool strict);
+/* The same for a chart already allocated and packed (ug_chart_audit_drawn):
+** nothing is allocated or loaded again. */
+int cli_print_audit_drawn(const ug_chart *chart, const ug_allocation *alloc,
+                          const ug_scene *scene, bool strict);
 /* Is the layout file a page file (ug_layout_detect)? */
 bool cli_is_page_file(const char *path);
 /* Print findings as cli_print_audit does, then free them (f is taken over);

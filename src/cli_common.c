@@ -334,6 +334,18 @@ int cli_print_audit(const ug_chart *chart, const ug_pack_options *opt, bool stri
     return cli_print_findings(f, strict);
 }
 
+int cli_print_audit_drawn(const ug_chart *chart, const ug_allocation *alloc,
+                          const ug_scene *scene, bool strict)
+{
+    ug_error err = {0};
+    ug_findings *f = NULL;
+    if (ug_chart_audit_drawn(chart, alloc, scene, &f, &err)) {
+        cli_report_error(&err);
+        return cli_exit_for(&err);
+    }
+    return cli_print_findings(f, strict);
+}
+
 int cli_print_findings(ug_findings *f, bool strict)
 {
     for (size_t i = 0; i < ug_findings_count(f); i++)

@@ -293,7 +293,7 @@ int cli_draw_one(const cli_draw_opts *o, char ***inputs)
         cli_report_error(&err);
         rc = EXIT_INPUT;
     } else if (cli_glyph_warnings(scene, l.chart),
-               (rc = cli_print_audit(l.chart, &popt, o->strict)) == EXIT_OK) {
+               (rc = cli_print_audit_drawn(l.chart, l.alloc, scene, o->strict)) == EXIT_OK) {
         if (ug_write_file_atomic(o->out, bytes, len, &err)) {
             cli_report_error(&err);
             rc = EXIT_OUTPUT;

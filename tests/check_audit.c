@@ -4,6 +4,7 @@
 ** contrast ratio); the agency thresholds are REFERENCES.md §7. */
 #define _POSIX_C_SOURCE 200809L
 #include <check.h>
+#include <glob.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -121,6 +122,7 @@ static void expect_full(ug_chart *c, const char *rule, ug_severity sev, unsigned
     const ug_finding *it = find(f, rule);
     ck_assert_msg(it != NULL, "no %s finding", rule);
     ck_assert_int_eq(it->severity, sev);
+    ck_assert_msg(it->source && it->source[0], "%s finding names no source", rule);
     ck_assert_str_eq(it->where.file, "test.yaml");
     ck_assert_uint_eq(it->where.line, line);
     ck_assert_uint_eq(it->where.column, col);
@@ -554,6 +556,76 @@ START_TEST(test_rule_names)
 }
 END_TEST
 
+/* The one table of rules: every rule has a source, and the README's table of
+** audit rules names each one (the docs cannot fall out of step unseen). */
+START_TEST(test_rules_documented)
+{
+    FILE *f = fopen("../README.md", "r");
+    ck_assert_ptr_nonnull(f);
+    static char readme[1 << 18];
+    size_t n = fread(readme, 1, sizeof readme - 1, f);
+    readme[n] = '\0';
+    fclose(f);
+    ck_assert_uint_ge(audit_rule_count(), 14);
+    for (size_t i = 0; i < audit_rule_count(); i++) {
+        char quoted[80];
+        snprintf(quoted, sizeof quoted, "`%s`", audit_rule_name(i));
+        ck_assert_msg(strstr(readme, quoted), "README.md does not list %s", quoted);
+        ck_assert_msg(audit_rule_source(i) && audit_rule_source(i)[0], "%s has no source",
+                      audit_rule_name(i));
+        ck_assert(audit_rule_known(audit_rule_name(i)));
+    }
+    ck_assert_ptr_null(audit_rule_name(audit_rule_count()));
+}
+END_TEST
+
+static char *findings_json(ug_status st, ug_findings *f, const ug_error *err)
+{
+    ck_assert_msg(st == UG_OK, "%s", err->msg);
+    char *out = NULL;
+    ug_error e = {0};
+    ck_assert_int_eq(ug_findings_format(f, UG_REPORT_JSON, &out, NULL, &e), UG_OK);
+    ug_findings_free(f);
+    return out;
+}
+
+/* Auditing what was drawn (its allocation, its scene's glyphs) finds exactly
+** what a fresh audit finds, on every example and every audit test layout. */
+START_TEST(test_drawn_equals_fresh)
+{
+    glob_t g;
+    ck_assert_int_eq(glob("data/audit/*.yaml", 0, NULL, &g), 0);
+    ck_assert_int_eq(glob("../layouts/*.yaml", GLOB_APPEND, NULL, &g), 0);
+    size_t charts = 0, with_findings = 0;
+    for (size_t i = 0; i < g.gl_pathc; i++) {
+        ug_error err = {0};
+        ug_chart *c = NULL;
+        if (ug_chart_load(g.gl_pathv[i], NULL, &c, &err) != UG_OK)
+            continue; /* a page file */
+        ug_allocation *a = NULL;
+        ug_scene *s = NULL;
+        ug_findings *fresh = NULL, *drawn = NULL;
+        ck_assert_int_eq(ug_chart_allocate(c, &a, &err), UG_OK);
+        ck_assert_msg(ug_scene_pack(c, a, &s, &err) == UG_OK, "%s", err.msg);
+        ug_status st = ug_chart_audit(c, &fresh, &err);
+        char *x = findings_json(st, fresh, &err);
+        st = ug_chart_audit_drawn(c, a, s, &drawn, &err);
+        char *y = findings_json(st, drawn, &err);
+        ck_assert_msg(strcmp(x, y) == 0, "%s: %s\nagainst\n%s", g.gl_pathv[i], x, y);
+        with_findings += strstr(x, "\"rule\"") != NULL;
+        charts++;
+        ug_free(x);
+        ug_free(y);
+        ug_scene_free(s);
+        ug_allocation_free(a);
+        ug_chart_free(c);
+    }
+    globfree(&g);
+    ck_assert_uint_ge(charts, 25);
+    ck_assert_uint_ge(with_findings, 10);
+}
+END_TEST
+
 /* Each allocation failing in turn: a clean UG_ENOMEM, nothing leaked. */
 START_TEST(test_allocation_failures)
 {
@@ -608,6 +680,8 @@ static Suite *audit_suite(void)
     tcase_add_test(t, test_ignore);
     tcase_add_test(t, test_format_text_and_json);
     tcase_add_test(t, test_rule_names);
+    tcase_add_test(t, test_rules_documented);
+    tcase_add_test(t, test_drawn_equals_fresh);
     tcase_add_test(t, test_allocation_failures);
     suite_add_tcase(s, t);
     return s;
