@@ -11,7 +11,7 @@ DESTDIR ?=
 BUILD   ?= build
 VERSION  = $(shell sed -n 's/^#define UG_VERSION "\(.*\)"/\1/p' include/unitgram.h)
 
-PKGS      = yaml-0.1 librsvg-2.0 cairo cairo-pdf cairo-png pangocairo fontconfig libxml-2.0 lcms2
+PKGS      = yaml-0.1 librsvg-2.0 cairo cairo-pdf cairo-png pangocairo fontconfig libxml-2.0 lcms2 libpng
 WARNINGS  = -Wall -Wextra -Wshadow -Wstrict-prototypes -Wmissing-prototypes \
             -Wpointer-arith -Wformat=2 -Werror
 STD       = -std=c11 -D_POSIX_C_SOURCE=200809L
@@ -52,8 +52,10 @@ TSAN_ENV    = G_SLICE=always-malloc \
 
 DEBIAN_PACKAGES = build-essential pkg-config libyaml-dev librsvg2-dev libcairo2-dev \
   libpango1.0-dev liblcms2-dev libxml2-dev libcsv-dev check librsvg2-bin \
-  libxml2-utils poppler-utils fonts-dejavu-core valgrind libglpk-dev glpk-utils
+  libxml2-utils poppler-utils fonts-dejavu-core valgrind libglpk-dev glpk-utils libpng-dev
 TEST_PACKAGES = python3-numpy python3-colorspacious python3-colormath chromium strace
+# make bench's yardstick script (tests/bench/waffle_plot.py)
+BENCH_PACKAGES = python3-matplotlib python3-yaml
 
 # ---- sources ----------------------------------------------------------------
 LIB_SRC  = $(filter-out src/main.c src/cli_%.c,$(wildcard src/*.c))
@@ -87,7 +89,7 @@ LAYOUTS  = $(wildcard layouts/*.yaml)
 
 .PHONY: FORCE all deps test-deps check run-tests check-sanitized check-threads-tsan \
         demo render-demo clean \
-        install uninstall bench fuzz fuzz-build
+        install uninstall bench bench-deps fuzz fuzz-build
 
 all: $(BIN) $(LIB) $(SHLIB)
 
@@ -260,7 +262,10 @@ fuzz: fuzz-build
 	  done
 
 # ---- benchmarks (never part of check: timings belong here, not in tests) ----
-bench: all $(BENCH_DRIVERS)
+bench-deps: deps
+	@$(call APT_INSTALL,$(BENCH_PACKAGES))
+
+bench: bench-deps all $(BENCH_DRIVERS)
 	@bash tests/bench/run.sh $(BUILD)
 
 # Bench drivers that call the library's stages directly.

@@ -20,6 +20,8 @@
 #include <cairo.h>
 #include <librsvg/rsvg.h>
 #include <math.h>
+#include <png.h>
+#include <stdint.h>
 #include <string.h>
 #include <strings.h>
 
@@ -258,6 +260,104 @@ static ug_status surface_done(cairo_surface_t *s, const ug_buf *b, ug_error *err
     return UG_OK;
 }
 
+/* cairo's pixels (premultiplied ARGB in a native-endian word) as straight
+** RGBA bytes, as cairo's own PNG writer unpremultiplies them; *opaque says
+** whether every pixel is, so the file can drop its alpha channel. */
+static void straight_rgba(cairo_surface_t *s, unsigned char *out, bool *opaque)
+{
+    const unsigned char *px = cairo_image_surface_get_data(s);
+    int w = cairo_image_surface_get_width(s), h = cairo_image_surface_get_height(s);
+    int stride = cairo_image_surface_get_stride(s);
+    *opaque = true;
+    for (int y = 0; y < h; y++) {
+        const uint32_t *row = (const uint32_t *)(const void *)(px + (size_t)y * stride);
+        for (int x = 0; x < w; x++, out += 4) {
+            uint32_t v = row[x];
+            unsigned a = v >> 24, c[3] = {(v >> 16) & 255, (v >> 8) & 255, v & 255};
+            for (int k = 0; k < 3; k++)
+                out[k] = (unsigned char)(a == 0 ? 0 : a == 255 ? c[k]
+                                                     : (c[k] * 255 + a / 2) / a);
+            out[3] = (unsigned char)a;
+            *opaque = *opaque && a == 255;
+        }
+    }
+}
+
+static void png_to_buf(png_structp png, png_bytep data, size_t n)
+{
+    ug_buf *b = png_get_io_ptr(png);
+    ug_buf_add(b, (const char *)data, n);
+    if (b->failed)
+        png_error(png, "out of memory");
+}
+
+static void png_flush_none(png_structp png) { (void)png; }
+
+/* libpng's default handlers print to stderr; the caller reports instead. */
+static void png_quiet_error(png_structp png, png_const_charp msg)
+{
+    (void)msg;
+    png_longjmp(png, 1);
+}
+
+static void png_quiet_warning(png_structp png, png_const_charp msg)
+{
+    (void)png;
+    (void)msg;
+}
+
+/* rows (w x h pixels of `channels` bytes) through libpng into b. Rows are
+** written unfiltered at zlib level 3: a chart's flat colours compress about
+** as well as with libpng's default (every filter tried on every row, zlib
+** level 6, which was most of a small chart's PNG time) for a third of the
+** work (measured on the pantry example: 71 KB in 5.5 ms against 65 KB in
+** 14.5 ms). The file says its pixels are sRGB (PNG spec. 11.3.3.5). */
+static bool write_png_rows(ug_buf *b, unsigned char *rows, int w, int h, int channels)
+{
+    png_structp png = png_create_write_struct(PNG_LIBPNG_VER_STRING, NULL, png_quiet_error,
+                                              png_quiet_warning);
+    png_infop info = png ? png_create_info_struct(png) : NULL;
+    volatile bool ok = false;
+    if (info && !setjmp(png_jmpbuf(png))) {
+        png_set_write_fn(png, b, png_to_buf, png_flush_none);
+        png_set_IHDR(png, info, (png_uint_32)w, (png_uint_32)h, 8,
+                     channels == 3 ? PNG_COLOR_TYPE_RGB : PNG_COLOR_TYPE_RGB_ALPHA,
+                     PNG_INTERLACE_NONE, PNG_COMPRESSION_TYPE_DEFAULT,
+                     PNG_FILTER_TYPE_DEFAULT);
+        png_set_sRGB_gAMA_and_cHRM(png, info, PNG_sRGB_INTENT_PERCEPTUAL);
+        png_set_filter(png, PNG_FILTER_TYPE_BASE, PNG_FILTER_NONE);
+        png_set_compression_level(png, 3);
+        png_write_info(png, info);
+        for (int y = 0; y < h; y++)
+            png_write_row(png, rows + (size_t)y * (size_t)w * (size_t)channels);
+        png_write_end(png, info);
+        ok = true;
+    }
+    png_destroy_write_struct(png ? &png : NULL, info ? &info : NULL);
+    return ok;
+}
+
+/* Opaque pixels (a chart's background is) are written as RGB. */
+static ug_status encode_png(cairo_surface_t *s, ug_buf *b, ug_error *err)
+{
+    int w = cairo_image_surface_get_width(s), h = cairo_image_surface_get_height(s);
+    unsigned char *rgba = ug_malloc((size_t)w * (size_t)h * 4);
+    if (!rgba)
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(NULL), "out of memory");
+    bool opaque;
+    straight_rgba(s, rgba, &opaque);
+    if (opaque) /* RGBA -> RGB in place */
+        for (size_t i = 0, n = (size_t)w * (size_t)h; i < n; i++)
+            memmove(rgba + 3 * i, rgba + 4 * i, 3);
+    ug_status st = UG_OK;
+    if (!write_png_rows(b, rgba, w, h, opaque ? 3 : 4))
+        st = b->failed ? ug_fail(err, UG_ENOMEM, ug_mark_file(NULL), "out of memory")
+                       : ug_fail(err, UG_ERENDER, ug_mark_file(NULL),
+                                 "PNG: libpng could not write the image");
+    ug_free(rgba);
+    return st;
+}
+
 static ug_status render_png(const drawing *d, double dpi, double scale, ug_buf *b,
                             ug_error *err)
 {
@@ -273,12 +373,8 @@ static ug_status render_png(const drawing *d, double dpi, double scale, ug_buf *
     if ((st = draw(d, s, w * f, h * f, err)))
         goto out;
     cairo_surface_flush(s);
-    cairo_status_t cs = cairo_surface_write_to_png_stream(s, to_buf, b);
-    if ((st = surface_done(s, b, err)))
-        goto out;
-    if (cs)
-        st = ug_fail(err, b->failed ? UG_ENOMEM : UG_ERENDER, ug_mark_file(NULL),
-                     "PNG: %s", cairo_status_to_string(cs));
+    if (!(st = surface_done(s, b, err)))
+        st = encode_png(s, b, err);
 out:
     cairo_surface_destroy(s);
     return st;

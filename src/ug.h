@@ -77,6 +77,8 @@ typedef struct {
 
 void ug_buf_init(ug_buf *b);
 void ug_buf_free(ug_buf *b);
+/* Room for extra more bytes (and a NUL) after len; false once the buffer failed. */
+bool ug_buf_reserve(ug_buf *b, size_t extra);
 void ug_buf_add(ug_buf *b, const char *s, size_t n);
 void ug_buf_puts(ug_buf *b, const char *s);
 void ug_buf_printf(ug_buf *b, const char *fmt, ...) UG_PRINTF(2, 3);

@@ -172,7 +172,7 @@ void ug_buf_free(ug_buf *b)
     ug_buf_init(b);
 }
 
-static bool buf_reserve(ug_buf *b, size_t extra)
+bool ug_buf_reserve(ug_buf *b, size_t extra)
 {
     if (b->failed)
         return false;
@@ -193,7 +193,7 @@ static bool buf_reserve(ug_buf *b, size_t extra)
 
 void ug_buf_add(ug_buf *b, const char *s, size_t n)
 {
-    if (!buf_reserve(b, n))
+    if (!ug_buf_reserve(b, n))
         return;
     memcpy(b->data + b->len, s, n);
     b->len += n;
@@ -215,7 +215,7 @@ void ug_buf_printf(ug_buf *b, const char *fmt, ...)
         ug_buf_add(b, small, (size_t)n);
         return;
     }
-    if (!buf_reserve(b, (size_t)n))
+    if (!ug_buf_reserve(b, (size_t)n))
         return;
     va_start(ap, fmt);
     vsnprintf(b->data + b->len, (size_t)n + 1, fmt, ap);
@@ -353,7 +353,7 @@ void ug_buf_json_string(ug_buf *b, const char *s)
 ug_status ug_buf_take(ug_buf *b, char **out, size_t *len, ug_error *err)
 {
     *out = NULL;
-    if (b->failed || !buf_reserve(b, 0)) {
+    if (b->failed || !ug_buf_reserve(b, 0)) {
         ug_buf_free(b);
         return ug_fail(err, UG_ENOMEM, ug_mark_file(NULL), "out of memory");
     }

@@ -10,6 +10,7 @@
 ** for tests/suite_raster.sh, which checks them with poppler-utils. */
 #define _POSIX_C_SOURCE 200809L
 #include <cairo.h>
+#include <librsvg/rsvg.h>
 #include <check.h>
 #include <libxml/HTMLparser.h>
 #include <libxml/parser.h>
@@ -132,6 +133,80 @@ START_TEST(test_png_size_and_colour_areas)
                          (long)(areas[k].area_px * f * f));
     cairo_surface_destroy(s);
     ug_free(png);
+}
+END_TEST
+
+static cairo_status_t to_mem(void *closure, const unsigned char *data, unsigned int n)
+{
+    reader *w = closure; /* data, len: a malloc'd buffer and its length */
+    char *grown = realloc((char *)w->data, w->len + n);
+    if (!grown)
+        return CAIRO_STATUS_NO_MEMORY;
+    memcpy(grown + w->len, data, n);
+    w->data = grown;
+    w->len += n;
+    return CAIRO_STATUS_SUCCESS;
+}
+
+/* The pixels cairo's own PNG writer would have written for the SVG drawn by
+** librsvg at 96 dpi, decoded again. */
+static cairo_surface_t *cairo_written(const char *svg, int w, int h)
+{
+    RsvgHandle *rh = rsvg_handle_new_from_data((const guint8 *)svg, strlen(svg), NULL);
+    ck_assert_ptr_nonnull(rh);
+    cairo_surface_t *s = cairo_image_surface_create(CAIRO_FORMAT_ARGB32, w, h);
+    cairo_t *cr = cairo_create(s);
+    RsvgRectangle vp = {0, 0, w, h};
+    ck_assert(rsvg_handle_render_document(rh, cr, &vp, NULL));
+    cairo_destroy(cr);
+    reader out = {NULL, 0, 0};
+    ck_assert_int_eq(cairo_surface_write_to_png_stream(s, to_mem, &out),
+                     CAIRO_STATUS_SUCCESS);
+    cairo_surface_destroy(s);
+    g_object_unref(rh);
+    cairo_surface_t *back = decode_png(out.data, out.len);
+    free((char *)out.data);
+    return back;
+}
+
+static void assert_same_pixels(cairo_surface_t *a, cairo_surface_t *b)
+{
+    int w = cairo_image_surface_get_width(a), h = cairo_image_surface_get_height(a);
+    ck_assert_int_eq(cairo_image_surface_get_width(b), w);
+    ck_assert_int_eq(cairo_image_surface_get_height(b), h);
+    for (int y = 0; y < h; y++)
+        ck_assert_msg(memcmp(cairo_image_surface_get_data(a) +
+                                 (size_t)y * cairo_image_surface_get_stride(a),
+                             cairo_image_surface_get_data(b) +
+                                 (size_t)y * cairo_image_surface_get_stride(b),
+                             (size_t)w * 4) == 0,
+                      "row %d differs", y);
+}
+
+/* Our PNG writer (libpng, unfiltered rows) against cairo's: the same pixels
+** once decoded, for an opaque picture (written as RGB) and one with
+** transparent and half-transparent parts (RGBA, unpremultiplied). */
+START_TEST(test_png_writer_keeps_pixels)
+{
+    static const char half[] =
+        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"64\" height=\"48\">"
+        "<rect x=\"8\" y=\"8\" width=\"40\" height=\"24\" fill=\"#0072b2\" "
+        "fill-opacity=\"0.5\"/><circle cx=\"40\" cy=\"30\" r=\"12\" fill=\"#d55e00\"/>"
+        "</svg>";
+    const char *svgs[] = {test_svg, half};
+    const int size[][2] = {{288, 192}, {64, 48}};
+    for (size_t k = 0; k < 2; k++) {
+        size_t len;
+        char *png = render(svgs[k], UG_OUT_PNG, 96, 1, &len);
+        cairo_surface_t *ours = decode_png(png, len);
+        cairo_surface_t *theirs = cairo_written(svgs[k], size[k][0], size[k][1]);
+        assert_same_pixels(ours, theirs);
+        /* colour type (byte 25 of the file): 2 RGB when opaque, 6 RGBA */
+        ck_assert_int_eq(png[25], k == 0 ? 2 : 6);
+        cairo_surface_destroy(ours);
+        cairo_surface_destroy(theirs);
+        ug_free(png);
+    }
 }
 END_TEST
 
@@ -652,6 +727,7 @@ static Suite *raster_suite(void)
     tcase_add_loop_test(tc, test_png_size_and_colour_areas, 0,
                         (int)(sizeof png_cases / sizeof png_cases[0]));
     tcase_add_test(tc, test_renders_are_byte_identical);
+    tcase_add_test(tc, test_png_writer_keeps_pixels);
     tcase_add_test(tc, test_pdf_page_in_points);
     tcase_add_test(tc, test_pdf_pages);
     tcase_add_test(tc, test_svg_passes_through);

@@ -164,6 +164,24 @@ done
 median=$(printf '%s\n' "${times[@]}" | median)
 echo "startup-pantry,,$median,,," >> "$csv"
 
+# The README's 100-cell waffle to PNG, against a short script on a general
+# plotting library drawing the same waffle (tests/bench/waffle_plot.py,
+# Debian's python3-matplotlib), median of 7 each. Target: 10x faster.
+read -r pw ph < <(/usr/bin/python3 -c 'import struct,sys; d=open(sys.argv[1],"rb").read(24); print(*struct.unpack(">II", d[16:24]))' \
+                  <("$bin" draw layouts/pantry.yaml -o - --format png))
+ours_w=(); theirs_w=()
+for i in $(seq 1 7); do
+    read -r s _ < <(measure "$bin" draw layouts/pantry.yaml -o "$work/pantry.png")
+    ours_w+=("$s")
+    read -r s _ < <(measure /usr/bin/python3 tests/bench/waffle_plot.py layouts/pantry.yaml \
+                    "$work/pantry-plot.png" "$pw" "$ph")
+    theirs_w+=("$s")
+done
+waffle_ours=$(printf '%s\n' "${ours_w[@]}" | median)
+waffle_plot=$(printf '%s\n' "${theirs_w[@]}" | median)
+echo "waffle-png,100,$waffle_ours,,," >> "$csv"
+echo "waffle-png-plotting-script,100,$waffle_plot,,," >> "$csv"
+
 # Complementary suppression of 1,000 groups x 12 categories with margins
 # published: the pattern and the LP audit that proves it (tests/bench/suppress.c),
 # median of 5 runs; then the same size end to end through `unitgram audit`.
@@ -213,6 +231,8 @@ echo "1M icons to SVG: rows $(get rows $big) s, waffle $(get waffle $big) s;" \
      "ratio to printf loop: $(awk -v a="$(get rows $big)" -v b="$(get printf-limit $big)" 'BEGIN{printf "%.2f", a/b}')"
 echo "PNG vs rsvg-convert (10,000 icons): wall $(awk -v a="$ours" -v b="$theirs" 'BEGIN{printf "%.2f", a/b}')x (medians of 7), instructions ${png_ratio_instr}x (callgrind)"
 echo "batch of 1,000 charts: $(get batch-1000 1000) s; start-up median: $median s"
+echo "README waffle to PNG: $waffle_ours s against $waffle_plot s for the plotting-library script:" \
+     "$(awk -v a="$waffle_plot" -v b="$waffle_ours" 'BEGIN{printf "%.1f", a/b}')x faster (target >= 10x; medians of 7)"
 echo "batch of 1,000 charts to PNG: $(get batch-png 1000) s ($(nproc) threads), rsvg-convert per SVG $(get batch-png-rsvg-convert 1000) s:" \
      "$(awk -v a="$(get batch-png 1000)" -v b="$(get batch-png-rsvg-convert 1000)" 'BEGIN{printf "%.2f", a/b}')x (target <= 0.25);" \
      "per row at 250 and 1,000 rows: $(awk -v a="$(get batch-png 250)" -v b="$(get batch-png 1000)" 'BEGIN{printf "%.2f and %.2f ms", a/250*1000, b/1000*1000}')"
