@@ -278,6 +278,9 @@ UG_API ug_status ug_scene_glyph_warnings(const ug_scene *scene, const ug_chart *
 ** watcher still sees a broken glyph being fixed. A NULL-terminated
 ** array in one malloc'd block (free() it); NULL when out of memory. */
 UG_API char **ug_chart_inputs(const ug_chart *chart, const ug_scene *scene);
+/* The same for a page: the page file first, then each chart's inputs in
+** panel order, as ug_chart_inputs gives them without a scene. */
+UG_API char **ug_page_inputs(const ug_page *page);
 
 /* ---- batches: one chart per row of a CSV ------------------------------- */
 

@@ -92,6 +92,8 @@ const ug_limits *cli_limits(void);
 /* Load a chart; "-" reads standard input (named "<stdin>", relative paths
 ** from the current folder). Errors are printed; returns an exit code. */
 int cli_load_chart(const char *path, ug_chart **out);
+/* cli_load_chart, then ug_chart_allocate; on failure (printed) both are NULL. */
+int cli_load_allocated(const char *path, ug_chart **chart, ug_allocation **alloc);
 /* Audit the chart and print each finding on stderr as a diagnostic with its
 ** fix as a note. Returns EXIT_AUDIT when strict and any finding is a warning
 ** or an error, EXIT_INPUT when the audit could not run, else EXIT_OK. */
@@ -122,7 +124,7 @@ void cli_glyph_warnings(const ug_scene *scene, const ug_chart *chart);
     CLI_STR(UG_DEFAULT_MAX_PANELS) ",\n"                                                  \
     "                        at most " CLI_STR(UG_CEILING_PANELS) ")\n"
 
-/* ---- draw, batch and watch (cli_draw.c, cli_batch.c, cli_watch.c) ---- */
+/* ---- draw, batch and watch (cli_draw.c, cli_render.c, cli_batch.c, cli_watch.c) ---- */
 
 #define CLI_MAX_DIRS 32
 #define CLI_MAX_JOBS 32 /* threads drawing a batch (--jobs) */
@@ -146,10 +148,11 @@ typedef struct {
 ** "html"; NULL when neither says (an error message is printed). */
 const char *cli_output_format(const char *out, const char *given);
 
-/* One draw of o->layout to o->out. When inputs is not NULL it receives the
-** files the drawing read (ug_chart_inputs; NULL when the layout did not
-** load). Returns an exit code. */
-int cli_draw_one(const cli_draw_opts *o, char ***inputs);
+/* One draw of o->layout, a chart or a page file, to o->out (cli_render.c).
+** When inputs is not NULL it receives the files the drawing read
+** (ug_chart_inputs or ug_page_inputs; NULL when the layout did not load).
+** Returns an exit code. */
+int cli_draw_layout(const cli_draw_opts *o, char ***inputs);
 /* A chart's SVG as the bytes of the format o asks for: *out is svg itself
 ** for SVG, else new bytes (svg stays the caller's). Draw, watch and batch
 ** all write through it. */

@@ -311,6 +311,22 @@ int cli_load_chart(const char *path, ug_chart **out)
     return EXIT_OK;
 }
 
+int cli_load_allocated(const char *path, ug_chart **chart, ug_allocation **alloc)
+{
+    *alloc = NULL;
+    int rc = cli_load_chart(path, chart);
+    if (rc)
+        return rc;
+    ug_error err = {0};
+    if (ug_chart_allocate(*chart, alloc, &err)) {
+        cli_report_error(&err);
+        ug_chart_free(*chart);
+        *chart = NULL;
+        return cli_exit_for(&err);
+    }
+    return EXIT_OK;
+}
+
 static void print_finding(const ug_finding *f)
 {
     ug_error diag = {0};

@@ -1,9 +1,8 @@
 /*
-** `unitgram draw LAYOUT -o OUT` and `unitgram describe LAYOUT`: load,
-** allocate, pack, write SVG, PNG, PDF or a web page; a page file (one with a
-** `page:` key) becomes a one-page handout. The output is rendered in memory
-** and written atomically, so a failure leaves any earlier picture as it was. Batches (--each-row) and --watch
-** live in cli_batch.c and cli_watch.c; this file only reads their options.
+** `unitgram draw LAYOUT -o OUT`: its options, then the way to one of the
+** three ways of drawing: once (cli_render.c, the one drawing path, which the
+** others use too), again on every change (cli_watch.c) or once per CSV row
+** (cli_batch.c).
 */
 #include <stdio.h>
 #include <stdlib.h>
@@ -61,51 +60,14 @@ static const char draw_help[] =
     "                        stop the drawing: nothing is written, exit 3\n"
     "  --quiet               no progress bar or summary line (--each-row)\n"
     "  --watch               redraw whenever the layout, its CSV or a glyph file\n"
-    "                        changes; a broken edit keeps the last good picture\n"
+    "                        changes (a page: its charts' files too); a broken\n"
+    "                        edit keeps the last good picture\n"
     "  --watch-limit N       with --watch: exit after N redraws (1 to " STR(WATCH_LIMIT_MAX) ")\n"
     "  --watch-timeout SECS  with --watch: exit after SECS seconds (" STR(WATCH_TIMEOUT_MIN) " to\n"
     "                        " STR(WATCH_TIMEOUT_MAX) ", a year)\n"
     CLI_LIMITS_HELP
     "  -h, --help            show this help\n"
     "\n" CLI_EXIT_CODES;
-
-static const char describe_help[] =
-    "usage: unitgram describe LAYOUT\n"
-    "\n"
-    "Print the chart's plain-language description (its alt text, the same text\n"
-    "the SVG carries in <desc>; for a handout page, every chart's in turn).\n"
-    "LAYOUT '-' reads standard input.\n"
-    "\n"
-    "options:\n"
-    "  --max-icons N, --max-input-bytes N, --max-panels N\n"
-    "                        the limits, as for draw\n"
-    "  -h, --help            show this help\n"
-    "\n" CLI_EXIT_CODES;
-
-typedef struct {
-    ug_chart *chart;
-    ug_allocation *alloc;
-} loaded;
-
-static void unload(loaded *l)
-{
-    ug_allocation_free(l->alloc);
-    ug_chart_free(l->chart);
-}
-
-static int load(const char *path, loaded *l, ug_error *err)
-{
-    memset(l, 0, sizeof *l);
-    int rc = cli_load_chart(path, &l->chart);
-    if (rc)
-        return rc;
-    if (ug_chart_allocate(l->chart, &l->alloc, err)) {
-        cli_report_error(err);
-        unload(l);
-        return cli_exit_for(err);
-    }
-    return EXIT_OK;
-}
 
 /* ---- options (the new ones are read here; their work is elsewhere) ---- */
 
@@ -186,8 +148,9 @@ static int check_draw(const cli_draw_opts *o)
                                  "to get a page per row ('out/all.pdf')");
     if (o->jobs && !o->each_row)
         return cli_usage("draw", "--jobs only works with --each-row");
-    if ((o->each_row || o->watch) && cli_is_page_file(o->layout))
-        return cli_usage("draw", "a page file is drawn once: no --each-row or --watch");
+    if (o->each_row && cli_is_page_file(o->layout))
+        return cli_usage("draw", "--each-row draws a chart per row; a page file is drawn "
+                                 "once (--watch redraws it)");
     return EXIT_OK;
 }
 
@@ -213,102 +176,6 @@ static int parse_draw(int argc, char **argv, cli_draw_opts *o)
     return check_draw(o);
 }
 
-/* ---- drawing ---- */
-
-static ug_output_format format_of(const cli_draw_opts *o)
-{
-    ug_output_format f = UG_OUT_SVG;
-    ug_output_format_parse(cli_output_format(o->out, o->format), &f);
-    return f;
-}
-
-ug_status cli_chart_bytes(const ug_chart *chart, const ug_allocation *alloc,
-                          const cli_draw_opts *o, char *svg, size_t len, char **out,
-                          size_t *out_len, ug_error *err)
-{
-    ug_output_format f = format_of(o);
-    char *desc = NULL;
-    ug_status st = UG_OK;
-    if (f == UG_OUT_SVG) {
-        *out = svg, *out_len = len;
-        return UG_OK;
-    }
-    if (f == UG_OUT_CSV) {
-        const ug_allocation *allocs[1] = {alloc};
-        st = ug_table_csv(allocs, 1, out, out_len, err);
-    } else if (f == UG_OUT_HTML) {
-        const ug_allocation *allocs[1] = {alloc};
-        if (!(st = ug_chart_describe(chart, alloc, &desc, NULL, err)))
-            st = ug_html_page(NULL, svg, len, desc, allocs, 1, out, out_len, err);
-    } else {
-        st = ug_render_svg(svg, len, f, o->dpi > 0 ? o->dpi : 96,
-                           o->scale > 0 ? o->scale : 1, out, out_len, err);
-    }
-    free(desc);
-    return st;
-}
-
-static int draw_page(const cli_draw_opts *o)
-{
-    ug_error err = {0};
-    ug_page *page = NULL;
-    char *bytes = NULL;
-    size_t len = 0;
-    int rc = EXIT_OK;
-    ug_findings *f = NULL;
-    ug_pack_options popt = {.glyph_dirs = o->glyph_dirs, .nglyph_dirs = o->nglyph_dirs};
-    if (ug_page_load(o->layout, cli_limits(), &page, &err) ||
-        ug_page_draw_with(page, &popt, format_of(o), o->dpi > 0 ? o->dpi : 96,
-                          o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
-        ug_page_audit(page, &popt, &f, &err)) {
-        cli_report_error(&err);
-        rc = cli_exit_for(&err);
-    } else if ((rc = cli_print_findings(f, o->strict)) != EXIT_OK) {
-        /* the audit stopped the drawing: nothing is written */
-    } else if (ug_write_file_atomic(o->out, bytes, len, &err)) {
-        cli_report_error(&err);
-        rc = EXIT_OUTPUT;
-    }
-    free(bytes);
-    ug_page_free(page);
-    return rc;
-}
-
-int cli_draw_one(const cli_draw_opts *o, char ***inputs)
-{
-    ug_error err = {0};
-    loaded l;
-    if (inputs)
-        *inputs = NULL;
-    int rc = load(o->layout, &l, &err);
-    if (rc)
-        return rc;
-    ug_pack_options popt = {.glyph_dirs = o->glyph_dirs, .nglyph_dirs = o->nglyph_dirs};
-    ug_scene *scene = NULL;
-    char *svg = NULL, *bytes = NULL;
-    size_t len = 0;
-    if (ug_scene_pack_with(l.chart, l.alloc, &popt, &scene, &err) ||
-        ug_scene_svg(scene, &svg, &len, &err) ||
-        cli_chart_bytes(l.chart, l.alloc, o, svg, len, &bytes, &len, &err)) {
-        cli_report_error(&err);
-        rc = EXIT_INPUT;
-    } else if (cli_glyph_warnings(scene, l.chart),
-               (rc = cli_print_audit_drawn(l.chart, l.alloc, scene, o->strict)) == EXIT_OK) {
-        if (ug_write_file_atomic(o->out, bytes, len, &err)) {
-            cli_report_error(&err);
-            rc = EXIT_OUTPUT;
-        }
-    }
-    if (inputs)
-        *inputs = ug_chart_inputs(l.chart, scene);
-    if (bytes != svg)
-        free(svg);
-    free(bytes);
-    ug_scene_free(scene);
-    unload(&l);
-    return rc;
-}
-
 int cli_draw(int argc, char **argv)
 {
     cli_draw_opts o;
@@ -320,69 +187,6 @@ int cli_draw(int argc, char **argv)
         return cli_batch(&o);
     if (o.watch)
         return cli_watch(&o);
-    if (cli_is_page_file(o.layout))
-        return draw_page(&o);
-    return cli_draw_one(&o, NULL);
+    return cli_draw_layout(&o, NULL);
 }
 
-static int describe_chart(const char *layout, char **text, size_t *len,
-                          ug_error *err)
-{
-    loaded l;
-    int rc = load(layout, &l, err);
-    if (rc)
-        return rc;
-    if (ug_chart_describe(l.chart, l.alloc, text, len, err)) {
-        cli_report_error(err);
-        rc = cli_exit_for(err);
-    }
-    unload(&l);
-    return rc;
-}
-
-static int describe_page(const char *layout, char **text, size_t *len,
-                         ug_error *err)
-{
-    ug_page *page = NULL;
-    int rc = EXIT_OK;
-    if (ug_page_load(layout, cli_limits(), &page, err) ||
-        ug_page_describe(page, text, len, err)) {
-        cli_report_error(err);
-        rc = cli_exit_for(err);
-    }
-    ug_page_free(page);
-    return rc;
-}
-
-int cli_describe(int argc, char **argv)
-{
-    const char *layout = NULL;
-    for (int i = 1; i < argc; i++) {
-        if (cli_is_help(argv[i])) {
-            fputs(describe_help, stdout);
-            return EXIT_OK;
-        }
-        int m = cli_limit_option("describe", argc, argv, &i);
-        if (m < 0)
-            return EXIT_USAGE;
-        if (m)
-            continue;
-        if ((argv[i][0] == '-' && argv[i][1]) || layout)
-            return cli_usage("describe", "unexpected argument '%s'", argv[i]);
-        layout = argv[i];
-    }
-    if (!layout)
-        return cli_usage("describe", "missing the LAYOUT file");
-    ug_error err = {0};
-    char *text = NULL;
-    size_t len = 0;
-    int rc = cli_is_page_file(layout) ? describe_page(layout, &text, &len, &err)
-                                  : describe_chart(layout, &text, &len, &err);
-    if (!rc && (fwrite(text, 1, len, stdout) != len || fputc('\n', stdout) == EOF ||
-                fflush(stdout))) {
-        fprintf(stderr, "unitgram describe: could not write the description\n");
-        rc = EXIT_OUTPUT;
-    }
-    free(text);
-    return rc;
-}

@@ -143,14 +143,14 @@ int cli_watch(const cli_draw_opts *o)
     }
     double deadline = o->watch_timeout > 0 ? cli_now() + o->watch_timeout : 0;
     char **inputs = NULL;
-    int rc = cli_draw_one(o, &inputs);
+    int rc = cli_draw_layout(o, &inputs);
     watch_inputs(&w, o->layout, inputs);
     free(inputs);
     note(o->layout, "watching for changes (Ctrl-C stops)");
     for (long redraws = 0; !o->watch_limit || redraws < o->watch_limit; redraws++) {
         if (!wait_change(&w, deadline))
             break;
-        rc = cli_draw_one(o, &inputs);
+        rc = cli_draw_layout(o, &inputs);
         watch_inputs(&w, o->layout, inputs);
         free(inputs);
         if (rc == EXIT_OK)

@@ -1,7 +1,7 @@
 /*
 ** What a packed scene can tell its caller beyond the picture: the warnings
 ** glyph sanitizing left (placed at the layout's `glyph:` keys) and the list
-** of files the drawing read (for `draw --watch`).
+** of files the drawing read (for `draw --watch`), a chart's or a page's.
 */
 #include <stdlib.h>
 #include <string.h>
@@ -84,13 +84,10 @@ static size_t list_inputs(const ug_chart *c, const ug_scene *s, input *in)
     return n;
 }
 
-char **ug_chart_inputs(const ug_chart *c, const ug_scene *s)
+/* The inputs as one NULL-terminated block: pointers, then the names. */
+static char **input_block(const input *in, size_t n)
 {
-    size_t most = 2 + (s ? s->nglyphs : c->ncats);
-    input *in = ug_malloc(most * sizeof *in);
-    if (!in)
-        return NULL;
-    size_t n = list_inputs(c, s, in), bytes = 0;
+    size_t bytes = 0;
     for (size_t i = 0; i < n; i++)
         bytes += in[i].prefix_len + strlen(in[i].name) + 1;
     char **list = ug_malloc((n + 1) * sizeof *list + bytes);
@@ -103,6 +100,35 @@ char **ug_chart_inputs(const ug_chart *c, const ug_scene *s)
     }
     if (list)
         list[n] = NULL;
+    return list;
+}
+
+char **ug_chart_inputs(const ug_chart *c, const ug_scene *s)
+{
+    size_t most = 2 + (s ? s->nglyphs : c->ncats);
+    input *in = ug_malloc(most * sizeof *in);
+    char **list = in ? input_block(in, list_inputs(c, s, in)) : NULL;
+    ug_free(in);
+    return list;
+}
+
+/* The page file, then each chart's inputs in panel order (as with no scene:
+** the glyph files its layout names by path). */
+char **ug_page_inputs(const ug_page *page)
+{
+    size_t most = 1;
+    for (size_t p = 0; p < page->npanels; p++)
+        if (page->panels[p].chart)
+            most += 2 + page->panels[p].chart->ncats;
+    input *in = ug_malloc(most * sizeof *in);
+    if (!in)
+        return NULL;
+    size_t n = 0;
+    in[n++] = (input){"", page->path, 0};
+    for (size_t p = 0; p < page->npanels; p++)
+        if (page->panels[p].chart)
+            n += list_inputs(page->panels[p].chart, NULL, in + n);
+    char **list = input_block(in, n);
     ug_free(in);
     return list;
 }

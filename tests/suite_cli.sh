@@ -463,8 +463,12 @@ for f in chart_comment chart_title page_bom page_flow page_quoted; do
   grep -q "Library visits\|Visits per page" "$T/out" || fail "describe $f: $(cat "$T/out")"
   expect 0 "$BIN" audit "$k"
 done
-expect 2 "$BIN" draw tests/data/kind/page_flow.yaml -o "$T/kind.svg" --watch
-grep -q "a page file is drawn once" "$T/err" || fail "--watch on a flow page: $(cat "$T/err")"
+expect 0 "$BIN" draw tests/data/kind/page_flow.yaml -o "$T/kind.svg" --watch \
+  --watch-timeout 0.2
+grep -q 'height="297mm"' "$T/kind.svg" || fail "--watch on a flow page drew no page"
+expect 2 "$BIN" draw tests/data/kind/page_flow.yaml -o "$T/kind-{group}.svg" \
+  --each-row layouts/wards.csv
+grep -q "a page file is drawn once" "$T/err" || fail "--each-row on a page: $(cat "$T/err")"
 expect 0 "$BIN" draw tests/data/kind/chart_title.yaml -o "$T/kind.svg" --watch \
   --watch-timeout 0.2
 
@@ -495,6 +499,22 @@ wait $pid; rc=$?
 SECONDS=0
 expect 0 "$BIN" draw "$T/w/chart.yaml" -o "$T/w/chart.svg" --watch --watch-timeout 1
 [ $SECONDS -le 4 ] || fail "watch-timeout 1 took ${SECONDS}s"
+
+# a page file is watched with the CSV its charts read
+mkdir -p "$T/pw"
+cp layouts/handout.yaml layouts/wards.csv "$T/pw/"
+"$BIN" draw "$T/pw/handout.yaml" -o "$T/pw/handout.svg" --watch --watch-limit 2 \
+  --watch-timeout 20 2> "$T/pw/log" &
+pid=$!
+wait_for 10 grep -q "watching" "$T/pw/log" || fail "page watch did not start"
+cp "$T/pw/handout.svg" "$T/pw/first.svg"
+sed -i '2s/,124,/,131,/' "$T/pw/wards.csv"
+wait_for 5 bash -c "! cmp -s '$T/pw/handout.svg' '$T/pw/first.svg'" \
+  || fail "page watch: no redraw after the CSV changed"
+sed -i 's/^title: .*/title: Edited handout/' "$T/pw/handout.yaml"
+wait_for 5 grep -q "Edited handout" "$T/pw/handout.svg" || fail "page watch: no redraw after an edit"
+wait_for 5 bash -c "! kill -0 $pid 2>/dev/null" || { fail "page watch-limit did not stop it"; kill $pid; }
+wait $pid || fail "page watch exited $?"
 
 # a glyph file broken from the start and then fixed is drawn: the watcher
 # watches the glyph files the chart names even when none could be loaded
