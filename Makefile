@@ -58,8 +58,8 @@ TEST_PACKAGES = python3-numpy python3-colorspacious python3-colormath chromium s
 BENCH_PACKAGES = python3-matplotlib python3-yaml
 
 # ---- sources ----------------------------------------------------------------
-LIB_SRC  = $(filter-out src/main.c src/cli_%.c,$(wildcard src/*.c))
-CLI_SRC  = src/main.c $(wildcard src/cli_*.c)
+LIB_SRC  = $(wildcard src/*.c)
+CLI_SRC  = $(wildcard src/cli/*.c)
 TEST_SRC = $(wildcard tests/check_*.c)
 
 LIB_OBJ  = $(LIB_SRC:%.c=$(BUILD)/%.o)
@@ -133,6 +133,15 @@ $(BUILD)/%.o: %.c $(FLAGS_STAMP)
 	@mkdir -p $(dir $@)
 	@echo "  CC  $<"
 	@$(CC) $(ALL_CFLAGS) -c $< -o $@
+
+# The command line sees include/ and its own folder only: an #include of a
+# library header from src/ does not compile, so the CLI cannot reach past
+# unitgram.h.
+CLI_CFLAGS = $(filter-out -Isrc,$(ALL_CFLAGS))
+$(CLI_OBJ): $(BUILD)/%.o: %.c $(FLAGS_STAMP)
+	@mkdir -p $(dir $@)
+	@echo "  CC  $<"
+	@$(CC) $(CLI_CFLAGS) -c $< -o $@
 
 $(LIB_OBJ): $(BUILD)/%.o: %.c $(FLAGS_STAMP)
 	@mkdir -p $(dir $@)

@@ -369,7 +369,7 @@ typedef struct {
     char why[WHY];
 } row_worker;
 
-/* Row i through the calls a threaded batch makes (cli_batch.c): a row chart
+/* Row i through the calls a threaded batch makes (src/cli/cli_batch.c): a row chart
 ** of its own, packed in the batch's shared frame with the shared cache. */
 static ug_status row_png(ug_batch *b, ug_glyph_cache *cache, size_t i, blob *out,
                          ug_error *err)
