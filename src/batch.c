@@ -37,59 +37,6 @@ struct ug_batch {
 
 /* ---- names ---------------------------------------------------------------- */
 
-/* Latin-1 letters with accents (U+00C0..U+00FF) -> their base letter, so
-** "Ünïcode" becomes "unicode"; '\0' for the few with none (×, ÷). */
-static char latin1_base(unsigned long cp)
-{
-    static const char map[] = "aaaaaaaceeeeiiiidnooooo\0ouuuuyts"  /* C0..DF */
-                              "aaaaaaaceeeeiiiidnooooo\0ouuuuyty"; /* E0..FF */
-    return cp >= 0xC0 && cp <= 0xFF ? map[cp - 0xC0] : 0;
-}
-
-/* One character of the NUL-terminated s: its code point and length; a byte
-** that starts no valid sequence is U+FFFD, one byte long. */
-static size_t utf8_next(const char *s, unsigned long *cp)
-{
-    size_t k = ug_utf8_decode(s, strnlen(s, 4), cp);
-    if (!k)
-        *cp = 0xFFFD;
-    return k ? k : 1;
-}
-
-/* Combining Diacritical Marks (Unicode block U+0300..U+036F): "e" followed
-** by U+0301 is the decomposed "é", so the mark is dropped like an accent on a
-** precomposed letter rather than splitting the word ("e-cole"). */
-static bool is_combining(unsigned long cp)
-{
-    return cp >= 0x300 && cp <= 0x36F;
-}
-
-size_t batch_slug(const char *name, char *buf, size_t size)
-{
-    size_t n = 0;
-    bool dash = false; /* a '-' is owed before the next kept character */
-    for (const char *s = name; *s && n + 2 < size;) {
-        unsigned long cp;
-        s += utf8_next(s, &cp);
-        if (is_combining(cp))
-            continue;
-        char ch = cp < 0x80 ? (char)cp : latin1_base(cp);
-        if (ch >= 'A' && ch <= 'Z')
-            ch = (char)(ch - 'A' + 'a');
-        bool keep = (ch >= 'a' && ch <= 'z') || (ch >= '0' && ch <= '9') || ch == '_';
-        if (!keep) {
-            dash = n > 0;
-            continue;
-        }
-        if (dash)
-            buf[n++] = '-';
-        dash = false;
-        buf[n++] = ch;
-    }
-    buf[n] = '\0';
-    return n;
-}
-
 /* ---- opening ---------------------------------------------------------------- */
 
 /* Give the template the CSV as its data, one group per row. */
@@ -121,7 +68,7 @@ static ug_status make_slugs(ug_batch *b, ug_error *err)
     if (!b->slugs)
         return ug_fail(err, UG_ENOMEM, ug_mark_file(b->tmpl->path), "out of memory");
     for (size_t i = 0; i < g->n; i++) {
-        if (!batch_slug(g->items[i].text, b->slugs[i], SLUG_MAX + 1))
+        if (!ug_slug(g->items[i].text, b->slugs[i], SLUG_MAX + 1))
             snprintf(b->slugs[i], sizeof b->slugs[i], "row-%zu", i + 1);
         for (size_t k = 0; k < i; k++)
             if (!strcmp(b->slugs[k], b->slugs[i]))

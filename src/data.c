@@ -158,13 +158,26 @@ static ug_status parse_csv(reader *r, const char *text, size_t len)
 
 /* ---- columns ------------------------------------------------------------- */
 
+/* Whether header field f names the column: as written, or (for a category
+** whose column defaults to its id) when its slug is the id, so "Niños" and
+** "niños" both find the category labelled Niños (id "ninos"). */
+static bool names_column(const char *f, const char *name, bool by_slug)
+{
+    if (!strcmp(f, name))
+        return true;
+    char buf[256];
+    return by_slug && strlen(f) < sizeof buf - 2 && ug_slug(f, buf, sizeof buf) &&
+           !strcmp(buf, name);
+}
+
 /* The index of the header field `name`; blames `where` (in the layout). */
-static ug_status find_column(reader *r, const char *name, ug_mark where, size_t *out)
+static ug_status find_column(reader *r, const char *name, bool by_slug, ug_mark where,
+                             size_t *out)
 {
     const row *h = &r->rows[0];
     size_t found = h->n;
     for (size_t i = 0; i < h->n; i++) {
-        if (strcmp(h->f[i], name))
+        if (!names_column(h->f[i], name, by_slug))
             continue;
         if (found < h->n)
             return ug_fail(r->err, UG_EDATA, at(r, h->line, i + 1),
@@ -373,7 +386,8 @@ static ug_status read_wide(reader *r, bool grouped, size_t gi)
     size_t *col = ug_calloc(c->ncats, sizeof *col);
     ug_status st = col ? UG_OK : nomem(r);
     for (size_t i = 0; !st && i < c->ncats; i++)
-        st = find_column(r, c->cats[i].column.text, c->cats[i].column.mark, &col[i]);
+        st = find_column(r, c->cats[i].column.text, c->cats[i].column.text == c->cats[i].id,
+                         c->cats[i].column.mark, &col[i]);
     if (!st && !grouped && r->nrows > 2)
         st = ug_fail(r->err, UG_EDATA, at(r, r->rows[2].line, 1),
                      "without 'group-column' the CSV holds one row of counts");
@@ -413,9 +427,9 @@ static ug_status read_long(reader *r, bool grouped, size_t gi)
 {
     const ug_data_spec *d = &r->c->data;
     size_t ci, ni;
-    ug_status st = find_column(r, d->category_column.text, d->category_column.mark, &ci);
+    ug_status st = find_column(r, d->category_column.text, false, d->category_column.mark, &ci);
     if (!st)
-        st = find_column(r, d->count_column.text, d->count_column.mark, &ni);
+        st = find_column(r, d->count_column.text, false, d->count_column.mark, &ni);
     for (size_t k = 1; !st && k < r->nrows; k++) {
         const row *w = &r->rows[k];
         size_t g = row_group(r, w, grouped, gi);
@@ -440,7 +454,7 @@ static ug_status read_table(reader *r)
     ug_text_list found = {0};
     ug_status st = check_widths(r);
     if (!st && grouped)
-        st = find_column(r, d->group_column.text, d->group_column.mark, &gi);
+        st = find_column(r, d->group_column.text, false, d->group_column.mark, &gi);
     if (!st && grouped)
         st = csv_groups(r, gi, &found);
     if (!st && grouped)

@@ -1107,26 +1107,14 @@ static void assign_colors(ug_chart *c)
     }
 }
 
-/* Lower-case ASCII letters and digits; every other run of ASCII becomes one
-** '-'; other (UTF-8) bytes are kept, so "Niños" stays readable. */
-static char *slug(ug_arena *a, const char *s)
+/* The label's slug (ug_slug), or "category-N" when none of it is usable
+** (a label in a script without Latin letters, say). */
+static char *slug(ug_arena *a, const char *label, size_t i)
 {
-    size_t n = strlen(s), k = 0;
-    char *out = ug_arena_alloc(a, n + 1);
-    if (!out)
-        return NULL;
-    for (; *s; s++) {
-        unsigned char ch = (unsigned char)*s;
-        if (ch >= 'A' && ch <= 'Z')
-            out[k++] = (char)(ch - 'A' + 'a');
-        else if ((ch >= 'a' && ch <= 'z') || (ch >= '0' && ch <= '9') || ch >= 0x80)
-            out[k++] = (char)ch;
-        else if (k && out[k - 1] != '-')
-            out[k++] = '-';
-    }
-    while (k && out[k - 1] == '-')
-        k--;
-    out[k] = '\0';
+    size_t size = strlen(label) + 24;
+    char *out = ug_arena_alloc(a, size);
+    if (out && !ug_slug(label, out, size))
+        snprintf(out, size, "category-%zu", i + 1);
     return out;
 }
 
@@ -1137,12 +1125,8 @@ static ug_status check_category(loader *l, ug_chart *c, size_t i)
         return ug_fail(l->err, UG_ESCHEMA, cat->mark,
                        "a category needs a 'label' (the name shown in the key)");
     ug_mark at = l->id[i] ? l->id[i]->mark : cat->label.mark;
-    if (!cat->id && !(cat->id = slug(l->arena, cat->label.text)))
+    if (!cat->id && !(cat->id = slug(l->arena, cat->label.text, i)))
         return ug_fail(l->err, UG_ENOMEM, cat->mark, "out of memory");
-    if (!*cat->id)
-        return ug_fail(l->err, UG_ESCHEMA, at,
-                       "cannot make an id from label '%s': give the category an 'id'",
-                       cat->label.text);
     for (size_t j = 0; j < i; j++)
         if (!strcmp(c->cats[j].id, cat->id))
             return ug_fail(l->err, UG_ESCHEMA, at,

@@ -56,6 +56,14 @@ long ug_mem_fail_after(long n);
 ** different output. Returns as ug_mem_fail_after does. */
 long ug_mem_fail_once(long n);
 
+/* The one slug rule, for batch file names and category ids: [a-z0-9_-]
+** from name, letters lower-cased, Latin-1 accents and combining marks
+** dropped ("Niños" -> "ninos"), every other run a single '-', none leading
+** or trailing. Into buf (size >= 1), at most size - 1 bytes; returns the
+** length, 0 when nothing of the name is usable (the caller then numbers it:
+** "row-3", "category-2"). */
+size_t ug_slug(const char *name, char *buf, size_t size);
+
 /* An arena owns the many small strings and arrays of one model: one free. */
 typedef struct ug_arena_block ug_arena_block;
 typedef struct {

@@ -106,6 +106,61 @@ char *ug_strndup(const char *s, size_t n)
 
 char *ug_strdup(const char *s) { return ug_strndup(s, strlen(s)); }
 
+/* ---- slugs: names made safe for file names and XML ids ---------------- */
+
+/* Latin-1 letters with accents (U+00C0..U+00FF) -> their base letter, so
+** "Ünïcode" becomes "unicode"; '\0' for the few with none (×, ÷). */
+static char latin1_base(unsigned long cp)
+{
+    static const char map[] = "aaaaaaaceeeeiiiidnooooo\0ouuuuyts"  /* C0..DF */
+                              "aaaaaaaceeeeiiiidnooooo\0ouuuuyty"; /* E0..FF */
+    return cp >= 0xC0 && cp <= 0xFF ? map[cp - 0xC0] : 0;
+}
+
+/* One character of the NUL-terminated s: its code point and length; a byte
+** that starts no valid sequence is U+FFFD, one byte long. */
+static size_t utf8_next(const char *s, unsigned long *cp)
+{
+    size_t k = ug_utf8_decode(s, strnlen(s, 4), cp);
+    if (!k)
+        *cp = 0xFFFD;
+    return k ? k : 1;
+}
+
+/* Combining Diacritical Marks (Unicode block U+0300..U+036F): "e" followed
+** by U+0301 is the decomposed "é", so the mark is dropped like an accent on a
+** precomposed letter rather than splitting the word ("e-cole"). */
+static bool is_combining(unsigned long cp)
+{
+    return cp >= 0x300 && cp <= 0x36F;
+}
+
+size_t ug_slug(const char *name, char *buf, size_t size)
+{
+    size_t n = 0;
+    bool dash = false; /* a '-' is owed before the next kept character */
+    for (const char *s = name; *s && n + 2 < size;) {
+        unsigned long cp;
+        s += utf8_next(s, &cp);
+        if (is_combining(cp))
+            continue;
+        char ch = cp < 0x80 ? (char)cp : latin1_base(cp);
+        if (ch >= 'A' && ch <= 'Z')
+            ch = (char)(ch - 'A' + 'a');
+        bool keep = (ch >= 'a' && ch <= 'z') || (ch >= '0' && ch <= '9') || ch == '_';
+        if (!keep) {
+            dash = n > 0;
+            continue;
+        }
+        if (dash)
+            buf[n++] = '-';
+        dash = false;
+        buf[n++] = ch;
+    }
+    buf[n] = '\0';
+    return n;
+}
+
 /* ---- arena -------------------------------------------------------------- */
 
 struct ug_arena_block {

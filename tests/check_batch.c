@@ -34,7 +34,7 @@ static const slug_case slugs[] = {
 START_TEST(test_slug)
 {
     char buf[80];
-    size_t n = batch_slug(slugs[_i].name, buf, sizeof buf);
+    size_t n = ug_slug(slugs[_i].name, buf, sizeof buf);
     ck_assert_str_eq(buf, slugs[_i].slug);
     ck_assert_uint_eq(n, strlen(slugs[_i].slug));
 }

@@ -137,6 +137,30 @@ START_TEST(test_groups_from_csv)
 }
 END_TEST
 
+/* A category whose column defaults to its id finds a header written as the
+** label or lower-cased ("Niños", "niños": both slug to its id "ninos"); a
+** column named in the layout must match as written. */
+START_TEST(test_default_column_by_slug)
+{
+    ug_error err;
+    ug_chart *c = NULL;
+    const char *yaml = HEAD "data: {file: data.csv, group-column: ward}\n"
+                            "categories: [{label: \"Niños\"}, {label: Adults, column: Adults}]\n";
+    ug_status st = load(yaml, "ward,niños,Adults\nHill,1,2\n", NULL, &c, &err);
+    ck_assert_msg(st == UG_OK, "%s", err.msg);
+    ck_assert_str_eq(c->cats[0].id, "ninos");
+    char buf[48];
+    ck_assert_str_eq(ug_dec_format(c->cats[0].counts[0], buf), "1");
+    ug_chart_free(c);
+    st = load(yaml, "ward,Niños,Adults\nHill,1,2\n", NULL, &c, &err);
+    ck_assert_msg(st == UG_OK, "%s", err.msg);
+    ug_chart_free(c);
+    st = load(yaml, "ward,niños,adults\nHill,1,2\n", NULL, &c, &err);
+    ck_assert_int_eq(st, UG_EDATA);
+    ck_assert_ptr_nonnull(strstr(err.msg, "no column 'Adults'"));
+}
+END_TEST
+
 /* The layout's groups give the order; the CSV rows may come in any order. */
 START_TEST(test_layout_group_order)
 {
@@ -246,6 +270,7 @@ static Suite *suite(void)
     tcase_add_checked_fixture(t, setup, teardown);
     tcase_add_loop_test(t, test_csv_errors, 0, sizeof cases / sizeof cases[0]);
     tcase_add_test(t, test_groups_from_csv);
+    tcase_add_test(t, test_default_column_by_slug);
     tcase_add_test(t, test_rows_selected);
     tcase_add_test(t, test_layout_group_order);
     tcase_add_test(t, test_csv_size_limit);

@@ -64,7 +64,7 @@ static const chart_case charts[] = {
      5, UG_METHOD_LARGEST_REMAINDER, UG_ROUND_WHOLE, "adults", "older", "51.5", 6, 3,
      "long.csv"},
     {"data/good/full.yaml", UG_FORM_ROWS, 3, 2, true, true, NULL, false, 100, 25, 0,
-     UG_METHOD_SAINTE_LAGUE, UG_ROUND_PARTIAL, "grown-ups", "niños-y-niñas", "4", 30,
+     UG_METHOD_SAINTE_LAGUE, UG_ROUND_PARTIAL, "grown-ups", "ninos-y-ninas", "4", 30,
      17, "full.yaml"},
     {"data/good/minimal.yaml", UG_FORM_WAFFLE, 2, 0, false, false, NULL, false, 100, 0,
      0, UG_METHOD_LARGEST_REMAINDER, UG_ROUND_WHOLE, "only", "other", "1", 5, 12,
@@ -259,8 +259,11 @@ static const string_case strings[] = {
     {ROWS "data: {group-column: x}\ncategories: [{label: A}]\n", UG_ESCHEMA, 0, 0, "needs 'file'"},
     {ROWS "? [a]\n: 1\n" CAT, UG_ESCHEMA, 3, 3, "plain name"},
     {"\xEF\xBB\xBF" ROWS "x: 1\n", UG_ESCHEMA, 3, 1, "unknown key 'x'"},
+    /* a label with nothing usable for an id is numbered (category-2) */
     {ROWS "categories: [{label: A, count: 1}, {label: \"***\", count: 2}]\n",
-     UG_ESCHEMA, 3, 44, "cannot make an id"},
+     UG_OK, 0, 0, NULL},
+    {ROWS "categories: [{label: \"合计\", count: 1}, {label: category-1, count: 2}]\n",
+     UG_ESCHEMA, 3, 47, "duplicate category id 'category-1'"},
     /* another kind of file: refused by name, quoting none of it */
     {"password: hunter2\nuser: root\n", UG_ESCHEMA, 0, 0,
      "not a chart layout: none of its top-level keys"},
