@@ -305,8 +305,9 @@ static bool all_squares(const ug_chart *c)
 
 const char *pack_icon_word(const ug_chart *c, bool plural)
 {
-    if (c->form == UG_FORM_WAFFLE && all_squares(c))
-        return plural ? "squares" : "square";
+    const ug_form_info *f = ug_form_about(c->form);
+    if (f->cell && all_squares(c))
+        return plural ? f->cells : f->cell;
     return plural ? "icons" : "icon";
 }
 
@@ -387,7 +388,7 @@ static void change_sentence(const ug_chart *c, const ug_allocation *a, ug_buf *b
 
 void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b)
 {
-    ug_buf_puts(b, c->form == UG_FORM_WAFFLE ? "Waffle chart" : "Pictogram chart");
+    ug_buf_puts(b, ug_form_about(c->form)->kind);
     if (c->title.text)
         ug_buf_printf(b, ": %s", c->title.text);
     ug_buf_puts(b, strchr(".!?", b->len ? b->data[b->len - 1] : 0) ? "" : ".");

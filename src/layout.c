@@ -733,7 +733,19 @@ static ug_status walk_map(loader *l, void *base, const layout_node *map,
 
 /* ---- chart keys ---------------------------------------------------------- */
 
-static const char *const forms[] = {"rows", "waffle", NULL};
+#define FORM_INFO_(id, name, kind, cell, cells, columns, shares) \
+    {name, kind, cell, cells, columns, shares},
+static const ug_form_info form_info[] = {UG_CHART_FORMS(FORM_INFO_)};
+#undef FORM_INFO_
+#define FORM_NAME_(id, name, kind, cell, cells, columns, shares) name,
+const char *const ug_form_names[] = {UG_CHART_FORMS(FORM_NAME_) NULL};
+#undef FORM_NAME_
+
+const ug_form_info *ug_form_about(ug_form f)
+{
+    return &form_info[f < UG_FORM_COUNT ? f : UG_FORM_ROWS];
+}
+
 static const char *const changes[] = {"none", "previous", "first", NULL};
 static const char *const roundings[] = {"whole", "partial", NULL};
 static const char *const methods[] = {"largest-remainder", "sainte-lague", "dhondt",
@@ -1044,7 +1056,7 @@ static const key_rule chart_keys[] = {
     {.name = "change", .kind = K_ENUM, .off = CH(change), .mark = CH(change_mark),
      .choices = changes},
     {.name = "form", .kind = K_ENUM, .off = CH(form), .mark = CH(form_mark),
-     .choices = forms},
+     .choices = ug_form_names},
     {.name = "icon-value", .kind = K_FN, .fn = key_icon_value,
      .mark = CH(icon_value_mark), .flag = CH(has_icon_value)},
     {.name = "unit-label", .kind = K_TEXT, .off = CH(unit_label)},

@@ -14,7 +14,31 @@
 #define UG_MAX_DEPTH 32        /* YAML nesting */
 /* the limits' defaults are public (unitgram.h: UG_DEFAULT_*) */
 
-typedef enum { UG_FORM_ROWS, UG_FORM_WAFFLE } ug_form;
+/* The chart forms, one line each (an X-macro: every table of forms is made
+** from this list, so a new form is a line here, its pack function in pack.c
+** and its words): identifier, the layout's name for it (`form:`), the
+** description's first words, what a cell is called (one, several) when
+** every glyph is a plain square (NULL: always "icon"), the default columns,
+** and whether its
+** cells are shares of the total unless an icon value is stated. */
+#define UG_CHART_FORMS(X)                                                       \
+    X(ROWS, "rows", "Pictogram chart", NULL, NULL, 20, false)                  \
+    X(WAFFLE, "waffle", "Waffle chart", "square", "squares", 10, true)
+
+#define UG_FORM_ENUM_(id, name, kind, cell, cells, columns, shares) UG_FORM_##id,
+typedef enum { UG_CHART_FORMS(UG_FORM_ENUM_) UG_FORM_COUNT } ug_form;
+#undef UG_FORM_ENUM_
+
+typedef struct {
+    const char *name, *kind, *cell, *cells;
+    long columns;
+    bool shares;
+} ug_form_info;
+
+/* The form's line of UG_CHART_FORMS (layout.c); the names, NULL-terminated,
+** for the layout's `form:` key. */
+const ug_form_info *ug_form_about(ug_form f);
+extern const char *const ug_form_names[];
 /* `change:` (FORMAT.md §5): against the period before, or the first. */
 typedef enum { UG_CHANGE_NONE, UG_CHANGE_PREVIOUS, UG_CHANGE_FIRST } ug_change;
 typedef enum { UG_ROUND_WHOLE, UG_ROUND_PARTIAL } ug_rounding;

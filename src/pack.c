@@ -935,6 +935,12 @@ static void setup_holder(packer *p)
 
 /* The canvas is style.width wide unless one icon line or one waffle panel
 ** needs more: the icon never shrinks, so the page widens instead. */
+/* Each form's pack function, by form (model.h: UG_CHART_FORMS). */
+static void (*const pack_form[UG_FORM_COUNT])(packer *) = {
+    [UG_FORM_ROWS] = pack_rows,
+    [UG_FORM_WAFFLE] = pack_waffle,
+};
+
 static double canvas_width(const packer *p)
 {
     double w = p->c->style.width > 0 ? p->c->style.width : DEFAULT_WIDTH;
@@ -1030,7 +1036,7 @@ ug_status pack_scene(const ug_chart *c, const ug_allocation *a,
         put_block(&p, c->subtitle.text, SUBTITLE_PX, false, BLOCK_GAP,
                   KEPT(&p, subtitle_h));
     if (!p.st)
-        (c->form == UG_FORM_WAFFLE ? pack_waffle : pack_rows)(&p);
+        pack_form[c->form < UG_FORM_COUNT ? c->form : UG_FORM_ROWS](&p);
     if (!p.st)
         pack_key(&p);
     if (!p.st)

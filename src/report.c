@@ -28,7 +28,7 @@ long alloc_default_columns(const ug_chart *c)
 {
     if (c->columns > 0)
         return c->columns;
-    return c->form == UG_FORM_WAFFLE ? 10 : 20;
+    return ug_form_about(c->form)->columns;
 }
 
 ug_status alloc_rule_for_table(const ug_chart *c, const pub_table *t,
@@ -38,7 +38,7 @@ ug_status alloc_rule_for_table(const ug_chart *c, const pub_table *t,
     rule->method = c->method;
     rule->max_icons = (long)c->limits.max_icons;
     rule->partial = c->rounding == UG_ROUND_PARTIAL;
-    if (c->form == UG_FORM_WAFFLE && !c->has_icon_value) {
+    if (ug_form_about(c->form)->shares && !c->has_icon_value) {
         rule->by_cells = true;
         rule->cells = c->cells > 0 ? c->cells : 100;
         return UG_OK;

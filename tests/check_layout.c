@@ -588,6 +588,33 @@ START_TEST(test_out_of_memory)
 }
 END_TEST
 
+/* The one table of forms: each name a layout may write loads as that form,
+** and its line says what the packer and the description use. */
+START_TEST(test_form_table)
+{
+    size_t n = 0;
+    while (ug_form_names[n])
+        n++;
+    ck_assert_uint_eq(n, UG_FORM_COUNT);
+    for (size_t f = 0; f < n; f++) {
+        char text[160];
+        snprintf(text, sizeof text, "form: %s\nicon-value: 1\n"
+                 "categories: [{label: A, count: 3}]\n", ug_form_names[f]);
+        ug_chart *c = NULL;
+        ug_error err;
+        ck_assert_msg(ug_chart_load_string(text, strlen(text), "t.yaml", NULL, &c, &err) ==
+                      UG_OK, "%s", err.msg);
+        ck_assert_int_eq(c->form, (int)f);
+        ck_assert_str_eq(ug_form_about(c->form)->name, ug_form_names[f]);
+        ck_assert_int_gt(ug_form_about(c->form)->columns, 0);
+        ck_assert(!ug_form_about(c->form)->cell == !ug_form_about(c->form)->cells);
+        ug_chart_free(c);
+    }
+    ck_assert_str_eq(ug_form_about(UG_FORM_WAFFLE)->kind, "Waffle chart");
+    ck_assert_int_eq(ug_form_about(UG_FORM_ROWS)->columns, 20);
+}
+END_TEST
+
 static Suite *suite(void)
 {
     Suite *s = suite_create("layout");
@@ -598,6 +625,7 @@ static Suite *suite(void)
     tcase_add_test(t, test_groups_agree);
     tcase_add_test(t, test_full_chart);
     tcase_add_test(t, test_defaults);
+    tcase_add_test(t, test_form_table);
     tcase_add_loop_test(t, test_strings, 0, sizeof strings / sizeof strings[0]);
     tcase_add_test(t, test_small_count_preset);
     tcase_add_test(t, test_file_size_limit);
