@@ -622,10 +622,6 @@ static ug_status check_derivable(audit_ctx *x)
 
 /* ---- colours ------------------------------------------------------------- */
 
-static ug_color style_color(ug_color c, unsigned hex)
-{
-    return c.set ? c : color_rgb((hex >> 16) & 255, (hex >> 8) & 255, hex & 255);
-}
 
 /* The colour a category is drawn in: its own, or the palette's. */
 static ug_color cat_color(const ug_chart *c, size_t i)
@@ -667,13 +663,13 @@ static ug_status contrast_finding(audit_ctx *x, ug_mark where,
 
 static ug_color chart_background(const ug_chart *c)
 {
-    return style_color(c->style.background, 0xffffff);
+    return c->style.background;
 }
 
 static ug_status check_text_contrast(audit_ctx *x)
 {
     const ug_chart *c = x->c;
-    ug_color ink = style_color(c->style.ink, 0x222222);
+    ug_color ink = c->style.ink;
     return contrast_finding(x, c->style.ink.set ? c->style.ink.mark : file_start(c),
                             c->style.ink.set ? (fix_form){"ink: ", ""}
                                              : (fix_form){"style: {ink: ", "}"},
@@ -726,7 +722,7 @@ static ug_status replacement(audit_ctx *x, size_t j, char *fix, size_t n)
     for (size_t i = 0; i < c->ncats; i++)
         if (i != j)
             others[k++] = cat_color(c, i);
-    ug_color bg = style_color(c->style.background, 0xffffff);
+    ug_color bg = c->style.background;
     color_pick pick;
     ug_status st = color_best_replacement(c->style.palette, others, k, &bg, &pick, x->err);
     char h[8];

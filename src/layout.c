@@ -24,6 +24,7 @@
 #include "color.h"
 #include "context.h"
 #include "layout.h"
+#include "resolve.h"
 
 /* A list or mapping longer than this is refused while parsing, before any
 ** table is built from it; the specific limits (categories, groups) are
@@ -1092,33 +1093,6 @@ static const key_rule chart_keys[] = {
 
 /* ---- chart checks after the walk ---------------------------------------- */
 
-/* Categories without a colour take the palette (src/color.c) in order,
-** wrapping around — but the colours that reach the 3:1 non-text contrast of
-** WCAG 2.1 SC 1.4.11 against this chart's background come first, so a chart
-** that names no colours passes the audit's contrast rule as far as its palette
-** allows (Okabe-Ito on white: green, blue, vermillion, purple, then the rest). */
-static void assign_colors(ug_chart *c)
-{
-    size_t n = color_palette_size(c->style.palette), next = 0;
-    ug_color order[16];
-    for (int pass = 0; pass < 2; pass++)
-        for (size_t k = 0; k < n && k < 16; k++) {
-            ug_color col = color_palette_at(c->style.palette, k);
-            bool passes = color_contrast_passes(
-                color_contrast(col, c->style.background), COLOR_WCAG_NON_TEXT);
-            if (passes == (pass == 0))
-                order[next++] = col;
-        }
-    for (size_t i = 0, used = 0; i < c->ncats; i++) {
-        if (c->cats[i].color_given)
-            continue;
-        ug_color col = order[used++ % next];
-        col.set = true;
-        col.mark = c->cats[i].mark;
-        c->cats[i].color = col;
-    }
-}
-
 /* The label's slug (ug_slug), or "category-N" when none of it is usable
 ** (a label in a script without Latin letters, say). */
 static char *slug(ug_arena *a, const char *label, size_t i)
@@ -1308,7 +1282,7 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
             return st;
     if ((st = check_protection(l, c)))
         return st;
-    assign_colors(c);
+    resolve_chart(c);
     if (c->data.present && !c->is_template &&
         ((st = check_data_spec(l, c)) || (st = data_load(c, l->err))))
         return st;
@@ -1386,17 +1360,7 @@ static ug_chart *chart_new(const char *path, const char *dir, const ug_limits *l
         return NULL;
     }
     resolve_limits(&c->limits, limits);
-    c->cells = 100;
-    c->cluster = -1; /* not given: the form decides */
-    c->icon_size = 24;
-    c->icon_gap = 4;
-    c->style.width = 0; /* not given: the packer's 800 px, which a `columns:` may widen */
-    c->style.font = "DejaVu Sans";
-    c->style.font_mark = ug_mark_file(c->path);
-    c->style.background = (ug_color){0xFF, 0xFF, 0xFF, true, {NULL, 0, 0}};
-    c->style.ink = (ug_color){0x22, 0x22, 0x22, true, {NULL, 0, 0}};
-    c->audit.tolerance_percent.v = 10 * UG_DEC_SCALE;
-    c->audit.small_count.v = 10 * UG_DEC_SCALE;
+    resolve_defaults(c);
     return c;
 }
 

@@ -31,7 +31,6 @@
 #define HOLDER_PX 12.0
 #define BLOCK_GAP 28.0 /* between title, plot, key and foot */
 #define COL_GAP 16.0   /* between a text column and icons */
-#define DEFAULT_ICON 24.0
 #define DEFAULT_WIDTH 800.0
 
 struct pack_frame {
@@ -810,10 +809,7 @@ static void pack_foot(packer *p)
 
 /* ---- set-up -------------------------------------------------------------------- */
 
-static scene_rgb rgb_or(ug_color c, scene_rgb fallback)
-{
-    return c.set ? (scene_rgb){c.r, c.g, c.b} : fallback;
-}
+static scene_rgb rgb_of(ug_color c) { return (scene_rgb){c.r, c.g, c.b}; }
 
 static bool isalnum_ascii(unsigned char ch)
 {
@@ -888,7 +884,7 @@ static void setup_categories(packer *p)
     }
     for (size_t i = 0; i < s->ncats && !p->st; i++) {
         scene_category *sc = &s->cats[i];
-        sc->color = rgb_or(p->c->cats[i].color, (scene_rgb){0x55, 0x55, 0x55});
+        sc->color = rgb_of(p->c->cats[i].color);
         sc->id = safe_id(p, i);
         sc->glyph = p->measuring ? 0 : glyph_index(p, i);
         ug_buf b;
@@ -956,13 +952,14 @@ static void setup(packer *p)
 {
     const ug_chart *c = p->c;
     ug_scene *s = p->s;
-    p->size = c->icon_size > 0 ? c->icon_size : DEFAULT_ICON;
-    p->gap = c->icon_gap >= 0 ? c->icon_gap : 4;
+    /* every value here was resolved when the chart was made (src/resolve.c) */
+    p->size = c->icon_size;
+    p->gap = c->icon_gap;
     p->pitch = p->size + p->gap;
     s->icon_size = p->size;
-    s->font = ug_arena_strdup(&s->arena, c->style.font ? c->style.font : "DejaVu Sans");
-    s->background = rgb_or(c->style.background, (scene_rgb){0xff, 0xff, 0xff});
-    s->ink = rgb_or(c->style.ink, (scene_rgb){0x22, 0x22, 0x22});
+    s->font = ug_arena_strdup(&s->arena, c->style.font);
+    s->background = rgb_of(c->style.background);
+    s->ink = rgb_of(c->style.ink);
     char *title = text_clean(c->title.text ? c->title.text : "Unit chart");
     s->title = title ? ug_arena_strdup(&s->arena, title) : NULL;
     ug_free(title);

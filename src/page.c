@@ -12,6 +12,7 @@
 
 #include "pack.h"
 #include "page.h"
+#include "resolve.h"
 #include "svg.h"
 #include "text.h"
 
@@ -516,12 +517,16 @@ static ug_status set_up(composer *k)
     const ug_chart *first = NULL;
     for (size_t i = 0; i < n && !first; i++)
         first = p->panels[i].chart;
-    k->font = first && first->style.font ? first->style.font : "DejaVu Sans";
-    k->font_mark = first ? first->style.font_mark : ug_mark_file(p->path);
-    k->ink = first && first->style.ink.set
-                 ? (scene_rgb){first->style.ink.r, first->style.ink.g, first->style.ink.b}
-                 : (scene_rgb){0x22, 0x22, 0x22};
-    k->paper = (scene_rgb){0xff, 0xff, 0xff};
+    /* the sheet takes its first chart's (resolved) font and ink; a page of
+    ** text alone takes the defaults a chart would have */
+    ug_chart none = {.path = p->path};
+    resolve_defaults(&none);
+    const ug_chart *look = first ? first : &none;
+    k->font = look->style.font;
+    k->font_mark = look->style.font_mark;
+    k->ink = (scene_rgb){look->style.ink.r, look->style.ink.g, look->style.ink.b};
+    k->paper = (scene_rgb){(RESOLVE_BACKGROUND >> 16) & 255, (RESOLVE_BACKGROUND >> 8) & 255,
+                           RESOLVE_BACKGROUND & 255};
     k->r->charts = ug_calloc(n, sizeof *k->r->charts);
     k->r->allocs = ug_calloc(n, sizeof *k->r->allocs);
     k->scenes = ug_calloc(n, sizeof *k->scenes);

@@ -10,6 +10,7 @@
 
 #include "alloc.h"
 #include "model.h"
+#include "resolve.h"
 
 typedef struct {
     const char *label, *glyph;
@@ -35,16 +36,10 @@ static ug_chart *fx_chart(ug_form form, const char *title, const char *const *gr
     c->title.text = title ? ug_arena_strdup(a, title) : NULL;
     c->unit_label.text = "households";
     c->form = form;
-    c->cells = 100;
+    resolve_defaults(c); /* as the loader does */
     c->has_icon_value = form == UG_FORM_ROWS;
     c->icon_value = fx_dec("10");
-    c->icon_size = 24;
-    c->icon_gap = 4;
     c->cluster = form == UG_FORM_ROWS ? 5 : 0;
-    c->style.width = 0; /* not given, as the loader leaves it */
-    c->style.font = "DejaVu Sans";
-    c->style.background = (ug_color){255, 255, 255, true, {0}};
-    c->style.ink = (ug_color){0x22, 0x22, 0x22, true, {0}};
     c->limits.max_icons = 2000000;
     c->limits.max_file_bytes = 1 << 20;
     c->groups.n = ngroups;

@@ -1,0 +1,28 @@
+/*
+** The resolve step: every default a chart has, in one place, and what is
+** decided from the whole layout once it is read (the palette's colours for
+** categories that name none). The loader calls both; a chart built by hand
+** (a test fixture) calls them too, so no later stage needs a fallback.
+*/
+#ifndef UG_RESOLVE_H
+#define UG_RESOLVE_H
+
+#include "model.h"
+
+#define RESOLVE_FONT "DejaVu Sans"
+#define RESOLVE_INK 0x222222        /* text */
+#define RESOLVE_BACKGROUND 0xffffff
+#define RESOLVE_ICON_PX 24
+#define RESOLVE_GAP_PX 4
+#define RESOLVE_CELLS 100           /* a waffle of shares */
+#define RESOLVE_TOLERANCE_PERCENT 10 /* audit.tolerance: common practice, no source */
+#define RESOLVE_SMALL_COUNT 10       /* small-count threshold (REFERENCES.md §7) */
+
+/* The values a chart has before its layout says otherwise (path, dir and
+** limits are the caller's). */
+void resolve_defaults(ug_chart *c);
+/* After the layout is read: categories without a colour take the palette,
+** in the order that puts colours reaching 3:1 against the background first. */
+void resolve_chart(ug_chart *c);
+
+#endif
