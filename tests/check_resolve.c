@@ -1,0 +1,110 @@
+/* Tests for src/resolve.c: the defaults a chart starts with, and the
+** palette's colours for categories without one (contrast first). */
+#include <check.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "color.h"
+#include "resolve.h"
+#include "check_run.h"
+
+static ug_chart *bare_chart(size_t ncats)
+{
+    ug_chart *c = ug_calloc(1, sizeof *c);
+    c->path = "test.yaml";
+    resolve_defaults(c);
+    c->ncats = ncats;
+    c->cats = ug_arena_alloc(&c->arena, ncats * sizeof *c->cats);
+    return c;
+}
+
+static void chart_done(ug_chart *c)
+{
+    ug_arena_free(&c->arena);
+    ug_free(c);
+}
+
+START_TEST(test_defaults)
+{
+    ug_chart *c = bare_chart(1);
+    ck_assert_str_eq(c->style.font, RESOLVE_FONT);
+    ck_assert_str_eq(c->style.font_mark.file, "test.yaml");
+    ck_assert_int_eq(c->icon_size, RESOLVE_ICON_PX);
+    ck_assert_int_eq(c->icon_gap, RESOLVE_GAP_PX);
+    ck_assert_int_eq(c->cells, RESOLVE_CELLS);
+    ck_assert_int_eq(c->cluster, -1);
+    ck_assert(c->style.background.set && c->style.ink.set);
+    ck_assert_uint_eq((unsigned)c->style.background.r << 16 | c->style.background.g << 8 |
+                          c->style.background.b, RESOLVE_BACKGROUND);
+    ck_assert_uint_eq((unsigned)c->style.ink.r << 16 | c->style.ink.g << 8 | c->style.ink.b,
+                      RESOLVE_INK);
+    ck_assert_int_eq(c->audit.tolerance_percent.v, 10 * UG_DEC_SCALE);
+    ck_assert_int_eq(c->audit.small_count.v, 10 * UG_DEC_SCALE);
+    chart_done(c);
+}
+END_TEST
+
+/* On any background, the categories take first every palette colour that
+** reaches WCAG 2.1 SC 1.4.11's 3:1 against it (as color_contrast computes
+** it, checked against the W3C formula in check_color), then the rest; a
+** category's own colour is kept and takes no palette slot. */
+static void check_order(unsigned bg, ug_palette pal)
+{
+    size_t n = color_palette_size(pal);
+    ug_chart *c = bare_chart(n + 1);
+    c->style.background = color_rgb((bg >> 16) & 255, (bg >> 8) & 255, bg & 255);
+    c->style.palette = pal;
+    c->cats[0].color_given = true;
+    c->cats[0].color = color_rgb(1, 2, 3);
+    resolve_chart(c);
+    ck_assert(c->cats[0].color.r == 1 && c->cats[0].color.b == 3);
+    size_t passing = 0;
+    for (size_t k = 0; k < n; k++)
+        passing += color_contrast_passes(
+            color_contrast(color_palette_at(pal, k), c->style.background),
+            COLOR_WCAG_NON_TEXT);
+    for (size_t i = 1; i <= n; i++) {
+        bool passes = color_contrast_passes(color_contrast(c->cats[i].color,
+                                                           c->style.background),
+                                            COLOR_WCAG_NON_TEXT);
+        ck_assert_msg(passes == (i <= passing), "category %zu on #%06x", i, bg);
+        for (size_t j = 1; j < i; j++) /* every palette colour once */
+            ck_assert(memcmp(&c->cats[i].color, &c->cats[j].color, 3) != 0);
+    }
+    chart_done(c);
+}
+
+START_TEST(test_palette_contrast_first)
+{
+    const unsigned backgrounds[] = {0xffffff, 0x000000, 0x1e2a38, 0xf5e6c8};
+    for (size_t b = 0; b < 4; b++)
+        for (int p = UG_PALETTE_OKABE_ITO; p <= UG_PALETTE_TOL_MUTED; p++)
+            check_order(backgrounds[b], (ug_palette)p);
+}
+END_TEST
+
+/* More categories than colours wrap around the same order. */
+START_TEST(test_palette_wraps)
+{
+    size_t n = color_palette_size(UG_PALETTE_OKABE_ITO);
+    ug_chart *c = bare_chart(2 * n);
+    resolve_chart(c);
+    for (size_t i = 0; i < n; i++)
+        ck_assert(memcmp(&c->cats[i].color, &c->cats[i + n].color, 3) == 0);
+    ck_assert_uint_eq(c->cats[n].color.mark.line, c->cats[n].mark.line);
+    chart_done(c);
+}
+END_TEST
+
+static Suite *resolve_suite(void)
+{
+    Suite *s = suite_create("resolve");
+    TCase *t = tcase_create("resolve");
+    tcase_add_test(t, test_defaults);
+    tcase_add_test(t, test_palette_contrast_first);
+    tcase_add_test(t, test_palette_wraps);
+    suite_add_tcase(s, t);
+    return s;
+}
+
+int main(void) { return check_run(resolve_suite()); }
