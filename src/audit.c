@@ -35,6 +35,7 @@
 #include "audit.h"
 #include "glyph.h"
 #include "glyph_cache.h"
+#include "resolve.h"
 #include "scene.h"
 #include "color.h"
 
@@ -67,22 +68,9 @@ typedef struct audit_rule {
 } audit_rule;
 
 
-/* REFERENCES.md §7. */
-static const audit_small_preset presets[] = {
-    {"cms", 11, false, "CMS cell size suppression policy: cells of 1 to 10"},
-    {"cdc-wonder", 10, true, "CDC WONDER: sub-national counts of 0 to 9"},
-    {"nhs-hes", 8, false, "NHS Digital HES disclosure control: counts of 1 to 7"},
-};
 
 #define COUNT(a) (sizeof(a) / sizeof((a)[0]))
 
-const audit_small_preset *audit_small_count_preset(const char *name)
-{
-    for (size_t i = 0; name && i < COUNT(presets); i++)
-        if (!strcmp(presets[i].name, name))
-            return &presets[i];
-    return NULL;
-}
 
 const char *ug_severity_name(ug_severity s)
 {
@@ -256,12 +244,7 @@ static ug_status check_total(audit_ctx *x)
 
 /* ---- vanished categories and rounding differences ------------------------ */
 
-static ug_dec tolerance(const ug_chart *c)
-{
-    if (c->audit.has_tolerance)
-        return c->audit.tolerance_percent;
-    return (ug_dec){AUDIT_TOLERANCE_PERCENT * UG_DEC_SCALE};
-}
+static ug_dec tolerance(const ug_chart *c) { return c->audit.tolerance_percent; }
 
 typedef enum { SHARE_OK, SHARE_VANISHED, SHARE_ROUNDED } share_verdict;
 
@@ -518,14 +501,10 @@ static char *suppress_fix(const ug_chart *c, ug_dec below, bool zeros_hide,
     return ug_buf_take(&b, &out, NULL, &scratch) ? NULL : out;
 }
 
-static ug_dec small_threshold(const ug_chart *c, const audit_small_preset **p)
+static ug_dec small_threshold(const ug_chart *c, const resolve_small_preset **p)
 {
-    *p = audit_small_count_preset(c->audit.small_count_preset.text);
-    if (*p)
-        return (ug_dec){(*p)->below * UG_DEC_SCALE};
-    if (c->audit.has_small_count)
-        return c->audit.small_count;
-    return (ug_dec){AUDIT_SMALL_COUNT * UG_DEC_SCALE};
+    *p = resolve_small_count_preset(c->audit.small_count_preset.text);
+    return *p ? (ug_dec){(*p)->below * UG_DEC_SCALE} : c->audit.small_count;
 }
 
 /* Published counts under the threshold. Hidden cells are protected already
@@ -534,7 +513,7 @@ static ug_dec small_threshold(const ug_chart *c, const audit_small_preset **p)
 static ug_status check_small(audit_ctx *x)
 {
     const ug_chart *c = x->c;
-    const audit_small_preset *p;
+    const resolve_small_preset *p;
     ug_dec below = small_threshold(c, &p);
     bool zero_too = p && p->zero_too;
     ug_dec keep = c->has_suppress && c->suppress_below.v > below.v ? c->suppress_below

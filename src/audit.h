@@ -7,30 +7,19 @@
 ** Layout extension (FORMAT.md §1 `audit:`): besides a number, `small-count`
 ** accepts the name of a published agency rule -- `cms`, `cdc-wonder` or
 ** `nhs-hes` (REFERENCES.md §7) -- which the loader checks with
-** audit_small_count_preset and keeps in chart->audit.small_count_preset.
+** resolve_small_count_preset and keeps in chart->audit.small_count_preset.
 */
 #ifndef UG_AUDIT_H
 #define UG_AUDIT_H
 
 #include "model.h"
 
-/* Defaults. The percentages and counts are what FORMAT.md states; the limit
-** on categories is common practice, no source; the colour threshold is
-** unitgram's own choice (see audit.c). */
-#define AUDIT_TOLERANCE_PERCENT 10
-#define AUDIT_SMALL_COUNT 10
+/* The limit on categories is common practice, no source; the colour
+** threshold is unitgram's own choice (see audit.c). The tolerance and the
+** small-count threshold a chart starts with are resolve.h's. */
 #define AUDIT_MAX_CATEGORIES 7
 #define AUDIT_MIN_DELTA_E 8.0
 
-typedef struct {
-    const char *name;   /* the layout keyword */
-    long below;         /* counts under this are disclosive */
-    bool zero_too;      /* the rule covers 0 as well */
-    const char *rule;   /* the published rule, for messages */
-} audit_small_preset;
-
-/* NULL when name is not a preset. */
-const audit_small_preset *audit_small_count_preset(const char *name);
 /* Whether name is a rule audit.ignore may name. */
 bool audit_rule_known(const char *name);
 /* The rules in the order findings are reported: name and source; NULL when

@@ -1,736 +1,19 @@
 /*
-** The layout stage: a chart or page file (YAML, FORMAT.md §1-2) -> the typed
-** model of model.h, every value keeping the 1-based line and column it came
-** from. libyaml's events are folded into a small node tree first (aliases
-** refused, depth and sizes limited), then each mapping is walked against a
-** table of the keys it may hold. Counts from CSV files are read by data.c.
+** The layout stage: a chart file (YAML, FORMAT.md §1) -> the typed model of
+** model.h, every value keeping the 1-based line and column it came from. The
+** input is read by layout_input.c, folded into a node tree by layout_tree.c
+** and walked against the chart's key table here (layout_keys.c holds the
+** walker); the resolve step (resolve.c) then fills the defaults. Page files
+** are layout_page.c; counts from CSV files are read by data.c.
 */
-#include <assert.h>
 #include <ctype.h>
-#include <errno.h>
-#include <fcntl.h>
-#include <stddef.h>
-#include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <strings.h>
-#include <sys/stat.h>
-#include <unistd.h>
-#include <yaml.h>
 
-#include "colorparse.h"
-#include "audit.h"
-#include "color.h"
 #include "context.h"
-#include "layout.h"
 #include "resolve.h"
-
-/* A list or mapping longer than this is refused while parsing, before any
-** table is built from it; the specific limits (categories, groups) are
-** checked later with their own messages. */
-#define MAX_ITEMS (4 * UG_MAX_CATEGORIES)
-
-/* ---- files and text ------------------------------------------------------ */
-
-static ug_status too_large(const char *path, size_t max, ug_mark at, ug_error *err)
-{
-    return ug_fail(err, UG_ELIMIT, at, "'%s' is larger than the limit of %zu bytes "
-                   "(raise it with --max-input-bytes)", path, max);
-}
-
-/* The host's file hook (ug_context_options.read_file) first: 1 when it
-** served the file (or refused it, with the error raised), 0 for the disk. */
-static int read_hooked(const char *path, size_t max, ug_mark at, char **text,
-                       size_t *len, ug_status *rc, ug_error *err)
-{
-    const ug_context *c = ug_ctx();
-    const char *data = NULL;
-    size_t n = 0;
-    int got = c->read_file ? c->read_file(c->read_ud, path, &data, &n) : 0;
-    if (got == 0)
-        return 0;
-    if (got < 0 || (!data && n))
-        *rc = ug_fail(err, UG_EIO, at, "cannot read '%s': refused by the host's reader", path);
-    else if (n > max)
-        *rc = too_large(path, max, at, err);
-    else if (!(*text = ug_malloc(n + 1)))
-        *rc = ug_fail(err, UG_ENOMEM, at, "out of memory");
-    else {
-        if (n)
-            memcpy(*text, data, n);
-        (*text)[n] = '\0';
-        *len = n;
-        *rc = UG_OK;
-    }
-    return 1;
-}
-
-ug_status layout_read_file(const char *path, size_t max, ug_mark at,
-                           char **text, size_t *len, ug_error *err)
-{
-    *text = NULL;
-    ug_status hooked;
-    if (read_hooked(path, max, at, text, len, &hooked, err))
-        return hooked;
-    /* Non-blocking, so a FIFO is refused below instead of waiting for a writer. */
-    int fd = open(path, O_RDONLY | O_NONBLOCK | O_CLOEXEC);
-    FILE *f = fd < 0 ? NULL : fdopen(fd, "rb");
-    if (!f) {
-        int e = errno;
-        if (fd >= 0)
-            close(fd);
-        return ug_fail(err, UG_EIO, at, "cannot read '%s': %s", path, strerror(e));
-    }
-    struct stat st;
-    ug_status rc = UG_OK;
-    char *buf = NULL;
-    if (fstat(fileno(f), &st) != 0 || !S_ISREG(st.st_mode)) {
-        rc = ug_fail(err, UG_EIO, at, "cannot read '%s': not a regular file", path);
-        goto out;
-    }
-    if ((unsigned long long)st.st_size > max) {
-        rc = too_large(path, max, at, err);
-        goto out;
-    }
-    size_t size = (size_t)st.st_size;
-    if (!(buf = ug_malloc(size + 1))) {
-        rc = ug_fail(err, UG_ENOMEM, at, "out of memory");
-        goto out;
-    }
-    if (fread(buf, 1, size, f) != size) {
-        rc = ug_fail(err, UG_EIO, at, "cannot read '%s': short read", path);
-        goto out;
-    }
-    buf[size] = '\0';
-    *text = buf;
-    *len = size;
-    buf = NULL;
-out:
-    ug_free(buf);
-    fclose(f);
-    return rc;
-}
-
-static bool is_control(unsigned long cp)
-{
-    return cp < 0x20 || cp == 0x7F || (cp >= 0x80 && cp <= 0x9F);
-}
-
-ug_status layout_check_text(const char *s, size_t n, bool multiline, ug_mark at,
-                            ug_error *err)
-{
-    const unsigned char *u = (const unsigned char *)s;
-    for (size_t i = 0; i < n;) {
-        unsigned long cp;
-        size_t k = ug_utf8_decode(s + i, n - i, &cp);
-        if (!k)
-            return ug_fail(err, UG_EDATA, at, "not UTF-8: invalid byte 0x%02X",
-                           u[i]);
-        if (cp == '\n' && !multiline)
-            return ug_fail(err, UG_ESCHEMA, at,
-                           "a line break is not allowed here (only in "
-                           "'description' and text panels)");
-        if (is_control(cp) && cp != '\n')
-            return ug_fail(err, UG_ESCHEMA, at,
-                           "control character U+%04lX is not allowed in text", cp);
-        i += k;
-    }
-    return UG_OK;
-}
-
-/* The whole file before libyaml sees it: UTF-8, and no control characters
-** besides tab and line ends. The mark counts code points, as libyaml does. */
-static ug_status scan_file(const char *text, size_t len, const char *file,
-                           ug_error *err)
-{
-    const unsigned char *u = (const unsigned char *)text;
-    ug_mark m = {file, 1, 1};
-    size_t i = len >= 3 && !memcmp(text, "\xEF\xBB\xBF", 3) ? 3 : 0;
-    while (i < len) {
-        unsigned long cp;
-        size_t k = ug_utf8_decode(text + i, len - i, &cp);
-        if (!k)
-            return ug_fail(err, UG_EDATA, m, "not UTF-8: invalid byte 0x%02X",
-                           u[i]);
-        if (is_control(cp) && cp != '\t' && cp != '\n' && cp != '\r')
-            return ug_fail(err, UG_ESYNTAX, m,
-                           "control character U+%04lX is not allowed", cp);
-        bool crlf = cp == '\r' && i + 1 < len && u[i + 1] == '\n';
-        if ((cp == '\n' || cp == '\r') && !crlf) {
-            m.line++;
-            m.column = 1;
-        } else if (!crlf) {
-            m.column++;
-        }
-        i += k;
-    }
-    return UG_OK;
-}
-
-char *layout_join(ug_arena *a, const char *dir, const char *rel)
-{
-    if (!dir || !*dir || rel[0] == '/')
-        return ug_arena_strdup(a, rel);
-    size_t n = strlen(dir) + strlen(rel) + 2;
-    char *p = ug_arena_alloc(a, n);
-    if (p)
-        snprintf(p, n, "%s/%s", dir, rel);
-    return p;
-}
-
-static char *dir_of(ug_arena *a, const char *path)
-{
-    const char *slash = strrchr(path, '/');
-    if (!slash)
-        return ug_arena_strdup(a, "");
-    return ug_arena_strndup(a, path, slash == path ? 1 : (size_t)(slash - path));
-}
-
-/* ---- YAML -> node tree --------------------------------------------------- */
-
-typedef struct {
-    yaml_parser_t parser;
-    ug_arena *arena;
-    const char *file;
-    layout_node *stack[UG_MAX_DEPTH + 1];
-    int depth;
-    layout_node *root;
-    int documents;
-    ug_error *err;
-} tree_builder;
-
-static ug_mark mark_of(const tree_builder *b, yaml_mark_t m)
-{
-    ug_mark u = {b->file, (unsigned)m.line + 1, (unsigned)m.column + 1};
-    return u;
-}
-
-static ug_status syntax_error(tree_builder *b)
-{
-    yaml_parser_t *p = &b->parser;
-    const char *problem = p->problem ? p->problem : "unreadable YAML";
-    if (p->error == YAML_MEMORY_ERROR)
-        return ug_fail(b->err, UG_ENOMEM, ug_mark_file(b->file), "out of memory");
-    if (p->error == YAML_READER_ERROR)
-        return ug_fail(b->err, UG_ESYNTAX, ug_mark_file(b->file),
-                       "YAML syntax error: %s at byte %zu", problem,
-                       p->problem_offset);
-    if (p->context)
-        return ug_fail(b->err, UG_ESYNTAX, mark_of(b, p->problem_mark),
-                       "YAML syntax error: %s (%s at line %zu, column %zu)",
-                       problem, p->context, p->context_mark.line + 1,
-                       p->context_mark.column + 1);
-    return ug_fail(b->err, UG_ESYNTAX, mark_of(b, p->problem_mark),
-                   "YAML syntax error: %s", problem);
-}
-
-static ug_status attach(tree_builder *b, layout_node *n)
-{
-    if (b->depth == 0) {
-        b->root = n;
-        return UG_OK;
-    }
-    layout_node *parent = b->stack[b->depth - 1];
-    if (parent->kind == LAYOUT_MAP && parent->n % 2 == 0 && n->kind != LAYOUT_SCALAR)
-        return ug_fail(b->err, UG_ESCHEMA, n->mark,
-                       "a key must be a plain name, not a list or mapping");
-    if (parent->n >= 2 * MAX_ITEMS)
-        return ug_fail(b->err, UG_ELIMIT, n->mark,
-                       "more than %d items in one list or mapping", MAX_ITEMS);
-    if (parent->last)
-        parent->last->next = n;
-    else
-        parent->first = n;
-    parent->last = n;
-    parent->n++;
-    return UG_OK;
-}
-
-static layout_node *new_node(tree_builder *b, layout_kind kind, yaml_mark_t m)
-{
-    layout_node *n = ug_arena_alloc(b->arena, sizeof *n);
-    if (n) {
-        n->kind = kind;
-        n->mark = mark_of(b, m);
-    }
-    return n;
-}
-
-static ug_status on_scalar(tree_builder *b, const yaml_event_t *e)
-{
-    layout_node *n = new_node(b, LAYOUT_SCALAR, e->start_mark);
-    size_t len = e->data.scalar.length;
-    if (!n)
-        return ug_fail(b->err, UG_ENOMEM, ug_mark_file(b->file), "out of memory");
-    if (len > UG_MAX_STRING)
-        return ug_fail(b->err, UG_ELIMIT, n->mark,
-                       "text longer than the limit of %d bytes", UG_MAX_STRING);
-    n->text = ug_arena_strndup(b->arena, (const char *)e->data.scalar.value, len);
-    if (!n->text)
-        return ug_fail(b->err, UG_ENOMEM, ug_mark_file(b->file), "out of memory");
-    n->len = len;
-    n->plain = e->data.scalar.style == YAML_PLAIN_SCALAR_STYLE;
-    return attach(b, n);
-}
-
-static ug_status on_open(tree_builder *b, layout_kind kind, const yaml_event_t *e)
-{
-    layout_node *n = new_node(b, kind, e->start_mark);
-    if (!n)
-        return ug_fail(b->err, UG_ENOMEM, ug_mark_file(b->file), "out of memory");
-    if (b->depth >= UG_MAX_DEPTH)
-        return ug_fail(b->err, UG_ELIMIT, n->mark,
-                       "nested deeper than the limit of %d levels", UG_MAX_DEPTH);
-    ug_status st = attach(b, n);
-    if (!st)
-        b->stack[b->depth++] = n;
-    return st;
-}
-
-static ug_status on_event(tree_builder *b, const yaml_event_t *e)
-{
-    switch (e->type) {
-    case YAML_DOCUMENT_START_EVENT:
-        if (++b->documents > 1)
-            return ug_fail(b->err, UG_ESYNTAX, mark_of(b, e->start_mark),
-                           "only one YAML document is allowed in a file");
-        return UG_OK;
-    case YAML_ALIAS_EVENT:
-        return ug_fail(b->err, UG_ESCHEMA, mark_of(b, e->start_mark),
-                       "aliases are not supported (write the value out)");
-    case YAML_SCALAR_EVENT: return on_scalar(b, e);
-    case YAML_SEQUENCE_START_EVENT: return on_open(b, LAYOUT_SEQ, e);
-    case YAML_MAPPING_START_EVENT: return on_open(b, LAYOUT_MAP, e);
-    case YAML_SEQUENCE_END_EVENT:
-    case YAML_MAPPING_END_EVENT:
-        b->depth--;
-        return UG_OK;
-    default: return UG_OK;
-    }
-}
-
-ug_status layout_parse(const char *text, size_t len, const char *file,
-                       ug_arena *arena, layout_node **root, ug_error *err)
-{
-    tree_builder b;
-    memset(&b, 0, sizeof b);
-    b.arena = arena;
-    b.file = file;
-    b.err = err;
-    *root = NULL;
-    ug_status st = scan_file(text, len, file, err);
-    if (st)
-        return st;
-    if (!yaml_parser_initialize(&b.parser))
-        return ug_fail(err, UG_ENOMEM, ug_mark_file(file), "out of memory");
-    yaml_parser_set_input_string(&b.parser, (const unsigned char *)text, len);
-    for (bool done = false; !done && !st;) {
-        yaml_event_t e;
-        if (!yaml_parser_parse(&b.parser, &e)) {
-            st = syntax_error(&b);
-            break;
-        }
-        done = e.type == YAML_STREAM_END_EVENT;
-        st = on_event(&b, &e);
-        yaml_event_delete(&e);
-    }
-    yaml_parser_delete(&b.parser);
-    if (!st)
-        *root = b.root;
-    return st;
-}
-
-/* ---- typed values -------------------------------------------------------- */
-
-/* The loader's state while one chart or page is walked. */
-typedef struct {
-    ug_arena *arena;        /* the model's arena: every kept string goes here */
-    ug_error *err;
-    const char *key;        /* the key being read, for messages */
-    /* per category, what the walk found and the checks after it need */
-    const layout_node **count, **counts, **id;
-    size_t cur;             /* the category being read */
-    ug_chart *chart;
-    ug_page *page;          /* while a page file is read */
-} loader;
-
-static const char *kind_name(const layout_node *n)
-{
-    if (n->kind == LAYOUT_SEQ)
-        return "a list";
-    if (n->kind == LAYOUT_MAP)
-        return "a mapping";
-    return "a single value";
-}
-
-static ug_status nomem(loader *l, const layout_node *n)
-{
-    return ug_fail(l->err, UG_ENOMEM, n->mark, "out of memory");
-}
-
-static bool is_null(const layout_node *n)
-{
-    return n->kind == LAYOUT_SCALAR && n->plain &&
-           (!n->len || !strcmp(n->text, "~") || !strcmp(n->text, "null") ||
-            !strcmp(n->text, "Null") || !strcmp(n->text, "NULL"));
-}
-
-static ug_status want_scalar(loader *l, const layout_node *n, const char *what)
-{
-    if (n->kind != LAYOUT_SCALAR)
-        return ug_fail(l->err, UG_ESCHEMA, n->mark, "'%s' expects %s, not %s",
-                       l->key, what, kind_name(n));
-    if (is_null(n))
-        return ug_fail(l->err, UG_ESCHEMA, n->mark, "'%s' is empty: expected %s",
-                       l->key, what);
-    return UG_OK;
-}
-
-static ug_status read_text(loader *l, const layout_node *n, bool multiline,
-                           ug_text *out)
-{
-    ug_status st = want_scalar(l, n, "a text");
-    if (!st)
-        st = layout_check_text(n->text, n->len, multiline, n->mark, l->err);
-    if (st)
-        return st;
-    out->text = ug_arena_strndup(l->arena, n->text, n->len);
-    out->mark = n->mark;
-    return out->text ? UG_OK : nomem(l, n);
-}
-
-/* A single text or a list of texts (source, notes, groups, audit.ignore). */
-static ug_status read_text_list(loader *l, const layout_node *n, ug_text_list *out)
-{
-    out->mark = n->mark;
-    if (n->kind == LAYOUT_MAP)
-        return ug_fail(l->err, UG_ESCHEMA, n->mark,
-                       "'%s' expects a text or a list of texts, not a mapping",
-                       l->key);
-    size_t count = n->kind == LAYOUT_SEQ ? n->n : 1;
-    out->items = ug_arena_alloc(l->arena, (count ? count : 1) * sizeof *out->items);
-    if (!out->items)
-        return nomem(l, n);
-    if (n->kind == LAYOUT_SCALAR) {
-        out->n = 1;
-        return read_text(l, n, false, &out->items[0]);
-    }
-    for (const layout_node *it = n->first; it; it = it->next) {
-        ug_status st = read_text(l, it, false, &out->items[out->n]);
-        if (st)
-            return st;
-        out->n++;
-    }
-    return UG_OK;
-}
-
-static ug_status read_dec(loader *l, const layout_node *n, ug_dec *out)
-{
-    ug_status st = want_scalar(l, n, "a number");
-    if (st)
-        return st;
-    ug_dec_result r = ug_dec_parse(n->text, n->len, out);
-    if (r != UG_DEC_OK)
-        return ug_fail(l->err, UG_EDATA, n->mark, "'%s': %s (found '%s')", l->key,
-                       ug_dec_result_text(r), n->text);
-    return UG_OK;
-}
-
-static ug_status read_long(loader *l, const layout_node *n, long lo, long hi,
-                           long *out)
-{
-    ug_dec d;
-    ug_status st = want_scalar(l, n, "a whole number");
-    if (st)
-        return st;
-    if (ug_dec_parse(n->text, n->len, &d) != UG_DEC_OK || d.v % UG_DEC_SCALE ||
-        d.v / UG_DEC_SCALE < lo || d.v / UG_DEC_SCALE > hi)
-        return ug_fail(l->err, UG_ESCHEMA, n->mark,
-                       "'%s' expects a whole number from %ld to %ld (found '%s')",
-                       l->key, lo, hi, n->text);
-    *out = (long)(d.v / UG_DEC_SCALE);
-    return UG_OK;
-}
-
-/* Absolute lengths of W3C CSS Values and Units (§ absolute lengths): 1in =
-** 96px = 72pt = 25.4mm. A bare number is in px. */
-bool layout_parse_length(const char *s, size_t n, double *px)
-{
-    static const struct { const char *unit; double per_px; } units[] = {
-        {"px", 1.0}, {"in", 96.0}, {"pt", 96.0 / 72.0}, {"mm", 96.0 / 25.4}};
-    double factor = 1.0;
-    while (n && s[n - 1] == ' ')
-        n--;
-    for (size_t i = 0; i < sizeof units / sizeof units[0]; i++)
-        if (n >= 2 && !memcmp(s + n - 2, units[i].unit, 2)) {
-            factor = units[i].per_px;
-            n -= 2;
-            break;
-        }
-    ug_dec d;
-    if (ug_dec_parse(s, n, &d) != UG_DEC_OK)
-        return false;
-    *px = ug_dec_to_double(d) * factor;
-    return true;
-}
-
-/* No length on a chart or page needs more than this (about 26 m); larger ones
-** would overflow the text layout's integer units (found by fuzz_draw). */
-#define LAYOUT_MAX_LENGTH_PX 100000.0
-
-static ug_status read_length(loader *l, const layout_node *n, bool positive,
-                             double *out)
-{
-    ug_status st = want_scalar(l, n, "a length");
-    if (st)
-        return st;
-    if (!layout_parse_length(n->text, n->len, out) || (positive && *out <= 0))
-        return ug_fail(l->err, UG_ESCHEMA, n->mark,
-                       "'%s' expects a %slength such as 24, 24px, 12mm, 0.5in "
-                       "or 10pt (found '%s')",
-                       l->key, positive ? "positive " : "", n->text);
-    if (*out > LAYOUT_MAX_LENGTH_PX)
-        return ug_fail(l->err, UG_ELIMIT, n->mark,
-                       "'%s' is longer than %.0fpx, the largest length allowed "
-                       "(found '%s')", l->key, LAYOUT_MAX_LENGTH_PX, n->text);
-    return UG_OK;
-}
-
-static ug_status read_color(loader *l, const layout_node *n, ug_color *out)
-{
-    ug_status st = want_scalar(l, n, "a colour");
-    if (st)
-        return st;
-    colorparse_rgb rgb;
-    const char *why;
-    if (!colorparse(n->text, n->len, &rgb, &why))
-        return ug_fail(l->err, UG_ESCHEMA, n->mark, "'%s': '%s' %s", l->key,
-                       n->text, why);
-    out->r = rgb.r;
-    out->g = rgb.g;
-    out->b = rgb.b;
-    out->set = true;
-    out->mark = n->mark;
-    return UG_OK;
-}
-
-static ug_status read_enum(loader *l, const layout_node *n,
-                           const char *const *choices, int *out)
-{
-    ug_status st = want_scalar(l, n, "a choice");
-    if (st)
-        return st;
-    char list[256] = "";
-    for (int i = 0; choices[i]; i++) {
-        if (!strcmp(n->text, choices[i])) {
-            *out = i;
-            return UG_OK;
-        }
-        size_t used = strlen(list);
-        snprintf(list + used, sizeof list - used, "%s%s", i ? " | " : "",
-                 choices[i]);
-    }
-    return ug_fail(l->err, UG_ESCHEMA, n->mark, "'%s' expects one of %s (found '%s')",
-                   l->key, list, n->text);
-}
-
-static ug_status read_bool(loader *l, const layout_node *n, bool *out)
-{
-    static const char *const yes[] = {"true", "True", "TRUE", "yes", "Yes", "on"};
-    static const char *const no[] = {"false", "False", "FALSE", "no", "No", "off"};
-    ug_status st = want_scalar(l, n, "true or false");
-    if (st)
-        return st;
-    for (size_t i = 0; i < sizeof yes / sizeof yes[0]; i++)
-        if (!strcmp(n->text, yes[i]) || !strcmp(n->text, no[i])) {
-            *out = !strcmp(n->text, yes[i]);
-            return UG_OK;
-        }
-    return ug_fail(l->err, UG_ESCHEMA, n->mark, "'%s' expects true or false (found '%s')",
-                   l->key, n->text);
-}
-
-/* ---- key tables ---------------------------------------------------------- */
-
-typedef enum {
-    K_TEXT, K_MULTILINE, K_LIST, K_DEC, K_LONG, K_LENGTH, K_COLOR, K_ENUM,
-    K_BOOL, K_MAP, K_FN
-} key_kind;
-
-typedef struct key_rule key_rule;
-typedef ug_status (*key_fn)(loader *l, void *base, const layout_node *v);
-
-/* One key a mapping may hold. Offsets are into the struct being filled;
-** `mark` and `flag` are offsets of its ug_mark and `has_` bool (0: none —
-** no model struct keeps a mark or flag first). */
-struct key_rule {
-    const char *name;
-    key_kind kind;
-    size_t off, mark, flag;
-    long lo, hi;                     /* K_LONG range; K_LENGTH: lo 1 = > 0 */
-    const char *const *choices;      /* K_ENUM */
-    const key_rule *sub;             /* K_MAP: the nested table (NULL-ended) */
-    key_fn fn;                       /* K_FN */
-};
-
-/* Levenshtein distance, for "did you mean". Keys are short (< 32). */
-static size_t edit_distance(const char *a, const char *b)
-{
-    size_t la = strlen(a), lb = strlen(b), row[33];
-    if (la > 32 || lb > 32)
-        return 99;
-    for (size_t j = 0; j <= lb; j++)
-        row[j] = j;
-    for (size_t i = 1; i <= la; i++) {
-        size_t diag = row[0];
-        row[0] = i;
-        for (size_t j = 1; j <= lb; j++) {
-            size_t up = row[j];
-            size_t best = diag + (a[i - 1] != b[j - 1]);
-            if (up + 1 < best)
-                best = up + 1;
-            if (row[j - 1] + 1 < best)
-                best = row[j - 1] + 1;
-            row[j] = best;
-            diag = up;
-        }
-    }
-    return row[lb];
-}
-
-/* The key of t at most 2 edits from key (and less than half of it), if any. */
-static const char *near_key(const char *key, const key_rule *t)
-{
-    const char *guess = NULL;
-    size_t best = 3;
-    for (; t->name; t++) {
-        size_t d = edit_distance(key, t->name);
-        if (d < best && d * 2 < strlen(t->name)) {
-            best = d;
-            guess = t->name;
-        }
-    }
-    return guess;
-}
-
-/* "{label: Adults, over 65}": in a flow mapping the comma ends the label and
-** "over 65" becomes a key with no value. Said as such, with the fix. */
-static bool split_by_comma(const layout_node *k, const layout_node *prev_v)
-{
-    const layout_node *v = k->next;
-    return prev_v && prev_v->kind == LAYOUT_SCALAR && prev_v->plain && k->plain &&
-           v->kind == LAYOUT_SCALAR && v->plain && v->len == 0 &&
-           prev_v->mark.line == k->mark.line;
-}
-
-static ug_status unknown_key(loader *l, const layout_node *k, const key_rule *t,
-                             const layout_node *prev_k)
-{
-    if (prev_k && split_by_comma(k, prev_k->next))
-        return ug_fail(l->err, UG_ESCHEMA, k->mark,
-                       "unknown key '%s': a comma inside { } ends the value before it, "
-                       "so '%s, %s' was read as two entries; put the value in quotes: "
-                       "%s: \"%s, %s\"", k->text, prev_k->next->text, k->text,
-                       prev_k->text, prev_k->next->text, k->text);
-    const char *guess = near_key(k->text, t);
-    if (guess)
-        return ug_fail(l->err, UG_ESCHEMA, k->mark,
-                       "unknown key '%s' (did you mean '%s'?)", k->text, guess);
-    return ug_fail(l->err, UG_ESCHEMA, k->mark, "unknown key '%s'", k->text);
-}
-
-static ug_status walk_map(loader *l, void *base, const layout_node *map,
-                          const key_rule *t);
-
-/* A file none of whose top-level keys is one this kind of file has, or a
-** misspelling of one, is some other file (a password list, a config) named by
-** mistake or on purpose: it is refused by name, quoting none of it. */
-static bool is_key_of(const char *key, const key_rule *t)
-{
-    for (; t->name; t++)
-        if (!strcmp(t->name, key))
-            return true;
-    return false;
-}
-
-static ug_status refuse_foreign(const layout_node *root, const key_rule *t,
-                                const char *kind, ug_error *err)
-{
-    if (!root || root->kind != LAYOUT_MAP)
-        return UG_OK;
-    for (const layout_node *k = root->first; k; k = k->next->next)
-        if (near_key(k->text, t) || is_key_of(k->text, t))
-            return UG_OK;
-    return ug_fail(err, UG_ESCHEMA, ug_mark_file(root->mark.file),
-                   "not a %s: none of its top-level keys is one a %s has "
-                   "(nothing of the file is shown here)", kind, kind);
-}
-
-static ug_status read_value(loader *l, void *base, const key_rule *r,
-                            const layout_node *v)
-{
-    char *p = (char *)base + r->off;
-    switch (r->kind) {
-    case K_TEXT: return read_text(l, v, false, (ug_text *)p);
-    case K_MULTILINE: return read_text(l, v, true, (ug_text *)p);
-    case K_LIST: return read_text_list(l, v, (ug_text_list *)p);
-    case K_DEC: return read_dec(l, v, (ug_dec *)p);
-    case K_LONG: return read_long(l, v, r->lo, r->hi, (long *)p);
-    case K_LENGTH: return read_length(l, v, r->lo == 1, (double *)p);
-    case K_COLOR: return read_color(l, v, (ug_color *)p);
-    case K_ENUM: return read_enum(l, v, r->choices, (int *)p);
-    case K_BOOL: return read_bool(l, v, (bool *)p);
-    case K_MAP: return walk_map(l, base, v, r->sub);
-    case K_FN: return r->fn(l, base, v);
-    }
-    return UG_OK;
-}
-
-static ug_status read_entry(loader *l, void *base, const key_rule *r,
-                            const layout_node *v)
-{
-    const char *outer = l->key;
-    l->key = r->name;
-    ug_status st = read_value(l, base, r, v);
-    l->key = outer;
-    if (!st && r->mark)
-        *(ug_mark *)((char *)base + r->mark) = v->mark;
-    if (!st && r->flag)
-        *(bool *)((char *)base + r->flag) = true;
-    return st;
-}
-
-static ug_status walk_map(loader *l, void *base, const layout_node *map,
-                          const key_rule *t)
-{
-    if (map->kind != LAYOUT_MAP)
-        return ug_fail(l->err, UG_ESCHEMA, map->mark, "'%s' expects a mapping, not %s",
-                       l->key ? l->key : "the file", kind_name(map));
-    ug_mark seen[32] = {{0}};
-    const layout_node *prev_k = NULL;
-    for (const layout_node *k = map->first; k; prev_k = k, k = k->next->next) {
-        const layout_node *v = k->next;
-        ug_status st = layout_check_text(k->text, k->len, false, k->mark, l->err);
-        if (st)
-            return st;
-        size_t i = 0;
-        while (t[i].name && strcmp(t[i].name, k->text))
-            i++;
-        if (!t[i].name)
-            return unknown_key(l, k, t, prev_k);
-        assert(i < 32);
-        if (seen[i].line)
-            return ug_fail(l->err, UG_ESCHEMA, k->mark,
-                           "duplicate key '%s' (first at line %u)", k->text,
-                           seen[i].line);
-        seen[i] = k->mark;
-        st = read_entry(l, base, &t[i], v);
-        if (st)
-            return st;
-    }
-    return UG_OK;
-}
+#include "layout_int.h"
 
 /* ---- chart keys ---------------------------------------------------------- */
 
@@ -766,7 +49,7 @@ static ug_status key_icon_value(loader *l, void *base, const layout_node *v)
         c->icon_value_auto = true;
         return UG_OK;
     }
-    ug_status st = read_dec(l, v, &c->icon_value);
+    ug_status st = layout_read_dec(l, v, &c->icon_value);
     if (!st && c->icon_value.v == 0)
         return ug_fail(l->err, UG_EDATA, v->mark,
                        "'icon-value' must be more than zero (each icon stands "
@@ -777,7 +60,7 @@ static ug_status key_icon_value(loader *l, void *base, const layout_node *v)
 static ug_status key_tolerance(loader *l, void *base, const layout_node *v)
 {
     ug_chart *c = base;
-    ug_status st = want_scalar(l, v, "a percentage");
+    ug_status st = layout_want_scalar(l, v, "a percentage");
     if (st)
         return st;
     if (!v->len || v->text[v->len - 1] != '%' ||
@@ -789,7 +72,7 @@ static ug_status key_tolerance(loader *l, void *base, const layout_node *v)
 }
 
 /* A non-empty list of at most `max` items; `what` completes "expects a list of". */
-static ug_status want_list(loader *l, const layout_node *v, size_t max,
+ug_status layout_want_list(loader *l, const layout_node *v, size_t max,
                            const char *what)
 {
     if (v->kind != LAYOUT_SEQ || !v->n)
@@ -804,9 +87,9 @@ static ug_status want_list(loader *l, const layout_node *v, size_t max,
 static ug_status key_groups(loader *l, void *base, const layout_node *v)
 {
     ug_chart *c = base;
-    ug_status st = want_list(l, v, UG_MAX_GROUPS, "group names");
+    ug_status st = layout_want_list(l, v, UG_MAX_GROUPS, "group names");
     if (!st)
-        st = read_text_list(l, v, &c->groups);
+        st = layout_read_text_list(l, v, &c->groups);
     for (size_t i = 0; !st && i < c->groups.n; i++)
         for (size_t j = 0; j < i; j++)
             if (!strcmp(c->groups.items[i].text, c->groups.items[j].text))
@@ -819,7 +102,7 @@ static ug_status key_groups(loader *l, void *base, const layout_node *v)
 static ug_status key_cat_id(loader *l, void *base, const layout_node *v)
 {
     ug_text t;
-    ug_status st = read_text(l, v, false, &t);
+    ug_status st = layout_read_text(l, v, false, &t);
     if (!st) {
         ((ug_category *)base)->id = t.text;
         l->id[l->cur] = v;
@@ -840,7 +123,7 @@ static ug_status key_cat_counts(loader *l, void *base, const layout_node *v)
     if (v->kind != LAYOUT_SEQ)
         return ug_fail(l->err, UG_ESCHEMA, v->mark,
                        "'counts' expects a list of numbers, one per group, not %s",
-                       kind_name(v));
+                       layout_kind_name(v));
     l->counts[l->cur] = v;
     return UG_OK;
 }
@@ -858,7 +141,7 @@ static const key_rule category_keys[] = {
     {.name = NULL},
 };
 
-static void *arena_array(ug_arena *a, size_t n, size_t size)
+void *layout_arena_array(ug_arena *a, size_t n, size_t size)
 {
     return n > SIZE_MAX / size ? NULL : ug_arena_alloc(a, n * size);
 }
@@ -866,23 +149,23 @@ static void *arena_array(ug_arena *a, size_t n, size_t size)
 static ug_status key_categories(loader *l, void *base, const layout_node *v)
 {
     ug_chart *c = base;
-    ug_status st = want_list(l, v, UG_MAX_CATEGORIES, "category mappings");
+    ug_status st = layout_want_list(l, v, UG_MAX_CATEGORIES, "category mappings");
     if (st)
         return st;
-    c->cats = arena_array(l->arena, v->n, sizeof *c->cats);
-    l->count = arena_array(l->arena, v->n, sizeof *l->count);
-    l->counts = arena_array(l->arena, v->n, sizeof *l->counts);
-    l->id = arena_array(l->arena, v->n, sizeof *l->id);
+    c->cats = layout_arena_array(l->arena, v->n, sizeof *c->cats);
+    l->count = layout_arena_array(l->arena, v->n, sizeof *l->count);
+    l->counts = layout_arena_array(l->arena, v->n, sizeof *l->counts);
+    l->id = layout_arena_array(l->arena, v->n, sizeof *l->id);
     if (!c->cats || !l->count || !l->counts || !l->id)
-        return nomem(l, v);
+        return layout_nomem(l, v);
     for (const layout_node *it = v->first; it; it = it->next) {
         l->cur = c->ncats;
         c->cats[l->cur].mark = it->mark;
         if (it->kind != LAYOUT_MAP)
             return ug_fail(l->err, UG_ESCHEMA, it->mark,
                            "each category must be a mapping (label, glyph, count, "
-                           "...), not %s", kind_name(it));
-        st = walk_map(l, &c->cats[l->cur], it, category_keys);
+                           "...), not %s", layout_kind_name(it));
+        st = layout_walk_map(l, &c->cats[l->cur], it, category_keys);
         if (st)
             return st;
         c->ncats++;
@@ -919,16 +202,16 @@ static const key_rule cell_ref_keys[] = {
 static ug_status key_suppress_cells(loader *l, void *base, const layout_node *v)
 {
     ug_chart *c = base;
-    ug_status st = want_list(l, v, (size_t)UG_MAX_GROUPS * 16, "{group, category} cells");
+    ug_status st = layout_want_list(l, v, (size_t)UG_MAX_GROUPS * 16, "{group, category} cells");
     if (st)
         return st;
-    c->suppress_cells = arena_array(l->arena, v->n, sizeof *c->suppress_cells);
+    c->suppress_cells = layout_arena_array(l->arena, v->n, sizeof *c->suppress_cells);
     if (!c->suppress_cells)
-        return nomem(l, v);
+        return layout_nomem(l, v);
     for (const layout_node *it = v->first; it; it = it->next) {
         ug_cell_ref *ref = &c->suppress_cells[c->nsuppress_cells];
         ref->mark = it->mark;
-        if ((st = walk_map(l, ref, it, cell_ref_keys)))
+        if ((st = layout_walk_map(l, ref, it, cell_ref_keys)))
             return st;
         if (!ref->category.text)
             return ug_fail(l->err, UG_ESCHEMA, it->mark,
@@ -961,17 +244,17 @@ static const key_rule protect_keys[] = {
     {.name = NULL},
 };
 
-/* `small-count`: a number, or the name of a published agency rule (audit.h). */
+/* `small-count`: a number, or the name of a published agency rule (resolve.h). */
 static ug_status key_small_count(loader *l, void *base, const layout_node *v)
 {
     ug_chart *c = base;
-    if (v->kind == LAYOUT_SCALAR && audit_small_count_preset(v->text))
-        return read_text(l, v, false, &c->audit.small_count_preset);
+    if (v->kind == LAYOUT_SCALAR && resolve_small_count_preset(v->text))
+        return layout_read_text(l, v, false, &c->audit.small_count_preset);
     if (v->kind == LAYOUT_SCALAR && ug_dec_parse(v->text, v->len, &c->audit.small_count))
         return ug_fail(l->err, UG_ESCHEMA, v->mark,
                        "'small-count' expects a number or one of cms, cdc-wonder, "
                        "nhs-hes (found '%s')", v->text);
-    return read_dec(l, v, &c->audit.small_count);
+    return layout_read_dec(l, v, &c->audit.small_count);
 }
 
 static const key_rule audit_keys[] = {
@@ -989,7 +272,7 @@ static const key_rule audit_keys[] = {
 static ug_status key_font(loader *l, void *base, const layout_node *v)
 {
     ug_text t;
-    ug_status st = read_text(l, v, false, &t);
+    ug_status st = layout_read_text(l, v, false, &t);
     if (st)
         return st;
     for (const unsigned char *p = (const unsigned char *)t.text; *p; p++)
@@ -1019,13 +302,13 @@ static ug_status key_data_rows(loader *l, void *base, const layout_node *v)
     ug_data_spec *d = &((ug_chart *)base)->data;
     d->rows_mark = v->mark;
     if (v->kind == LAYOUT_SEQ) {
-        ug_status st = read_text_list(l, v, &d->rows_names);
+        ug_status st = layout_read_text_list(l, v, &d->rows_names);
         if (!st && !d->rows_names.n)
             st = ug_fail(l->err, UG_ESCHEMA, v->mark, "'rows' lists no row");
         return st;
     }
     ug_text t;
-    ug_status st = read_text(l, v, false, &t);
+    ug_status st = layout_read_text(l, v, false, &t);
     if (st)
         return st;
     char *end = NULL;
@@ -1160,13 +443,13 @@ static ug_status check_form(loader *l, ug_chart *c, const layout_node *root)
 static ug_status inline_count(loader *l, ug_chart *c, size_t i)
 {
     ug_category *cat = &c->cats[i];
-    cat->counts = arena_array(l->arena, 1, sizeof *cat->counts);
-    cat->count_marks = arena_array(l->arena, 1, sizeof *cat->count_marks);
+    cat->counts = layout_arena_array(l->arena, 1, sizeof *cat->counts);
+    cat->count_marks = layout_arena_array(l->arena, 1, sizeof *cat->count_marks);
     if (!cat->counts || !cat->count_marks)
-        return nomem(l, l->count[i]);
+        return layout_nomem(l, l->count[i]);
     l->key = "count";
     cat->count_marks[0] = l->count[i]->mark;
-    return read_dec(l, l->count[i], &cat->counts[0]);
+    return layout_read_dec(l, l->count[i], &cat->counts[0]);
 }
 
 static ug_status inline_counts(loader *l, ug_chart *c, size_t i)
@@ -1178,15 +461,15 @@ static ug_status inline_counts(loader *l, ug_chart *c, size_t i)
                        "'counts' has %zu value%s but there %s %zu group%s", list->n,
                        list->n == 1 ? "" : "s", c->groups.n == 1 ? "is" : "are",
                        c->groups.n, c->groups.n == 1 ? "" : "s");
-    cat->counts = arena_array(l->arena, list->n, sizeof *cat->counts);
-    cat->count_marks = arena_array(l->arena, list->n, sizeof *cat->count_marks);
+    cat->counts = layout_arena_array(l->arena, list->n, sizeof *cat->counts);
+    cat->count_marks = layout_arena_array(l->arena, list->n, sizeof *cat->count_marks);
     if (!cat->counts || !cat->count_marks)
-        return nomem(l, list);
+        return layout_nomem(l, list);
     l->key = "counts";
     size_t g = 0;
     for (const layout_node *it = list->first; it; it = it->next, g++) {
         cat->count_marks[g] = it->mark;
-        ug_status st = read_dec(l, it, &cat->counts[g]);
+        ug_status st = layout_read_dec(l, it, &cat->counts[g]);
         if (st)
             return st;
     }
@@ -1296,7 +579,7 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
 /* ---- loading a chart ----------------------------------------------------- */
 
 /* A limit the caller leaves 0 comes from the thread's context. */
-static void resolve_limits(ug_limits *out, const ug_limits *in)
+void layout_resolve_limits(ug_limits *out, const ug_limits *in)
 {
     const ug_limits *d = &ug_ctx()->limits;
     out->max_file_bytes = in && in->max_file_bytes ? in->max_file_bytes : d->max_file_bytes;
@@ -1328,14 +611,14 @@ static const layout_node *find_key(const layout_node *map, const char *key)
 static ug_status check_root(const layout_node *root, const char *file, bool page,
                             ug_error *err)
 {
-    if (!root || is_null(root))
+    if (!root || layout_is_null(root))
         return ug_fail(err, UG_ESCHEMA, ug_mark_file(file),
                        "the file is empty: expected a %s", page
                        ? "page (page, panels, ...)" : "chart (title, categories, ...)");
     if (root->kind != LAYOUT_MAP)
         return ug_fail(err, UG_ESCHEMA, root->mark,
                        "expected a mapping of keys at the top of the file, not %s",
-                       kind_name(root));
+                       layout_kind_name(root));
     const layout_node *k = find_key(root, "page");
     if (k && !page)
         return ug_fail(err, UG_ESCHEMA, k->mark,
@@ -1348,42 +631,40 @@ static ug_status check_root(const layout_node *root, const char *file, bool page
     return UG_OK;
 }
 
-static ug_chart *chart_new(const char *path, const char *dir, const ug_limits *limits)
+ug_chart *layout_chart_new(const char *path, const char *dir, const ug_limits *limits)
 {
     ug_chart *c = ug_calloc(1, sizeof *c);
     if (!c)
         return NULL;
     c->path = ug_arena_strdup(&c->arena, path);
-    c->dir = dir ? ug_arena_strdup(&c->arena, dir) : dir_of(&c->arena, path);
+    c->dir = dir ? ug_arena_strdup(&c->arena, dir) : layout_dir_of(&c->arena, path);
     if (!c->path || !c->dir) {
         ug_chart_free(c);
         return NULL;
     }
-    resolve_limits(&c->limits, limits);
+    layout_resolve_limits(&c->limits, limits);
     resolve_defaults(c);
     return c;
 }
 
 /* Build a chart from a mapping node (a chart file's root or an inline panel). */
-static ug_status chart_from_node(ug_chart *c, const layout_node *root, ug_error *err)
+ug_status layout_chart_from_node(ug_chart *c, const layout_node *root, ug_error *err)
 {
     loader l;
     memset(&l, 0, sizeof l);
     l.arena = &c->arena;
     l.err = err;
     l.chart = c;
-    ug_status st = refuse_foreign(root, chart_keys, "chart layout", err);
+    ug_status st = layout_refuse_foreign(root, chart_keys, "chart layout", err);
     if (!st)
-        st = walk_map(&l, c, root, chart_keys);
+        st = layout_walk_map(&l, c, root, chart_keys);
     return st ? st : finish_chart(&l, c, root);
 }
 
-/* Fill a model (chart or page) from a node tree: one per kind of file. */
-typedef ug_status (*fill_fn)(void *model, const layout_node *root, ug_error *err);
 
 static ug_status fill_chart(void *model, const layout_node *root, ug_error *err)
 {
-    return chart_from_node(model, root, err);
+    return layout_chart_from_node(model, root, err);
 }
 
 /* The node tree of the text of `path`, within the limits; it lives in
@@ -1404,7 +685,7 @@ static ug_status parse_within(const char *path, const ug_limits *lim,
 
 /* Parse the text of `path` and hand its top mapping to `fill`; the node tree
 ** lives only as long as this call. */
-static ug_status from_text(void *model, fill_fn fill, bool page, const char *path,
+ug_status layout_from_text(void *model, fill_fn fill, bool page, const char *path,
                            const ug_limits *lim, const char *text, size_t len,
                            ug_error *err)
 {
@@ -1425,10 +706,10 @@ ug_status ug_chart_load_string(const char *text, size_t len, const char *name,
 {
     ug_error_clear(err);
     *out = NULL;
-    ug_chart *c = chart_new(name ? name : "<string>", NULL, limits);
+    ug_chart *c = layout_chart_new(name ? name : "<string>", NULL, limits);
     if (!c)
         return ug_fail(err, UG_ENOMEM, ug_mark_file(name), "out of memory");
-    ug_status st = from_text(c, fill_chart, false, c->path, &c->limits, text, len, err);
+    ug_status st = layout_from_text(c, fill_chart, false, c->path, &c->limits, text, len, err);
     if (st) {
         ug_chart_free(c);
         return st;
@@ -1449,12 +730,12 @@ ug_status layout_load_template(const char *path, const ug_limits *limits,
     ug_status st = load_file(path, limits, ug_mark_file(path), &text, &len, err);
     if (st)
         return st;
-    ug_chart *c = chart_new(path, NULL, limits);
+    ug_chart *c = layout_chart_new(path, NULL, limits);
     if (!c)
         st = ug_fail(err, UG_ENOMEM, ug_mark_file(path), "out of memory");
     else {
         c->is_template = true;
-        st = from_text(c, fill_chart, false, c->path, &c->limits, text, len, err);
+        st = layout_from_text(c, fill_chart, false, c->path, &c->limits, text, len, err);
     }
     ug_free(text);
     if (st) {
@@ -1470,7 +751,7 @@ static ug_status load_file(const char *path, const ug_limits *limits, ug_mark at
                            char **text, size_t *len, ug_error *err)
 {
     ug_limits lim;
-    resolve_limits(&lim, limits);
+    layout_resolve_limits(&lim, limits);
     ug_status st = layout_read_file(path, lim.max_file_bytes, at, text, len, err);
     if (!st && *len == 0) {
         ug_free(*text);
@@ -1482,7 +763,7 @@ static ug_status load_file(const char *path, const ug_limits *limits, ug_mark at
 }
 
 /* Read a chart or page file and load it from its text. */
-static ug_status load_path(const char *path, const ug_limits *limits, ug_mark at,
+ug_status layout_load_path(const char *path, const ug_limits *limits, ug_mark at,
                            bool page, void **out, ug_error *err)
 {
     char *text;
@@ -1510,7 +791,7 @@ ug_status ug_layout_detect_string(const char *text, size_t len, const char *name
 {
     ug_error_clear(err);
     ug_limits lim;
-    resolve_limits(&lim, limits);
+    layout_resolve_limits(&lim, limits);
     *out = UG_LAYOUT_CHART;
     ug_arena tree = {0};
     layout_node *root = NULL;
@@ -1537,11 +818,11 @@ ug_status ug_layout_detect(const char *path, const ug_limits *limits,
     return st;
 }
 
-static ug_status chart_load_at(const char *path, const ug_limits *limits,
+ug_status layout_chart_load_at(const char *path, const ug_limits *limits,
                                ug_mark at, ug_chart **out, ug_error *err)
 {
     void *c = NULL;
-    ug_status st = load_path(path, limits, at, false, &c, err);
+    ug_status st = layout_load_path(path, limits, at, false, &c, err);
     *out = c;
     return st;
 }
@@ -1550,7 +831,7 @@ ug_status ug_chart_load(const char *path, const ug_limits *limits, ug_chart **ou
                         ug_error *err)
 {
     ug_error_clear(err);
-    return chart_load_at(path, limits, ug_mark_file(path), out, err);
+    return layout_chart_load_at(path, limits, ug_mark_file(path), out, err);
 }
 
 void ug_chart_free(ug_chart *chart)
@@ -1561,258 +842,3 @@ void ug_chart_free(ug_chart *chart)
     ug_free(chart);
 }
 
-/* ---- page files (FORMAT.md §2) ------------------------------------------- */
-
-static const char *const orientations[] = {"portrait", "landscape", NULL};
-
-/* ISO 216 (A3, A4, A5) in mm; US Letter and Legal in inches. */
-static const struct {
-    const char *name;
-    double w, h, unit_px;
-} paper[] = {
-    {"A3", 297, 420, 96.0 / 25.4}, {"A4", 210, 297, 96.0 / 25.4},
-    {"A5", 148, 210, 96.0 / 25.4}, {"letter", 8.5, 11, 96.0},
-    {"legal", 8.5, 14, 96.0},
-};
-
-/* "200mm x 250mm": two lengths around an 'x'. */
-static bool custom_size(const char *s, double *w, double *h)
-{
-    const char *x = strchr(s, 'x');
-    if (!x)
-        return false;
-    size_t n = (size_t)(x - s);
-    while (n && s[n - 1] == ' ')
-        n--;
-    const char *rest = x + 1;
-    while (*rest == ' ')
-        rest++;
-    return layout_parse_length(s, n, w) && layout_parse_length(rest, strlen(rest), h) && *w > 0 &&
-           *w <= LAYOUT_MAX_LENGTH_PX && *h <= LAYOUT_MAX_LENGTH_PX &&
-           *h > 0;
-}
-
-static ug_status key_page_size(loader *l, void *base, const layout_node *v)
-{
-    ug_page *p = base;
-    ug_status st = read_text(l, v, false, &p->size);
-    if (st)
-        return st;
-    for (size_t i = 0; i < sizeof paper / sizeof paper[0]; i++)
-        if (!strcasecmp(v->text, paper[i].name)) {
-            p->width = paper[i].w * paper[i].unit_px;
-            p->height = paper[i].h * paper[i].unit_px;
-            return UG_OK;
-        }
-    if (custom_size(v->text, &p->width, &p->height))
-        return UG_OK;
-    return ug_fail(l->err, UG_ESCHEMA, v->mark,
-                   "'size' expects A3, A4, A5, letter, legal or \"WIDTH x HEIGHT\" "
-                   "such as \"200mm x 250mm\" (found '%s')", v->text);
-}
-
-static ug_status key_panel_chart(loader *l, void *base, const layout_node *v)
-{
-    ug_panel *panel = base;
-    ug_page *p = l->page;
-    panel->kind = UG_PANEL_CHART;
-    if (v->kind == LAYOUT_MAP) {
-        if (!(panel->chart = chart_new(p->path, p->dir, &p->limits)))
-            return nomem(l, v);
-        return chart_from_node(panel->chart, v, l->err);
-    }
-    ug_status st = read_text(l, v, false, &panel->chart_file);
-    if (st)
-        return st;
-    const char *path = layout_join(l->arena, p->dir, panel->chart_file.text);
-    if (!path)
-        return nomem(l, v);
-    return chart_load_at(path, &p->limits, v->mark, &panel->chart, l->err);
-}
-
-#define PG(f) offsetof(ug_page, f)
-#define PN(f) offsetof(ug_panel, f)
-static const key_rule panel_keys[] = {
-    {.name = "chart", .kind = K_FN, .fn = key_panel_chart},
-    {.name = "text", .kind = K_MULTILINE, .off = PN(text)},
-    {.name = "span", .kind = K_LONG, .off = PN(span), .lo = 1, .hi = 12},
-    {.name = NULL},
-};
-
-static ug_status read_panel(loader *l, ug_panel *panel, const layout_node *v)
-{
-    panel->mark = v->mark;
-    panel->span = 1;
-    panel->kind = UG_PANEL_TEXT;
-    ug_status st = walk_map(l, panel, v, panel_keys);
-    if (st)
-        return st;
-    if (!panel->chart == !panel->text.text)
-        return ug_fail(l->err, UG_ESCHEMA, v->mark,
-                       "a panel holds either 'chart' or 'text' (one of them)");
-    return UG_OK;
-}
-
-/* A printed page holds a handful of panels; each may load a chart file of up
-** to the input limit, so the count bounds the memory one page file can ask for. */
-static ug_status key_panels(loader *l, void *base, const layout_node *v)
-{
-    ug_page *p = base;
-    ug_status st = want_list(l, v, SIZE_MAX, "panels (chart: or text:)");
-    if (st)
-        return st;
-    if (v->n > p->limits.max_panels)
-        return ug_fail(l->err, UG_ELIMIT, v->mark, "%zu panels, more than the limit of %zu "
-                       "(raise it with --max-panels)", v->n, p->limits.max_panels);
-    if (!(p->panels = arena_array(l->arena, v->n, sizeof *p->panels)))
-        return nomem(l, v);
-    for (const layout_node *it = v->first; it; it = it->next) {
-        /* counted before reading, so a half-read chart is freed with the page */
-        st = read_panel(l, &p->panels[p->npanels++], it);
-        if (st)
-            return st;
-    }
-    return UG_OK;
-}
-
-static const key_rule page_box_keys[] = {
-    {.name = "size", .kind = K_FN, .fn = key_page_size},
-    {.name = "orientation", .kind = K_ENUM, .off = PG(orientation),
-     .choices = orientations},
-    {.name = "margin", .kind = K_LENGTH, .off = PG(margin)},
-    {.name = "columns", .kind = K_LONG, .off = PG(columns), .lo = 1, .hi = 12},
-    {.name = NULL},
-};
-
-static const key_rule page_keys[] = {
-    {.name = "page", .kind = K_MAP, .sub = page_box_keys, .mark = PG(page_mark)},
-    {.name = "title", .kind = K_TEXT, .off = PG(title)},
-    {.name = "source", .kind = K_LIST, .off = PG(source)},
-    {.name = "panels", .kind = K_FN, .fn = key_panels, .mark = PG(panels_mark)},
-    {.name = "shared-scale", .kind = K_BOOL, .off = PG(shared_scale),
-     .mark = PG(shared_scale_mark)},
-    {.name = NULL},
-};
-
-/* shared-scale: every chart that states an icon value or icon size states
-** the same one as the first chart that does. */
-static ug_status check_shared_scale(const ug_page *p, ug_error *err)
-{
-    const ug_chart *value = NULL, *size = NULL;
-    for (size_t i = 0; i < p->npanels; i++) {
-        const ug_chart *c = p->panels[i].chart;
-        char a[48], b[48];
-        if (!c)
-            continue;
-        if (c->has_icon_value && !c->icon_value_auto) {
-            if (value && value->icon_value.v != c->icon_value.v)
-                return ug_fail(err, UG_ESCHEMA, c->icon_value_mark,
-                               "shared-scale: icon-value %s differs from %s stated "
-                               "in %s:%u", ug_dec_format(c->icon_value, a),
-                               ug_dec_format(value->icon_value, b), value->path,
-                               value->icon_value_mark.line);
-            value = value ? value : c;
-        }
-        if (c->icon_mark.line) {
-            if (size && size->icon_size != c->icon_size)
-                return ug_fail(err, UG_ESCHEMA, c->icon_mark,
-                               "shared-scale: icon size %g differs from %g stated "
-                               "in %s:%u", c->icon_size, size->icon_size, size->path,
-                               size->icon_mark.line);
-            size = size ? size : c;
-        }
-    }
-    return UG_OK;
-}
-
-static ug_status finish_page(ug_page *p, const layout_node *root, ug_error *err)
-{
-    if (!p->npanels)
-        return ug_fail(err, UG_ESCHEMA, root->mark,
-                       "missing 'panels': a page needs at least one panel");
-    bool landscape = p->orientation == UG_ORIENT_LANDSCAPE;
-    if ((landscape && p->width < p->height) || (!landscape && p->width > p->height)) {
-        double t = p->width;
-        p->width = p->height;
-        p->height = t;
-    }
-    if (2 * p->margin >= p->width || 2 * p->margin >= p->height)
-        return ug_fail(err, UG_ESCHEMA, p->page_mark,
-                       "the margins leave no room on the page");
-    for (size_t i = 0; i < p->npanels; i++)
-        if (p->panels[i].span > p->columns)
-            return ug_fail(err, UG_ESCHEMA, p->panels[i].mark,
-                           "the panel spans %ld columns but the page has %ld",
-                           p->panels[i].span, p->columns);
-    return p->shared_scale ? check_shared_scale(p, err) : UG_OK;
-}
-
-static ug_page *page_new(const char *path, const ug_limits *limits)
-{
-    ug_page *p = ug_calloc(1, sizeof *p);
-    if (!p)
-        return NULL;
-    p->path = ug_arena_strdup(&p->arena, path);
-    p->dir = dir_of(&p->arena, path);
-    if (!p->path || !p->dir) {
-        ug_page_free(p);
-        return NULL;
-    }
-    resolve_limits(&p->limits, limits);
-    p->width = paper[1].w * paper[1].unit_px; /* A4 */
-    p->height = paper[1].h * paper[1].unit_px;
-    p->margin = 15 * 96.0 / 25.4;
-    p->columns = 1;
-    return p;
-}
-
-static ug_status fill_page(void *model, const layout_node *root, ug_error *err)
-{
-    ug_page *p = model;
-    loader l;
-    memset(&l, 0, sizeof l);
-    l.arena = &p->arena;
-    l.err = err;
-    l.page = p;
-    ug_status st = refuse_foreign(root, page_keys, "page layout", err);
-    if (!st)
-        st = walk_map(&l, p, root, page_keys);
-    return st ? st : finish_page(p, root, err);
-}
-
-ug_status ug_page_load_string(const char *text, size_t len, const char *name,
-                              const ug_limits *limits, ug_page **out, ug_error *err)
-{
-    ug_error_clear(err);
-    *out = NULL;
-    ug_page *p = page_new(name ? name : "<string>", limits);
-    if (!p)
-        return ug_fail(err, UG_ENOMEM, ug_mark_file(name), "out of memory");
-    ug_status st = from_text(p, fill_page, true, p->path, &p->limits, text, len, err);
-    if (st) {
-        ug_page_free(p);
-        return st;
-    }
-    *out = p;
-    return UG_OK;
-}
-
-ug_status ug_page_load(const char *path, const ug_limits *limits, ug_page **out,
-                       ug_error *err)
-{
-    ug_error_clear(err);
-    void *p = NULL;
-    ug_status st = load_path(path, limits, ug_mark_file(path), true, &p, err);
-    *out = p;
-    return st;
-}
-
-void ug_page_free(ug_page *page)
-{
-    if (!page)
-        return;
-    for (size_t i = 0; i < page->npanels; i++)
-        ug_chart_free(page->panels[i].chart);
-    ug_arena_free(&page->arena);
-    ug_free(page);
-}

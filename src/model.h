@@ -181,7 +181,7 @@ struct ug_chart {
         ug_dec tolerance_percent;  /* default 10 */
         bool has_small_count;
         ug_dec small_count;        /* default 10 */
-        ug_text small_count_preset; /* cms | cdc-wonder | nhs-hes (audit.h:
+        ug_text small_count_preset; /* cms | cdc-wonder | nhs-hes (resolve.h:
                                        audit_small_count_preset); text NULL
                                        when a number or absent */
         ug_text_list ignore;

@@ -2,8 +2,25 @@
 ** The resolve step (src/resolve.h): every default of a chart, and the
 ** palette's colours for categories that name none.
 */
+#include <string.h>
+
 #include "color.h"
 #include "resolve.h"
+
+/* REFERENCES.md §7. */
+static const resolve_small_preset presets[] = {
+    {"cms", 11, false, "CMS cell size suppression policy: cells of 1 to 10"},
+    {"cdc-wonder", 10, true, "CDC WONDER: sub-national counts of 0 to 9"},
+    {"nhs-hes", 8, false, "NHS Digital HES disclosure control: counts of 1 to 7"},
+};
+
+const resolve_small_preset *resolve_small_count_preset(const char *name)
+{
+    for (size_t i = 0; name && i < sizeof presets / sizeof presets[0]; i++)
+        if (!strcmp(presets[i].name, name))
+            return &presets[i];
+    return NULL;
+}
 
 static ug_color hex_color(unsigned hex)
 {

@@ -18,6 +18,17 @@
 #define RESOLVE_TOLERANCE_PERCENT 10 /* audit.tolerance: common practice, no source */
 #define RESOLVE_SMALL_COUNT 10       /* small-count threshold (REFERENCES.md §7) */
 
+/* The published small-count rules a layout may name (`small-count: cms`). */
+typedef struct {
+    const char *name;   /* the layout keyword */
+    long below;         /* counts under this are disclosive */
+    bool zero_too;      /* the rule covers 0 as well */
+    const char *rule;   /* the published rule, for messages */
+} resolve_small_preset;
+
+/* NULL when name is not a preset. */
+const resolve_small_preset *resolve_small_count_preset(const char *name);
+
 /* The values a chart has before its layout says otherwise (path, dir and
 ** limits are the caller's). */
 void resolve_defaults(ug_chart *c);

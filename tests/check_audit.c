@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "audit.h"
+#include "resolve.h"
 #include "color.h"
 #include "check_run.h"
 
@@ -42,6 +43,7 @@ static ug_chart *chart_new(const cat_spec *cats, size_t n, size_t ngroups,
     static const char *group_names[] = {"North ward", "River ward", "Hill ward"};
     ug_chart *c = ug_calloc(1, sizeof *c);
     c->path = "test.yaml";
+    resolve_defaults(c); /* as the loader does */
     c->title = (ug_text){"Households served (demo data)", {"test.yaml", 1, 8}};
     c->unit_label = (ug_text){"households", {"test.yaml", 3, 13}};
     c->source.items = ug_arena_alloc(&c->arena, sizeof(ug_text));
@@ -272,7 +274,7 @@ START_TEST(test_small_count_presets)
     cat_spec cats[2] = {{"Adults", 0x0072b2, {"120"}}, {"Veterans", 0x000000, {p->count}}};
     ug_chart *c = chart_new(cats, 2, 0, "1");
     c->audit.small_count_preset.text = p->preset;
-    ck_assert_ptr_nonnull(audit_small_count_preset(p->preset));
+    ck_assert_ptr_nonnull(resolve_small_count_preset(p->preset));
     if (p->flagged)
         expect(c, "small-count", UG_SEVERITY_WARNING, 15, 13, NULL);
     else
@@ -286,7 +288,7 @@ START_TEST(test_small_count_threshold_setting)
     c->audit.has_small_count = true;
     c->audit.small_count = dec("11");
     expect(c, "small-count", UG_SEVERITY_WARNING, 15, 13, "suppress: {below: 11}");
-    ck_assert_ptr_null(audit_small_count_preset("gdpr"));
+    ck_assert_ptr_null(resolve_small_count_preset("gdpr"));
 }
 END_TEST
 
