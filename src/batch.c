@@ -39,28 +39,6 @@ struct ug_batch {
 
 /* ---- opening ---------------------------------------------------------------- */
 
-/* Give the template the CSV as its data, one group per row. */
-static ug_status take_csv(ug_chart *t, const char *csv, ug_error *err)
-{
-    if (t->data.category_column.text)
-        return ug_fail(err, UG_ESCHEMA, t->data.category_column.mark,
-                       "a batch reads a wide table (one row per chart, one column "
-                       "per category); remove 'category-column' and 'count-column'");
-    t->data.present = true;
-    t->data.file = ug_arena_strdup(&t->arena, csv);
-    if (!t->data.file)
-        return ug_fail(err, UG_ENOMEM, ug_mark_file(csv), "out of memory");
-    t->data.file_text = (ug_text){t->data.file, ug_mark_file(t->path)};
-    memset(&t->groups, 0, sizeof t->groups);
-    for (size_t i = 0; i < t->ncats; i++) {
-        t->cats[i].counts = NULL;
-        t->cats[i].count_marks = NULL;
-        t->cats[i].withheld = NULL;
-    }
-    ug_status st = t->data.group_column.text ? UG_OK : data_first_header(t, err);
-    return st ? st : data_load(t, err);
-}
-
 static ug_status make_slugs(ug_batch *b, ug_error *err)
 {
     const ug_text_list *g = &b->tmpl->groups;
@@ -102,9 +80,7 @@ ug_status ug_batch_open(const char *template_path, const char *csv_path,
     ug_batch *b = ug_calloc(1, sizeof *b);
     if (!b)
         return ug_fail(err, UG_ENOMEM, ug_mark_file(template_path), "out of memory");
-    ug_status st = layout_load_template(template_path, limits, &b->tmpl, err);
-    if (!st)
-        st = take_csv(b->tmpl, csv_path, err);
+    ug_status st = layout_load_template(template_path, csv_path, limits, &b->tmpl, err);
     if (!st)
         st = make_slugs(b, err);
     if (!st)

@@ -552,6 +552,29 @@ static ug_status check_protection(loader *l, const ug_chart *c)
     return UG_OK;
 }
 
+/* A batch template's data is the --each-row CSV, a wide table with one group
+** per row; counts written in the template are not used. */
+static ug_status template_data(loader *l, ug_chart *t)
+{
+    if (t->data.category_column.text)
+        return ug_fail(l->err, UG_ESCHEMA, t->data.category_column.mark,
+                       "a batch reads a wide table (one row per chart, one column "
+                       "per category); remove 'category-column' and 'count-column'");
+    t->data.present = true;
+    t->data.file = ug_arena_strdup(&t->arena, t->template_csv);
+    if (!t->data.file)
+        return ug_fail(l->err, UG_ENOMEM, ug_mark_file(t->template_csv), "out of memory");
+    t->data.file_text = (ug_text){t->data.file, ug_mark_file(t->path)};
+    memset(&t->groups, 0, sizeof t->groups);
+    for (size_t i = 0; i < t->ncats; i++) {
+        t->cats[i].counts = NULL;
+        t->cats[i].count_marks = NULL;
+        t->cats[i].withheld = NULL;
+    }
+    ug_status st = t->data.group_column.text ? UG_OK : data_first_header(t, l->err);
+    return st ? st : data_load(t, l->err);
+}
+
 static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
 {
     ug_status st = check_form(l, c, root);
@@ -566,8 +589,11 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
     if ((st = check_protection(l, c)))
         return st;
     resolve_chart(c);
-    if (c->data.present && !c->is_template &&
-        ((st = check_data_spec(l, c)) || (st = data_load(c, l->err))))
+    if (c->is_template)
+        st = template_data(l, c);
+    else if (c->data.present && !(st = check_data_spec(l, c)))
+        st = data_load(c, l->err);
+    if (st)
         return st;
     if (c->change != UG_CHANGE_NONE && !c->is_template && c->groups.n < 2)
         return ug_fail(l->err, UG_ESCHEMA, c->change_mark,
@@ -721,7 +747,7 @@ ug_status ug_chart_load_string(const char *text, size_t len, const char *name,
 static ug_status load_file(const char *path, const ug_limits *limits, ug_mark at,
                            char **text, size_t *len, ug_error *err);
 
-ug_status layout_load_template(const char *path, const ug_limits *limits,
+ug_status layout_load_template(const char *path, const char *csv, const ug_limits *limits,
                                ug_chart **out, ug_error *err)
 {
     char *text;
@@ -735,7 +761,9 @@ ug_status layout_load_template(const char *path, const ug_limits *limits,
         st = ug_fail(err, UG_ENOMEM, ug_mark_file(path), "out of memory");
     else {
         c->is_template = true;
+        c->template_csv = csv;
         st = layout_from_text(c, fill_chart, false, c->path, &c->limits, text, len, err);
+        c->template_csv = NULL; /* the caller's; data.file holds a copy */
     }
     ug_free(text);
     if (st) {

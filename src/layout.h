@@ -31,9 +31,9 @@ struct layout_node {
 ** CSS px; false when it is not one. */
 bool layout_parse_length(const char *s, size_t n, double *px);
 /* A batch template (FORMAT.md §5): a chart layout whose categories need no
-** counts and whose `data` needs no `file`, since the CSV given with
-** --each-row supplies both. */
-ug_status layout_load_template(const char *path, const ug_limits *limits,
+** counts and whose `data` needs no `file`, built with csv (the one given
+** with --each-row, borrowed for the call) as its data, one group per row. */
+ug_status layout_load_template(const char *path, const char *csv, const ug_limits *limits,
                                ug_chart **out, ug_error *err);
 ug_status layout_read_file(const char *path, size_t max, ug_mark at,
                            char **text, size_t *len, ug_error *err);

@@ -201,6 +201,7 @@ struct ug_chart {
     ug_data_spec data;
     bool is_template; /* a batch template: --each-row's CSV brings the counts
                          and is the data file, so neither is asked for here */
+    const char *template_csv; /* that CSV, the template's data from the start */
     ug_limits limits;            /* resolved: no zeros */
 };
 
