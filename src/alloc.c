@@ -348,6 +348,23 @@ static ug_status margin(const ug_dec *totals, size_t n, long seats, long *out)
     return st;
 }
 
+/* Whether the last icon given and the next in line were worth the same
+** (t / (2s - 1) of one equals t / (2s + 1) of another): then the tie rule
+** chose. Products stay below 2^106: totals below 2^80, icons below 2^24. */
+static bool margin_tied(const ug_dec *t, const long *s, size_t n)
+{
+    size_t last = SIZE_MAX, next = SIZE_MAX;
+    for (size_t i = 0; i < n; i++) {
+        if (s[i] > 0 && (last == SIZE_MAX || t[i].v * (2 * s[last] - 1)
+                                                 < t[last].v * (2 * s[i] - 1)))
+            last = i;
+        if (next == SIZE_MAX || t[i].v * (2 * s[next] + 1) > t[next].v * (2 * s[i] + 1))
+            next = i;
+    }
+    return last != SIZE_MAX && next != last
+           && t[last].v * (2 * s[next] + 1) == t[next].v * (2 * s[last] - 1);
+}
+
 static void line_totals(const ug_dec *counts, size_t ng, size_t nc, ug_dec *gt,
                         ug_dec *ct)
 {
@@ -362,13 +379,15 @@ static ug_status biprop_failed(ug_status st, const alloc_biprop_in *in,
                                const biprop_result *r, ug_mark where, ug_error *err)
 {
     char buf[32];
-    if (st == UG_EDATA)
+    if (st == UG_EDATA) {
+        long n = in->out->group_icons[r->stuck_row];
         return ug_fail(err, st, where,
                        "no apportionment gives every group and every category its "
-                       "own share: group '%s' cannot get its %ld icons, its counts "
-                       "lie in categories with too few; use another method",
-                       name_or(in->group_names, r->stuck_row, buf, sizeof buf),
-                       in->out->group_icons[r->stuck_row]);
+                       "own share: group '%s' should get %ld icon%s, but the "
+                       "categories it has counts in have too few; use another method",
+                       name_or(in->group_names, r->stuck_row, buf, sizeof buf), n,
+                       n == 1 ? "" : "s");
+    }
     if (st == UG_ELIMIT)
         return ug_fail(err, st, where,
                        "the exact divisors of this table need more than %d bits; "
@@ -388,6 +407,7 @@ static void biprop_shares(const alloc_biprop_in *in, const biprop_result *r)
             row[c].icons = r->icons[g * nc + c];
         set_shown(row, nc, in->rule, o->group_totals[g]);
     }
+    o->group_tie = margin_tied(o->group_totals, o->group_icons, in->ngroups);
     memcpy(o->group_div, r->row_div, in->ngroups * sizeof *o->group_div);
     memcpy(o->cat_div, r->col_div, nc * sizeof *o->cat_div);
     o->ties = r->ties;
@@ -428,6 +448,7 @@ ug_status alloc_biproportional(const alloc_biprop_in *in, ug_mark where, ug_erro
         st = biprop_failed(st, in, &r, where, err);
     else
         biprop_shares(in, &r);
+    o->cat_tie = !st && margin_tied(cat_totals, o->cat_icons, nc);
 out:
     biprop_result_free(&r);
     ug_free(cat_totals);

@@ -51,6 +51,7 @@ typedef struct {
     ug_dec *cat_div;       /* [ncats]   for showing (biprop.h) */
     long total_icons;      /* N */
     size_t ties;           /* cells the tie rule decided */
+    bool group_tie, cat_tie; /* the rule decided the last icon of a margin */
 } alloc_biprop_out;
 
 typedef struct {
@@ -94,6 +95,7 @@ struct ug_allocation {
     long *cat_icons;        /* each category's icons over all groups */
     ug_dec *group_div, *cat_div;
     size_t ties;
+    bool group_tie, cat_tie;
 };
 
 static inline const alloc_share *alloc_at(const ug_allocation *a, size_t g, size_t c)

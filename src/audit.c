@@ -304,7 +304,7 @@ static ug_status biprop_passes(const ug_chart *c, const alloc_rule *r, trial *t,
     if (sh && counts && gt && gd && cd && gi && ci) {
         for (size_t k = 0; k < ng * nc; k++)
             counts[k] = t->pub->cells[k].value;
-        alloc_biprop_out o = {sh, gt, gi, ci, gd, cd, 0, 0};
+        alloc_biprop_out o = {sh, gt, gi, ci, gd, cd, 0, 0, false, false};
         alloc_biprop_in in = {counts, ng, nc, r, NULL, NULL, &o};
         ug_error scratch = {0};
         st = alloc_biproportional(&in, ug_mark_file(NULL), &scratch);

@@ -135,11 +135,13 @@ static ug_status fill_biprop(ug_allocation *a, const ug_chart *c, ug_error *err)
     for (size_t k = 0; k < ng * nc; k++)
         counts[k] = a->pub->cells[k].value;
     alloc_biprop_out o = {a->shares, a->group_totals, a->group_icons, a->cat_icons,
-                          a->group_div, a->cat_div, 0, 0};
+                          a->group_div, a->cat_div, 0, 0, false, false};
     alloc_biprop_in in = {counts, ng, nc, &a->rule, gn, cn, &o};
     if ((st = alloc_biproportional(&in, c->method_mark, err)))
         goto out;
     a->ties = o.ties;
+    a->group_tie = o.group_tie;
+    a->cat_tie = o.cat_tie;
     for (size_t k = 0; k < ng * nc; k++)
         a->shares[k].status = a->pub->cells[k].status;
     st = check_chart_icons(a, ng - 1, c->method_mark, err);
@@ -361,10 +363,10 @@ static void report_biprop(const ug_allocation *a, ug_buf *b)
         ug_buf_printf(b, " %12s %8ld icons\n", ug_dec_format(a->group_div[g], dv),
                       a->group_icons[g]);
     }
-    ug_buf_printf(b, "Divisors are rounded to six places. Ties: %zu cell%s where "
-                     "another apportionment was as good; the icon went to the larger "
-                     "count, then the group listed first, then the category listed "
-                     "first.\n", a->ties, a->ties == 1 ? "" : "s");
+    ug_buf_printf(b, "Divisors are rounded to six places. Ties decided by the rule "
+                     "(the larger count, then the one listed first): groups' shares "
+                     "%s, categories' shares %s, cells %zu.\n",
+                  a->group_tie ? "yes" : "no", a->cat_tie ? "yes" : "no", a->ties);
 }
 
 static void report_text(const ug_allocation *a, ug_buf *b)

@@ -96,7 +96,7 @@ static ug_status run_method(const ug_dec *counts, size_t ng, size_t nc, ug_dec v
                        .max_icons = UG_DEFAULT_MAX_ICONS};
     memset(b, 0, sizeof *b);
     b->out = (alloc_biprop_out){b->shares, b->group_totals, b->group_icons,
-                                b->cat_icons, b->group_div, b->cat_div, 0, 0};
+                                b->cat_icons, b->group_div, b->cat_div, 0, 0, false, false};
     alloc_biprop_in in = {counts, ng, nc, &rule, NULL, NULL, &b->out};
     return alloc_biproportional(&in, here, err);
 }
@@ -140,6 +140,31 @@ START_TEST(test_tie_goes_to_larger)
     ck_assert_int_eq(b.cat_icons[0], 2);
     ck_assert_int_eq(b.shares[0].icons, 2);
     ck_assert_int_eq(b.shares[3].icons, 1);
+}
+END_TEST
+
+/* layouts/wards.csv (demo data) at 10 each, worked by hand in
+** tests/data/expected/CHECKED.md: N = 46; the age groups' totals 252 and
+** 84 reach 25.5 and 8.5 at the same divisor (252 / 25.5 = 84 / 8.5), so the
+** last icon is a tie, and it goes to the larger count: 26, 12, 8. */
+START_TEST(test_margin_tie_is_reported)
+{
+    ug_dec c[9] = {dec_of(124), dec_of(64), dec_of(38), dec_of(85), dec_of(51),
+                   dec_of(27), dec_of(43), dec_of(8), dec_of(19)};
+    biprop_run b;
+    ug_error err = {0};
+    ck_assert_int_eq(run_method(c, 3, 3, dec_of(10), &b, &err), UG_OK);
+    const long cats[] = {26, 12, 8}, groups[] = {23, 16, 7};
+    const long want[] = {13, 6, 4, 9, 5, 2, 4, 1, 2};
+    for (int k = 0; k < 3; k++) {
+        ck_assert_int_eq(b.cat_icons[k], cats[k]);
+        ck_assert_int_eq(b.group_icons[k], groups[k]);
+    }
+    for (int k = 0; k < 9; k++)
+        ck_assert_int_eq(b.shares[k].icons, want[k]);
+    ck_assert(b.out.cat_tie);
+    ck_assert(!b.out.group_tie);
+    ck_assert_uint_eq(b.out.ties, 0);
 }
 END_TEST
 
@@ -294,6 +319,7 @@ static Suite *biprop_suite(void)
     tcase_add_test(tc, test_wikipedia_de_example);
     tcase_add_test(tc, test_tie_goes_to_first);
     tcase_add_test(tc, test_tie_goes_to_larger);
+    tcase_add_test(tc, test_margin_tie_is_reported);
     tcase_add_test(tc, test_empty_group_is_an_error);
     tcase_add_test(tc, test_infeasible_is_an_error);
     tcase_add_test(tc, test_out_of_memory);

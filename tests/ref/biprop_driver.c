@@ -59,7 +59,7 @@ static void run_case(char *line, table *t)
         printf("error: %s\n", bad);
         return;
     }
-    alloc_biprop_out o = {shares, gt, gi, ci, gd, cd, 0, 0};
+    alloc_biprop_out o = {shares, gt, gi, ci, gd, cd, 0, 0, false, false};
     alloc_biprop_in in = {t->counts, t->ng, t->nc, &t->rule, NULL, NULL, &o};
     ug_error err = {0};
     if (alloc_biproportional(&in, ug_mark_file("stdin"), &err)) {
