@@ -388,6 +388,11 @@ static ug_status biprop_failed(ug_status st, const alloc_biprop_in *in,
                        name_or(in->group_names, r->stuck_row, buf, sizeof buf), n,
                        n == 1 ? "" : "s");
     }
+    if (st == UG_ELIMIT && r->steps > BIPROP_STEPS)
+        return ug_fail(err, st, where,
+                       "this table takes more than %llu steps to round both ways; "
+                       "use another method, or fewer groups or categories",
+                       BIPROP_STEPS);
     if (st == UG_ELIMIT)
         return ug_fail(err, st, where,
                        "the exact divisors of this table need more than %d bits; "

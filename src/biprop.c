@@ -257,8 +257,21 @@ typedef struct {
     size_t *row_par;  /* labelling tree: the column a row was reached from */
     size_t *col_par;  /* the row a column was reached from */
     size_t *queue;    /* rows as i, columns as nrows + j */
-    bool ovf;
+    unsigned long long steps; /* exact comparisons made, against BIPROP_STEPS */
+    bool ovf;         /* numbers too long, or too many steps: give up */
 } state;
+
+/* Every exact comparison counts one step, and a whole table gives up after
+** BIPROP_STEPS of them (UG_ELIMIT): at most about 5 s here, and far more
+** than charts need (a 300 x 300 table of small counts took 5 x 10^5, the
+** wards example 59). Steps, not seconds, so that the same table always
+** gives the same answer. */
+static void step(state *s, unsigned long long n)
+{
+    s->steps += n;
+    if (s->steps > BIPROP_STEPS)
+        s->ovf = true;
+}
 
 static ug_i128 weight(const state *s, size_t i, size_t j)
 {
@@ -274,6 +287,7 @@ static long *icon(state *s, size_t i, size_t j)
 static void products(state *s, size_t i, size_t j, long s2, big *x, big *y)
 {
     big t;
+    step(s, 1);
     big_set(&t, (u128)weight(s, i, j) * 2);
     big_mul(&t, &s->d[i].den, x, &s->ovf);
     big_mul(x, &s->e[j].den, x, &s->ovf);
@@ -316,7 +330,8 @@ static bool outranks(state *s, size_t i, size_t k, size_t j)
 static void init_column(state *s, size_t j)
 {
     size_t m = s->p->nrows;
-    for (long seat = 0; seat < s->p->col_sum[j]; seat++) {
+    for (long seat = 0; seat < s->p->col_sum[j] && !s->ovf; seat++) {
+        step(s, 1 + m / 64); /* 128-bit products, cheaper than exact ones */
         size_t best = NONE;
         for (size_t i = 0; i < m; i++)
             if (weight(s, i, j) > 0 && (best == NONE || outranks(s, i, best, j)))
@@ -496,8 +511,9 @@ static bool find_path(tie_graph *g, size_t from, size_t to)
         g->par[v] = NONE;
     g->par[from] = ROOT;
     g->s->queue[tail++] = from;
-    while (head < tail && g->par[to] == NONE) {
+    while (head < tail && g->par[to] == NONE && !g->s->ovf) {
         size_t v = g->s->queue[head++];
+        step(g->s, 1 + (v < m ? n : m) / 64); /* flags, not exact products */
         for (size_t u = v < m ? m : 0; u < (v < m ? m + n : m); u++) {
             size_t cell = v < m ? v * n + (u - m) : u * n + (v - m);
             unsigned char *tied = v < m ? g->up : g->down;
@@ -557,7 +573,7 @@ static ug_status settle_ties(state *s, size_t *ties)
                 order[k++] = (ranked){s, i * n + j};
         }
     qsort(order, k, sizeof *order, by_priority);
-    for (size_t t = 0; t < k; t++)
+    for (size_t t = 0; t < k && !s->ovf; t++)
         settle_cell(&g, order[t].cell, ties);
     st = s->ovf ? UG_ELIMIT : UG_OK;
 out:
@@ -659,10 +675,15 @@ ug_status biprop_apportion(const biprop_problem *p, biprop_result *out)
     if ((st = s.ovf ? UG_ELIMIT : UG_OK) || (st = balance_rows(&s, out))
         || (st = settle_ties(&s, &out->ties)))
         goto out;
-    assert(valid(&s));
+#ifndef NDEBUG
+    state check = s; /* the final check costs no steps */
+    check.steps = 0;
+    assert(valid(&check));
+#endif
     write_divisors(&s, out);
     st = s.ovf ? UG_ELIMIT : UG_OK;
 out:
+    out->steps = s.steps;
     ug_free(s.rs);
     ug_free(s.d);
     ug_free(s.e);

@@ -22,16 +22,20 @@ typedef struct {
     size_t ties;          /* cells where an equally valid apportionment gave
                              another value: the tie rule chose */
     size_t stuck_row;     /* UG_EDATA: a row that cannot get its icons */
+    unsigned long long steps; /* exact comparisons made */
 } biprop_result;
 
 /* Fills *out (freed with biprop_result_free, also on failure). UG_EDATA:
 ** no apportionment with these totals exists (out->stuck_row says where it
-** was found); UG_ELIMIT: the exact divisors grew past BIPROP_BITS. Every
+** was found); UG_ELIMIT: the exact divisors grew past BIPROP_BITS, or the
+** table needed more than BIPROP_STEPS comparisons (out->steps says). Every
 ** row and column must have a positive weight somewhere. */
 ug_status biprop_apportion(const biprop_problem *p, biprop_result *out);
 void biprop_result_free(biprop_result *r);
 
-/* Width of the exact numbers the divisors are kept in. */
+/* Width of the exact numbers the divisors are kept in, and the most exact
+** comparisons one table may take. */
 #define BIPROP_BITS 4096
+#define BIPROP_STEPS 10000000ULL
 
 #endif

@@ -196,6 +196,29 @@ START_TEST(test_infeasible_is_an_error)
 }
 END_TEST
 
+/* A table too big to settle within BIPROP_STEPS is refused, not left to run:
+** 1000 x 1000 equal counts, one icon per row and per column, is a tie
+** everywhere (every cell's quotient can sit at 1/2). */
+START_TEST(test_step_limit)
+{
+    size_t n = 1000;
+    ug_i128 *w = calloc(n * n, sizeof *w);
+    long *ones = calloc(n, sizeof *ones);
+    ck_assert(w && ones);
+    for (size_t k = 0; k < n * n; k++)
+        w[k] = whole(1);
+    for (size_t k = 0; k < n; k++)
+        ones[k] = 1;
+    biprop_problem p = {n, n, w, ones, ones};
+    biprop_result r;
+    ck_assert_int_eq(biprop_apportion(&p, &r), UG_ELIMIT);
+    ck_assert_uint_gt(r.steps, BIPROP_STEPS);
+    biprop_result_free(&r);
+    free(w);
+    free(ones);
+}
+END_TEST
+
 START_TEST(test_out_of_memory)
 {
     ug_dec c[6] = {dec_of(5), dec_of(3), dec_of(7), dec_of(2), dec_of(9), dec_of(4)};
@@ -327,6 +350,7 @@ static Suite *biprop_suite(void)
     TCase *tp = tcase_create("properties");
     tcase_set_timeout(tp, 60);
     tcase_add_test(tp, test_one_group_is_sainte_lague);
+    tcase_add_test(tp, test_step_limit);
     tcase_add_loop_test(tp, test_random_properties, 0, 2);
     suite_add_tcase(s, tp);
     return s;
