@@ -31,7 +31,9 @@
 ** float, a tie would be a near miss and the search would never see it. A
 ** scaling's factor is the ratio of two products, so the numbers grow; they
 ** are held in BIPROP_BITS bits and a table that needs more is refused
-** (UG_ELIMIT), never rounded.
+** (UG_ELIMIT), never rounded. Ending is not the same as ending soon: the
+** searches cost up to rows x columns comparisons each, so a whole table
+** may make at most BIPROP_STEPS of them (UG_ELIMIT beyond).
 **
 ** Ties. When two apportionments are both valid (a cycle of tied cells), the
 ** one chosen gives the icon to the larger count, then to the row listed
@@ -47,8 +49,9 @@
 
 #define LIMBS (BIPROP_BITS / 32)
 #define NONE SIZE_MAX
-__extension__ typedef unsigned __int128 u128;
 #define ROOT (SIZE_MAX - 1)
+
+__extension__ typedef unsigned __int128 u128;
 
 /* ---- exact whole numbers and fractions ----------------------------------- */
 
