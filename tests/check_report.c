@@ -266,8 +266,8 @@ START_TEST(test_text_biproportional)
     c->method = UG_METHOD_BIPROPORTIONAL;
     char *got = report(c, UG_REPORT_TEXT);
     static const char *const lines[] = {
-        "method: biproportional (group and category totals each by Sainte-Lague "
-        "from one N)\n",
+        ("method: biproportional (group and category totals each by Sainte-Lague "
+         "from one N)\n"),
         "\nAll groups\n",
         "  Adults                            252         25.2       26     9.555556\n",
         "  Children                          123         12.3       12     9.846154\n",
