@@ -81,7 +81,8 @@ LIB_INTERNAL = $(BUILD)/libunitgram-internal.a
 SO_MAJOR = $(firstword $(subst ., ,$(VERSION)))
 SONAME   = libunitgram.so.$(SO_MAJOR)
 SHLIB    = $(BUILD)/libunitgram.so.$(VERSION)
-REF_DRIVERS = $(BUILD)/tests/ref/alloc_driver $(BUILD)/tests/ref/cvd_driver
+REF_DRIVERS = $(BUILD)/tests/ref/alloc_driver $(BUILD)/tests/ref/cvd_driver \
+              $(BUILD)/tests/ref/biprop_driver
 BENCH_DRIVERS = $(BUILD)/tests/bench/suppress
 BIN      = $(BUILD)/unitgram
 

@@ -16,16 +16,23 @@
 ** are handed out one at a time to the category with the highest count / d(s),
 ** where s is what it already has and d(s) = s + 1 or 2s + 1.
 **
+** Biproportional (FORMAT.md §7, at the end of this file): one N for the
+** whole table; the group totals and the category totals are each
+** apportioned from it by Sainte-Laguë, and the cells by biprop.c so that
+** both add up.
+**
 ** Ties. Published practice draws lots; a tool whose output must be the same
 ** on every run cannot, so ties go to the larger count, then to the category
 ** listed first. Everything is compared as exact integers (counts are scaled
 ** by 10^6) so equal remainders are truly equal and the tie rule decides.
 */
 #include <assert.h>
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
 #include "alloc.h"
+#include "biprop.h"
 
 ug_dec alloc_sum(const ug_dec *counts, size_t n)
 {
@@ -246,7 +253,10 @@ ug_status alloc_apportion(const ug_dec *counts, size_t n, const alloc_rule *rule
         st = give_leftovers(out, n, seats - given);
     } else {
         whole_parts(out, n); /* remainders still describe the quota */
-        st = highest_averages(out, n, seats, rule->method);
+        /* one list apportioned biproportionally is Sainte-Laguë */
+        st = highest_averages(out, n, seats, rule->method == UG_METHOD_DHONDT
+                                                 ? UG_METHOD_DHONDT
+                                                 : UG_METHOD_SAINTE_LAGUE);
     }
     if (st)
         return ug_fail(err, st, where, "out of memory");
@@ -295,4 +305,157 @@ bool alloc_nice_value(ug_dec largest, long fit, ug_dec *out)
         }
     }
     return false;
+}
+
+/* ---- biproportional (FORMAT.md §7) --------------------------------------- */
+
+static const char *name_or(const char *const *names, size_t i, char *buf, size_t n)
+{
+    if (names && names[i])
+        return names[i];
+    snprintf(buf, n, "number %zu", i + 1);
+    return buf;
+}
+
+/* A line whose counts are all 0 (or not shown) has no share to keep. */
+static ug_status no_empty_line(const ug_dec *totals, size_t n, const char *what,
+                               const char *const *names, ug_mark where,
+                               ug_error *err)
+{
+    char buf[32];
+    for (size_t i = 0; i < n; i++)
+        if (totals[i].v == 0)
+            return ug_fail(err, UG_EDATA, where,
+                           "'method: biproportional' needs counts in every %s, but "
+                           "every count of %s '%s' is 0 or not shown; leave it out "
+                           "or use another method", what, what,
+                           name_or(names, i, buf, sizeof buf));
+    return UG_OK;
+}
+
+/* One line of totals apportioned from N by Sainte-Laguë, alloc.c's tie rule. */
+static ug_status margin(const ug_dec *totals, size_t n, long seats, long *out)
+{
+    alloc_share *s = ug_calloc(n, sizeof *s);
+    if (!s)
+        return UG_ENOMEM;
+    for (size_t i = 0; i < n; i++)
+        s[i].count = totals[i];
+    ug_status st = highest_averages(s, n, seats, UG_METHOD_SAINTE_LAGUE);
+    for (size_t i = 0; i < n; i++)
+        out[i] = s[i].icons;
+    ug_free(s);
+    return st;
+}
+
+/* Whether the last icon given and the next in line were worth the same
+** (t / (2s - 1) of one equals t / (2s + 1) of another): then the tie rule
+** chose. Products stay below 2^106: totals below 2^80, icons below 2^24. */
+static bool margin_tied(const ug_dec *t, const long *s, size_t n)
+{
+    size_t last = SIZE_MAX, next = SIZE_MAX;
+    for (size_t i = 0; i < n; i++) {
+        if (s[i] > 0 && (last == SIZE_MAX || t[i].v * (2 * s[last] - 1)
+                                                 < t[last].v * (2 * s[i] - 1)))
+            last = i;
+        if (next == SIZE_MAX || t[i].v * (2 * s[next] + 1) > t[next].v * (2 * s[i] + 1))
+            next = i;
+    }
+    return last != SIZE_MAX && next != last
+           && t[last].v * (2 * s[next] + 1) == t[next].v * (2 * s[last] - 1);
+}
+
+static void line_totals(const ug_dec *counts, size_t ng, size_t nc, ug_dec *gt,
+                        ug_dec *ct)
+{
+    for (size_t g = 0; g < ng; g++)
+        for (size_t c = 0; c < nc; c++) {
+            gt[g].v += counts[g * nc + c].v;
+            ct[c].v += counts[g * nc + c].v;
+        }
+}
+
+static ug_status biprop_failed(ug_status st, const alloc_biprop_in *in,
+                               const biprop_result *r, ug_mark where, ug_error *err)
+{
+    char buf[32];
+    if (st == UG_EDATA) {
+        long n = in->out->group_icons[r->stuck_row];
+        return ug_fail(err, st, where,
+                       "no apportionment gives every group and every category its "
+                       "own share: group '%s' should get %ld icon%s, but the "
+                       "categories it has counts in have too few; use another method",
+                       name_or(in->group_names, r->stuck_row, buf, sizeof buf), n,
+                       n == 1 ? "" : "s");
+    }
+    if (st == UG_ELIMIT && r->steps > BIPROP_STEPS)
+        return ug_fail(err, st, where,
+                       "this table takes more than %llu steps to round both ways; "
+                       "use another method, or fewer groups or categories",
+                       BIPROP_STEPS);
+    if (st == UG_ELIMIT)
+        return ug_fail(err, st, where,
+                       "the exact divisors of this table need more than %d bits; "
+                       "use another method", BIPROP_BITS);
+    return ug_fail(err, st, where, "out of memory");
+}
+
+static void biprop_shares(const alloc_biprop_in *in, const biprop_result *r)
+{
+    alloc_biprop_out *o = in->out;
+    size_t nc = in->ncats;
+    for (size_t g = 0; g < in->ngroups; g++) {
+        alloc_share *row = &o->shares[g * nc];
+        set_quotas(row, &in->counts[g * nc], nc, in->rule, o->group_totals[g]);
+        whole_parts(row, nc); /* remainders still describe the quota */
+        for (size_t c = 0; c < nc; c++)
+            row[c].icons = r->icons[g * nc + c];
+        set_shown(row, nc, in->rule, o->group_totals[g]);
+    }
+    o->group_tie = margin_tied(o->group_totals, o->group_icons, in->ngroups);
+    memcpy(o->group_div, r->row_div, in->ngroups * sizeof *o->group_div);
+    memcpy(o->cat_div, r->col_div, nc * sizeof *o->cat_div);
+    o->ties = r->ties;
+}
+
+ug_status alloc_biproportional(const alloc_biprop_in *in, ug_mark where, ug_error *err)
+{
+    alloc_biprop_out *o = in->out;
+    size_t ng = in->ngroups, nc = in->ncats;
+    ug_dec *cat_totals = ug_calloc(nc, sizeof *cat_totals);
+    biprop_result r = {0};
+    ug_status st = UG_ENOMEM;
+    if (!cat_totals)
+        return ug_fail(err, st, where, "out of memory");
+    memset(o->group_totals, 0, ng * sizeof *o->group_totals);
+    line_totals(in->counts, ng, nc, o->group_totals, cat_totals);
+    if ((st = no_empty_line(o->group_totals, ng, "group", in->group_names, where, err))
+        || (st = no_empty_line(cat_totals, nc, "category", in->cat_names, where, err))
+        || (st = house_size(in->rule, alloc_sum(cat_totals, nc), &o->total_icons,
+                            where, err)))
+        goto out;
+    if ((st = margin(o->group_totals, ng, o->total_icons, o->group_icons))
+        || (st = margin(cat_totals, nc, o->total_icons, o->cat_icons))) {
+        ug_fail(err, st, where, "out of memory");
+        goto out;
+    }
+    ug_i128 *w = ug_calloc(ng * nc, sizeof *w);
+    if (!w) {
+        st = ug_fail(err, UG_ENOMEM, where, "out of memory");
+        goto out;
+    }
+    for (size_t k = 0; k < ng * nc; k++)
+        w[k] = in->counts[k].v;
+    biprop_problem p = {ng, nc, w, o->group_icons, o->cat_icons};
+    st = biprop_apportion(&p, &r);
+    ug_free(w);
+    if (st)
+        st = biprop_failed(st, in, &r, where, err);
+    else
+        biprop_shares(in, &r);
+    o->cat_tie = !st && margin_tied(cat_totals, o->cat_icons, nc);
+out:
+    biprop_result_free(&r);
+    ug_free(cat_totals);
+    return st;
 }

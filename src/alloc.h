@@ -39,6 +39,34 @@ ug_status alloc_apportion(const ug_dec *counts, size_t n, const alloc_rule *rule
                           alloc_share *out, long *total_icons, ug_mark where,
                           ug_error *err);
 
+/* The biproportional apportionment of a whole table (FORMAT.md §7). The
+** caller sizes every array of out; shares get count, quota (count / V),
+** icons and shown value as alloc_apportion gives them. */
+typedef struct {
+    alloc_share *shares;   /* [g * ncats + c] */
+    ug_dec *group_totals;  /* [ngroups] */
+    long *group_icons;     /* [ngroups]: the groups' Sainte-Laguë shares of N */
+    long *cat_icons;       /* [ncats]: the categories' shares of N */
+    ug_dec *group_div;     /* [ngroups]: divisors, rounded to six places, */
+    ug_dec *cat_div;       /* [ncats]   for showing (biprop.h) */
+    long total_icons;      /* N */
+    size_t ties;           /* cells the tie rule decided */
+    bool group_tie, cat_tie; /* the rule decided the last icon of a margin */
+} alloc_biprop_out;
+
+typedef struct {
+    const ug_dec *counts;  /* [g * ncats + c]: the published table, hidden 0 */
+    size_t ngroups, ncats;
+    const alloc_rule *rule;
+    const char *const *group_names; /* for messages; NULL: "number 2" */
+    const char *const *cat_names;
+    alloc_biprop_out *out;
+} alloc_biprop_in;
+
+/* A group or category with nothing to count, and a table no apportionment
+** fits, are UG_EDATA errors at `where`. */
+ug_status alloc_biproportional(const alloc_biprop_in *in, ug_mark where, ug_error *err);
+
 /* Sum of counts (exact). */
 ug_dec alloc_sum(const ug_dec *counts, size_t n);
 
@@ -63,6 +91,11 @@ struct ug_allocation {
     alloc_share *shares;    /* [group * ncats + category] */
     long *group_icons;      /* N per group */
     ug_dec *group_totals;
+    /* biproportional only (NULL otherwise): */
+    long *cat_icons;        /* each category's icons over all groups */
+    ug_dec *group_div, *cat_div;
+    size_t ties;
+    bool group_tie, cat_tie;
 };
 
 static inline const alloc_share *alloc_at(const ug_allocation *a, size_t g, size_t c)

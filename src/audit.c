@@ -277,9 +277,48 @@ typedef struct {
 ** the tolerance), in *passes. Only running out of memory is an error: a rule
 ** the allocator refuses (more icons than the chart's limit, say) simply does
 ** not pass. */
+/* The biproportional method rounds the whole table at once (FORMAT.md §7),
+** so a trial value is judged on the whole table's icons. */
+static ug_status biprop_passes(const ug_chart *c, const alloc_rule *r, trial *t,
+                               bool *passes)
+{
+    size_t ng = chart_ngroups(c), nc = c->ncats;
+    alloc_share *sh = ug_calloc(ng * nc, sizeof *sh);
+    ug_dec *counts = ug_calloc(ng * nc, sizeof *counts);
+    ug_dec *gt = ug_calloc(ng, sizeof *gt), *gd = ug_calloc(ng, sizeof *gd);
+    ug_dec *cd = ug_calloc(nc, sizeof *cd);
+    long *gi = ug_calloc(ng, sizeof *gi), *ci = ug_calloc(nc, sizeof *ci);
+    ug_status st = UG_ENOMEM;
+    *passes = false;
+    if (sh && counts && gt && gd && cd && gi && ci) {
+        for (size_t k = 0; k < ng * nc; k++)
+            counts[k] = t->pub->cells[k].value;
+        alloc_biprop_out o = {sh, gt, gi, ci, gd, cd, 0, 0, false, false};
+        alloc_biprop_in in = {counts, ng, nc, r, NULL, NULL, &o};
+        ug_error scratch = {0};
+        st = alloc_biproportional(&in, ug_mark_file(NULL), &scratch);
+        *passes = st == UG_OK;
+        for (size_t k = 0; *passes && k < ng * nc; k++) {
+            sh[k].status = t->pub->cells[k].status;
+            *passes = judge(c, &sh[k]) == SHARE_OK;
+        }
+        st = st == UG_ENOMEM ? st : UG_OK;
+    }
+    ug_free(sh);
+    ug_free(counts);
+    ug_free(gt);
+    ug_free(gd);
+    ug_free(cd);
+    ug_free(gi);
+    ug_free(ci);
+    return st;
+}
+
 static ug_status rule_passes(const ug_chart *c, const alloc_rule *r, trial *t,
                              bool *passes)
 {
+    if (r->method == UG_METHOD_BIPROPORTIONAL && c->groups.n)
+        return biprop_passes(c, r, t, passes);
     *passes = true;
     for (size_t g = 0; *passes && g < chart_ngroups(c); g++) {
         for (size_t i = 0; i < c->ncats; i++)
@@ -400,6 +439,9 @@ static ug_status rounding_fix(audit_ctx *x, char *fix, size_t n)
     else if (found)
         snprintf(fix, n, "icon-value: %s keeps every category visible and within %s %%",
                  ug_dec_format(value, v), tol);
+    else if (c->form == UG_FORM_ROWS && c->method == UG_METHOD_BIPROPORTIONAL)
+        snprintf(fix, n, "method: sainte-lague with rounding: partial (biproportional "
+                         "rounds to whole icons)");
     else if (c->form == UG_FORM_ROWS)
         snprintf(fix, n, "rounding: partial");
     else

@@ -282,6 +282,20 @@ void pack_value_statement(const ug_chart *c, const ug_allocation *a,
         ug_buf_printf(b, "; a clipped %s shows part of that", pack_icon_word(c, false));
 }
 
+void pack_totals_note(const ug_allocation *a, ug_buf *b)
+{
+    const ug_chart *c = a->chart;
+    if (!a->cat_icons)
+        return;
+    long n = 0;
+    for (size_t g = 0; g < a->ngroups; g++)
+        n += a->group_icons[g];
+    const char *group = c->group_label.text ? c->group_label.text : "group";
+    ug_buf_printf(b, "Both totals agree: each %s's %s and each category's %s add up "
+                     "to its own share of all %ld %s", group, pack_icon_word(c, true),
+                  pack_icon_word(c, true), n, pack_icon_word(c, n != 1));
+}
+
 char *pack_icons_text(const alloc_share *s, char *buf)
 {
     if (!s->partial) {
@@ -397,6 +411,11 @@ void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b)
     ug_buf_puts(b, " ");
     pack_value_statement(c, a, "is", b);
     ug_buf_puts(b, ".");
+    if (a->cat_icons) {
+        ug_buf_puts(b, " ");
+        pack_totals_note(a, b);
+        ug_buf_puts(b, ".");
+    }
     for (size_t g = 0; c->groups.n && g < c->groups.n; g++)
         group_sentence(c, a, g, b);
     for (size_t i = 0; !c->groups.n && i < c->ncats; i++) {

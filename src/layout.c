@@ -33,7 +33,7 @@ const ug_form_info *ug_form_about(ug_form f)
 static const char *const changes[] = {"none", "previous", "first", NULL};
 static const char *const roundings[] = {"whole", "partial", NULL};
 static const char *const methods[] = {"largest-remainder", "sainte-lague", "dhondt",
-                                      NULL};
+                                      "biproportional", NULL};
 static const char *const arrangements[] = {"inline", "split", NULL};
 static const char *const fills[] = {"by-row", "by-column", "snake", NULL};
 static const char *const starts[] = {"top-left", "bottom-left", NULL};
@@ -422,8 +422,16 @@ static ug_status check_form(loader *l, ug_chart *c, const layout_node *root)
                            "a rows chart needs 'icon-value' (a number, or auto)");
         if (c->cluster < 0)
             c->cluster = 5;
+        if (c->method == UG_METHOD_BIPROPORTIONAL && c->rounding == UG_ROUND_PARTIAL)
+            return ug_fail(l->err, UG_ESCHEMA, c->method_mark,
+                           "'method: biproportional' rounds to whole icons; it "
+                           "cannot be used with 'rounding: partial'");
         return UG_OK;
     }
+    if (c->method == UG_METHOD_BIPROPORTIONAL)
+        return ug_fail(l->err, UG_ESCHEMA, c->method_mark,
+                       "'method: biproportional' is for rows charts (form: rows); "
+                       "a waffle's groups each fill their own grid");
     if (c->has_cells && c->has_icon_value)
         return ug_fail(l->err, UG_ESCHEMA, c->cells_mark,
                        "a waffle states either 'cells' or 'icon-value', not both");

@@ -45,7 +45,8 @@ typedef enum { UG_ROUND_WHOLE, UG_ROUND_PARTIAL } ug_rounding;
 typedef enum {
     UG_METHOD_LARGEST_REMAINDER,
     UG_METHOD_SAINTE_LAGUE,
-    UG_METHOD_DHONDT
+    UG_METHOD_DHONDT,
+    UG_METHOD_BIPROPORTIONAL /* FORMAT.md §7: both totals agree */
 } ug_method;
 typedef enum { UG_ARRANGE_INLINE, UG_ARRANGE_SPLIT } ug_arrangement;
 typedef enum { UG_FILL_BY_ROW, UG_FILL_BY_COLUMN, UG_FILL_SNAKE } ug_fill;

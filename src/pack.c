@@ -719,11 +719,26 @@ static void pack_waffle(packer *p)
 
 /* ---- key, value statement, notes, source ---------------------------------------- */
 
+/* " · 8 icons", said of the published counts when some are hidden. */
+static void biprop_icons(const ug_allocation *a, size_t i, ug_buf *b)
+{
+    bool hidden = false;
+    for (size_t g = 0; g < a->ngroups; g++)
+        hidden = hidden || alloc_hidden(alloc_at(a, g, i));
+    long n = a->cat_icons[i];
+    ug_buf_printf(b, " \xc2\xb7 %ld %s%s", n, pack_icon_word(a->chart, n != 1),
+                  hidden ? " for the counts shown" : "");
+}
+
 static void key_detail(packer *p, size_t i, ug_buf *b)
 {
     const ug_chart *c = p->c;
     pack_category_phrase(p->a, i, b);
     const alloc_share *sh = alloc_at(p->a, 0, i);
+    if (p->a->cat_icons) { /* FORMAT.md §7: the category's own icons */
+        biprop_icons(p->a, i, b);
+        return;
+    }
     if (c->groups.n || alloc_hidden(sh))
         return;
     char n[64];
@@ -773,6 +788,11 @@ static void pack_foot_texts(packer *p)
     ug_buf b;
     ug_buf_init(&b);
     pack_value_statement(p->c, p->a, "=", &b);
+    if (p->a->cat_icons) {
+        ug_buf_puts(&b, ". ");
+        pack_totals_note(p->a, &b);
+        ug_buf_puts(&b, ".");
+    }
     text_size ts = put_buf(p, &b, p->left, p->y, content_width(p), LABEL_PX, true,
                            SCENE_START, true);
     p->y += ts.h + 14;

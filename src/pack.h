@@ -34,6 +34,9 @@ void pack_disclosure_notes(const ug_allocation *a, ug_buf *b);
 ** verb is "=" for the key and "is" for sentences. */
 void pack_value_statement(const ug_chart *c, const ug_allocation *a,
                           const char *verb, ug_buf *b);
+/* Under `method: biproportional` with groups (FORMAT.md §7), the sentence
+** saying that both totals agree; nothing otherwise. */
+void pack_totals_note(const ug_allocation *a, ug_buf *b);
 /* Icons shown for a share: "49", or "4.25" for a clipped last icon. */
 char *pack_icons_text(const alloc_share *s, char *buf);
 /* "icon"/"icons" or "square"/"squares" by chart form. */

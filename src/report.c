@@ -102,6 +102,56 @@ static ug_status fill_groups(ug_allocation *a, const ug_chart *c, ug_dec *column
     return UG_OK;
 }
 
+static const char **group_names(const ug_chart *c)
+{
+    const char **names = ug_calloc(c->groups.n, sizeof *names);
+    for (size_t g = 0; names && g < c->groups.n; g++)
+        names[g] = c->groups.items[g].text;
+    return names;
+}
+
+static const char **cat_names(const ug_chart *c)
+{
+    const char **names = ug_calloc(c->ncats, sizeof *names);
+    for (size_t i = 0; names && i < c->ncats; i++)
+        names[i] = c->cats[i].label.text ? c->cats[i].label.text : c->cats[i].id;
+    return names;
+}
+
+/* The whole table at once (FORMAT.md §7); errors at the `method:` key. */
+static ug_status fill_biprop(ug_allocation *a, const ug_chart *c, ug_error *err)
+{
+    size_t ng = a->ngroups, nc = a->ncats;
+    ug_dec *counts = ug_calloc(ng * nc, sizeof *counts);
+    const char **gn = group_names(c), **cn = cat_names(c);
+    a->cat_icons = ug_calloc(nc, sizeof *a->cat_icons);
+    a->group_div = ug_calloc(ng, sizeof *a->group_div);
+    a->cat_div = ug_calloc(nc, sizeof *a->cat_div);
+    ug_status st = UG_ENOMEM;
+    if (!counts || !gn || !cn || !a->cat_icons || !a->group_div || !a->cat_div) {
+        ug_fail(err, st, c->method_mark, "out of memory");
+        goto out;
+    }
+    for (size_t k = 0; k < ng * nc; k++)
+        counts[k] = a->pub->cells[k].value;
+    alloc_biprop_out o = {a->shares, a->group_totals, a->group_icons, a->cat_icons,
+                          a->group_div, a->cat_div, 0, 0, false, false};
+    alloc_biprop_in in = {counts, ng, nc, &a->rule, gn, cn, &o};
+    if ((st = alloc_biproportional(&in, c->method_mark, err)))
+        goto out;
+    a->ties = o.ties;
+    a->group_tie = o.group_tie;
+    a->cat_tie = o.cat_tie;
+    for (size_t k = 0; k < ng * nc; k++)
+        a->shares[k].status = a->pub->cells[k].status;
+    st = check_chart_icons(a, ng - 1, c->method_mark, err);
+out:
+    ug_free(counts);
+    ug_free(gn);
+    ug_free(cn);
+    return st;
+}
+
 ug_status alloc_published(const ug_chart *c, pub_table *t, ug_allocation **out,
                           ug_error *err)
 {
@@ -124,7 +174,11 @@ ug_status alloc_published(const ug_chart *c, pub_table *t, ug_allocation **out,
         goto fail;
     if ((st = alloc_rule_for_table(c, t, &a->rule, err)))
         goto fail;
-    if ((st = fill_groups(a, c, column, err)))
+    if (c->method == UG_METHOD_BIPROPORTIONAL && c->groups.n)
+        st = fill_biprop(a, c, err);
+    else
+        st = fill_groups(a, c, column, err);
+    if (st)
         goto fail;
     ug_free(column);
     *out = a;
@@ -164,6 +218,9 @@ void ug_allocation_free(ug_allocation *a)
     ug_free(a->shares);
     ug_free(a->group_icons);
     ug_free(a->group_totals);
+    ug_free(a->cat_icons);
+    ug_free(a->group_div);
+    ug_free(a->cat_div);
     pub_table_free(a->pub);
     ug_free(a);
 }
@@ -263,16 +320,62 @@ static void text_count(ug_buf *b, const char *s)
     ug_buf_visible(b, s);
 }
 
+static const char *method_name(const ug_allocation *a)
+{
+    switch (a->rule.method) {
+    case UG_METHOD_LARGEST_REMAINDER: return "largest remainder";
+    case UG_METHOD_SAINTE_LAGUE: return "Sainte-Lague";
+    case UG_METHOD_DHONDT: return "D'Hondt";
+    case UG_METHOD_BIPROPORTIONAL:
+        return a->cat_icons ? "biproportional (group and category totals each by "
+                              "Sainte-Lague from one N)"
+                            : "biproportional (one group: Sainte-Lague)";
+    }
+    return "?";
+}
+
+/* The second margin and the divisors: what lets a reader check that the
+** icons are round(count / (group divisor x category divisor)). */
+static void report_biprop(const ug_allocation *a, ug_buf *b)
+{
+    const ug_chart *c = a->chart;
+    char cnt[48], q[64], dv[48];
+    long n = 0;
+    ug_buf_printf(b, "\nAll groups\n  %-24s %12s %12s %8s %12s\n", "category", "count",
+                  "quota", "icons", "divisor");
+    for (size_t i = 0; i < a->ncats; i++) {
+        ug_dec tot = {0};
+        for (size_t g = 0; g < a->ngroups; g++)
+            tot.v += alloc_at(a, g, i)->count.v;
+        n += a->cat_icons[i];
+        ug_buf_puts(b, "  ");
+        cell(b, or_empty(c->cats[i].label.text), 24);
+        ug_buf_printf(b, " %12s %12s %8ld %12s\n", ug_dec_format(tot, cnt),
+                      trimmed_ratio(tot.v, a->rule.value.v, q), a->cat_icons[i],
+                      ug_dec_format(a->cat_div[i], dv));
+    }
+    ug_buf_printf(b, "  %-24s %12s %12s %8ld\n", "total", "", "", n);
+    ug_buf_puts(b, "Group divisors (icons = round(count / (group divisor x category "
+                   "divisor))):\n");
+    for (size_t g = 0; g < a->ngroups; g++) {
+        ug_buf_puts(b, "  ");
+        cell(b, group_name(c, g), 24);
+        ug_buf_printf(b, " %12s %8ld icons\n", ug_dec_format(a->group_div[g], dv),
+                      a->group_icons[g]);
+    }
+    ug_buf_printf(b, "Divisors are rounded to six places. Ties decided by the rule "
+                     "(the larger count, then the one listed first): groups' shares "
+                     "%s, categories' shares %s, cells %zu.\n",
+                  a->group_tie ? "yes" : "no", a->cat_tie ? "yes" : "no", a->ties);
+}
+
 static void report_text(const ug_allocation *a, ug_buf *b)
 {
     const ug_chart *c = a->chart;
     char v[64], tot[48], n[64];
     ug_buf_printf(b, "Each icon = %s%s", value_text(a, v), c->unit_label.text ? " " : "");
     cell(b, or_empty(c->unit_label.text), 0);
-    ug_buf_printf(b, "; method: %s%s\n",
-                  a->rule.method == UG_METHOD_LARGEST_REMAINDER ? "largest remainder"
-                  : a->rule.method == UG_METHOD_SAINTE_LAGUE ? "Sainte-Lague"
-                                                             : "D'Hondt",
+    ug_buf_printf(b, "; method: %s%s\n", method_name(a),
                   a->rule.partial ? " (partial icons)" : "");
     for (size_t g = 0; g < a->ngroups; g++) {
         if (c->groups.n) {
@@ -298,6 +401,8 @@ static void report_text(const ug_allocation *a, ug_buf *b)
                                             : ug_dec_format(m->value, tot));
         ug_buf_printf(b, " %12s %8s\n", "", total_icons(a, g, n));
     }
+    if (a->cat_icons)
+        report_biprop(a, b);
 }
 
 static void report_csv(const ug_allocation *a, ug_buf *b)

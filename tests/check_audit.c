@@ -211,6 +211,34 @@ START_TEST(test_rounding_difference)
 }
 END_TEST
 
+/* The rounding rules judge the icons drawn. layouts/wards.csv's counts
+** (demo data) at 10 each: per ward, largest remainder gives River ward's 27
+** older people 3 icons (30, 11 % off); the biproportional table (FORMAT.md
+** §7) gives them 2 (20, 26 % off) so that the older people's icons over all
+** wards are their own share, 8 of 46. Hill ward's 8 children show as 10 in
+** both. */
+START_TEST(test_rounding_uses_biproportional_icons)
+{
+    static const cat_spec wards[] = {{"Adults", 0x0072b2, {"124", "85", "43"}},
+                                     {"Children", 0xd55e00, {"64", "51", "8"}},
+                                     {"Older people", 0x009e73, {"38", "27", "19"}}};
+    char msg[512];
+    ug_chart *bp = chart_new(wards, 3, 3, "10");
+    bp->method = UG_METHOD_BIPROPORTIONAL;
+    bp->audit.has_tolerance = true;
+    bp->audit.tolerance_percent = dec("20");
+    expect_full(bp, "rounding-difference", UG_SEVERITY_WARNING, 18, 19, NULL, NULL, msg);
+    ck_assert_str_eq(msg, "'Older people' in River ward has 27 households but its "
+                          "icons show 20.00, more than 20 % off");
+    ug_chart *lr = chart_new(wards, 3, 3, "10");
+    lr->audit.has_tolerance = true;
+    lr->audit.tolerance_percent = dec("20");
+    expect_full(lr, "rounding-difference", UG_SEVERITY_WARNING, 15, 25, NULL, NULL, msg);
+    ck_assert_str_eq(msg, "'Children' in Hill ward has 8 households but its icons "
+                          "show 10.00, more than 20 % off");
+}
+END_TEST
+
 /* With no nice value working (1 and 1000000 can't both show within 10 % at
 ** or under the icon limit with rows), the fix is partial rounding. */
 START_TEST(test_rounding_fix_partial)
@@ -662,6 +690,7 @@ static Suite *audit_suite(void)
     tcase_add_test(t, test_vanished_category);
     tcase_add_test(t, test_rounding_difference);
     tcase_add_test(t, test_rounding_fix_partial);
+    tcase_add_test(t, test_rounding_uses_biproportional_icons);
     tcase_add_test(t, test_total_mismatch);
     tcase_add_test(t, test_small_count_default);
     tcase_add_loop_test(t, test_small_count_presets, 0,

@@ -78,6 +78,35 @@ START_TEST(test_group_label_names_the_share)
 }
 END_TEST
 
+/* FORMAT.md §7: the description says both totals agree, and its per-cell
+** icons are the biproportional ones (layouts/wards.csv's counts, demo
+** data, worked by hand in tests/data/expected/CHECKED.md: River ward's
+** adults get 9, its older people 2, 46 icons in all). */
+START_TEST(test_biproportional_says_totals_agree)
+{
+    const char *groups[] = {"North ward", "River ward", "Hill ward"};
+    const fx_cat cats[] = {{"Adults", "person", 0x0072B2, {"124", "85", "43"}, NULL},
+                           {"Children", "child", 0xE69F00, {"64", "51", "8"}, NULL},
+                           {"Older people", "person", 0x009E73, {"38", "27", "19"}, NULL}};
+    ug_chart *c = fx_chart(UG_FORM_ROWS, "t", groups, 3, cats, 3);
+    c->method = UG_METHOD_BIPROPORTIONAL;
+    c->group_label.text = "ward";
+    char *d = describe(c);
+    ck_assert_msg(strstr(d, "Each icon is 10 households. Both totals agree: each "
+                            "ward's icons and each category's icons add up to its own "
+                            "share of all 46 icons."), "%s", d);
+    ck_assert_msg(strstr(d, "River ward, 163 households in all: Adults 85 households "
+                            "(9 icons), Children 51 households (5 icons), Older people "
+                            "27 households (2 icons)."), "%s", d);
+    ug_free(d);
+    c->method = UG_METHOD_LARGEST_REMAINDER;
+    d = describe(c);
+    ck_assert_ptr_null(strstr(d, "Both totals agree"));
+    ug_free(d);
+    fx_free(c);
+}
+END_TEST
+
 /* 1/200 of the whole is 0.5%. */
 START_TEST(test_half_percent_cells)
 {
@@ -192,6 +221,7 @@ static Suite *describe_suite(void)
     TCase *t = tcase_create("describe");
     tcase_add_test(t, test_waffle_sentences);
     tcase_add_test(t, test_half_percent_cells);
+    tcase_add_test(t, test_biproportional_says_totals_agree);
     tcase_add_test(t, test_groups_and_suppression);
     tcase_add_test(t, test_change_between_periods);
     tcase_add_test(t, test_waffle_of_glyphs_says_icons);

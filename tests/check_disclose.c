@@ -220,6 +220,24 @@ START_TEST(test_layouts_publish_no_hidden_count)
 }
 END_TEST
 
+/* FORMAT.md §7 under §4: the biproportional method rounds the published
+** table as a whole, so a hidden count must not reach any other cell's
+** icons, the margins or the divisors either. */
+START_TEST(test_biproportional_publishes_no_hidden_count)
+{
+    ug_chart *c = NULL;
+    ug_error err = {0};
+    ck_assert_int_eq(ug_chart_load("../layouts/wards.yaml", NULL, &c, &err), UG_OK);
+    c->method = UG_METHOD_BIPROPORTIONAL;
+    hidden_set h = hidden_cells(c);
+    ck_assert_uint_gt(h.n, 0);
+    free(h.cells);
+    free(h.status);
+    check_invariant(c, "wards.yaml, biproportional");
+    ug_chart_free(c);
+}
+END_TEST
+
 /* ---- a generated corpus ---------------------------------------------------------- */
 
 static unsigned long long rng_state;
@@ -425,6 +443,7 @@ static Suite *suite(void)
     tcase_add_test(t, test_bad_cell_names_are_errors_at_their_line);
     tcase_add_test(t, test_internal_view_is_marked);
     tcase_add_test(t, test_layouts_publish_no_hidden_count);
+    tcase_add_test(t, test_biproportional_publishes_no_hidden_count);
     tcase_add_test(t, test_generated_charts_publish_no_hidden_count);
     suite_add_tcase(s, t);
     return s;

@@ -252,6 +252,38 @@ START_TEST(test_text_groups)
 }
 END_TEST
 
+/* method: biproportional on layouts/wards.csv's counts (demo data), worked
+** by hand in tests/data/expected/CHECKED.md: both margins, the divisors
+** (86/9, 128/13, 54/5 for the age groups, 1 for every ward) and the tie the
+** rule decided in the age groups' shares. */
+START_TEST(test_text_biproportional)
+{
+    static const char *const groups[] = {"North ward", "River ward", "Hill ward"};
+    static const cat_spec cats[] = {{"Adults", {"124", "85", "43"}},
+                                    {"Children", {"64", "51", "8"}},
+                                    {"Older people", {"38", "27", "19"}}};
+    ug_chart *c = valued(new_chart(groups, 3, cats, 3), "10");
+    c->method = UG_METHOD_BIPROPORTIONAL;
+    char *got = report(c, UG_REPORT_TEXT);
+    static const char *const lines[] = {
+        ("method: biproportional (group and category totals each by Sainte-Lague "
+         "from one N)\n"),
+        "\nAll groups\n",
+        "  Adults                            252         25.2       26     9.555556\n",
+        "  Children                          123         12.3       12     9.846154\n",
+        "  Older people                       84          8.4        8         10.8\n",
+        "  total                                                    46\n",
+        "  River ward                          1       16 icons\n",
+        "\nRiver ward\n  category",
+        "  Older people                       27          2.7        2           20",
+        "groups' shares no, categories' shares yes, cells 0.\n"};
+    for (size_t k = 0; k < sizeof lines / sizeof *lines; k++)
+        ck_assert_msg(strstr(got, lines[k]) != NULL, "missing '%s' in\n%s", lines[k], got);
+    ug_free(got);
+    free_chart(c);
+}
+END_TEST
+
 /* The automatic icon value is the smallest nice value (1, 2, 2.5, 5 x 10^k;
 ** unitgram's own choice, common practice, no source) that fits the longest
 ** line in the columns: 412 on 20 columns -> 25 (16.48 rounds to 16). */
@@ -373,6 +405,7 @@ static Suite *report_suite(void)
     tcase_add_test(tc, test_text_waffle_clubs);
     tcase_add_test(tc, test_text_partial);
     tcase_add_test(tc, test_text_groups);
+    tcase_add_test(tc, test_text_biproportional);
     tcase_add_test(tc, test_auto_value);
     tcase_add_test(tc, test_csv_largest_numbers);
     tcase_add_test(tc, test_limit_names_group);
