@@ -20,6 +20,24 @@ expect() {
 }
 no_escapes() { grep -q $'\033' "$1" && fail "$2: escape codes in output"; }
 
+# ---- one option table per command: every command reads options the same way
+expect 0 "$BIN" glyphs --glyph-dir=tests/data/glyphs/lib-a --search=test-bar
+grep -q "test-bar" "$T/out" || fail "glyphs --opt=VALUE: $(head -c 200 "$T/out")"
+expect 0 "$BIN" tally layouts/pantry.yaml --format=json --max-icons=1000
+grep -q '"icons"' "$T/out" || fail "tally --format=json: $(head -c 200 "$T/out")"
+many=(); for k in $(seq 1 33); do many+=(--glyph-dir "$T"); done
+expect 2 "$BIN" glyphs "${many[@]}"
+grep -q "at most 32 --glyph-dir" "$T/err" || fail "33 --glyph-dir: $(cat "$T/err")"
+for c in draw tally audit describe glyphs init; do
+  expect 2 "$BIN" $c --no-such-option
+  grep -q "unitgram $c: unknown option '--no-such-option'" "$T/err" \
+    || fail "$c: unknown option message: $(cat "$T/err")"
+  expect 0 "$BIN" $c --help
+  grep -q -- "--max-icons\|--glyph-dir\|--page" "$T/out" || fail "$c --help lists no options"
+done
+expect 2 "$BIN" tally a.yaml b.yaml
+grep -q "one layout at a time (found 'b.yaml' too)" "$T/err" || fail "tally two layouts: $(cat "$T/err")"
+
 # ---- every command has help, the same style, and the exit-code paragraph
 for c in draw tally audit describe glyphs init; do
   expect 0 "$BIN" "$c" --help

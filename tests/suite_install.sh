@@ -57,8 +57,13 @@ fi
 for c in draw tally audit describe glyphs init help; do
   grep -q "^\.B unitgram $c" "$man1" || fail "man page lacks 'unitgram $c'"
 done
-for o in $("$BIN" draw --help | grep -oE -- '--[a-z-]+' | sort -u); do
-  grep -q -- "$(echo "$o" | sed 's/-/\\\\-/g')" "$man1" || fail "man page lacks draw $o"
+# every option of every command's --help (made from its option table) is
+# named in the man page and offered by the bash completion
+for c in draw tally audit describe glyphs init; do
+  for o in $("$BIN" $c --help | grep -oE -- '--[a-z-]+' | sort -u); do
+    grep -q -- "$(echo "$o" | sed 's/-/\\\\-/g')" "$man1" || fail "man page lacks $c $o"
+    grep -q -- "$o" src/unitgram.bash || fail "bash completion lacks $c $o"
+  done
 done
 bash -n "$D$P/share/bash-completion/completions/unitgram" || fail "completion: syntax"
 

@@ -74,6 +74,44 @@ int cli_number_option(const char *cmd, int argc, char **argv, int *i,
 /* "-h" or "--help". */
 bool cli_is_help(const char *arg);
 
+/* ---- the option tables (cli_common.c) ---- */
+
+/* What an option takes: nothing, a text, a repeatable text (a list), a number
+** or a whole number in [lo, hi]; CLI_LIMITS stands for --max-icons,
+** --max-input-bytes and --max-panels together (cli_limit_option). */
+typedef enum { CLI_FLAG, CLI_TEXT, CLI_TEXTS, CLI_NUMBER, CLI_WHOLE, CLI_LIMITS } cli_kind;
+
+/* One option of a command: parsing and its lines of --help both come from
+** here. `off` is where the value goes in the command's option struct (a
+** bool, a const char *, a const char *[] with its size_t count at count_off
+** and room for hi entries, a double, a long); `help` is its text, lines
+** joined by '\n', printed from column 25. */
+typedef struct {
+    const char *name, *shrt, *arg;
+    cli_kind kind;
+    size_t off, count_off;
+    double lo, hi;
+    const char *help;
+} cli_opt;
+
+/* A command: its name, the text of --help before "options:", its options
+** (ended by one with a NULL name) and how many plain arguments it takes. */
+typedef struct {
+    const char *name, *about;
+    const cli_opt *opts;
+    size_t max_args;
+} cli_command;
+
+/* Parse argv[1..] into opts and args (at most c->max_args). 0: go on; a
+** negative value: --help was printed; otherwise the exit code of a usage
+** error, already reported. */
+int cli_parse(const cli_command *c, void *opts, int argc, char **argv, const char **args,
+              size_t *nargs);
+/* The command's whole --help text. */
+void cli_help(const cli_command *c, FILE *to);
+/* The option named `name` in c's table, or NULL (for messages and tests). */
+const cli_opt *cli_find_option(const cli_command *c, const char *name);
+
 /* The library's context for this program: its glyph roots are the source
 ** tree's glyphs/ when the binary runs from its build folder, then the
 ** installed data folder. cli_bind_context finds the tree and binds a context
@@ -137,7 +175,6 @@ typedef struct {
     bool watch;
     long watch_limit;        /* redraws before exiting; 0: no limit */
     double watch_timeout;    /* seconds before exiting; 0: no limit */
-    const char *watch_option; /* the first --watch-* option given */
     bool quiet;              /* no progress bar or summary */
     double dpi, scale;       /* PNG and PDF (raster.c); 0: 96 dpi, scale 1 */
     bool strict;             /* audit findings stop the drawing (exit 3) */

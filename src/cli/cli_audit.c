@@ -4,13 +4,29 @@
 ** command's product; `draw` prints the same findings on stderr as warnings).
 ** Exit 3 under --strict when any finding is a warning or an error.
 */
+#include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
 #include "cli.h"
 
-static const char audit_help[] =
+typedef struct {
+    const char *format;
+    bool strict;
+} audit_args;
+
+static const cli_opt audit_opts[] = {
+    {"--strict", NULL, NULL, CLI_FLAG, offsetof(audit_args, strict), 0, 0, 0,
+     "exit 3 when there is any warning or error"},
+    {"--format", NULL, "FORMAT", CLI_TEXT, offsetof(audit_args, format), 0, 0, 0,
+     "text (default) or json"},
+    {"--max-icons", NULL, NULL, CLI_LIMITS, 0, 0, 0, 0, NULL},
+    {NULL, NULL, NULL, CLI_FLAG, 0, 0, 0, 0, NULL},
+};
+
+static const cli_command audit_command = {
+    "audit",
     "usage: unitgram audit LAYOUT [--strict] [--format text|json]\n"
     "\n"
     "Check a chart for honesty (vanished categories, rounding, totals), privacy\n"
@@ -19,55 +35,28 @@ static const char audit_help[] =
     "rule, its place in the layout and a computed fix; `audit: ignore: [RULE]`\n"
     "in the layout leaves a rule out. A page file audits every chart on it, and\n"
     "charts that count the same thing must share one scale. LAYOUT '-' reads\n"
-    "standard input.\n"
-    "\n"
-    "options:\n"
-    "  --strict              exit 3 when there is any warning or error\n"
-    "  --format FORMAT       text (default) or json\n"
-    CLI_LIMITS_HELP
-    "  -h, --help            show this help\n"
-    "\n" CLI_EXIT_CODES;
-
-typedef struct {
-    const char *layout, *format;
-    bool strict;
-} audit_args;
+    "standard input.\n",
+    audit_opts, 1};
 
 /* Returns -1 when the arguments are good, else the exit code. */
-static int parse(int argc, char **argv, audit_args *a)
+static int parse(int argc, char **argv, audit_args *a, const char **layout)
 {
-    for (int i = 1; i < argc; i++) {
-        int m;
-        if (cli_is_help(argv[i])) {
-            fputs(audit_help, stdout);
-            return EXIT_OK;
-        } else if ((m = cli_limit_option("audit", argc, argv, &i))) {
-            if (m < 0)
-                return EXIT_USAGE;
-        } else if (cli_option("audit", argc, argv, &i, "--strict", NULL, NULL)) {
-            a->strict = true;
-        } else if ((m = cli_option("audit", argc, argv, &i, "--format", NULL, &a->format))) {
-            if (m < 0)
-                return EXIT_USAGE;
-            if (strcmp(a->format, "text") && strcmp(a->format, "json"))
-                return cli_usage("audit", "--format is text or json, not '%s'", a->format);
-        } else if (argv[i][0] == '-' && argv[i][1]) {
-            return cli_usage("audit", "unknown option '%s'", argv[i]);
-        } else if (a->layout) {
-            return cli_usage("audit", "one layout at a time (found '%s' too)", argv[i]);
-        } else {
-            a->layout = argv[i];
-        }
-    }
-    if (!a->layout)
+    size_t n = 0;
+    int rc = cli_parse(&audit_command, a, argc, argv, layout, &n);
+    if (rc)
+        return rc < 0 ? EXIT_OK : rc;
+    if (strcmp(a->format, "text") && strcmp(a->format, "json"))
+        return cli_usage("audit", "--format is text or json, not '%s'", a->format);
+    if (!n)
         return cli_usage("audit", "missing the LAYOUT file");
     return -1;
 }
 
 int cli_audit(int argc, char **argv)
 {
-    audit_args a = {NULL, "text", false};
-    int rc = parse(argc, argv, &a);
+    audit_args a = {"text", false};
+    const char *layout = NULL;
+    int rc = parse(argc, argv, &a, &layout);
     if (rc >= 0)
         return rc;
     ug_error err = {0};
@@ -77,11 +66,11 @@ int cli_audit(int argc, char **argv)
     size_t len = 0;
     ug_page *page = NULL;
     ug_report_format fmt = strcmp(a.format, "json") ? UG_REPORT_TEXT : UG_REPORT_JSON;
-    if (cli_is_page_file(a.layout)) {
-        if (ug_page_load(a.layout, cli_limits(), &page, &err) ||
+    if (cli_is_page_file(layout)) {
+        if (ug_page_load(layout, cli_limits(), &page, &err) ||
             ug_page_audit(page, NULL, &f, &err))
             goto failed;
-    } else if ((rc = cli_load_chart(a.layout, &chart))) {
+    } else if ((rc = cli_load_chart(layout, &chart))) {
         return rc;
     } else if (ug_chart_audit(chart, &f, &err)) {
         goto failed;

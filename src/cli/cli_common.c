@@ -254,6 +254,112 @@ const ug_limits *cli_limits(void)
     return &limits;
 }
 
+/* ---- option tables ---- */
+
+const cli_opt *cli_find_option(const cli_command *c, const char *name)
+{
+    for (const cli_opt *o = c->opts; o->name; o++)
+        if (!strcmp(o->name, name))
+            return o;
+    return NULL;
+}
+
+/* The value of option o at argv[*i], stored into the command's struct. */
+static int take_option(const cli_command *c, const cli_opt *o, char *base, int argc,
+                       char **argv, int *i)
+{
+    const char *v = NULL;
+    double x = 0;
+    int m;
+    switch (o->kind) {
+    case CLI_FLAG:
+        return cli_option(c->name, argc, argv, i, o->name, o->shrt, NULL)
+                   ? (*(bool *)(base + o->off) = true, 1) : 0;
+    case CLI_TEXT:
+        return cli_option(c->name, argc, argv, i, o->name, o->shrt,
+                          (const char **)(void *)(base + o->off));
+    case CLI_TEXTS:
+        if ((m = cli_option(c->name, argc, argv, i, o->name, o->shrt, &v)) <= 0)
+            return m;
+        size_t *n = (size_t *)(void *)(base + o->count_off);
+        if ((double)*n >= o->hi) {
+            cli_usage(c->name, "at most %.0f %s", o->hi, o->name);
+            return -1;
+        }
+        ((const char **)(void *)(base + o->off))[(*n)++] = v;
+        return 1;
+    case CLI_NUMBER:
+        return cli_number_option(c->name, argc, argv, i, o->name, o->lo, o->hi, false,
+                                 (double *)(void *)(base + o->off));
+    case CLI_WHOLE:
+        if ((m = cli_number_option(c->name, argc, argv, i, o->name, o->lo, o->hi, true,
+                                   &x)) > 0)
+            *(long *)(void *)(base + o->off) = (long)x;
+        return m;
+    case CLI_LIMITS:
+        return cli_limit_option(c->name, argc, argv, i);
+    }
+    return 0;
+}
+
+int cli_parse(const cli_command *c, void *opts, int argc, char **argv, const char **args,
+              size_t *nargs)
+{
+    *nargs = 0;
+    for (int i = 1; i < argc; i++) {
+        if (cli_is_help(argv[i])) {
+            cli_help(c, stdout);
+            return -1;
+        }
+        int m = 0;
+        for (const cli_opt *o = c->opts; o->name && !m; o++)
+            m = take_option(c, o, opts, argc, argv, &i);
+        if (m < 0)
+            return EXIT_USAGE;
+        if (m)
+            continue;
+        const char *a = argv[i];
+        if (a[0] == '-' && a[1])
+            return cli_usage(c->name, "unknown option '%s'", a);
+        if (*nargs == c->max_args)
+            return c->max_args ? cli_usage(c->name, "one layout at a time (found '%s' too)", a)
+                               : cli_usage(c->name, "unexpected argument '%s'", a);
+        args[(*nargs)++] = a;
+    }
+    return 0;
+}
+
+/* "  -o, --output FILE     where to write" and its further lines at column 25. */
+static void help_option(const cli_opt *o, FILE *to)
+{
+    if (o->kind == CLI_LIMITS) {
+        fputs(CLI_LIMITS_HELP, to);
+        return;
+    }
+    char left[64];
+    snprintf(left, sizeof left, "%s%s%s%s%s", o->shrt ? o->shrt : "", o->shrt ? ", " : "",
+             o->name, o->arg ? " " : "", o->arg ? o->arg : "");
+    fprintf(to, "  %-22s", left);
+    if (strlen(left) >= 22)
+        fprintf(to, "\n%24s", "");
+    for (const char *h = o->help; *h;) {
+        size_t n = strcspn(h, "\n");
+        fprintf(to, "%.*s\n", (int)n, h);
+        h += n;
+        if (*h == '\n' && *++h)
+            fprintf(to, "%24s", "");
+    }
+}
+
+void cli_help(const cli_command *c, FILE *to)
+{
+    fputs(c->about, to);
+    fputs("\noptions:\n", to);
+    for (const cli_opt *o = c->opts; o->name; o++)
+        help_option(o, to);
+    fputs("  -h, --help            show this help\n\n" CLI_EXIT_CODES, to);
+}
+
 /* Standard input, whole, into a malloc'd buffer. Reads at most one byte past
 ** the input limit: the loader then refuses the text as too large, and an
 ** endless stream costs no more than the limit. */

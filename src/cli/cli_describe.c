@@ -7,18 +7,19 @@
 
 #include "cli.h"
 
-static const char describe_help[] =
+static const cli_opt describe_opts[] = {
+    {"--max-icons", NULL, NULL, CLI_LIMITS, 0, 0, 0, 0, NULL},
+    {NULL, NULL, NULL, CLI_FLAG, 0, 0, 0, 0, NULL},
+};
+
+static const cli_command describe_command = {
+    "describe",
     "usage: unitgram describe LAYOUT\n"
     "\n"
     "Print the chart's plain-language description (its alt text, the same text\n"
     "the SVG carries in <desc>; for a handout page, every chart's in turn).\n"
-    "LAYOUT '-' reads standard input.\n"
-    "\n"
-    "options:\n"
-    "  --max-icons N, --max-input-bytes N, --max-panels N\n"
-    "                        the limits, as for draw\n"
-    "  -h, --help            show this help\n"
-    "\n" CLI_EXIT_CODES;
+    "LAYOUT '-' reads standard input.\n",
+    describe_opts, 1};
 
 static int describe_chart(const char *layout, char **text, size_t *len,
                           ug_error *err)
@@ -54,26 +55,17 @@ static int describe_page(const char *layout, char **text, size_t *len,
 int cli_describe(int argc, char **argv)
 {
     const char *layout = NULL;
-    for (int i = 1; i < argc; i++) {
-        if (cli_is_help(argv[i])) {
-            fputs(describe_help, stdout);
-            return EXIT_OK;
-        }
-        int m = cli_limit_option("describe", argc, argv, &i);
-        if (m < 0)
-            return EXIT_USAGE;
-        if (m)
-            continue;
-        if ((argv[i][0] == '-' && argv[i][1]) || layout)
-            return cli_usage("describe", "unexpected argument '%s'", argv[i]);
-        layout = argv[i];
-    }
+    size_t n = 0;
+    int none = 0;
+    int rc = cli_parse(&describe_command, &none, argc, argv, &layout, &n);
+    if (rc)
+        return rc < 0 ? EXIT_OK : rc;
     if (!layout)
         return cli_usage("describe", "missing the LAYOUT file");
     ug_error err = {0};
     char *text = NULL;
     size_t len = 0;
-    int rc = cli_is_page_file(layout) ? describe_page(layout, &text, &len, &err)
+    rc = cli_is_page_file(layout) ? describe_page(layout, &text, &len, &err)
                                   : describe_chart(layout, &text, &len, &err);
     if (!rc && (fwrite(text, 1, len, stdout) != len || fputc('\n', stdout) == EOF ||
                 fflush(stdout))) {

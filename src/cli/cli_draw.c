@@ -4,6 +4,7 @@
 ** others use too), again on every change (cli_watch.c) or once per CSV row
 ** (cli_batch.c).
 */
+#include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -31,100 +32,60 @@
 #define STR_(x) #x
 #define STR(x) STR_(x)
 
-static const char draw_help[] =
+#define AT(field) offsetof(cli_draw_opts, field)
+
+static const cli_opt draw_opts[] = {
+    {"--output", "-o", "FILE", CLI_TEXT, AT(out), 0, 0, 0,
+     "where to write; '-' writes to standard output"},
+    {"--format", NULL, "FORMAT", CLI_TEXT, AT(format), 0, 0, 0,
+     "svg, png, pdf or html; svg is the default for '-',\n"
+     "otherwise the extension of FILE decides"},
+    {"--dpi", NULL, "N", CLI_NUMBER, AT(dpi), 0, DPI_MIN, DPI_MAX,
+     "PNG resolution in pixels per inch, " STR(DPI_MIN) " to " STR(DPI_MAX) "\n"
+     "(default 96, one pixel per CSS px); PDF and SVG\n"
+     "are vector"},
+    {"--scale", NULL, "N", CLI_NUMBER, AT(scale), 0, SCALE_MIN, SCALE_MAX,
+     "enlarge PNG and PDF by N, " STR(SCALE_MIN) " to " STR(SCALE_MAX) " (default 1)"},
+    {"--glyph-dir", NULL, "DIR", CLI_TEXTS, AT(glyph_dirs), AT(nglyph_dirs), 0, CLI_MAX_DIRS,
+     "also look for glyphs in DIR (repeatable)"},
+    {"--each-row", NULL, "CSV", CLI_TEXT, AT(each_row), 0, 0, 0,
+     "draw one chart per row of CSV: the row's group-column\n"
+     "value (or first column) names it and replaces {group}\n"
+     "in -o and in the template's title and subtitle; all\n"
+     "charts share one icon value and one layout; an -o\n"
+     "ending in .pdf without {group} gives one PDF with a\n"
+     "page per row"},
+    {"--jobs", NULL, "N", CLI_WHOLE, AT(jobs), 0, 1, CLI_MAX_JOBS,
+     "with --each-row: draw with N threads, 1 to 32\n"
+     "(default: one per processor)"},
+    {"--strict", NULL, NULL, CLI_FLAG, AT(strict), 0, 0, 0,
+     "audit findings (printed as warnings on every draw)\n"
+     "stop the drawing: nothing is written, exit 3"},
+    {"--quiet", "-q", NULL, CLI_FLAG, AT(quiet), 0, 0, 0,
+     "no progress bar or summary line (--each-row)"},
+    {"--watch", NULL, NULL, CLI_FLAG, AT(watch), 0, 0, 0,
+     "redraw whenever the layout, its CSV or a glyph file\n"
+     "changes (a page: its charts' files too); a broken\n"
+     "edit keeps the last good picture"},
+    {"--watch-limit", NULL, "N", CLI_WHOLE, AT(watch_limit), 0, 1, WATCH_LIMIT_MAX,
+     "with --watch: exit after N redraws (1 to " STR(WATCH_LIMIT_MAX) ")"},
+    {"--watch-timeout", NULL, "SECS", CLI_NUMBER, AT(watch_timeout), 0, WATCH_TIMEOUT_MIN,
+     WATCH_TIMEOUT_MAX,
+     "with --watch: exit after SECS seconds (" STR(WATCH_TIMEOUT_MIN) " to\n"
+     STR(WATCH_TIMEOUT_MAX) ", a year)"},
+    {"--max-icons", NULL, NULL, CLI_LIMITS, 0, 0, 0, 0, NULL},
+    {NULL, NULL, NULL, CLI_FLAG, 0, 0, 0, 0, NULL},
+};
+
+static const cli_command draw_command = {
+    "draw",
     "usage: unitgram draw LAYOUT -o OUT [OPTIONS]\n"
     "       unitgram draw TEMPLATE --each-row COUNTS.csv -o 'DIR/{group}.svg'\n"
     "\n"
     "Draw the chart (or the one-page handout) a layout file describes. LAYOUT\n"
     "'-' reads the layout from standard input (relative paths in it start from\n"
-    "the current folder).\n"
-    "\n"
-    "options:\n"
-    "  -o, --output FILE     where to write; '-' writes to standard output\n"
-    "  --format FORMAT       svg, png, pdf or html; svg is the default for '-',\n"
-    "                        otherwise the extension of FILE decides\n"
-    "  --dpi N               PNG resolution in pixels per inch, " STR(DPI_MIN) " to " STR(DPI_MAX) "\n"
-    "                        (default 96, one pixel per CSS px); PDF and SVG\n"
-    "                        are vector\n"
-    "  --scale N             enlarge PNG and PDF by N, " STR(SCALE_MIN) " to " STR(SCALE_MAX) " (default 1)\n"
-    "  --glyph-dir DIR       also look for glyphs in DIR (repeatable)\n"
-    "  --each-row CSV        draw one chart per row of CSV: the row's group-column\n"
-    "                        value (or first column) names it and replaces {group}\n"
-    "                        in -o and in the template's title and subtitle; all\n"
-    "                        charts share one icon value and one layout; an -o\n"
-    "                        ending in .pdf without {group} gives one PDF with a\n"
-    "                        page per row\n"
-    "  --jobs N              with --each-row: draw with N threads, 1 to 32\n"
-    "                        (default: one per processor)\n"
-    "  --strict              audit findings (printed as warnings on every draw)\n"
-    "                        stop the drawing: nothing is written, exit 3\n"
-    "  --quiet               no progress bar or summary line (--each-row)\n"
-    "  --watch               redraw whenever the layout, its CSV or a glyph file\n"
-    "                        changes (a page: its charts' files too); a broken\n"
-    "                        edit keeps the last good picture\n"
-    "  --watch-limit N       with --watch: exit after N redraws (1 to " STR(WATCH_LIMIT_MAX) ")\n"
-    "  --watch-timeout SECS  with --watch: exit after SECS seconds (" STR(WATCH_TIMEOUT_MIN) " to\n"
-    "                        " STR(WATCH_TIMEOUT_MAX) ", a year)\n"
-    CLI_LIMITS_HELP
-    "  -h, --help            show this help\n"
-    "\n" CLI_EXIT_CODES;
-
-/* ---- options (the new ones are read here; their work is elsewhere) ---- */
-
-static int number_option(int argc, char **argv, int *i, cli_draw_opts *o)
-{
-    double v = 0;
-    int m;
-    if ((m = cli_number_option("draw", argc, argv, i, "--dpi", DPI_MIN, DPI_MAX,
-                               false, &o->dpi)) ||
-        (m = cli_number_option("draw", argc, argv, i, "--scale", SCALE_MIN,
-                               SCALE_MAX, false, &o->scale)))
-        return m;
-    if ((m = cli_number_option("draw", argc, argv, i, "--jobs", 1, CLI_MAX_JOBS, true,
-                               &v)) > 0)
-        o->jobs = (long)v;
-    if (m)
-        return m;
-    if ((m = cli_number_option("draw", argc, argv, i, "--watch-limit", 1,
-                               WATCH_LIMIT_MAX, true, &v)) > 0)
-        o->watch_limit = (long)v;
-    if (m)
-        return o->watch_option = "--watch-limit", m;
-    if ((m = cli_number_option("draw", argc, argv, i, "--watch-timeout",
-                               WATCH_TIMEOUT_MIN, WATCH_TIMEOUT_MAX, false,
-                               &o->watch_timeout)))
-        o->watch_option = "--watch-timeout";
-    return m;
-}
-
-static int draw_option(int argc, char **argv, int *i, cli_draw_opts *o)
-{
-    const char *v = NULL;
-    int m;
-    if ((m = cli_limit_option("draw", argc, argv, i)) ||
-        (m = number_option(argc, argv, i, o)))
-        return m < 0 ? EXIT_USAGE : 0;
-    if ((m = cli_option("draw", argc, argv, i, "--output", "-o", &o->out)))
-        return m < 0 ? EXIT_USAGE : 0;
-    if ((m = cli_option("draw", argc, argv, i, "--format", NULL, &o->format)))
-        return m < 0 ? EXIT_USAGE : 0;
-    if ((m = cli_option("draw", argc, argv, i, "--each-row", NULL, &o->each_row)))
-        return m < 0 ? EXIT_USAGE : 0;
-    if ((m = cli_option("draw", argc, argv, i, "--glyph-dir", NULL, &v))) {
-        if (m > 0 && o->nglyph_dirs == CLI_MAX_DIRS)
-            return cli_usage("draw", "at most %d --glyph-dir folders", CLI_MAX_DIRS);
-        if (m > 0)
-            o->glyph_dirs[o->nglyph_dirs++] = v;
-        return m < 0 ? EXIT_USAGE : 0;
-    }
-    if (cli_option("draw", argc, argv, i, "--watch", NULL, NULL))
-        return o->watch = true, 0;
-    if (cli_option("draw", argc, argv, i, "--strict", NULL, NULL))
-        return o->strict = true, 0;
-    if (cli_option("draw", argc, argv, i, "--quiet", "-q", NULL))
-        return o->quiet = true, 0;
-    return -1;
-}
+    "the current folder).\n",
+    draw_opts, 1};
 
 static int check_draw(const cli_draw_opts *o)
 {
@@ -137,8 +98,10 @@ static int check_draw(const cli_draw_opts *o)
     if (o->watch && (!strcmp(o->layout, "-") || !strcmp(o->out, "-")))
         return cli_usage("draw", "--watch needs a layout file and an output file, "
                                  "not '-'");
-    if (o->watch_option && !o->watch)
-        return cli_usage("draw", "%s only works with --watch", o->watch_option);
+    if (o->watch_limit && !o->watch)
+        return cli_usage("draw", "--watch-limit only works with --watch");
+    if (o->watch_timeout > 0 && !o->watch)
+        return cli_usage("draw", "--watch-timeout only works with --watch");
     const char *fmt = cli_output_format(o->out, o->format);
     if (!fmt)
         return EXIT_USAGE;
@@ -156,24 +119,9 @@ static int check_draw(const cli_draw_opts *o)
 
 static int parse_draw(int argc, char **argv, cli_draw_opts *o)
 {
-    for (int i = 1; i < argc; i++) {
-        const char *a = argv[i];
-        int rc;
-        if (cli_is_help(a)) {
-            fputs(draw_help, stdout);
-            return -1;
-        } else if ((rc = draw_option(argc, argv, &i, o)) >= 0) {
-            if (rc)
-                return rc;
-        } else if (a[0] == '-' && a[1]) {
-            return cli_usage("draw", "unknown option '%s'", a);
-        } else if (!o->layout) {
-            o->layout = a;
-        } else {
-            return cli_usage("draw", "one layout at a time (found '%s' too)", a);
-        }
-    }
-    return check_draw(o);
+    size_t n = 0;
+    int rc = cli_parse(&draw_command, o, argc, argv, &o->layout, &n);
+    return rc ? rc : check_draw(o);
 }
 
 int cli_draw(int argc, char **argv)

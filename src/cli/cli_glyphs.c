@@ -4,6 +4,7 @@
 ** ug_glyph_check.
 */
 #include <ctype.h>
+#include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -24,60 +25,45 @@ typedef struct {
     int printed_heading; /* a blank line goes between headings, not before the first */
 } options;
 
-static void help(FILE *to)
-{
-    fprintf(to,
-            "usage: unitgram glyphs [--glyph-dir DIR]... [--subject ID] [--search WORD]...\n"
-            "       unitgram glyphs [--glyph-dir DIR]... [--sheet FILE]\n"
-            "       unitgram glyphs [--glyph-dir DIR]... --check GLYPH...\n"
-            "\n"
-            "List the glyph library by subject: each glyph's name and keywords (a\n"
-            "chart names a glyph with `glyph: NAME`), the built-in shapes last.\n"
-            "\n"
-            "options:\n"
-            "  --glyph-dir DIR       also look for NAME.svg in DIR (after the library,\n"
-            "                        the installed glyphs and UNITGRAM_GLYPH_PATH)\n"
-            "  --subject ID          list (or, with --sheet, draw) one subject set:\n"
-            "                        people, health-care, ..., other\n"
-            "  --search WORD         list the glyphs whose name, keywords, description\n"
-            "                        or subject contain WORD (any case); given several\n"
-            "                        times, a glyph must match every word\n"
-            "  --sheet FILE          write a contact sheet: every glyph with its name\n"
-            "                        (.svg, .png or .pdf, by the extension)\n"
-            "  --check GLYPH         load a glyph as a layout in the current folder\n"
-            "                        would (a name or a path such as ./icons/boat.svg);\n"
-            "                        print what sanitizing removed and its inked area\n"
-            "  -h, --help            show this help\n"
-            "\n" CLI_EXIT_CODES);
-}
+#define TEXTS(field, count) CLI_TEXTS, offsetof(options, field), offsetof(options, count), 0, \
+                            MAX_DIRS
+
+static const cli_opt glyphs_opts[] = {
+    {"--glyph-dir", NULL, "DIR", TEXTS(dirs, ndirs),
+     "also look for NAME.svg in DIR (after the library,\n"
+     "the installed glyphs and UNITGRAM_GLYPH_PATH)"},
+    {"--subject", NULL, "ID", CLI_TEXT, offsetof(options, subject), 0, 0, 0,
+     "list (or, with --sheet, draw) one subject set:\n"
+     "people, health-care, ..., other"},
+    {"--search", NULL, "WORD", TEXTS(search, nsearch),
+     "list the glyphs whose name, keywords, description\n"
+     "or subject contain WORD (any case); given several\n"
+     "times, a glyph must match every word"},
+    {"--sheet", NULL, "FILE", CLI_TEXT, offsetof(options, sheet), 0, 0, 0,
+     "write a contact sheet: every glyph with its name\n"
+     "(.svg, .png or .pdf, by the extension)"},
+    {"--check", NULL, "GLYPH", TEXTS(check, ncheck),
+     "load a glyph as a layout in the current folder\n"
+     "would (a name or a path such as ./icons/boat.svg);\n"
+     "print what sanitizing removed and its inked area"},
+    {NULL, NULL, NULL, CLI_FLAG, 0, 0, 0, 0, NULL},
+};
+
+static const cli_command glyphs_command = {
+    "glyphs",
+    "usage: unitgram glyphs [--glyph-dir DIR]... [--subject ID] [--search WORD]...\n"
+    "       unitgram glyphs [--glyph-dir DIR]... [--sheet FILE]\n"
+    "       unitgram glyphs [--glyph-dir DIR]... --check GLYPH...\n"
+    "\n"
+    "List the glyph library by subject: each glyph's name and keywords (a\n"
+    "chart names a glyph with `glyph: NAME`), the built-in shapes last.\n",
+    glyphs_opts, 0};
 
 static int parse(int argc, char **argv, options *o)
 {
-    for (int i = 1; i < argc; i++) {
-        const char *a = argv[i];
-        const char *next = i + 1 < argc ? argv[i + 1] : NULL;
-        if (!strcmp(a, "--help") || !strcmp(a, "-h")) {
-            help(stdout);
-            return -1;
-        } else if (!next && (!strcmp(a, "--glyph-dir") || !strcmp(a, "--sheet") ||
-                             !strcmp(a, "--check") || !strcmp(a, "--search") ||
-                             !strcmp(a, "--subject"))) {
-            return cli_usage("glyphs", "%s needs a value", a);
-        } else if (!strcmp(a, "--glyph-dir") && o->ndirs < MAX_DIRS) {
-            o->dirs[o->ndirs++] = argv[++i];
-        } else if (!strcmp(a, "--sheet")) {
-            o->sheet = argv[++i];
-        } else if (!strcmp(a, "--search") && o->nsearch < MAX_DIRS) {
-            o->search[o->nsearch++] = argv[++i];
-        } else if (!strcmp(a, "--subject")) {
-            o->subject = argv[++i];
-        } else if (!strcmp(a, "--check") && o->ncheck < MAX_DIRS) {
-            o->check[o->ncheck++] = argv[++i];
-        } else {
-            return cli_usage("glyphs", "unexpected argument '%s'", a);
-        }
-    }
-    return EXIT_OK;
+    size_t n = 0;
+    int rc = cli_parse(&glyphs_command, o, argc, argv, NULL, &n);
+    return rc < 0 ? -1 : rc;
 }
 
 /* Case-insensitive substring test; glyph text is ASCII or UTF-8, and only

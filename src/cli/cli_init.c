@@ -8,6 +8,7 @@
 ** leaves a gap another process can fill, and fopen(..., "r") cannot see a
 ** dangling symlink or a file it may not read, and blocks on a FIFO.
 */
+#include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -15,24 +16,31 @@
 
 #include "cli.h"
 
-static void help(FILE *to)
-{
-    fprintf(to,
-            "usage: unitgram init [--page] [-o FILE [--replace]]\n"
-            "\n"
-            "Write a commented starter layout that draws as it is.\n"
-            "\n"
-            "options:\n"
-            "  --page                a one-page handout file instead of a chart\n"
-            "  -o, --output FILE     where to write (default: standard output); when\n"
-            "                        anything is at FILE already (a file, a folder, a\n"
-            "                        symlink, even a dangling one, a FIFO) it is left\n"
-            "                        as it was and nothing is written (exit 4)\n"
-            "  --replace             replace FILE when it is a regular file (written\n"
-            "                        to a temporary file and renamed over it)\n"
-            "  -h, --help            show this help\n"
-            "\n" CLI_EXIT_CODES);
-}
+typedef struct {
+    bool page, replace;
+    const char *out;
+} init_args;
+
+static const cli_opt init_opts[] = {
+    {"--page", NULL, NULL, CLI_FLAG, offsetof(init_args, page), 0, 0, 0,
+     "a one-page handout file instead of a chart"},
+    {"--output", "-o", "FILE", CLI_TEXT, offsetof(init_args, out), 0, 0, 0,
+     "where to write (default: standard output); when\n"
+     "anything is at FILE already (a file, a folder, a\n"
+     "symlink, even a dangling one, a FIFO) it is left\n"
+     "as it was and nothing is written (exit 4)"},
+    {"--replace", NULL, NULL, CLI_FLAG, offsetof(init_args, replace), 0, 0, 0,
+     "replace FILE when it is a regular file (written\n"
+     "to a temporary file and renamed over it)"},
+    {NULL, NULL, NULL, CLI_FLAG, 0, 0, 0, 0, NULL},
+};
+
+static const cli_command init_command = {
+    "init",
+    "usage: unitgram init [--page] [-o FILE [--replace]]\n"
+    "\n"
+    "Write a commented starter layout that draws as it is.\n",
+    init_opts, 0};
 
 /* What stands at path, for the message that leaves it alone. */
 static const char *what_is(const char *path)
@@ -94,24 +102,14 @@ static int replace_starter(const char *out, const char *text)
 
 int cli_init(int argc, char **argv)
 {
-    int page = 0, m;
-    bool replace = false;
-    const char *out = "-";
-    for (int i = 1; i < argc; i++) {
-        if (cli_is_help(argv[i])) {
-            help(stdout);
-            return EXIT_OK;
-        } else if (!strcmp(argv[i], "--page")) {
-            page = 1;
-        } else if (!strcmp(argv[i], "--replace")) {
-            replace = true;
-        } else if ((m = cli_option("init", argc, argv, &i, "--output", "-o", &out))) {
-            if (m < 0)
-                return EXIT_USAGE;
-        } else {
-            return cli_usage("init", "unexpected argument '%s'", argv[i]);
-        }
-    }
+    init_args a = {false, false, "-"};
+    size_t n = 0;
+    int rc = cli_parse(&init_command, &a, argc, argv, NULL, &n);
+    if (rc)
+        return rc < 0 ? EXIT_OK : rc;
+    const char *out = a.out;
+    int page = a.page;
+    bool replace = a.replace;
     if (replace && !strcmp(out, "-"))
         return cli_usage("init", "--replace needs -o FILE");
     char *text = ug_starter_layout_for(page, out);
@@ -119,7 +117,7 @@ int cli_init(int argc, char **argv)
         fputs("unitgram: error: out of memory\n", stderr);
         return EXIT_INPUT;
     }
-    int rc = !strcmp(out, "-") ? write_atomic(out, text)
+    rc = !strcmp(out, "-") ? write_atomic(out, text)
              : replace       ? replace_starter(out, text)
                              : write_starter(out, text);
     free(text);

@@ -6,6 +6,7 @@
 ** every count as counted, under a first line saying it is not for
 ** publication. Nothing is drawn and no file is written.
 */
+#include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -13,24 +14,30 @@
 
 #include "cli.h"
 
-static void help(FILE *to)
-{
-    fprintf(to,
-            "usage: unitgram tally LAYOUT [--format text|csv|json] [--internal]\n"
-            "\n"
-            "Print how the chart's counts become whole icons: per category the\n"
-            "count, the exact quota, the icons drawn, the value they show and the\n"
-            "difference from the count. Counts the chart hides (suppress, protect)\n"
-            "are shown as the chart shows them. LAYOUT '-' reads standard input.\n"
-            "\n"
-            "options:\n"
-            "  --format FORMAT       text (default), csv or json\n"
-            "  --internal            every count as counted, hidden ones included:\n"
-            "                        for the analyst only, never for publication\n"
-            "  --max-icons N, --max-input-bytes N   the limits, as for draw\n"
-            "  -h, --help            show this help\n"
-            "\n" CLI_EXIT_CODES);
-}
+typedef struct {
+    const char *format;
+    bool internal;
+} tally_args;
+
+static const cli_opt tally_opts[] = {
+    {"--format", NULL, "FORMAT", CLI_TEXT, offsetof(tally_args, format), 0, 0, 0,
+     "text (default), csv or json"},
+    {"--internal", NULL, NULL, CLI_FLAG, offsetof(tally_args, internal), 0, 0, 0,
+     "every count as counted, hidden ones included:\n"
+     "for the analyst only, never for publication"},
+    {"--max-icons", NULL, NULL, CLI_LIMITS, 0, 0, 0, 0, NULL},
+    {NULL, NULL, NULL, CLI_FLAG, 0, 0, 0, 0, NULL},
+};
+
+static const cli_command tally_command = {
+    "tally",
+    "usage: unitgram tally LAYOUT [--format text|csv|json] [--internal]\n"
+    "\n"
+    "Print how the chart's counts become whole icons: per category the\n"
+    "count, the exact quota, the icons drawn, the value they show and the\n"
+    "difference from the count. Counts the chart hides (suppress, protect)\n"
+    "are shown as the chart shows them. LAYOUT '-' reads standard input.\n",
+    tally_opts, 1};
 
 static int parse_format(const char *s, ug_report_format *fmt)
 {
@@ -43,11 +50,6 @@ static int parse_format(const char *s, ug_report_format *fmt)
     else
         return -1;
     return 0;
-}
-
-static int usage_error(const char *msg, const char *arg)
-{
-    return cli_usage("tally", "%s%s%s", msg, arg ? " " : "", arg ? arg : "");
 }
 
 /* The CSV report keeps every label byte for byte, which is right for a
@@ -97,37 +99,16 @@ static int run(const char *layout, ug_report_format fmt, bool internal)
 
 int cli_tally(int argc, char **argv)
 {
+    tally_args a = {"text", false};
     const char *layout = NULL;
+    size_t n = 0;
     ug_report_format fmt = UG_REPORT_TEXT;
-    bool internal = false;
-    for (int i = 1; i < argc; i++) {
-        const char *a = argv[i];
-        if (!strcmp(a, "-h") || !strcmp(a, "--help")) {
-            help(stdout);
-            return EXIT_OK;
-        }
-        int m = cli_limit_option("tally", argc, argv, &i);
-        if (m < 0)
-            return EXIT_USAGE;
-        if (m)
-            continue;
-        if (!strcmp(a, "--internal")) {
-            internal = true;
-        } else if (!strcmp(a, "--format") || !strncmp(a, "--format=", 9)) {
-            const char *v = a[8] == '=' ? a + 9 : i + 1 < argc ? argv[++i] : NULL;
-            if (!v)
-                return usage_error("--format needs a value", NULL);
-            if (parse_format(v, &fmt))
-                return usage_error("unknown format (text, csv or json):", v);
-        } else if (a[0] == '-' && a[1]) {
-            return usage_error("unknown option", a);
-        } else if (layout) {
-            return usage_error("only one layout file, found another:", a);
-        } else {
-            layout = a;
-        }
-    }
-    if (!layout)
-        return usage_error("missing the LAYOUT file", NULL);
-    return run(layout, fmt, internal);
+    int rc = cli_parse(&tally_command, &a, argc, argv, &layout, &n);
+    if (rc)
+        return rc < 0 ? EXIT_OK : rc;
+    if (parse_format(a.format, &fmt))
+        return cli_usage("tally", "--format is text, csv or json, not '%s'", a.format);
+    if (!n)
+        return cli_usage("tally", "missing the LAYOUT file");
+    return run(layout, fmt, a.internal);
 }
