@@ -79,8 +79,9 @@ UG_API const char *ug_status_name(ug_status st);
 /* ---- the context: where the library gets memory, files and glyphs ------ */
 
 /* A context holds what would otherwise be process-wide: the allocator, the
-** glyph roots, default limits, a hook reading files from memory and the
-** fault-injection counters of the tests. Every call made on a thread uses
+** glyph roots, default limits, a hook reading files from memory, the fonts
+** text is measured with (made on first use, released with the context) and
+** the fault-injection counters of the tests. Every call made on a thread uses
 ** the context bound to that thread (ug_context_use); a thread that binds
 ** none has its own default context (libc's allocator, the installed glyph
 ** folder, the UG_DEFAULT_* limits), so code that never names a context works

@@ -23,6 +23,8 @@ ug_context *ug_ctx(void) { return bound ? bound : &thread_default; }
 
 ug_context *ug_context_current(void) { return ug_ctx(); }
 
+ug_context *ug_ctx_bound(void) { return bound; }
+
 ug_context *ug_context_use(ug_context *ctx)
 {
     ug_context *before = bound;
@@ -188,6 +190,8 @@ void ug_context_free(ug_context *ctx)
         return;
     if (bound == ctx)
         bound = NULL;
+    if (ctx->fonts && ctx->free_fonts)
+        ctx->free_fonts(ctx->fonts);
     ug_alloc_fn alloc = ctx->alloc;
     void *ud = ctx->alloc_ud;
     if (alloc) {

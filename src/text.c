@@ -5,14 +5,16 @@
 ** font and the same settings gives the widths the renderer will draw: an
 ** absolute size in px (SVG font-size 16 == "DejaVu Sans 12" at 96 dpi), no
 ** metrics hinting, no rounding of glyph positions. The font map and context
-** are made on a thread's first use and kept for the life of the thread: font
-** set-up is the expensive part, and a batch of charts must pay it once.
+** are made on first use and kept, in the context the host bound or else for
+** the life of the thread: font set-up is the expensive part, and a batch of
+** charts must pay it once.
 */
 #include <pango/pangocairo.h>
 #include <limits.h>
 #include <pthread.h>
 #include <string.h>
 
+#include "context.h"
 #include "text.h"
 
 /* A font map and its contexts must not be shared between threads: since
@@ -56,9 +58,27 @@ static PangoContext *new_context(void)
     return ctx;
 }
 
+static void free_fonts(void *fonts) { g_object_unref(fonts); }
+
+/* A context the host bound owns its fonts, made on its first text and
+** released by ug_context_free; it is used on one thread at a time
+** (unitgram.h), as a pango context must be. */
+static PangoContext *bound_context(ug_context *c)
+{
+    if (!c->fonts) {
+        ug_init_libraries();
+        c->fonts = new_context();
+        c->free_fonts = free_fonts;
+    }
+    return c->fonts;
+}
+
 static PangoContext *this_thread_context(void)
 {
     static pthread_once_t key_once = PTHREAD_ONCE_INIT;
+    ug_context *bound = ug_ctx_bound();
+    if (bound)
+        return bound_context(bound);
     if (thread_context)
         return thread_context;
     ug_init_libraries();
