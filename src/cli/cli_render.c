@@ -53,8 +53,11 @@ static int draw_page(const cli_draw_opts *o, char ***inputs)
     size_t len = 0;
     int rc = EXIT_OK;
     ug_findings *f = NULL;
+    /* one glyph cache for the drawing and its audit: each glyph loads once */
+    ug_glyph_cache *cache = NULL;
     ug_pack_options popt = {.glyph_dirs = o->glyph_dirs, .nglyph_dirs = o->nglyph_dirs};
-    if (ug_page_load(o->layout, cli_limits(), &page, &err) ||
+    if (ug_glyph_cache_new(&cache, &err) || (popt.glyph_cache = cache, false) ||
+        ug_page_load(o->layout, cli_limits(), &page, &err) ||
         ug_page_draw_with(page, &popt, format_of(o), o->dpi > 0 ? o->dpi : 96,
                           o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
         ug_page_audit(page, &popt, &f, &err)) {
@@ -70,6 +73,7 @@ static int draw_page(const cli_draw_opts *o, char ***inputs)
         *inputs = ug_page_inputs(page);
     free(bytes);
     ug_page_free(page);
+    ug_glyph_cache_free(cache);
     return rc;
 }
 
