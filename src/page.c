@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "pack.h"
+#include "color.h"
 #include "page.h"
 #include "resolve.h"
 #include "svg.h"
@@ -524,9 +525,13 @@ static ug_status set_up(composer *k)
     const ug_chart *look = first ? first : &none;
     k->font = look->style.font;
     k->font_mark = look->style.font_mark;
-    k->ink = (scene_rgb){look->style.ink.r, look->style.ink.g, look->style.ink.b};
-    k->paper = (scene_rgb){(RESOLVE_BACKGROUND >> 16) & 255, (RESOLVE_BACKGROUND >> 8) & 255,
-                           RESOLVE_BACKGROUND & 255};
+    /* the sheet is white paper: a dark-themed chart's light ink would vanish */
+    ug_color ink = look->style.ink;
+    if (color_contrast(ink, none.style.background) < COLOR_WCAG_TEXT)
+        ink = none.style.ink;
+    k->ink = (scene_rgb){ink.r, ink.g, ink.b};
+    k->paper = (scene_rgb){none.style.background.r, none.style.background.g,
+                           none.style.background.b};
     k->r->charts = ug_calloc(n, sizeof *k->r->charts);
     k->r->allocs = ug_calloc(n, sizeof *k->r->allocs);
     k->scenes = ug_calloc(n, sizeof *k->scenes);

@@ -48,8 +48,22 @@ void resolve_defaults(ug_chart *c)
 ** WCAG 2.1 SC 1.4.11 against this chart's background come first, so a chart
 ** that names no colours passes the audit's contrast rule as far as its palette
 ** allows (Okabe-Ito on white: green, blue, vermillion, purple, then the rest). */
+/* Text the layout gives no colour follows the background: the default dark
+** ink, or a light one where that contrasts more (a dark theme), so text
+** meets WCAG 2.1 SC 1.4.3 without a second setting. */
+static void ink_follows_background(ug_chart *c)
+{
+    if (c->style.ink.mark.line)
+        return; /* the layout's own */
+    ug_color light = hex_color(RESOLVE_INK_ON_DARK);
+    if (color_contrast(light, c->style.background) >
+        color_contrast(c->style.ink, c->style.background))
+        c->style.ink = light;
+}
+
 void resolve_chart(ug_chart *c)
 {
+    ink_follows_background(c);
     size_t n = color_palette_size(c->style.palette), next = 0;
     ug_color order[16];
     for (int pass = 0; pass < 2; pass++)

@@ -11,6 +11,7 @@
 
 #define RESOLVE_FONT "DejaVu Sans"
 #define RESOLVE_INK 0x222222        /* text */
+#define RESOLVE_INK_ON_DARK 0xf2f2f2 /* text on a background the default fails on */
 #define RESOLVE_BACKGROUND 0xffffff
 #define RESOLVE_ICON_PX 24
 #define RESOLVE_GAP_PX 4
@@ -32,7 +33,8 @@ const resolve_small_preset *resolve_small_count_preset(const char *name);
 /* The values a chart has before its layout says otherwise (path, dir and
 ** limits are the caller's). */
 void resolve_defaults(ug_chart *c);
-/* After the layout is read: categories without a colour take the palette,
+/* After the layout is read: text without a colour follows the background
+** (light ink on a dark one); categories without a colour take the palette,
 ** in the order that puts colours reaching 3:1 against the background first. */
 void resolve_chart(ug_chart *c);
 

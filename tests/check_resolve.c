@@ -1,6 +1,7 @@
 /* Tests for src/resolve.c: the defaults a chart starts with, and the
 ** palette's colours for categories without one (contrast first). */
 #include <check.h>
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -96,6 +97,33 @@ START_TEST(test_palette_wraps)
 }
 END_TEST
 
+/* Text with no ink of its own follows the background: dark on light, light
+** on dark (whichever contrasts more, by the WCAG 2.1 formula of color.c); a
+** layout's own ink is kept even when it contrasts badly (the audit says so). */
+START_TEST(test_ink_follows_background)
+{
+    const unsigned backgrounds[] = {0xffffff, 0x1b2433, 0x000000, 0x767676, 0xf5e6c8};
+    for (size_t b = 0; b < 5; b++) {
+        ug_chart *c = bare_chart(1);
+        unsigned bg = backgrounds[b];
+        c->style.background = color_rgb((bg >> 16) & 255, (bg >> 8) & 255, bg & 255);
+        resolve_chart(c);
+        ug_color dark = color_rgb(0x22, 0x22, 0x22), light = color_rgb(0xf2, 0xf2, 0xf2);
+        double want = fmax(color_contrast(dark, c->style.background),
+                           color_contrast(light, c->style.background));
+        ck_assert_double_eq_tol(color_contrast(c->style.ink, c->style.background), want, 1e-12);
+        chart_done(c);
+    }
+    ug_chart *c = bare_chart(1);
+    c->style.background = color_rgb(0, 0, 0);
+    c->style.ink = color_rgb(0x11, 0x11, 0x11);
+    c->style.ink.mark = (ug_mark){"test.yaml", 4, 8};
+    resolve_chart(c);
+    ck_assert_int_eq(c->style.ink.r, 0x11);
+    chart_done(c);
+}
+END_TEST
+
 static Suite *resolve_suite(void)
 {
     Suite *s = suite_create("resolve");
@@ -103,6 +131,7 @@ static Suite *resolve_suite(void)
     tcase_add_test(t, test_defaults);
     tcase_add_test(t, test_palette_contrast_first);
     tcase_add_test(t, test_palette_wraps);
+    tcase_add_test(t, test_ink_follows_background);
     suite_add_tcase(s, t);
     return s;
 }

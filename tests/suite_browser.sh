@@ -55,12 +55,17 @@ shot() { # file, png, width, height
     [ -s "$2" ] || { fail "chromium wrote no screenshot of $1"; return 1; }
 }
 
-# The chart colours: every fill in the SVG except white, black and greys
-# (background, ink and text, which differ in text rasterization only).
+# The chart colours: every fill in the SVG except white, black and greys and
+# the chart's own background (its first rect's fill): background, ink and text,
+# whose areas differ by text rasterization only (light text on a dark theme
+# takes its pixels out of the background).
 colours() {
+    local bg
+    bg=$(grep -o '<rect width="[^"]*" height="[^"]*" fill="#[0-9a-fA-F]\{6\}"' "$1" | head -n 1 |
+         grep -o '#[0-9a-fA-F]\{6\}' | cut -c2- | tr 'A-F' 'a-f')
     grep -o 'fill="#[0-9a-fA-F]\{6\}"' "$1" | cut -c8-13 | tr 'A-F' 'a-f' | sort -u |
-        awk '{ r = substr($0,1,2); g = substr($0,3,2); b = substr($0,5,2);
-               if (!(r == g && g == b)) print }'
+        awk -v bg="$bg" '{ r = substr($0,1,2); g = substr($0,3,2); b = substr($0,5,2);
+               if (!(r == g && g == b) && $0 != bg) print }'
 }
 
 # Compare colour areas of librsvg's render (ours) and chromium's (theirs).
