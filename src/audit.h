@@ -12,13 +12,14 @@
 #ifndef UG_AUDIT_H
 #define UG_AUDIT_H
 
+#include "color.h"
 #include "model.h"
 
 /* The limit on categories is common practice, no source; the colour
 ** threshold is unitgram's own choice (see audit.c). The tolerance and the
 ** small-count threshold a chart starts with are resolve.h's. */
 #define AUDIT_MAX_CATEGORIES 7
-#define AUDIT_MIN_DELTA_E 8.0
+#define AUDIT_MIN_DELTA_E COLOR_MIN_DELTA_E
 
 /* Whether name is a rule audit.ignore may name. */
 bool audit_rule_known(const char *name);

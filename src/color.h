@@ -63,6 +63,10 @@ ug_status color_to_lab(const ug_color *in, size_t n, color_lab *out,
                        ug_error *err);
 /* CIEDE2000 with kL = kC = kH = 1 (cmsCIE2000DeltaE). */
 double color_delta_e00(color_lab x, color_lab y);
+/* Two category colours closer than this (CIEDE2000, under normal vision or
+** any simulated deficiency below) are confusable: unitgram's own threshold,
+** used by the palette (resolve.c) and the audit alike. */
+#define COLOR_MIN_DELTA_E 8.0
 
 /* ---- colour-vision deficiency ------------------------------------------- */
 

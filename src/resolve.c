@@ -43,11 +43,6 @@ void resolve_defaults(ug_chart *c)
     c->audit.small_count.v = RESOLVE_SMALL_COUNT * UG_DEC_SCALE;
 }
 
-/* Categories without a colour take the palette (src/color.c) in order,
-** wrapping around — but the colours that reach the 3:1 non-text contrast of
-** WCAG 2.1 SC 1.4.11 against this chart's background come first, so a chart
-** that names no colours passes the audit's contrast rule as far as its palette
-** allows (Okabe-Ito on white: green, blue, vermillion, purple, then the rest). */
 /* Text the layout gives no colour follows the background: the default dark
 ** ink, or a light one where that contrasts more (a dark theme), so text
 ** meets WCAG 2.1 SC 1.4.3 without a second setting. */
@@ -61,26 +56,81 @@ static void ink_follows_background(ug_chart *c)
         c->style.ink = light;
 }
 
-void resolve_chart(ug_chart *c)
+/* The palette as it is handed out on this background (at most 16): first
+** the colours that reach WCAG 2.1 SC 1.4.11's 3:1 against it, then the rest
+** shaded until they do (color_shade_for_contrast keeps their hue); a colour
+** that would be confusable with one already taken (CIEDE2000 under normal
+** vision and three simulated deficiencies, COLOR_MIN_DELTA_E) goes to the
+** end. Returns how many; 0 only when LittleCMS cannot run (out of memory). */
+static size_t safe_palette(const ug_chart *c, ug_color *order)
 {
-    ink_follows_background(c);
     size_t n = color_palette_size(c->style.palette), next = 0;
-    ug_color order[16];
+    ug_color cand[16];
+    ug_color bg = c->style.background;
     for (int pass = 0; pass < 2; pass++)
         for (size_t k = 0; k < n && k < 16; k++) {
-            ug_color col = color_palette_at(c->style.palette, k);
-            bool passes = color_contrast_passes(
-                color_contrast(col, c->style.background), COLOR_WCAG_NON_TEXT);
-            if (passes == (pass == 0))
-                order[next++] = col;
+            ug_color col = color_palette_at(c->style.palette, k), shade;
+            bool passes = color_contrast_passes(color_contrast(col, bg), COLOR_WCAG_NON_TEXT);
+            if (pass == 0 && passes)
+                cand[next++] = col;
+            else if (pass == 1 && !passes && color_shade_for_contrast(col, bg,
+                                                                     COLOR_WCAG_NON_TEXT,
+                                                                     &shade))
+                cand[next++] = shade;
         }
+    ug_color sim[16 * COLOR_VISION_COUNT];
+    color_lab lab[16 * COLOR_VISION_COUNT];
+    for (size_t v = 0; v < COLOR_VISION_COUNT; v++)
+        for (size_t k = 0; k < next; k++)
+            sim[v * next + k] = color_simulate(cand[k], (color_vision)v);
+    if (color_to_lab(sim, next * COLOR_VISION_COUNT, lab, NULL))
+        return 0;
+    size_t kept = 0, keep[16];
+    bool taken[16] = {false};
+    for (size_t k = 0; k < next; k++) {
+        bool apart = true;
+        for (size_t t = 0; t < kept && apart; t++)
+            for (size_t v = 0; v < COLOR_VISION_COUNT && apart; v++)
+                apart = color_delta_e00(lab[v * next + k], lab[v * next + keep[t]]) >=
+                        COLOR_MIN_DELTA_E;
+        if (apart)
+            order[kept] = cand[k], keep[kept++] = k, taken[k] = true;
+    }
+    /* more categories than safe colours: the confusable ones still differ for
+    ** most readers, which beats repeating a colour (the audit names the pair) */
+    for (size_t k = 0, n_all = kept; k < next; k++)
+        if (!taken[k])
+            order[n_all++] = cand[k];
+    return next;
+}
+
+/* Categories without a colour take the safe palette in order, wrapping
+** around only when there are more of them than safe colours (the audit then
+** says which two are confusable). */
+static ug_status assign_colors(ug_chart *c)
+{
+    size_t want = 0;
+    for (size_t i = 0; i < c->ncats; i++)
+        want += !c->cats[i].color_given;
+    if (!want)
+        return UG_OK; /* every colour given: no palette to work out */
+    ug_color order[16];
+    size_t n = safe_palette(c, order);
+    if (!n)
+        return ug_fail(NULL, UG_ENOMEM, ug_mark_file(c->path), "out of memory");
     for (size_t i = 0, used = 0; i < c->ncats; i++) {
         if (c->cats[i].color_given)
             continue;
-        ug_color col = order[used++ % next];
+        ug_color col = order[used++ % n];
         col.set = true;
         col.mark = c->cats[i].mark;
         c->cats[i].color = col;
     }
+    return UG_OK;
 }
 
+ug_status resolve_chart(ug_chart *c)
+{
+    ink_follows_background(c);
+    return assign_colors(c);
+}

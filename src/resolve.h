@@ -34,8 +34,10 @@ const resolve_small_preset *resolve_small_count_preset(const char *name);
 ** limits are the caller's). */
 void resolve_defaults(ug_chart *c);
 /* After the layout is read: text without a colour follows the background
-** (light ink on a dark one); categories without a colour take the palette,
-** in the order that puts colours reaching 3:1 against the background first. */
-void resolve_chart(ug_chart *c);
+** (light ink on a dark one); categories without a colour take the palette
+** as it is safe on that background: colours reaching 3:1 against it first,
+** then the others shaded to 3:1, none confusable with one taken before.
+** Fails only when out of memory (err not filled: the caller reports it). */
+ug_status resolve_chart(ug_chart *c);
 
 #endif

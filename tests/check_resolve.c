@@ -45,9 +45,29 @@ START_TEST(test_defaults)
 }
 END_TEST
 
-/* On any background, the categories take first every palette colour that
-** reaches WCAG 2.1 SC 1.4.11's 3:1 against it (as color_contrast computes
-** it, checked against the W3C formula in check_color), then the rest; a
+/* Lab of c under vision v, through LittleCMS (color.c, checked against
+** published sRGB -> CIELAB values in check_color). */
+static color_lab lab_of(ug_color c, color_vision v)
+{
+    ug_color sim = color_simulate(c, v);
+    color_lab out;
+    ck_assert_int_eq(color_to_lab(&sim, 1, &out, NULL), UG_OK);
+    return out;
+}
+
+static double min_delta_e(ug_color a, ug_color b)
+{
+    double d = INFINITY;
+    for (int v = 0; v < COLOR_VISION_COUNT; v++)
+        d = fmin(d, color_delta_e00(lab_of(a, (color_vision)v), lab_of(b, (color_vision)v)));
+    return d;
+}
+
+/* On any background every colour handed out reaches WCAG 2.1 SC 1.4.11's 3:1
+** against it (a palette colour that does not is shaded until it does), the
+** ones reaching it unshaded come first, and the leading colours are pairwise
+** apart by COLOR_MIN_DELTA_E (CIEDE2000) under normal vision and the three
+** simulated deficiencies, as the audit's confusable-colors rule asks; a
 ** category's own colour is kept and takes no palette slot. */
 static void check_order(unsigned bg, ug_palette pal)
 {
@@ -57,25 +77,34 @@ static void check_order(unsigned bg, ug_palette pal)
     c->style.palette = pal;
     c->cats[0].color_given = true;
     c->cats[0].color = color_rgb(1, 2, 3);
-    resolve_chart(c);
+    ck_assert_int_eq(resolve_chart(c), UG_OK);
     ck_assert(c->cats[0].color.r == 1 && c->cats[0].color.b == 3);
-    size_t passing = 0;
+    size_t passing = 0, apart = 1;
     for (size_t k = 0; k < n; k++)
         passing += color_contrast_passes(
             color_contrast(color_palette_at(pal, k), c->style.background),
             COLOR_WCAG_NON_TEXT);
     for (size_t i = 1; i <= n; i++) {
-        bool passes = color_contrast_passes(color_contrast(c->cats[i].color,
-                                                           c->style.background),
-                                            COLOR_WCAG_NON_TEXT);
-        ck_assert_msg(passes == (i <= passing), "category %zu on #%06x", i, bg);
-        for (size_t j = 1; j < i; j++) /* every palette colour once */
-            ck_assert(memcmp(&c->cats[i].color, &c->cats[j].color, 3) != 0);
+        const ug_color *col = &c->cats[i].color;
+        ck_assert_msg(color_contrast_passes(color_contrast(*col, c->style.background),
+                                            COLOR_WCAG_NON_TEXT),
+                      "category %zu on #%06x fails 3:1", i, bg);
+        bool unshaded = false;
+        for (size_t k = 0; k < n; k++)
+            unshaded = unshaded || color_equal(*col, color_palette_at(pal, k));
+        if (i <= passing)
+            ck_assert_msg(unshaded, "category %zu on #%06x: a passing colour was shaded", i, bg);
+        bool all_apart = true;
+        for (size_t j = 1; j < i; j++)
+            all_apart = all_apart && min_delta_e(*col, c->cats[j].color) >= COLOR_MIN_DELTA_E;
+        if (all_apart && apart == i - 1)
+            apart = i;
     }
+    ck_assert_msg(apart >= 3, "only %zu colours apart on #%06x", apart, bg);
     chart_done(c);
 }
 
-START_TEST(test_palette_contrast_first)
+START_TEST(test_palette_safe_order)
 {
     const unsigned backgrounds[] = {0xffffff, 0x000000, 0x1e2a38, 0xf5e6c8};
     for (size_t b = 0; b < 4; b++)
@@ -84,12 +113,27 @@ START_TEST(test_palette_contrast_first)
 }
 END_TEST
 
+/* Okabe-Ito on white hands out green, blue, vermillion and purple apart from
+** one another, and no colour under 3:1 (the fifth colour of the palette as
+** published, #E69F00, is 2.25:1 on white by the WCAG formula). */
+START_TEST(test_okabe_ito_on_white)
+{
+    ug_chart *c = bare_chart(5);
+    ck_assert_int_eq(resolve_chart(c), UG_OK);
+    for (size_t i = 0; i < 4; i++)
+        for (size_t j = 0; j < i; j++)
+            ck_assert(min_delta_e(c->cats[i].color, c->cats[j].color) >= COLOR_MIN_DELTA_E);
+    ck_assert(color_contrast(c->cats[4].color, c->style.background) >= 3.0);
+    chart_done(c);
+}
+END_TEST
+
 /* More categories than colours wrap around the same order. */
 START_TEST(test_palette_wraps)
 {
     size_t n = color_palette_size(UG_PALETTE_OKABE_ITO);
     ug_chart *c = bare_chart(2 * n);
-    resolve_chart(c);
+    ck_assert_int_eq(resolve_chart(c), UG_OK);
     for (size_t i = 0; i < n; i++)
         ck_assert(memcmp(&c->cats[i].color, &c->cats[i + n].color, 3) == 0);
     ck_assert_uint_eq(c->cats[n].color.mark.line, c->cats[n].mark.line);
@@ -107,7 +151,7 @@ START_TEST(test_ink_follows_background)
         ug_chart *c = bare_chart(1);
         unsigned bg = backgrounds[b];
         c->style.background = color_rgb((bg >> 16) & 255, (bg >> 8) & 255, bg & 255);
-        resolve_chart(c);
+        ck_assert_int_eq(resolve_chart(c), UG_OK);
         ug_color dark = color_rgb(0x22, 0x22, 0x22), light = color_rgb(0xf2, 0xf2, 0xf2);
         double want = fmax(color_contrast(dark, c->style.background),
                            color_contrast(light, c->style.background));
@@ -118,7 +162,7 @@ START_TEST(test_ink_follows_background)
     c->style.background = color_rgb(0, 0, 0);
     c->style.ink = color_rgb(0x11, 0x11, 0x11);
     c->style.ink.mark = (ug_mark){"test.yaml", 4, 8};
-    resolve_chart(c);
+    ck_assert_int_eq(resolve_chart(c), UG_OK);
     ck_assert_int_eq(c->style.ink.r, 0x11);
     chart_done(c);
 }
@@ -129,7 +173,8 @@ static Suite *resolve_suite(void)
     Suite *s = suite_create("resolve");
     TCase *t = tcase_create("resolve");
     tcase_add_test(t, test_defaults);
-    tcase_add_test(t, test_palette_contrast_first);
+    tcase_add_test(t, test_palette_safe_order);
+    tcase_add_test(t, test_okabe_ito_on_white);
     tcase_add_test(t, test_palette_wraps);
     tcase_add_test(t, test_ink_follows_background);
     suite_add_tcase(s, t);
