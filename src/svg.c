@@ -92,6 +92,15 @@ static void attr_unit(ug_buf *b, const char *name, double v, const char *unit)
 
 static void attr(ug_buf *b, const char *name, double v) { attr_unit(b, name, v, ""); }
 
+/* x="" y="" width="" height="" of a box */
+static void box_attrs(ug_buf *b, double x, double y, double w, double h)
+{
+    attr(b, "x", x);
+    attr(b, "y", y);
+    attr(b, "width", w);
+    attr(b, "height", h);
+}
+
 static void color(ug_buf *b, const char *name, scene_rgb c)
 {
     ug_buf_printf(b, " %s=\"#%02x%02x%02x\"", name, c.r, c.g, c.b);
@@ -141,10 +150,7 @@ static void defs(ug_buf *b, const ug_scene *s, const char *idp)
         if (ic->fraction >= 1.0)
             continue;
         ug_buf_printf(b, "<clipPath id=\"%sclip-%zu\"><rect", idp, clip++);
-        attr(b, "x", ic->x);
-        attr(b, "y", ic->y);
-        attr(b, "width", s->icon_size * ic->fraction);
-        attr(b, "height", s->icon_size);
+        box_attrs(b, ic->x, ic->y, s->icon_size * ic->fraction, s->icon_size);
         ug_buf_puts(b, "/></clipPath>\n");
     }
     ug_buf_puts(b, "</defs>\n");
@@ -172,10 +178,7 @@ static void boxes(ug_buf *b, const ug_scene *s)
         for (size_t i = 0; i < s->nrects; i++) {
             const scene_rect *r = &s->rects[i];
             ug_buf_puts(b, "<rect");
-            attr(b, "x", r->x);
-            attr(b, "y", r->y);
-            attr(b, "width", r->w);
-            attr(b, "height", r->h);
+            box_attrs(b, r->x, r->y, r->w, r->h);
             ug_buf_puts(b, "/>\n");
         }
         ug_buf_puts(b, "</g>\n");
@@ -188,10 +191,7 @@ static void boxes(ug_buf *b, const ug_scene *s)
     for (size_t i = 0; i < s->nholders; i++) {
         const scene_placeholder *h = &s->holders[i];
         ug_buf_puts(b, "<rect");
-        attr(b, "x", h->x + 0.5);
-        attr(b, "y", h->y + 0.5);
-        attr(b, "width", h->w - 1);
-        attr(b, "height", h->h - 1);
+        box_attrs(b, h->x + 0.5, h->y + 0.5, h->w - 1, h->h - 1);
         ug_buf_puts(b, "/>\n");
     }
     ug_buf_puts(b, "</g>\n");
@@ -247,10 +247,7 @@ static void svg_element(ug_buf *b, const ug_scene *s, const char *idp);
 static void child(ug_buf *b, const scene_child *c)
 {
     ug_buf_puts(b, "<svg");
-    attr(b, "x", c->x);
-    attr(b, "y", c->y);
-    attr(b, "width", c->crop_w);
-    attr(b, "height", c->crop_h);
+    box_attrs(b, c->x, c->y, c->crop_w, c->crop_h);
     ug_buf_puts(b, " viewBox=\"");
     num(b, c->crop_x);
     ug_buf_puts(b, " ");
