@@ -2,6 +2,7 @@
 ** on random layouts (fixed seed), checked by tests/data/draw/invariants.h. */
 #define _POSIX_C_SOURCE 200809L
 #include <check.h>
+#include <glob.h>
 #include <libxml/tree.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -407,6 +408,39 @@ START_TEST(test_xml_ids_one_per_category)
 }
 END_TEST
 
+/* Every example and test chart layout, as the loader reads it: no box
+** leaves the canvas, none overlaps another (text included), icons share one
+** size and match the allocation (data/draw/invariants.h). */
+START_TEST(test_example_layouts_invariants)
+{
+    glob_t g;
+    ck_assert_int_eq(glob("../layouts/*.yaml", 0, NULL, &g), 0);
+    glob("data/good/*.yaml", GLOB_APPEND, NULL, &g);
+    glob("data/draw/*.yaml", GLOB_APPEND, NULL, &g);
+    glob("data/audit/*.yaml", GLOB_APPEND, NULL, &g);
+    size_t checked = 0;
+    for (size_t k = 0; k < g.gl_pathc; k++) {
+        ug_error err = {0};
+        ug_chart *c = NULL;
+        if (ug_chart_load(g.gl_pathv[k], NULL, &c, &err) != UG_OK)
+            continue; /* a page file, or a layout meant to fail */
+        ug_allocation *a = NULL;
+        ug_scene *sc = NULL;
+        if (ug_chart_allocate(c, &a, &err) == UG_OK &&
+            ug_scene_pack(c, a, &sc, &err) == UG_OK) {
+            const char *bad = inv_check(c, a, sc);
+            ck_assert_msg(bad == NULL, "%s: %s", g.gl_pathv[k], bad);
+            checked++;
+        }
+        ug_scene_free(sc);
+        ug_allocation_free(a);
+        ug_chart_free(c);
+    }
+    globfree(&g);
+    ck_assert_uint_ge(checked, 30);
+}
+END_TEST
+
 static Suite *pack_suite(void)
 {
     Suite *s = suite_create("pack");
@@ -421,6 +455,7 @@ static Suite *pack_suite(void)
     tcase_add_test(t, test_cluster_gap);
     tcase_add_test(t, test_long_text_wraps_inside);
     tcase_add_test(t, test_random_layouts);
+    tcase_add_test(t, test_example_layouts_invariants);
     tcase_add_test(t, test_columns_honoured);
     tcase_add_test(t, test_each_allocation_fails_cleanly);
     tcase_add_test(t, test_xml_ids_one_per_category);
