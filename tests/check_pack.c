@@ -441,6 +441,59 @@ START_TEST(test_example_layouts_invariants)
 }
 END_TEST
 
+/* Whether word is a whole space-separated token of one of the scene's lines. */
+static bool word_whole(const ug_scene *sc, const char *word, size_t n)
+{
+    for (size_t t = 0; t < sc->ntexts; t++)
+        for (const char *p = sc->texts[t].text; (p = strstr(p, word)); p++) {
+            bool starts = p == sc->texts[t].text || p[-1] == ' ';
+            if (starts && (p[n] == ' ' || p[n] == '\0' || p[n] == ',' || p[n] == '.'))
+                return true;
+        }
+    return false;
+}
+
+/* Wrapping breaks lines at spaces only: every word of the title, subtitle and
+** category labels of every example stands whole on some line of its scene. */
+START_TEST(test_examples_break_no_word)
+{
+    glob_t g;
+    ck_assert_int_eq(glob("../layouts/*.yaml", 0, NULL, &g), 0);
+    size_t words = 0;
+    for (size_t k = 0; k < g.gl_pathc; k++) {
+        ug_error err = {0};
+        ug_chart *c = NULL;
+        if (ug_chart_load(g.gl_pathv[k], NULL, &c, &err) != UG_OK)
+            continue;
+        ug_allocation *a = NULL;
+        ug_scene *sc = NULL;
+        ck_assert(ug_chart_allocate(c, &a, &err) == UG_OK);
+        ck_assert_msg(ug_scene_pack(c, a, &sc, &err) == UG_OK, "%s", err.msg);
+        const char *texts[3 + 64] = {c->title.text, c->subtitle.text};
+        size_t nt = 2;
+        for (size_t i = 0; i < c->ncats && nt < 66; i++)
+            texts[nt++] = c->cats[i].label.text;
+        for (size_t t = 0; t < nt; t++)
+            for (const char *w = texts[t]; w && *w;) {
+                size_t n = strcspn(w, " ");
+                char word[128];
+                if (n > 0 && n < sizeof word) {
+                    snprintf(word, sizeof word, "%.*s", (int)n, w);
+                    ck_assert_msg(word_whole(sc, word, n), "%s: '%s' broken across lines",
+                                  g.gl_pathv[k], word);
+                    words++;
+                }
+                w += n + (w[n] == ' ');
+            }
+        ug_scene_free(sc);
+        ug_allocation_free(a);
+        ug_chart_free(c);
+    }
+    globfree(&g);
+    ck_assert_uint_ge(words, 40);
+}
+END_TEST
+
 static Suite *pack_suite(void)
 {
     Suite *s = suite_create("pack");
@@ -456,6 +509,7 @@ static Suite *pack_suite(void)
     tcase_add_test(t, test_long_text_wraps_inside);
     tcase_add_test(t, test_random_layouts);
     tcase_add_test(t, test_example_layouts_invariants);
+    tcase_add_test(t, test_examples_break_no_word);
     tcase_add_test(t, test_columns_honoured);
     tcase_add_test(t, test_each_allocation_fails_cleanly);
     tcase_add_test(t, test_xml_ids_one_per_category);
