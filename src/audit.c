@@ -37,6 +37,7 @@
 #include "glyph_cache.h"
 #include "resolve.h"
 #include "scene.h"
+#include "text.h"
 #include "color.h"
 
 struct ug_findings {
@@ -861,6 +862,54 @@ static ug_status check_glyph_weight(audit_ctx *x)
                AUDIT_MAX_INK_RATIO);
 }
 
+/* ---- text no font can draw ------------------------------------------------ */
+
+/* One finding per text holding characters no installed font can draw: they
+** would print as empty boxes, and a reader could not tell. */
+static ug_status undrawable_in(audit_ctx *x, const ug_text *t, const char *what)
+{
+    if (!t->text)
+        return UG_OK;
+    text_font f = {.family = x->c->style.font, .size = 16};
+    unsigned long cps[6];
+    size_t listed = 0;
+    if (!text_undrawable(&f, t->text, cps, 6, &listed))
+        return UG_OK;
+    char list[96] = "";
+    for (size_t i = 0; i < listed; i++)
+        snprintf(list + strlen(list), sizeof list - strlen(list), "%sU+%04lX",
+                 i ? ", " : "", cps[i]);
+    return add(x, t->mark.line ? t->mark : file_start(x->c),
+               "install a font that has them (Debian's fonts-noto-core, or "
+               "fonts-noto-cjk for Chinese, Japanese and Korean) or name one in "
+               "style.font",
+               "%s holds characters no installed font can draw (%s%s): they would "
+               "print as empty boxes", what, listed ? list : "past its first 512",
+               listed == 6 ? ", ..." : "");
+}
+
+static ug_status check_undrawable(audit_ctx *x)
+{
+    const ug_chart *c = x->c;
+    ug_status st = UG_OK;
+    const ug_text *heads[] = {&c->title, &c->subtitle, &c->unit_label};
+    const char *names[] = {"the title", "the subtitle", "the unit label"};
+    for (size_t i = 0; !st && i < 3; i++)
+        st = undrawable_in(x, heads[i], names[i]);
+    for (size_t i = 0; !st && i < c->ncats; i++) {
+        char what[300];
+        snprintf(what, sizeof what, "the note of '%s'", cat_name(c, i));
+        if (!(st = undrawable_in(x, &c->cats[i].label, "a category label")))
+            st = undrawable_in(x, &c->cats[i].note, what);
+    }
+    const ug_text_list *lists[] = {&c->groups, &c->notes, &c->source};
+    const char *list_names[] = {"a group name", "a note", "a source line"};
+    for (size_t k = 0; !st && k < 3; k++)
+        for (size_t i = 0; !st && i < lists[k]->n; i++)
+            st = undrawable_in(x, &lists[k]->items[i], list_names[k]);
+    return st;
+}
+
 /* ---- the audit ------------------------------------------------------------ */
 
 /* In the order findings are reported. */
@@ -889,6 +938,8 @@ static const audit_rule rules[] = {
     {"confusable-colors", UG_SEVERITY_WARNING, check_confusable,
      "CIEDE2000 under simulated colour-vision deficiency (REFERENCES.md §4, §5)"},
     {"glyph-weight", UG_SEVERITY_WARNING, check_glyph_weight, "common practice, no source"},
+    {"undrawable-text", UG_SEVERITY_WARNING, check_undrawable,
+     "common practice, no source: text must print as itself, not as empty boxes"},
     {"page-scale-mismatch", UG_SEVERITY_WARNING, NULL,
      "isotype: one scale for charts compared (REFERENCES.md §6)"},
 };

@@ -12,6 +12,7 @@
 #include <pango/pangocairo.h>
 #include <limits.h>
 #include <pthread.h>
+#include <stdio.h>
 #include <string.h>
 
 #include "context.h"
@@ -115,6 +116,40 @@ double text_width(const text_font *f, const char *s)
     pango_layout_get_extents(l, &ink, &logical);
     g_object_unref(l);
     return (double)logical.width / PANGO_SCALE;
+}
+
+static int unknown_glyphs(const text_font *f, const char *s)
+{
+    PangoLayout *l = layout_for(f, s);
+    int n = pango_layout_get_unknown_glyphs_count(l);
+    g_object_unref(l);
+    return n;
+}
+
+/* Naming the characters lays each one out alone, so only the first ones
+** are looked at: a hostile label of thousands stays quick. */
+#define UNDRAWABLE_SCAN 512
+
+size_t text_undrawable(const text_font *f, const char *s, unsigned long *cps, size_t max,
+                       size_t *listed)
+{
+    *listed = 0;
+    int total = s ? unknown_glyphs(f, s) : 0;
+    unsigned long cp;
+    size_t k, len = total > 0 ? strlen(s) : 0;
+    for (size_t seen_cps = 0; len && *listed < max && seen_cps < UNDRAWABLE_SCAN;
+         s += k, len -= k, seen_cps++) {
+        if (!(k = ug_utf8_decode(s, len, &cp)))
+            k = 1; /* text_clean has already refused invalid UTF-8 */
+        char one[8];
+        snprintf(one, sizeof one, "%.*s", (int)k, s);
+        bool seen = false;
+        for (size_t i = 0; i < *listed; i++)
+            seen = seen || cps[i] == cp;
+        if (!seen && cp != ' ' && unknown_glyphs(f, one))
+            cps[(*listed)++] = cp;
+    }
+    return total > 0 ? (size_t)total : 0;
 }
 
 void text_block_free(text_block *b)

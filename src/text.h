@@ -33,6 +33,11 @@ double text_width(const text_font *f, const char *s);
 ug_status text_wrap(const text_font *f, const char *s, double max_width,
                     text_block *out, ug_error *err);
 void text_block_free(text_block *b);
+/* How many glyphs of s no installed font can draw (pango would show each as
+** an empty box); the first of those characters, distinct, up to max of them
+** from the first 512 of s, into cps, and their number into *listed. */
+size_t text_undrawable(const text_font *f, const char *s, unsigned long *cps, size_t max,
+                       size_t *listed);
 /* A copy of s that is valid UTF-8 (a bad byte becomes U+FFFD), with every
 ** C0 and C1 control character and DEL but the newline turned into a space
 ** and every noncharacter (U+FDD0..U+FDEF, U+nFFFE, U+nFFFF) into U+FFFD:

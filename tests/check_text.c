@@ -186,6 +186,53 @@ START_TEST(test_clean)
 }
 END_TEST
 
+/* Whether any installed font covers code point cp, as fontconfig itself
+** answers (fc-list(1) with a charset pattern, fontconfig-bin). */
+static bool some_font_has(unsigned long cp)
+{
+    char cmd[96], line[512];
+    snprintf(cmd, sizeof cmd, "fc-list ':charset=%lx' family", cp);
+    FILE *f = popen(cmd, "r");
+    ck_assert_ptr_nonnull(f);
+    bool any = fgets(line, sizeof line, f) != NULL;
+    pclose(f);
+    return any;
+}
+
+/* text_undrawable agrees with fontconfig character by character: Latin,
+** accented Latin, Greek, Cyrillic, Arabic, Hebrew, CJK, an emoji and a
+** private-use character, each undrawable exactly when no font covers it. */
+START_TEST(test_undrawable_matches_fontconfig)
+{
+    static const char *const samples[] = {"A", "\xc3\xa9", "\xce\xb2", "\xd0\x96",
+                                          "\xd8\xb9", "\xd7\x90", "\xe4\xb8\xad",
+                                          "\xf0\x9f\x98\x80", "\xf4\x8f\xbf\xbd"};
+    text_font f = {.family = "DejaVu Sans", .size = 16};
+    size_t undrawable = 0;
+    for (size_t k = 0; k < sizeof samples / sizeof *samples; k++) {
+        unsigned long cp, got[2];
+        ug_utf8_decode(samples[k], strlen(samples[k]), &cp);
+        size_t listed = 0, n = text_undrawable(&f, samples[k], got, 2, &listed);
+        bool covered = some_font_has(cp);
+        ck_assert_msg((n == 0) == covered, "U+%04lX: %zu undrawable, fontconfig says %s",
+                      cp, n, covered ? "covered" : "not covered");
+        if (n) {
+            ck_assert_uint_eq(listed, 1);
+            ck_assert_uint_eq(got[0], cp);
+            undrawable++;
+        }
+    }
+    ck_assert_uint_ge(undrawable, 1); /* the private-use U+10FFFD at least */
+    /* distinct, in order, spaces not listed */
+    unsigned long got[4];
+    size_t listed = 0;
+    ck_assert_uint_eq(text_undrawable(&f, "a \xf4\x8f\xbf\xbd b \xf4\x8f\xbf\xbd", got, 4,
+                                      &listed), 2);
+    ck_assert_uint_eq(listed, 1);
+    ck_assert_uint_eq(text_undrawable(&f, "plain text", got, 4, &listed), 0);
+}
+END_TEST
+
 static Suite *text_suite(void)
 {
     Suite *s = suite_create("text");
@@ -194,6 +241,7 @@ static Suite *text_suite(void)
     tcase_add_test(t, test_points_and_pixels);
     tcase_add_test(t, test_wrap_keeps_words_and_width);
     tcase_add_test(t, test_family_must_be_installed);
+    tcase_add_test(t, test_undrawable_matches_fontconfig);
     tcase_add_loop_test(t, test_clean, 0, sizeof cleans / sizeof cleans[0]);
     suite_add_tcase(s, t);
     return s;
