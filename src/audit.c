@@ -760,7 +760,13 @@ static ug_status replacement(audit_ctx *x, size_t j, char *fix, size_t n)
 /* Category j against every earlier one: one finding for its closest pair,
 ** so a long chart gives at most one finding (and one palette search) per
 ** category. */
-static ug_status confusable_with_earlier(audit_ctx *x, const color_lab *lab, size_t j)
+/* A replacement colour is searched for the first pairs only: each search
+** converts every category colour again, and a chart with this many
+** confusable pairs needs grouping (too-many-categories) more than colours. */
+#define AUDIT_MAX_COLOR_FIXES 32
+
+static ug_status confusable_with_earlier(audit_ctx *x, const color_lab *lab, size_t j,
+                                         size_t *fixes)
 {
     size_t n = x->c->ncats, worst = 0, other = 0;
     double d = INFINITY;
@@ -772,8 +778,9 @@ static ug_status confusable_with_earlier(audit_ctx *x, const color_lab *lab, siz
         }
     if (d >= AUDIT_MIN_DELTA_E)
         return UG_OK;
-    char fix[160], hi[8], hj[8];
-    ug_status st = replacement(x, j, fix, sizeof fix);
+    char fix[160] = "", hi[8], hj[8];
+    ug_status st = (*fixes)++ < AUDIT_MAX_COLOR_FIXES ? replacement(x, j, fix, sizeof fix)
+                                                      : UG_OK;
     if (st)
         return st;
     return add(x, color_mark(x->c, j),
@@ -789,8 +796,9 @@ static ug_status check_confusable(audit_ctx *x)
 {
     color_lab *lab;
     ug_status st = category_labs(x, &lab);
+    size_t fixes = 0;
     for (size_t j = 1; !st && j < x->c->ncats; j++)
-        st = confusable_with_earlier(x, lab, j);
+        st = confusable_with_earlier(x, lab, j, &fixes);
     ug_free(lab);
     return st;
 }
@@ -872,8 +880,8 @@ static ug_status undrawable_in(audit_ctx *x, const ug_text *t, const char *what)
         return UG_OK;
     text_font f = {.family = x->c->style.font, .size = 16};
     unsigned long cps[6];
-    size_t listed = 0;
-    if (!text_undrawable(&f, t->text, cps, 6, &listed))
+    size_t listed = 0, found = text_undrawable(&f, t->text, cps, 6, &listed);
+    if (!found)
         return UG_OK;
     char list[96] = "";
     for (size_t i = 0; i < listed; i++)
@@ -884,8 +892,7 @@ static ug_status undrawable_in(audit_ctx *x, const ug_text *t, const char *what)
                "fonts-noto-cjk for Chinese, Japanese and Korean) or name one in "
                "style.font",
                "%s holds characters no installed font can draw (%s%s): they would "
-               "print as empty boxes", what, listed ? list : "past its first 512",
-               listed == 6 ? ", ..." : "");
+               "print as empty boxes", what, list, found > listed ? ", ..." : "");
 }
 
 static ug_status check_undrawable(audit_ctx *x)

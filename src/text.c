@@ -126,30 +126,41 @@ static int unknown_glyphs(const text_font *f, const char *s)
     return n;
 }
 
-/* Naming the characters lays each one out alone, so only the first ones
-** are looked at: a hostile label of thousands stays quick. */
+/* Each distinct character beyond ASCII is laid out alone, once: a label of
+** thousands of letters costs a byte scan, and only the first 512 distinct
+** characters are looked at, so a hostile one stays quick. ASCII is taken as
+** drawable: the fonts make deps installs (DejaVu) cover it. */
 #define UNDRAWABLE_SCAN 512
 
 size_t text_undrawable(const text_font *f, const char *s, unsigned long *cps, size_t max,
                        size_t *listed)
 {
+    unsigned long seen[UNDRAWABLE_SCAN];
+    size_t nseen = 0, found = 0, k;
     *listed = 0;
-    int total = s ? unknown_glyphs(f, s) : 0;
     unsigned long cp;
-    size_t k, len = total > 0 ? strlen(s) : 0;
-    for (size_t seen_cps = 0; len && *listed < max && seen_cps < UNDRAWABLE_SCAN;
-         s += k, len -= k, seen_cps++) {
+    for (size_t len = s ? strlen(s) : 0; len && nseen < UNDRAWABLE_SCAN; s += k, len -= k) {
+        if ((unsigned char)*s < 0x80) {
+            k = 1;
+            continue;
+        }
         if (!(k = ug_utf8_decode(s, len, &cp)))
             k = 1; /* text_clean has already refused invalid UTF-8 */
+        bool again = false;
+        for (size_t i = 0; i < nseen && !again; i++)
+            again = seen[i] == cp;
+        if (again)
+            continue;
+        seen[nseen++] = cp;
         char one[8];
         snprintf(one, sizeof one, "%.*s", (int)k, s);
-        bool seen = false;
-        for (size_t i = 0; i < *listed; i++)
-            seen = seen || cps[i] == cp;
-        if (!seen && cp != ' ' && unknown_glyphs(f, one))
+        if (!unknown_glyphs(f, one))
+            continue;
+        if (*listed < max)
             cps[(*listed)++] = cp;
+        found++;
     }
-    return total > 0 ? (size_t)total : 0;
+    return found;
 }
 
 void text_block_free(text_block *b)

@@ -33,9 +33,9 @@ double text_width(const text_font *f, const char *s);
 ug_status text_wrap(const text_font *f, const char *s, double max_width,
                     text_block *out, ug_error *err);
 void text_block_free(text_block *b);
-/* How many glyphs of s no installed font can draw (pango would show each as
-** an empty box); the first of those characters, distinct, up to max of them
-** from the first 512 of s, into cps, and their number into *listed. */
+/* How many distinct characters of s no installed font can draw (pango would
+** show each as an empty box), among the first 512 distinct ones beyond ASCII;
+** the first max of them into cps, in order, and their number into *listed. */
 size_t text_undrawable(const text_font *f, const char *s, unsigned long *cps, size_t max,
                        size_t *listed);
 /* A copy of s that is valid UTF-8 (a bad byte becomes U+FFFD), with every
