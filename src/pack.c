@@ -21,6 +21,7 @@
 
 #include "glyph_cache.h"
 #include "pack.h"
+#include "phrase.h"
 #include "text.h"
 
 #define MARGIN PACK_MARGIN
@@ -551,8 +552,16 @@ static void rows_category(packer *p, const rows_frame *f, rows_cursor *cur,
         slots = slots > f->cols ? f->cols : slots;
         if (cur->k > 0 && cur->k + slots > f->cols)
             new_line(p, f, cur);
-        put_holder(p, slot_x(p, f->x0, cur->k), cur->top + (f->line_h - p->holder_h) / 2,
-                   i, g, pack_placeholder(p->a, sh->status));
+        ug_buf label;
+        ug_buf_init(&label);
+        pack_placeholder(p->a, sh->status, &label);
+        ug_buf_add(&label, "", 1);
+        if (label.failed)
+            fail(p, UG_ENOMEM);
+        else
+            put_holder(p, slot_x(p, f->x0, cur->k),
+                       cur->top + (f->line_h - p->holder_h) / 2, i, g, label.data);
+        ug_buf_free(&label);
         cur->k += slots;
         cur->fresh = false;
         return;
@@ -787,7 +796,7 @@ static void pack_foot_texts(packer *p)
 {
     ug_buf b;
     ug_buf_init(&b);
-    pack_value_statement(p->c, p->a, "=", &b);
+    pack_value_statement(p->c, p->a, true, &b);
     if (p->a->cat_icons) {
         ug_buf_puts(&b, ". ");
         pack_totals_note(p->a, &b);
@@ -809,7 +818,7 @@ static void pack_foot_texts(packer *p)
         put_block(p, p->c->notes.items[i].text, SMALL_PX, false, 6, NULL);
     if (p->c->source.n) {
         ug_buf_init(&b);
-        ug_buf_puts(&b, "Source: ");
+        ug_buf_puts(&b, phrase_text(pack_lang(p->c), PH_SOURCE));
         for (size_t i = 0; i < p->c->source.n; i++)
             ug_buf_printf(&b, "%s%s", i ? "; " : "", p->c->source.items[i].text);
         ts = put_buf(p, &b, p->left, p->y + 4, content_width(p), SMALL_PX, false,
@@ -935,10 +944,20 @@ static void setup_holder(packer *p)
     if (!t->nhidden)
         return;
     p->holders = true;
-    const char *labels[] = {t->small_label, t->other_label};
+    const pub_status kinds[] = {PUB_SMALL, PUB_COMPLEMENT};
     for (size_t k = 0; k < 2; k++) {
-        text_size ts = put_text(p, labels[k], 0, 0, 0, HOLDER_PX, false, SCENE_START,
+        ug_buf label;
+        ug_buf_init(&label);
+        pack_placeholder(p->a, kinds[k], &label);
+        ug_buf_add(&label, "", 1);
+        if (label.failed) {
+            fail(p, UG_ENOMEM);
+            ug_buf_free(&label);
+            return;
+        }
+        text_size ts = put_text(p, label.data, 0, 0, 0, HOLDER_PX, false, SCENE_START,
                                 false);
+        ug_buf_free(&label);
         p->holder_w = fmax(p->holder_w, ts.w + 12);
         p->holder_h = fmax(p->holder_h, fmax(p->size, ts.line + 8));
     }
