@@ -17,6 +17,7 @@
 #include "alloc.h"
 #include "layout.h"
 #include "raster.h"
+#include "phrase.h"
 #include "svg.h"
 
 /* ---- the SVG ------------------------------------------------------------- */
@@ -103,9 +104,19 @@ static void body_row(ug_buf *b, const ug_allocation *a, size_t g, size_t i)
                   short_number(s->shown_num, s->shown_den * UG_DEC_SCALE, shown));
 }
 
-static void table(ug_buf *b, const ug_allocation *a)
+/* A handout may hold charts in two languages: a table in another language
+** than the page says which. */
+static void table(ug_buf *b, const ug_allocation *a, const ug_chart *first)
 {
-    ug_buf_puts(b, "<table>\n");
+    const char *lang = a->chart->lang.text, *page = first ? first->lang.text : NULL;
+    char tag[64];
+    ug_buf_puts(b, "<table");
+    if (lang && (!page || strcmp(lang, page))) {
+        ug_buf_puts(b, " lang=\"");
+        svg_escape_text(b, phrase_tag(lang, tag, sizeof tag));
+        ug_buf_printf(b, "\" dir=\"%s\"", phrase_dir(lang));
+    }
+    ug_buf_puts(b, ">\n");
     caption(b, a);
     head_row(b, a->chart->groups.n > 0);
     ug_buf_puts(b, "<tbody>\n");
@@ -152,9 +163,20 @@ static double svg_width_px(const char *svg, size_t len)
 /* The page is as wide as its picture (or 60em, whichever is more), so a
 ** wide chart is shown at its own size, icons unscaled; a narrow screen
 ** still shrinks it (svg max-width 100%). */
-static void page_head(ug_buf *b, const char *title, double picture_px)
+/* lang and dir from the first chart's `lang` (FORMAT.md §6); a chart that
+** states none keeps the page as it always was, lang="en" alone. */
+static void page_head(ug_buf *b, const ug_chart *first, const char *title,
+                      double picture_px)
 {
-    ug_buf_puts(b, "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n"
+    char tag[64];
+    ug_buf_puts(b, "<!DOCTYPE html>\n<html lang=\"");
+    if (first && first->lang.text) {
+        svg_escape_text(b, phrase_tag(first->lang.text, tag, sizeof tag));
+        ug_buf_printf(b, "\" dir=\"%s", phrase_dir(first->lang.text));
+    } else {
+        ug_buf_puts(b, PHRASE_DEFAULT_LANG);
+    }
+    ug_buf_puts(b, "\">\n<head>\n"
                    "<meta charset=\"utf-8\"/>\n"
                    "<meta name=\"viewport\" content=\"width=device-width\"/>\n"
                    "<title>");
@@ -188,7 +210,7 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
         description = first->description.text;
     ug_buf b;
     ug_buf_init(&b);
-    page_head(&b, title, svg_width_px(svg + at, svg_len - at));
+    page_head(&b, first, title, svg_width_px(svg + at, svg_len - at));
     ug_buf_puts(&b, "<figure>\n");
     ug_buf_add(&b, svg + at, svg_len - at);
     ug_buf_puts(&b, "\n</figure>\n");
@@ -198,7 +220,7 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
         ug_buf_puts(&b, "</p>\n");
     }
     for (size_t k = 0; k < nallocs; k++)
-        table(&b, allocs[k]);
+        table(&b, allocs[k], first);
     ug_buf_puts(&b, "</main>\n</body>\n</html>\n");
     return ug_buf_take(&b, out, len, err);
 }

@@ -997,6 +997,8 @@ static void setup(packer *p)
     p->pitch = p->size + p->gap;
     s->icon_size = p->size;
     s->font = ug_arena_strdup(&s->arena, c->style.font);
+    if (c->lang.text && !(s->lang = ug_arena_strdup(&s->arena, c->lang.text)))
+        fail(p, UG_ENOMEM);
     s->background = rgb_of(c->style.background);
     s->ink = rgb_of(c->style.ink);
     char *title = text_clean(c->title.text ? c->title.text : "Unit chart");

@@ -117,6 +117,11 @@ static void root_attributes(ug_buf *b, const ug_scene *s, const char *idp)
                      " font-family=\"", s->sheet ? "" : " role=\"img\"", idp, name, idp,
                   name);
     svg_escape(b, s->font);
+    if (s->lang) {
+        /* the language readers and screen readers use for the text */
+        ug_buf_puts(b, "\" xml:lang=\"");
+        svg_escape(b, s->lang);
+    }
     ug_buf_printf(b, "\">\n<title id=\"%s%s-title\">", idp, name);
     svg_escape(b, s->title);
     ug_buf_printf(b, "</title>\n<desc id=\"%s%s-desc\">", idp, name);
