@@ -122,11 +122,14 @@ void pack_disclosure_notes(const ug_allocation *a, ug_buf *b)
     if (t->rounded)
         ug_buf_printf(b, "Counts are rounded to multiples of %s to protect privacy. ",
                       phrase_number(lang, t->round_to, 0, n));
-    if (any_status(t, PUB_SMALL) && t->below.v > 0)
-        ug_buf_printf(b, "Counts of %s%s%s%s are not shown (\u201c%s\u201d). ",
+    if (any_status(t, PUB_SMALL) && t->below.v > 0) {
+        ug_buf_printf(b, "Counts of %s%s%s%s are not shown (\u201c",
                       t->zeros_hidden ? "0 to " : "1 to ",
                       phrase_number(lang, (ug_dec){t->below.v - UG_DEC_SCALE}, 0, n),
-                      unit ? " " : "", unit ? unit : "", t->small_label);
+                      unit ? " " : "", unit ? unit : "");
+        pack_placeholder(a, PUB_SMALL, b);
+        ug_buf_puts(b, "\u201d). ");
+    }
     if (any_status(t, PUB_COMPLEMENT))
         ug_buf_printf(b, "Some larger counts are not shown either (\u201c%s\u201d), so "
                          "that the small ones cannot be worked out from totals. ",
@@ -427,7 +430,7 @@ static void sentence(ug_buf *b, const char *lang, const char *text)
 {
     size_t n = strlen(text);
     if (b->len)
-        ug_buf_puts(b, " ");
+        ug_buf_puts(b, phrase_text(lang, PH_SPACE));
     ug_buf_puts(b, text);
     if (n && !ends_sentence(text, n))
         ug_buf_puts(b, phrase_text(lang, PH_STOP));
@@ -463,7 +466,7 @@ static void cell_phrase(const ug_chart *c, const ug_allocation *a, size_t g,
         return;
     }
     pack_count_phrase(c, s->count, b);
-    ug_buf_puts(b, " ");
+    ug_buf_puts(b, phrase_text(pack_lang(c), PH_SPACE));
     icons_phrase(c, s, b);
 }
 
@@ -480,7 +483,7 @@ static void group_sentence(const ug_chart *c, const ug_allocation *a, size_t g,
     ug_buf_add(&total, "", 1);
     ug_buf_add(&change, "", 1);
     if (!total.failed && !change.failed) {
-        ug_buf_puts(b, " ");
+        ug_buf_puts(b, phrase_text(lang, PH_SPACE));
         phrase_say(b, lang, PH_GROUP_LEAD, (phrase_slot[]){
             {"group", c->groups.items[g].text}, {"total", total.data},
             {"change", change.data}, {NULL, NULL}});
@@ -562,18 +565,18 @@ void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b)
     opening(c, b);
     if (c->subtitle.text)
         sentence(b, lang, c->subtitle.text);
-    ug_buf_puts(b, " ");
+    ug_buf_puts(b, phrase_text(lang, PH_SPACE));
     pack_value_statement(c, a, false, b);
     ug_buf_puts(b, phrase_text(lang, PH_STOP));
     if (a->cat_icons) {
-        ug_buf_puts(b, " ");
+        ug_buf_puts(b, phrase_text(lang, PH_SPACE));
         pack_totals_note(a, b);
         ug_buf_puts(b, phrase_text(lang, PH_STOP));
     }
     for (size_t g = 0; c->groups.n && g < c->groups.n; g++)
         group_sentence(c, a, g, b);
     for (size_t i = 0; !c->groups.n && i < c->ncats; i++) {
-        ug_buf_puts(b, " ");
+        ug_buf_puts(b, phrase_text(lang, PH_SPACE));
         cell_phrase(c, a, 0, i, phrase_text(lang, PH_LABEL_SEP), b);
         ug_buf_puts(b, phrase_text(lang, PH_STOP));
     }

@@ -35,6 +35,7 @@ typedef enum {
     PH_KIND_WAFFLE,
     PH_KIND_TITLE,  /* {kind}: {title} */
     PH_STOP,        /* the full stop ending a sentence */
+    PH_SPACE,       /* between sentences, and before "(12 icons)" */
     PH_LIST_SEP,    /* ", " between the items of a list */
     PH_LABEL_SEP,   /* ": " between a label and its count */
     PH_GROUP_LEAD,  /* {group}, {total} in all{change}: */

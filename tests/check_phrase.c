@@ -1,0 +1,207 @@
+/* Tests for src/phrase.c and the words it gives the description, the key
+** and the web page (FORMAT.md §6). The expected sentences are written out by
+** hand for each shipped language: the catalog's wording (src/phrase_catalog.c)
+** with numbers as CLDR writes them (REFERENCES.md §14: the decimal sign and
+** grouping of each language, Spanish and Polish leaving four-digit numbers
+** ungrouped, Arabic-Indic digits for ar) and CLDR plural rules (Polish 124
+** and 22 are "few", 10 is "many"; Arabic 124 is "many", 2 is "two").
+**
+** The chart: icon-value 10, A = 1234.5, B = 22, total 1256.5 -> 126 icons
+** (round half up of 125.65); quotas 123.45 and 2.2, whole parts 123 + 2, the
+** leftover icon to the larger remainder (.45): A 124 icons, B 2. */
+#define _POSIX_C_SOURCE 200809L
+#include <check.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "model.h"
+#include "phrase.h"
+#include "check_run.h"
+
+typedef struct {
+    const char *lang, *unit, *desc, *key, *html;
+} lang_case;
+
+static const lang_case cases[] = {
+    {"en", "{one: person, other: people}",
+     "Pictogram chart: T. Each icon is 10 people. A: 1,234.5 people (124 icons). "
+     "B: 22 people (2 icons).",
+     "Each icon = 10 people", "<html lang=\"en\" dir=\"ltr\">"},
+    {"es", "personas",
+     "Gráfico de pictogramas: T. Cada icono equivale a 10 personas. "
+     "A: 1234,5 personas (124 iconos). B: 22 personas (2 iconos).",
+     "Cada icono = 10 personas", "<html lang=\"es\" dir=\"ltr\">"},
+    {"fr", "personnes",
+     "Graphique à pictogrammes\u00a0: T. Chaque icône représente 10 personnes. "
+     "A\u00a0: 1\u202f234,5 personnes (124 icônes). B\u00a0: 22 personnes (2 icônes).",
+     "Chaque icône = 10 personnes", "<html lang=\"fr\" dir=\"ltr\">"},
+    {"de", "Personen",
+     "Piktogrammdiagramm: T. Jedes Symbol steht für 10 Personen. "
+     "A: 1.234,5 Personen (124 Symbole). B: 22 Personen (2 Symbole).",
+     "Jedes Symbol = 10 Personen", "<html lang=\"de\" dir=\"ltr\">"},
+    {"pt-BR", "pessoas",
+     "Gráfico de pictogramas: T. Cada ícone equivale a 10 pessoas. "
+     "A: 1.234,5 pessoas (124 ícones). B: 22 pessoas (2 ícones).",
+     "Cada ícone = 10 pessoas", "<html lang=\"pt-BR\" dir=\"ltr\">"},
+    {"pl", "{one: osoba, few: osoby, many: osób, other: osoby}",
+     "Wykres piktogramowy: T. Każda ikona oznacza 10 osób. "
+     "A: 1234,5 osoby (124 ikony). B: 22 osoby (2 ikony).",
+     "Każda ikona = 10 osób", "<html lang=\"pl\" dir=\"ltr\">"},
+    {"ar", "شخص",
+     "مخطط بالرموز: T. كل رمز يمثل ١٠ شخص. A: ١٬٢٣٤٫٥ شخص (١٢٤ رمزًا). "
+     "B: ٢٢ شخص (رمزان).",
+     "كل رمز = ١٠ شخص", "<html lang=\"ar\" dir=\"rtl\">"},
+    {"zh-Hans", "人",
+     "象形图：T。每个图标代表 10 人。A：1,234.5 人（124 个图标）。B：22 人（2 个图标）。",
+     "每个图标 = 10 人", "<html lang=\"zh-Hans\" dir=\"ltr\">"},
+};
+
+static ug_chart *load(const char *lang, const char *unit)
+{
+    char text[512];
+    snprintf(text, sizeof text,
+             "lang: %s\ntitle: T\nunit-label: %s\nicon-value: 10\ncategories:\n"
+             "  - {label: A, glyph: person, count: 1234.5}\n"
+             "  - {label: B, glyph: person, count: 22}\n", lang, unit);
+    ug_chart *c = NULL;
+    ug_error err;
+    ck_assert_msg(ug_chart_load_string(text, strlen(text), "t.yaml", NULL, &c, &err) == UG_OK,
+                  "%s", err.msg);
+    return c;
+}
+
+START_TEST(test_description_key_and_page)
+{
+    const lang_case *k = &cases[_i];
+    ug_chart *c = load(k->lang, k->unit);
+    ug_allocation *a = NULL;
+    ug_scene *s = NULL;
+    ug_error err;
+    char *desc = NULL, *svg = NULL, *html = NULL;
+    size_t svg_len = 0;
+    ck_assert_int_eq(ug_chart_allocate(c, &a, &err), UG_OK);
+    ck_assert_int_eq(ug_chart_describe(c, a, &desc, NULL, &err), UG_OK);
+    ck_assert_str_eq(desc, k->desc);
+    ck_assert_int_eq(ug_scene_pack(c, a, &s, &err), UG_OK);
+    ck_assert_int_eq(ug_scene_svg(s, &svg, &svg_len, &err), UG_OK);
+    ck_assert_msg(strstr(svg, k->key), "%s: no key '%s' in the SVG", k->lang, k->key);
+    char xml_lang[64];
+    snprintf(xml_lang, sizeof xml_lang, "xml:lang=\"%s\"", k->lang);
+    ck_assert_msg(strstr(svg, xml_lang), "%s: no %s", k->lang, xml_lang);
+    const ug_allocation *allocs[] = {a};
+    ck_assert_int_eq(ug_html_page(NULL, svg, svg_len, desc, allocs, 1, &html, NULL, &err),
+                     UG_OK);
+    ck_assert_msg(strstr(html, k->html), "%s: %.80s", k->lang, html);
+    ug_free(html);
+    ug_free(svg);
+    ug_free(desc);
+    ug_scene_free(s);
+    ug_allocation_free(a);
+    ug_chart_free(c);
+}
+END_TEST
+
+/* English picks the form too: "1 person", never "1 people". */
+START_TEST(test_english_one_person)
+{
+    const char *text = "title: T\nunit-label: {one: person, other: people}\n"
+                       "icon-value: 1\ncategories:\n  - {label: A, count: 1}\n";
+    ug_chart *c = NULL;
+    ug_allocation *a = NULL;
+    ug_error err;
+    char *d = NULL;
+    ck_assert_int_eq(ug_chart_load_string(text, strlen(text), "t.yaml", NULL, &c, &err),
+                     UG_OK);
+    ck_assert_int_eq(ug_chart_allocate(c, &a, &err), UG_OK);
+    ck_assert_int_eq(ug_chart_describe(c, a, &d, NULL, &err), UG_OK);
+    ck_assert_str_eq(d, "Pictogram chart: T. Each icon is 1 person. A: 1 person (1 icon).");
+    ug_free(d);
+    ug_allocation_free(a);
+    ug_chart_free(c);
+}
+END_TEST
+
+/* A page's lang reaches the panels that state none, and only those. */
+START_TEST(test_page_lang_reaches_panels)
+{
+    const char *text =
+        "page: {size: A4}\nlang: de\ntitle: P\npanels:\n"
+        "  - chart: {title: A, icon-value: 1, categories: [{label: X, count: 3}]}\n"
+        "  - chart: {lang: fr, title: B, icon-value: 1, categories: [{label: Y, count: 4}]}\n";
+    ug_page *p = NULL;
+    ug_error err;
+    ck_assert_msg(ug_page_load_string(text, strlen(text), "p.yaml", NULL, &p, &err) == UG_OK,
+                  "%s", err.msg);
+    ck_assert_str_eq(p->panels[0].chart->lang.text, "de");
+    ck_assert_str_eq(p->panels[1].chart->lang.text, "fr");
+    ug_page_free(p);
+}
+END_TEST
+
+/* A page's tag is checked where it is written, as a chart's is. */
+START_TEST(test_page_lang_error_at_its_place)
+{
+    const char *text = "page: {size: A4}\ntitle: P\nlang: zh-TW\npanels:\n"
+                       "  - text: hello\n";
+    ug_page *p = NULL;
+    ug_error err;
+    ck_assert_int_eq(ug_page_load_string(text, strlen(text), "p.yaml", NULL, &p, &err),
+                     UG_ESCHEMA);
+    ck_assert_uint_eq(err.where.line, 3);
+    ck_assert_uint_eq(err.where.column, 7);
+    ck_assert_msg(strstr(err.msg, "zh-TW has no translation yet"), "%s", err.msg);
+}
+END_TEST
+
+/* The catalog's plural forms: the form ICU names, else `other`. */
+START_TEST(test_pick_form)
+{
+    ug_buf b;
+    ug_buf_init(&b);
+    phrase_pick_form("one=a|few=b|other=c", "few", &b);
+    phrase_pick_form("one=a|few=b|other=c", "many", &b);
+    phrase_pick_form("{each} = x", "one", &b);
+    ug_buf_add(&b, "", 1);
+    ck_assert_str_eq(b.data, "bc{each} = x");
+    ug_buf_free(&b);
+}
+END_TEST
+
+/* Placeholders in each language (the catalog's words, CLDR's number). */
+START_TEST(test_placeholder_words)
+{
+    const char *text = "lang: pl\ntitle: T\nicon-value: 1\nsuppress: {below: 1000}\n"
+                       "categories:\n  - {label: A, count: 5}\n  - {label: B, count: 2000}\n";
+    ug_chart *c = NULL;
+    ug_allocation *a = NULL;
+    ug_error err;
+    char *d = NULL;
+    ck_assert_int_eq(ug_chart_load_string(text, strlen(text), "t.yaml", NULL, &c, &err),
+                     UG_OK);
+    ck_assert_int_eq(ug_chart_allocate(c, &a, &err), UG_OK);
+    ck_assert_int_eq(ug_chart_describe(c, a, &d, NULL, &err), UG_OK);
+    /* B is hidden too, or the total would give A away */
+    ck_assert_msg(strstr(d, "A: mniej niż 1000. B: nie pokazano."), "%s", d);
+    ck_assert_msg(strstr(d, "(\u201cmniej niż 1000\u201d)"), "%s", d);
+    ug_free(d);
+    ug_allocation_free(a);
+    ug_chart_free(c);
+}
+END_TEST
+
+static Suite *phrase_suite(void)
+{
+    Suite *s = suite_create("phrase");
+    TCase *t = tcase_create("core");
+    tcase_add_loop_test(t, test_description_key_and_page, 0, sizeof cases / sizeof cases[0]);
+    tcase_add_test(t, test_english_one_person);
+    tcase_add_test(t, test_page_lang_reaches_panels);
+    tcase_add_test(t, test_page_lang_error_at_its_place);
+    tcase_add_test(t, test_pick_form);
+    tcase_add_test(t, test_placeholder_words);
+    suite_add_tcase(s, t);
+    return s;
+}
+
+int main(void) { return check_run(phrase_suite()); }
