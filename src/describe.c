@@ -436,22 +436,39 @@ static void sentence(ug_buf *b, const char *lang, const char *text)
         ug_buf_puts(b, phrase_text(lang, PH_STOP));
 }
 
-/* "(120 icons)", the form picked for the number as it is written. */
-static void icons_phrase(const ug_chart *c, const alloc_share *s, ug_buf *b)
+void pack_icon_count(const ug_chart *c, ug_dec d, int places, ug_buf *b)
 {
     const char *lang = pack_lang(c);
-    char raw[64], n[PHRASE_NUMBER_MAX];
+    char n[PHRASE_NUMBER_MAX];
+    phrase_number(lang, d, places, n);
+    phrase_say(b, lang, pack_icon_is_square(c) ? PH_SQUARES : PH_ICONS,
+               (phrase_slot[]){{"n", n}, {"plural", phrase_plural(lang, d, places)},
+                               {NULL, NULL}});
+}
+
+void pack_share_icons(const ug_chart *c, const alloc_share *s, ug_buf *b)
+{
+    char raw[64];
     ug_dec d = {(ug_i128)s->icons * UG_DEC_SCALE};
-    int places = s->partial ? 2 : 0;
     if (s->partial) {
         pack_icons_text(s, raw);
         if (ug_dec_parse(raw, strlen(raw), &d) != UG_DEC_OK)
             d.v = 0;
     }
-    phrase_number(lang, d, places, n);
-    phrase_say(b, lang, pack_icon_is_square(c) ? PH_SQUARES : PH_ICONS,
-               (phrase_slot[]){{"n", n}, {"plural", phrase_plural(lang, d, places)},
-                               {NULL, NULL}});
+    pack_icon_count(c, d, s->partial ? 2 : 0, b);
+}
+
+/* "(120 icons)" */
+static void icons_phrase(const ug_chart *c, const alloc_share *s, ug_buf *b)
+{
+    ug_buf t;
+    ug_buf_init(&t);
+    pack_share_icons(c, s, &t);
+    ug_buf_add(&t, "", 1);
+    if (!t.failed)
+        phrase_say(b, pack_lang(c), PH_PAREN, (phrase_slot[]){{"text", t.data}, {NULL, NULL}});
+    b->failed = b->failed || t.failed;
+    ug_buf_free(&t);
 }
 
 /* "Adults 1,200 households (120 icons)" or "Adults fewer than 10" */

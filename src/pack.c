@@ -734,9 +734,10 @@ static void biprop_icons(const ug_allocation *a, size_t i, ug_buf *b)
     bool hidden = false;
     for (size_t g = 0; g < a->ngroups; g++)
         hidden = hidden || alloc_hidden(alloc_at(a, g, i));
-    long n = a->cat_icons[i];
-    ug_buf_printf(b, " \xc2\xb7 %ld %s%s", n, pack_icon_word(a->chart, n != 1),
-                  hidden ? " for the counts shown" : "");
+    ug_buf_puts(b, " \xc2\xb7 ");
+    pack_icon_count(a->chart, (ug_dec){(ug_i128)a->cat_icons[i] * UG_DEC_SCALE}, 0, b);
+    if (hidden)
+        ug_buf_puts(b, phrase_text(pack_lang(a->chart), PH_FOR_SHOWN));
 }
 
 static void key_detail(packer *p, size_t i, ug_buf *b)
@@ -750,9 +751,8 @@ static void key_detail(packer *p, size_t i, ug_buf *b)
     }
     if (c->groups.n || alloc_hidden(sh))
         return;
-    char n[64];
-    ug_buf_printf(b, " \xc2\xb7 %s %s", pack_icons_text(sh, n),
-                  pack_icon_word(c, sh->partial || sh->icons != 1));
+    ug_buf_puts(b, " \xc2\xb7 ");
+    pack_share_icons(c, sh, b);
 }
 
 static void key_entry(packer *p, size_t i, double lw)

@@ -42,6 +42,11 @@ void pack_value_statement(const ug_chart *c, const ug_allocation *a, bool key,
 /* Under `method: biproportional` with groups (FORMAT.md §7), the sentence
 ** saying that both totals agree; nothing otherwise. */
 void pack_totals_note(const ug_allocation *a, ug_buf *b);
+/* "12 icons" / "1 square" in the chart's language, the form picked by the
+** CLDR plural category of d written with places fraction digits. */
+void pack_icon_count(const ug_chart *c, ug_dec d, int places, ug_buf *b);
+/* pack_icon_count of a share's icons: "49 icons", "4.25 icons" when clipped. */
+void pack_share_icons(const ug_chart *c, const alloc_share *s, ug_buf *b);
 /* Icons shown for a share: "49", or "4.25" for a clipped last icon. */
 char *pack_icons_text(const alloc_share *s, char *buf);
 /* Whether the chart's cells are called squares (a waffle of plain squares). */

@@ -22,7 +22,7 @@ typedef enum {
     PH_KEY,         /* {each} = {count} */
     PH_IS,          /* {each} is {count} */
     PH_COUNT,       /* {n} {unit} */
-    PH_ICONS,       /* plural by {n}: "(12 icons)" */
+    PH_ICONS,       /* plural by {n}: "12 icons" */
     PH_SQUARES,
     PH_FEWER,       /* fewer than {n} */
     PH_NOT_SHOWN,
@@ -36,6 +36,7 @@ typedef enum {
     PH_KIND_TITLE,  /* {kind}: {title} */
     PH_STOP,        /* the full stop ending a sentence */
     PH_SPACE,       /* between sentences, and before "(12 icons)" */
+    PH_PAREN,       /* ({text}) */
     PH_LIST_SEP,    /* ", " between the items of a list */
     PH_LABEL_SEP,   /* ": " between a label and its count */
     PH_GROUP_LEAD,  /* {group}, {total} in all{change}: */
@@ -46,6 +47,7 @@ typedef enum {
     PH_TOTAL_WORD,  /* "total", what a waffle without a unit is a share of */
     PH_GROUP_WORD,  /* "group", when the layout names no group-label */
     PH_CLIPPED,     /* "; a clipped icon shows part of that" */
+    PH_FOR_SHOWN,   /* " for the counts shown", after a category's icons */
     PH_COUNT_OF_IDS
 } phrase_id;
 

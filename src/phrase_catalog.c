@@ -19,8 +19,8 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} is {count}",
         [PH_COUNT] = "{n} {unit}",
-        [PH_ICONS] = "one=({n} icon)|other=({n} icons)",
-        [PH_SQUARES] = "one=({n} square)|other=({n} squares)",
+        [PH_ICONS] = "one={n} icon|other={n} icons",
+        [PH_SQUARES] = "one={n} square|other={n} squares",
         [PH_FEWER] = "fewer than {n}",
         [PH_NOT_SHOWN] = "not shown",
         [PH_MORE] = "more than {n}",
@@ -33,6 +33,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KIND_TITLE] = "{kind}: {title}",
         [PH_STOP] = ".",
         [PH_SPACE] = " ",
+        [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = ": ",
         [PH_GROUP_LEAD] = "{group}, {total} in all{change}: ",
@@ -43,6 +44,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TOTAL_WORD] = "total",
         [PH_GROUP_WORD] = "group",
         [PH_CLIPPED] = "; a clipped icon shows part of that",
+        [PH_FOR_SHOWN] = " for the counts shown",
     }},
     /* machine-written, for review by a native speaker */
     {"es", NULL, {
@@ -51,8 +53,8 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} equivale a {count}",
         [PH_COUNT] = "{n} {unit}",
-        [PH_ICONS] = "one=({n} icono)|many=({n} de iconos)|other=({n} iconos)",
-        [PH_SQUARES] = "one=({n} cuadrado)|many=({n} de cuadrados)|other=({n} cuadrados)",
+        [PH_ICONS] = "one={n} icono|many={n} de iconos|other={n} iconos",
+        [PH_SQUARES] = "one={n} cuadrado|many={n} de cuadrados|other={n} cuadrados",
         [PH_FEWER] = "menos de {n}",
         [PH_NOT_SHOWN] = "no se muestra",
         [PH_MORE] = "más de {n}",
@@ -65,6 +67,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KIND_TITLE] = "{kind}: {title}",
         [PH_STOP] = ".",
         [PH_SPACE] = " ",
+        [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = ": ",
         [PH_GROUP_LEAD] = "{group}, {total} en total{change}: ",
@@ -75,6 +78,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TOTAL_WORD] = "total",
         [PH_GROUP_WORD] = "grupo",
         [PH_CLIPPED] = "; un icono recortado muestra una parte",
+        [PH_FOR_SHOWN] = " para los recuentos mostrados",
     }},
     /* machine-written, for review by a native speaker */
     {"fr", NULL, {
@@ -83,8 +87,8 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} représente {count}",
         [PH_COUNT] = "{n} {unit}",
-        [PH_ICONS] = "one=({n} icône)|many=({n} d’icônes)|other=({n} icônes)",
-        [PH_SQUARES] = "one=({n} carré)|many=({n} de carrés)|other=({n} carrés)",
+        [PH_ICONS] = "one={n} icône|many={n} d’icônes|other={n} icônes",
+        [PH_SQUARES] = "one={n} carré|many={n} de carrés|other={n} carrés",
         [PH_FEWER] = "moins de {n}",
         [PH_NOT_SHOWN] = "non affiché",
         [PH_MORE] = "plus de {n}",
@@ -97,6 +101,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KIND_TITLE] = "{kind}\u00a0: {title}",
         [PH_STOP] = ".",
         [PH_SPACE] = " ",
+        [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = "\u00a0: ",
         [PH_GROUP_LEAD] = "{group}, {total} au total{change}\u00a0: ",
@@ -107,6 +112,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TOTAL_WORD] = "total",
         [PH_GROUP_WORD] = "groupe",
         [PH_CLIPPED] = "\u00a0; une icône tronquée en montre une partie",
+        [PH_FOR_SHOWN] = " pour les effectifs affichés",
     }},
     /* machine-written, for review by a native speaker */
     {"de", NULL, {
@@ -115,8 +121,8 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} steht für {count}",
         [PH_COUNT] = "{n} {unit}",
-        [PH_ICONS] = "one=({n} Symbol)|other=({n} Symbole)",
-        [PH_SQUARES] = "one=({n} Quadrat)|other=({n} Quadrate)",
+        [PH_ICONS] = "one={n} Symbol|other={n} Symbole",
+        [PH_SQUARES] = "one={n} Quadrat|other={n} Quadrate",
         [PH_FEWER] = "weniger als {n}",
         [PH_NOT_SHOWN] = "nicht angezeigt",
         [PH_MORE] = "mehr als {n}",
@@ -129,6 +135,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KIND_TITLE] = "{kind}: {title}",
         [PH_STOP] = ".",
         [PH_SPACE] = " ",
+        [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = ": ",
         [PH_GROUP_LEAD] = "{group}, insgesamt {total}{change}: ",
@@ -139,6 +146,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TOTAL_WORD] = "Gesamtzahl",
         [PH_GROUP_WORD] = "Gruppe",
         [PH_CLIPPED] = "; ein abgeschnittenes Symbol zeigt einen Teil davon",
+        [PH_FOR_SHOWN] = " für die angezeigten Zahlen",
     }},
     /* machine-written, for review by a native speaker */
     {"pt", NULL, {
@@ -147,8 +155,8 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} equivale a {count}",
         [PH_COUNT] = "{n} {unit}",
-        [PH_ICONS] = "one=({n} ícone)|many=({n} de ícones)|other=({n} ícones)",
-        [PH_SQUARES] = "one=({n} quadrado)|many=({n} de quadrados)|other=({n} quadrados)",
+        [PH_ICONS] = "one={n} ícone|many={n} de ícones|other={n} ícones",
+        [PH_SQUARES] = "one={n} quadrado|many={n} de quadrados|other={n} quadrados",
         [PH_FEWER] = "menos de {n}",
         [PH_NOT_SHOWN] = "não mostrado",
         [PH_MORE] = "mais de {n}",
@@ -161,6 +169,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KIND_TITLE] = "{kind}: {title}",
         [PH_STOP] = ".",
         [PH_SPACE] = " ",
+        [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = ": ",
         [PH_GROUP_LEAD] = "{group}, {total} no total{change}: ",
@@ -171,6 +180,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TOTAL_WORD] = "total",
         [PH_GROUP_WORD] = "grupo",
         [PH_CLIPPED] = "; um ícone cortado mostra uma parte",
+        [PH_FOR_SHOWN] = " para as contagens mostradas",
     }},
     /* machine-written, for review by a native speaker */
     {"pl", NULL, {
@@ -179,9 +189,9 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} oznacza {count}",
         [PH_COUNT] = "{n} {unit}",
-        [PH_ICONS] = "one=({n} ikona)|few=({n} ikony)|many=({n} ikon)|other=({n} ikony)",
-        [PH_SQUARES] = "one=({n} kwadrat)|few=({n} kwadraty)|many=({n} kwadratów)"
-                       "|other=({n} kwadratu)",
+        [PH_ICONS] = "one={n} ikona|few={n} ikony|many={n} ikon|other={n} ikony",
+        [PH_SQUARES] = "one={n} kwadrat|few={n} kwadraty|many={n} kwadratów"
+                       "|other={n} kwadratu",
         [PH_FEWER] = "mniej niż {n}",
         [PH_NOT_SHOWN] = "nie pokazano",
         [PH_MORE] = "ponad {n}",
@@ -194,6 +204,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KIND_TITLE] = "{kind}: {title}",
         [PH_STOP] = ".",
         [PH_SPACE] = " ",
+        [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = ": ",
         [PH_GROUP_LEAD] = "{group}, łącznie {total}{change}: ",
@@ -204,6 +215,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TOTAL_WORD] = "całość",
         [PH_GROUP_WORD] = "grupa",
         [PH_CLIPPED] = "; przycięta ikona pokazuje część tej liczby",
+        [PH_FOR_SHOWN] = " dla pokazanych liczb",
     }},
     /* machine-written, for review by a native speaker */
     {"ar", NULL, {
@@ -212,10 +224,10 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} يمثل {count}",
         [PH_COUNT] = "{n} {unit}",
-        [PH_ICONS] = "zero=({n} رمز)|one=(رمز واحد)|two=(رمزان)|few=({n} رموز)"
-                     "|many=({n} رمزًا)|other=({n} رمز)",
-        [PH_SQUARES] = "zero=({n} مربع)|one=(مربع واحد)|two=(مربعان)|few=({n} مربعات)"
-                       "|many=({n} مربعًا)|other=({n} مربع)",
+        [PH_ICONS] = "zero={n} رمز|one=رمز واحد|two=رمزان|few={n} رموز"
+                     "|many={n} رمزًا|other={n} رمز",
+        [PH_SQUARES] = "zero={n} مربع|one=مربع واحد|two=مربعان|few={n} مربعات"
+                       "|many={n} مربعًا|other={n} مربع",
         [PH_FEWER] = "أقل من {n}",
         [PH_NOT_SHOWN] = "غير معروض",
         [PH_MORE] = "أكثر من {n}",
@@ -228,6 +240,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KIND_TITLE] = "{kind}: {title}",
         [PH_STOP] = ".",
         [PH_SPACE] = " ",
+        [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = "، ",
         [PH_LABEL_SEP] = ": ",
         [PH_GROUP_LEAD] = "{group}، المجموع {total}{change}: ",
@@ -238,6 +251,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TOTAL_WORD] = "المجموع",
         [PH_GROUP_WORD] = "مجموعة",
         [PH_CLIPPED] = "؛ ويُظهر الرمز المقطوع جزءًا منها",
+        [PH_FOR_SHOWN] = " للأعداد المعروضة",
     }},
     /* machine-written, for review by a native speaker */
     {"zh", "Hans", {
@@ -246,8 +260,8 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each}代表 {count}",
         [PH_COUNT] = "{n} {unit}",
-        [PH_ICONS] = "other=（{n} 个图标）",
-        [PH_SQUARES] = "other=（{n} 个方格）",
+        [PH_ICONS] = "other={n} 个图标",
+        [PH_SQUARES] = "other={n} 个方格",
         [PH_FEWER] = "少于 {n}",
         [PH_NOT_SHOWN] = "未显示",
         [PH_MORE] = "超过 {n}",
@@ -260,6 +274,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KIND_TITLE] = "{kind}：{title}",
         [PH_STOP] = "。",
         [PH_SPACE] = "",
+        [PH_PAREN] = "（{text}）",
         [PH_LIST_SEP] = "，",
         [PH_LABEL_SEP] = "：",
         [PH_GROUP_LEAD] = "{group}，共 {total}{change}：",
@@ -270,6 +285,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TOTAL_WORD] = "总数",
         [PH_GROUP_WORD] = "组",
         [PH_CLIPPED] = "；被截断的图标表示其中一部分",
+        [PH_FOR_SHOWN] = "（仅计已显示的数）",
     }},
     {NULL, NULL, {NULL}},
 };

@@ -21,40 +21,49 @@
 
 typedef struct {
     const char *lang, *unit, *desc, *key, *html;
+    const char *detail; /* category A's key entry */
 } lang_case;
 
 static const lang_case cases[] = {
     {"en", "{one: person, other: people}",
      "Pictogram chart: T. Each icon is 10 people. A: 1,234.5 people (124 icons). "
      "B: 22 people (2 icons).",
-     "Each icon = 10 people", "<html lang=\"en\" dir=\"ltr\">"},
+     "Each icon = 10 people", "<html lang=\"en\" dir=\"ltr\">",
+     "1,234.5 people \u00b7 124 icons"},
     {"es", "personas",
      "Gráfico de pictogramas: T. Cada icono equivale a 10 personas. "
      "A: 1234,5 personas (124 iconos). B: 22 personas (2 iconos).",
-     "Cada icono = 10 personas", "<html lang=\"es\" dir=\"ltr\">"},
+     "Cada icono = 10 personas", "<html lang=\"es\" dir=\"ltr\">",
+     "1234,5 personas \u00b7 124 iconos"},
     {"fr", "personnes",
      "Graphique à pictogrammes\u00a0: T. Chaque icône représente 10 personnes. "
      "A\u00a0: 1\u202f234,5 personnes (124 icônes). B\u00a0: 22 personnes (2 icônes).",
-     "Chaque icône = 10 personnes", "<html lang=\"fr\" dir=\"ltr\">"},
+     "Chaque icône = 10 personnes", "<html lang=\"fr\" dir=\"ltr\">",
+     "1\u202f234,5 personnes \u00b7 124 icônes"},
     {"de", "Personen",
      "Piktogrammdiagramm: T. Jedes Symbol steht für 10 Personen. "
      "A: 1.234,5 Personen (124 Symbole). B: 22 Personen (2 Symbole).",
-     "Jedes Symbol = 10 Personen", "<html lang=\"de\" dir=\"ltr\">"},
+     "Jedes Symbol = 10 Personen", "<html lang=\"de\" dir=\"ltr\">",
+     "1.234,5 Personen \u00b7 124 Symbole"},
     {"pt-BR", "pessoas",
      "Gráfico de pictogramas: T. Cada ícone equivale a 10 pessoas. "
      "A: 1.234,5 pessoas (124 ícones). B: 22 pessoas (2 ícones).",
-     "Cada ícone = 10 pessoas", "<html lang=\"pt-BR\" dir=\"ltr\">"},
+     "Cada ícone = 10 pessoas", "<html lang=\"pt-BR\" dir=\"ltr\">",
+     "1.234,5 pessoas \u00b7 124 ícones"},
     {"pl", "{one: osoba, few: osoby, many: osób, other: osoby}",
      "Wykres piktogramowy: T. Każda ikona oznacza 10 osób. "
      "A: 1234,5 osoby (124 ikony). B: 22 osoby (2 ikony).",
-     "Każda ikona = 10 osób", "<html lang=\"pl\" dir=\"ltr\">"},
+     "Każda ikona = 10 osób", "<html lang=\"pl\" dir=\"ltr\">",
+     "1234,5 osoby \u00b7 124 ikony"},
     {"ar", "شخص",
      "مخطط بالرموز: T. كل رمز يمثل ١٠ شخص. A: ١٬٢٣٤٫٥ شخص (١٢٤ رمزًا). "
      "B: ٢٢ شخص (رمزان).",
-     "كل رمز = ١٠ شخص", "<html lang=\"ar\" dir=\"rtl\">"},
+     "كل رمز = ١٠ شخص", "<html lang=\"ar\" dir=\"rtl\">",
+     "١٬٢٣٤٫٥ شخص \u00b7 ١٢٤ رمزًا"},
     {"zh-Hans", "人",
      "象形图：T。每个图标代表 10 人。A：1,234.5 人（124 个图标）。B：22 人（2 个图标）。",
-     "每个图标 = 10 人", "<html lang=\"zh-Hans\" dir=\"ltr\">"},
+     "每个图标 = 10 人", "<html lang=\"zh-Hans\" dir=\"ltr\">",
+     "1,234.5 人 \u00b7 124 个图标"},
 };
 
 static ug_chart *load(const char *lang, const char *unit)
@@ -86,6 +95,7 @@ START_TEST(test_description_key_and_page)
     ck_assert_int_eq(ug_scene_pack(c, a, &s, &err), UG_OK);
     ck_assert_int_eq(ug_scene_svg(s, &svg, &svg_len, &err), UG_OK);
     ck_assert_msg(strstr(svg, k->key), "%s: no key '%s' in the SVG", k->lang, k->key);
+    ck_assert_msg(strstr(svg, k->detail), "%s: no '%s' in the SVG", k->lang, k->detail);
     char xml_lang[64];
     snprintf(xml_lang, sizeof xml_lang, "xml:lang=\"%s\"", k->lang);
     ck_assert_msg(strstr(svg, xml_lang), "%s: no %s", k->lang, xml_lang);
