@@ -970,6 +970,32 @@ static void setup_holder(packer *p)
 
 /* The canvas is style.width wide unless one icon line or one waffle panel
 ** needs more: the icon never shrinks, so the page widens instead. */
+/* A right-to-left chart is the left-to-right one seen in a mirror
+** (FORMAT.md §6): icons flow from the right, text and key are right-aligned.
+** Only positions move, so every size and the order of icons stay; a text's
+** anchor turns to the other side. A clipped last icon still shows its left
+** part (svg.c clips from the left). */
+static void mirror(ug_scene *s)
+{
+    static const scene_anchor other[] = {[SCENE_START] = SCENE_END,
+                                         [SCENE_MIDDLE] = SCENE_MIDDLE,
+                                         [SCENE_END] = SCENE_START};
+    double w = s->width;
+    s->rtl = true;
+    for (size_t i = 0; i < s->ntexts; i++) {
+        s->texts[i].x = w - s->texts[i].x;
+        s->texts[i].anchor = other[s->texts[i].anchor];
+    }
+    for (size_t i = 0; i < s->nicons; i++)
+        s->icons[i].x = w - s->icons[i].x - s->icon_size;
+    for (size_t i = 0; i < s->nswatches; i++)
+        s->swatches[i].x = w - s->swatches[i].x - s->icon_size;
+    for (size_t i = 0; i < s->nholders; i++)
+        s->holders[i].x = w - s->holders[i].x - s->holders[i].w;
+    for (size_t i = 0; i < s->nrects; i++)
+        s->rects[i].x = w - s->rects[i].x - s->rects[i].w;
+}
+
 /* Each form's pack function, by form (model.h: UG_CHART_FORMS). */
 static void (*const pack_form[UG_FORM_COUNT])(packer *) = {
     [UG_FORM_ROWS] = pack_rows,
@@ -1082,6 +1108,8 @@ ug_status pack_scene(const ug_chart *c, const ug_allocation *a,
     p.s->height = reserved(&p, KEPT(&p, height), ceil(p.y + MARGIN));
     if (!p.st)
         sort_icons(&p);
+    if (!p.st && !strcmp(phrase_dir(pack_lang(c)), "rtl"))
+        mirror(p.s);
     set_desc(&p);
     if (p.st) {
         ug_scene_free(p.s);

@@ -11,11 +11,13 @@
 ** leftover icon to the larger remainder (.45): A 124 icons, B 2. */
 #define _POSIX_C_SOURCE 200809L
 #include <check.h>
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
 #include "model.h"
+#include "scene.h"
 #include "phrase.h"
 #include "check_run.h"
 
@@ -66,18 +68,23 @@ static const lang_case cases[] = {
      "1,234.5 人 \u00b7 124 个图标"},
 };
 
-static ug_chart *load(const char *lang, const char *unit)
+static ug_chart *load_with(const char *lang, const char *unit, const char *more)
 {
     char text[512];
     snprintf(text, sizeof text,
-             "lang: %s\ntitle: T\nunit-label: %s\nicon-value: 10\ncategories:\n"
+             "lang: %s\ntitle: T\nunit-label: %s\nicon-value: 10\n%scategories:\n"
              "  - {label: A, glyph: person, count: 1234.5}\n"
-             "  - {label: B, glyph: person, count: 22}\n", lang, unit);
+             "  - {label: B, glyph: person, count: 22}\n", lang, unit, more);
     ug_chart *c = NULL;
     ug_error err;
     ck_assert_msg(ug_chart_load_string(text, strlen(text), "t.yaml", NULL, &c, &err) == UG_OK,
                   "%s", err.msg);
     return c;
+}
+
+static ug_chart *load(const char *lang, const char *unit)
+{
+    return load_with(lang, unit, "");
 }
 
 START_TEST(test_description_key_and_page)
@@ -200,6 +207,57 @@ START_TEST(test_placeholder_words)
 }
 END_TEST
 
+/* Whether the English scene has an icon of the same category at icon's
+** place seen in a mirror of a canvas width wide. */
+static bool has_mirror(const ug_scene *en, const scene_icon *icon, double width)
+{
+    for (size_t k = 0; k < en->nicons; k++)
+        if (en->icons[k].cat == icon->cat && en->icons[k].y == icon->y
+            && fabs(width - en->icons[k].x - en->icon_size - icon->x) < 1e-9)
+            return true;
+    return false;
+}
+
+/* Right to left (FORMAT.md §6): the Arabic chart is the English one in a
+** mirror. Icons flow from the right (the first icon is the rightmost of its
+** line), every text keeps its width but sits mirrored, and the SVG writes
+** each line in that direction, where "start" is the right end (SVG 1.1,
+** text-anchor), so the text the packer anchored on its right reads "start". */
+START_TEST(test_arabic_is_mirrored)
+{
+    /* ten columns: lines short enough for either language's total beside them,
+    ** so both wrap alike and only the mirror differs */
+    ug_chart *en = load_with("en", "people", "columns: 10\n");
+    ug_chart *ar = load_with("ar", "شخص", "columns: 10\n");
+    ug_allocation *ae = NULL, *aa = NULL;
+    ug_scene *se = NULL, *sa = NULL;
+    ug_error err;
+    char *svg = NULL;
+    ck_assert_int_eq(ug_chart_allocate(en, &ae, &err), UG_OK);
+    ck_assert_int_eq(ug_chart_allocate(ar, &aa, &err), UG_OK);
+    ck_assert_int_eq(ug_scene_pack(en, ae, &se, &err), UG_OK);
+    ck_assert_int_eq(ug_scene_pack(ar, aa, &sa, &err), UG_OK);
+    ck_assert(sa->rtl && !se->rtl);
+    ck_assert_uint_eq(sa->nicons, se->nicons);
+    ck_assert(sa->icons[0].x > sa->icons[1].x);
+    for (size_t i = 0; i < sa->nicons; i++)
+        ck_assert_msg(has_mirror(se, &sa->icons[i], sa->width), "icon %zu at %g,%g cat %u", i, sa->icons[i].x, sa->icons[i].y, sa->icons[i].cat);
+    /* the title: anchored at the left margin in English, the right in Arabic */
+    ck_assert_int_eq(se->texts[0].anchor, SCENE_START);
+    ck_assert_int_eq(sa->texts[0].anchor, SCENE_END);
+    ck_assert_double_eq_tol(sa->texts[0].x, sa->width - se->texts[0].x, 1e-9);
+    ck_assert_int_eq(ug_scene_svg(sa, &svg, NULL, &err), UG_OK);
+    ck_assert_msg(strstr(svg, "font-weight=\"bold\" direction=\"rtl\">T</text>"), "%s", svg);
+    ug_free(svg);
+    ug_scene_free(se);
+    ug_scene_free(sa);
+    ug_allocation_free(ae);
+    ug_allocation_free(aa);
+    ug_chart_free(en);
+    ug_chart_free(ar);
+}
+END_TEST
+
 static Suite *phrase_suite(void)
 {
     Suite *s = suite_create("phrase");
@@ -209,6 +267,7 @@ static Suite *phrase_suite(void)
     tcase_add_test(t, test_page_lang_reaches_panels);
     tcase_add_test(t, test_page_lang_error_at_its_place);
     tcase_add_test(t, test_pick_form);
+    tcase_add_test(t, test_arabic_is_mirrored);
     tcase_add_test(t, test_placeholder_words);
     suite_add_tcase(s, t);
     return s;
