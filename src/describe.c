@@ -114,38 +114,65 @@ static bool any_status(const pub_table *t, pub_status st)
 
 /* What was done to protect people, in the words the key and the description
 ** share; empty when every count is published as counted. */
+/* One note of the disclosure list, followed by the language's space. */
+static void note(ug_buf *b, const char *lang, phrase_id id, const phrase_slot *slots)
+{
+    phrase_say(b, lang, id, slots);
+    ug_buf_puts(b, phrase_text(lang, PH_SPACE));
+}
+
+/* "Counts of 1 to 9 households are not shown ("fewer than 10")." */
+static void small_note(const ug_allocation *a, ug_buf *b)
+{
+    const pub_table *t = a->pub;
+    const char *lang = pack_lang(a->chart);
+    char from[PHRASE_NUMBER_MAX];
+    ug_buf to, label;
+    ug_buf_init(&to);
+    ug_buf_init(&label);
+    phrase_number(lang, (ug_dec){t->zeros_hidden ? 0 : UG_DEC_SCALE}, 0, from);
+    pack_count_phrase(a->chart, (ug_dec){t->below.v - UG_DEC_SCALE}, &to);
+    pack_placeholder(a, PUB_SMALL, &label);
+    ug_buf_add(&to, "", 1);
+    ug_buf_add(&label, "", 1);
+    if (!to.failed && !label.failed)
+        note(b, lang, PH_NOTE_SMALL, (phrase_slot[]){{"from", from}, {"to", to.data},
+                                                     {"label", label.data}, {NULL, NULL}});
+    b->failed = b->failed || to.failed || label.failed;
+    ug_buf_free(&to);
+    ug_buf_free(&label);
+}
+
+static bool shows_zero(const pub_table *t)
+{
+    for (size_t k = 0; k < t->ngroups * t->ncats; k++)
+        if (!pub_hidden(t->cells[k].status) && t->cells[k].value.v == 0)
+            return true;
+    return false;
+}
+
 void pack_disclosure_notes(const ug_allocation *a, ug_buf *b)
 {
     const pub_table *t = a->pub;
-    const char *unit = a->chart->unit_label.text, *lang = pack_lang(a->chart);
+    const char *lang = pack_lang(a->chart);
+    const phrase_slot other[] = {{"label", pack_other_label(a)}, {NULL, NULL}};
     char n[PHRASE_NUMBER_MAX];
     if (t->rounded)
-        ug_buf_printf(b, "Counts are rounded to multiples of %s to protect privacy. ",
-                      phrase_number(lang, t->round_to, 0, n));
-    if (any_status(t, PUB_SMALL) && t->below.v > 0) {
-        ug_buf_printf(b, "Counts of %s%s%s%s are not shown (\u201c",
-                      t->zeros_hidden ? "0 to " : "1 to ",
-                      phrase_number(lang, (ug_dec){t->below.v - UG_DEC_SCALE}, 0, n),
-                      unit ? " " : "", unit ? unit : "");
-        pack_placeholder(a, PUB_SMALL, b);
-        ug_buf_puts(b, "\u201d). ");
-    }
+        note(b, lang, PH_NOTE_ROUNDED, (phrase_slot[]){
+            {"n", phrase_number(lang, t->round_to, 0, n)}, {NULL, NULL}});
+    if (any_status(t, PUB_SMALL) && t->below.v > 0)
+        small_note(a, b);
     if (any_status(t, PUB_COMPLEMENT))
-        ug_buf_printf(b, "Some larger counts are not shown either (\u201c%s\u201d), so "
-                         "that the small ones cannot be worked out from totals. ",
-                      pack_other_label(a));
+        note(b, lang, PH_NOTE_COMPLEMENT, other);
     if (any_status(t, PUB_REQUESTED))
-        ug_buf_printf(b, "Counts marked \u201c%s\u201d are withheld. ", pack_other_label(a));
+        note(b, lang, PH_NOTE_REQUESTED, other);
     if (any_status(t, PUB_WITHHELD))
-        ug_buf_printf(b, "Counts marked \u201c%s\u201d were withheld by the source. ",
-                      pack_other_label(a));
+        note(b, lang, PH_NOTE_WITHHELD, other);
     if (t->nhidden && a->rule.by_cells)
-        ug_buf_puts(b, "Shares are of the counts shown. ");
-    bool zero = false;
-    for (size_t k = 0; k < t->ngroups * t->ncats; k++)
-        zero = zero || (!pub_hidden(t->cells[k].status) && t->cells[k].value.v == 0);
-    if (zero && t->nsmall)
-        ug_buf_puts(b, "Zero counts are shown as 0. ");
+        note(b, lang, PH_NOTE_SHARES, NULL);
+    if (shows_zero(t) && t->nsmall)
+        note(b, lang, PH_NOTE_ZEROS, (phrase_slot[]){
+            {"zero", phrase_number(lang, (ug_dec){0}, 0, n)}, {NULL, NULL}});
     if (b->len && b->data[b->len - 1] == ' ')
         b->len--;
 }
@@ -207,7 +234,7 @@ static void change_note(const char *lang, const pub_cell *from, const pub_cell *
                         ug_buf *b)
 {
     if (pub_hidden(from->status) || pub_hidden(to->status)) {
-        ug_buf_puts(b, " (change not shown)");
+        ug_buf_puts(b, phrase_text(lang, PH_CHANGE_HIDDEN));
         return;
     }
     ug_buf_puts(b, " (");
@@ -366,15 +393,26 @@ void pack_value_statement(const ug_chart *c, const ug_allocation *a, bool key,
 void pack_totals_note(const ug_allocation *a, ug_buf *b)
 {
     const ug_chart *c = a->chart;
+    const char *lang = pack_lang(c);
     if (!a->cat_icons)
         return;
     long n = 0;
     for (size_t g = 0; g < a->ngroups; g++)
         n += a->group_icons[g];
-    const char *group = c->group_label.text ? c->group_label.text : "group";
-    ug_buf_printf(b, "Both totals agree: each %s's %s and each category's %s add up "
-                     "to its own share of all %ld %s", group, pack_icon_word(c, true),
-                  pack_icon_word(c, true), n, pack_icon_word(c, n != 1));
+    const char *group = c->group_label.text ? c->group_label.text
+                                            : phrase_text(lang, PH_GROUP_WORD);
+    ug_buf all;
+    ug_buf_init(&all);
+    pack_icon_count(c, (ug_dec){(ug_i128)n * UG_DEC_SCALE}, 0, &all);
+    ug_buf_add(&all, "", 1);
+    if (!all.failed)
+        phrase_say(b, lang, PH_BOTH_TOTALS, (phrase_slot[]){
+            {"group", group}, {"all", all.data},
+            {"icons", phrase_text(lang, pack_icon_is_square(c) ? PH_SQUARES_WORD
+                                                              : PH_ICONS_WORD)},
+            {NULL, NULL}});
+    b->failed = b->failed || all.failed;
+    ug_buf_free(&all);
 }
 
 char *pack_icons_text(const alloc_share *s, char *buf)
@@ -538,8 +576,10 @@ static void change_sentence(const ug_chart *c, const ug_allocation *a, ug_buf *b
     size_t last = a->ngroups - 1, ref = pack_change_ref(a, last);
     if (ref == SIZE_MAX)
         return;
-    ug_buf_printf(b, " From %s to %s: ", c->groups.items[ref].text,
-                  c->groups.items[last].text);
+    ug_buf_puts(b, phrase_text(pack_lang(c), PH_SPACE));
+    phrase_say(b, pack_lang(c), PH_CHANGE_FROM, (phrase_slot[]){
+        {"from", c->groups.items[ref].text}, {"to", c->groups.items[last].text},
+        {NULL, NULL}});
     for (size_t i = 0; i < c->ncats; i++) {
         ug_buf_printf(b, "%s%s ", i ? "; " : "",
                       c->cats[i].label.text ? c->cats[i].label.text : c->cats[i].id);

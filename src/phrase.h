@@ -48,6 +48,18 @@ typedef enum {
     PH_GROUP_WORD,  /* "group", when the layout names no group-label */
     PH_CLIPPED,     /* "; a clipped icon shows part of that" */
     PH_FOR_SHOWN,   /* " for the counts shown", after a category's icons */
+    PH_NOTE_ROUNDED, /* counts rounded to multiples of {n} */
+    PH_NOTE_SMALL,  /* {from} to {to} not shown ({label}) */
+    PH_NOTE_COMPLEMENT, /* larger counts hidden too ({label}) */
+    PH_NOTE_REQUESTED, /* marked {label}: withheld */
+    PH_NOTE_WITHHELD, /* marked {label}: withheld by the source */
+    PH_NOTE_SHARES, /* shares of the counts shown */
+    PH_NOTE_ZEROS,  /* zeros shown as {zero} */
+    PH_CHANGE_HIDDEN, /* " (change not shown)" */
+    PH_CHANGE_FROM, /* From {from} to {to}:  */
+    PH_BOTH_TOTALS, /* biproportional: {group} {icons} {all} */
+    PH_ICONS_WORD,  /* "icons" alone */
+    PH_SQUARES_WORD, /* "squares" alone */
     PH_COUNT_OF_IDS
 } phrase_id;
 

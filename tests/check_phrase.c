@@ -185,7 +185,8 @@ START_TEST(test_pick_form)
 }
 END_TEST
 
-/* Placeholders in each language (the catalog's words, CLDR's number). */
+/* Placeholders and the disclosure notes in Polish (the catalog's words,
+** CLDR's number: 1000 ungrouped, minimum grouping 2). */
 START_TEST(test_placeholder_words)
 {
     const char *text = "lang: pl\ntitle: T\nicon-value: 1\nsuppress: {below: 1000}\n"
@@ -200,7 +201,10 @@ START_TEST(test_placeholder_words)
     ck_assert_int_eq(ug_chart_describe(c, a, &d, NULL, &err), UG_OK);
     /* B is hidden too, or the total would give A away */
     ck_assert_msg(strstr(d, "A: mniej niż 1000. B: nie pokazano."), "%s", d);
-    ck_assert_msg(strstr(d, "(\u201cmniej niż 1000\u201d)"), "%s", d);
+    ck_assert_msg(strstr(d, "Liczby od 1 do 999 nie są pokazane (\u201emniej niż 1000\u201d). "
+                            "Niektóre większe liczby również nie są pokazane "
+                            "(\u201enie pokazano\u201d), aby małych nie dało się wyliczyć "
+                            "z sum."), "%s", d);
     ug_free(d);
     ug_allocation_free(a);
     ug_chart_free(c);
@@ -258,6 +262,48 @@ START_TEST(test_arabic_is_mirrored)
 }
 END_TEST
 
+static char *describe_text(const char *text)
+{
+    ug_chart *c = NULL;
+    ug_allocation *a = NULL;
+    ug_error err;
+    char *d = NULL;
+    ck_assert_msg(ug_chart_load_string(text, strlen(text), "t.yaml", NULL, &c, &err) == UG_OK,
+                  "%s", err.msg);
+    ck_assert_int_eq(ug_chart_allocate(c, &a, &err), UG_OK);
+    ck_assert_int_eq(ug_chart_describe(c, a, &d, NULL, &err), UG_OK);
+    ug_allocation_free(a);
+    ug_chart_free(c);
+    return d;
+}
+
+/* Change between periods in German: 1000 -> 1250 is +250, +25 %. */
+START_TEST(test_change_in_german)
+{
+    char *d = describe_text("lang: de\ntitle: T\nicon-value: 1\nchange: previous\n"
+                            "groups: [Q1, Q2]\nunit-label: Haushalte\ncategories:\n"
+                            "  - {label: A, counts: [1000, 1250]}\n");
+    ck_assert_msg(strstr(d, " Q2, insgesamt 1.250 Haushalte (+250, +25 %): A 1.250 "
+                            "Haushalte (1.250 Symbole). Von Q1 bis Q2: A 1.000 \u2192 1.250 "
+                            "Haushalte (+250, +25 %)."), "%s", d);
+    ug_free(d);
+}
+END_TEST
+
+/* The biproportional note in French: 200 + 100 = 300 households, 30 icons. */
+START_TEST(test_totals_note_in_french)
+{
+    char *d = describe_text("lang: fr\ntitle: T\nmethod: biproportional\nicon-value: 10\n"
+                            "groups: [N, S]\nunit-label: ménages\ncategories:\n"
+                            "  - {label: A, counts: [120, 80]}\n"
+                            "  - {label: B, counts: [40, 60]}\n");
+    ck_assert_msg(strstr(d, "Les deux totaux concordent\u00a0: les icônes de chaque groupe "
+                            "comme de chaque catégorie forment leur propre part du total de "
+                            "30 icônes."), "%s", d);
+    ug_free(d);
+}
+END_TEST
+
 static Suite *phrase_suite(void)
 {
     Suite *s = suite_create("phrase");
@@ -267,6 +313,8 @@ static Suite *phrase_suite(void)
     tcase_add_test(t, test_page_lang_reaches_panels);
     tcase_add_test(t, test_page_lang_error_at_its_place);
     tcase_add_test(t, test_pick_form);
+    tcase_add_test(t, test_change_in_german);
+    tcase_add_test(t, test_totals_note_in_french);
     tcase_add_test(t, test_arabic_is_mirrored);
     tcase_add_test(t, test_placeholder_words);
     suite_add_tcase(s, t);
