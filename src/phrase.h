@@ -60,6 +60,13 @@ typedef enum {
     PH_BOTH_TOTALS, /* biproportional: {group} {icons} {all} */
     PH_ICONS_WORD,  /* "icons" alone */
     PH_SQUARES_WORD, /* "squares" alone */
+    PH_CAP_ICON,    /* table caption: each icon = {value} */
+    PH_CAP_SQUARE,  /* each square = {share} of the total */
+    PH_TH_GROUP,    /* table headings */
+    PH_TH_CATEGORY,
+    PH_TH_COUNT,
+    PH_TH_ICONS,
+    PH_TH_SHOWN,
     PH_COUNT_OF_IDS
 } phrase_id;
 

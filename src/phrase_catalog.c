@@ -57,6 +57,13 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_BOTH_TOTALS] = "Both totals agree: each {group}'s {icons} and each category's {icons} add up to its own share of all {all}",
         [PH_ICONS_WORD] = "icons",
         [PH_SQUARES_WORD] = "squares",
+        [PH_CAP_ICON] = "each icon = {value}",
+        [PH_CAP_SQUARE] = "each square = {share} of the total",
+        [PH_TH_GROUP] = "Group",
+        [PH_TH_CATEGORY] = "Category",
+        [PH_TH_COUNT] = "Count",
+        [PH_TH_ICONS] = "Icons",
+        [PH_TH_SHOWN] = "Shown value",
     }},
     /* machine-written, for review by a native speaker */
     {"es", NULL, {
@@ -103,6 +110,13 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_BOTH_TOTALS] = "Ambos totales coinciden: los {icons} de cada {group} y los de cada categoría suman su propia parte del total de {all}",
         [PH_ICONS_WORD] = "iconos",
         [PH_SQUARES_WORD] = "cuadrados",
+        [PH_CAP_ICON] = "cada icono = {value}",
+        [PH_CAP_SQUARE] = "cada cuadrado = {share} del total",
+        [PH_TH_GROUP] = "Grupo",
+        [PH_TH_CATEGORY] = "Categoría",
+        [PH_TH_COUNT] = "Recuento",
+        [PH_TH_ICONS] = "Iconos",
+        [PH_TH_SHOWN] = "Valor mostrado",
     }},
     /* machine-written, for review by a native speaker */
     {"fr", NULL, {
@@ -150,6 +164,13 @@ const phrase_catalog phrase_catalogs[] = {
                             "catégorie forment leur propre part du total de {all}",
         [PH_ICONS_WORD] = "icônes",
         [PH_SQUARES_WORD] = "carrés",
+        [PH_CAP_ICON] = "chaque icône = {value}",
+        [PH_CAP_SQUARE] = "chaque carré = {share} du total",
+        [PH_TH_GROUP] = "Groupe",
+        [PH_TH_CATEGORY] = "Catégorie",
+        [PH_TH_COUNT] = "Effectif",
+        [PH_TH_ICONS] = "Icônes",
+        [PH_TH_SHOWN] = "Valeur affichée",
     }},
     /* machine-written, for review by a native speaker */
     {"de", NULL, {
@@ -196,6 +217,13 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_BOTH_TOTALS] = "Beide Summen stimmen: die {icons} je {group} und je Kategorie ergeben jeweils ihren eigenen Anteil an allen {all}",
         [PH_ICONS_WORD] = "Symbole",
         [PH_SQUARES_WORD] = "Quadrate",
+        [PH_CAP_ICON] = "jedes Symbol = {value}",
+        [PH_CAP_SQUARE] = "jedes Quadrat = {share} der Gesamtzahl",
+        [PH_TH_GROUP] = "Gruppe",
+        [PH_TH_CATEGORY] = "Kategorie",
+        [PH_TH_COUNT] = "Anzahl",
+        [PH_TH_ICONS] = "Symbole",
+        [PH_TH_SHOWN] = "Angezeigter Wert",
     }},
     /* machine-written, for review by a native speaker */
     {"pt", NULL, {
@@ -242,6 +270,13 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_BOTH_TOTALS] = "Os dois totais coincidem: os {icons} de cada {group} e os de cada categoria somam a sua própria parte do total de {all}",
         [PH_ICONS_WORD] = "ícones",
         [PH_SQUARES_WORD] = "quadrados",
+        [PH_CAP_ICON] = "cada ícone = {value}",
+        [PH_CAP_SQUARE] = "cada quadrado = {share} do total",
+        [PH_TH_GROUP] = "Grupo",
+        [PH_TH_CATEGORY] = "Categoria",
+        [PH_TH_COUNT] = "Contagem",
+        [PH_TH_ICONS] = "Ícones",
+        [PH_TH_SHOWN] = "Valor mostrado",
     }},
     /* machine-written, for review by a native speaker */
     {"pl", NULL, {
@@ -289,6 +324,13 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_BOTH_TOTALS] = "Obie sumy się zgadzają: {icons} w każdej pozycji ({group}) i w każdej kategorii dają jej własny udział w łącznej liczbie: {all}",
         [PH_ICONS_WORD] = "ikony",
         [PH_SQUARES_WORD] = "kwadraty",
+        [PH_CAP_ICON] = "każda ikona = {value}",
+        [PH_CAP_SQUARE] = "każdy kwadrat = {share} całości",
+        [PH_TH_GROUP] = "Grupa",
+        [PH_TH_CATEGORY] = "Kategoria",
+        [PH_TH_COUNT] = "Liczba",
+        [PH_TH_ICONS] = "Ikony",
+        [PH_TH_SHOWN] = "Pokazana wartość",
     }},
     /* machine-written, for review by a native speaker */
     {"ar", NULL, {
@@ -337,6 +379,13 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_BOTH_TOTALS] = "يتطابق المجموعان: {icons} كل {group} و{icons} كل فئة تساوي حصتها من مجموع {all}",
         [PH_ICONS_WORD] = "رموز",
         [PH_SQUARES_WORD] = "مربعات",
+        [PH_CAP_ICON] = "كل رمز = {value}",
+        [PH_CAP_SQUARE] = "كل مربع = {share} من المجموع",
+        [PH_TH_GROUP] = "المجموعة",
+        [PH_TH_CATEGORY] = "الفئة",
+        [PH_TH_COUNT] = "العدد",
+        [PH_TH_ICONS] = "الرموز",
+        [PH_TH_SHOWN] = "القيمة المعروضة",
     }},
     /* machine-written, for review by a native speaker */
     {"zh", "Hans", {
@@ -383,6 +432,13 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_BOTH_TOTALS] = "两个合计一致：每个{group}的{icons}和每个类别的{icons}都等于其在全部 {all}中应得的份额",
         [PH_ICONS_WORD] = "图标",
         [PH_SQUARES_WORD] = "方格",
+        [PH_CAP_ICON] = "每个图标 = {value}",
+        [PH_CAP_SQUARE] = "每个方格 = 总数的 {share}",
+        [PH_TH_GROUP] = "组",
+        [PH_TH_CATEGORY] = "类别",
+        [PH_TH_COUNT] = "数量",
+        [PH_TH_ICONS] = "图标",
+        [PH_TH_SHOWN] = "显示值",
     }},
     {NULL, NULL, {NULL}},
 };

@@ -110,6 +110,10 @@ START_TEST(test_description_key_and_page)
     ck_assert_int_eq(ug_html_page(NULL, svg, svg_len, desc, allocs, 1, &html, NULL, &err),
                      UG_OK);
     ck_assert_msg(strstr(html, k->html), "%s: %.80s", k->lang, html);
+    if (!strcmp(k->lang, "de"))
+        ck_assert_msg(strstr(html, "<caption>T (jedes Symbol = 10 Personen)</caption>\n"
+                                   "<thead><tr><th scope=\"col\">Kategorie</th><th scope=\"col\">"
+                                   "Anzahl</th><th scope=\"col\">Symbole</th>"), "%s", html);
     ug_free(html);
     ug_free(svg);
     ug_free(desc);
