@@ -218,7 +218,8 @@ static void change_amount(const char *lang, ug_dec from, ug_dec to, ug_buf *b)
     char n[PHRASE_NUMBER_MAX];
     ug_dec d = {to.v - from.v};
     ug_dec mag = {d.v < 0 ? -d.v : d.v};
-    ug_buf_printf(b, "%s%s", d.v < 0 ? "-" : d.v > 0 ? "+" : "\u00b1", phrase_number(lang, mag, 0, n));
+    ug_buf_printf(b, "%s%s", d.v < 0 ? "-" : d.v > 0 ? "+" : "\u00b1",
+                  phrase_number(lang, mag, 0, n));
     if (from.v <= 0)
         return;
     ug_i128 num = mag.v * 100, q = num / from.v;

@@ -47,14 +47,18 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_FOR_SHOWN] = " for the counts shown",
         [PH_NOTE_ROUNDED] = "Counts are rounded to multiples of {n} to protect privacy.",
         [PH_NOTE_SMALL] = "Counts of {from} to {to} are not shown (\u201c{label}\u201d).",
-        [PH_NOTE_COMPLEMENT] = "Some larger counts are not shown either (\u201c{label}\u201d), so that the small ones cannot be worked out from totals.",
+        [PH_NOTE_COMPLEMENT] = "Some larger counts are not shown either "
+                            "(\u201c{label}\u201d), so that the small ones cannot be "
+                            "worked out from totals.",
         [PH_NOTE_REQUESTED] = "Counts marked \u201c{label}\u201d are withheld.",
-        [PH_NOTE_WITHHELD] = "Counts marked \u201c{label}\u201d were withheld by the source.",
+        [PH_NOTE_WITHHELD] = "Counts marked \u201c{label}\u201d were withheld by the "
+                            "source.",
         [PH_NOTE_SHARES] = "Shares are of the counts shown.",
         [PH_NOTE_ZEROS] = "Zero counts are shown as {zero}.",
         [PH_CHANGE_HIDDEN] = " (change not shown)",
         [PH_CHANGE_FROM] = "From {from} to {to}: ",
-        [PH_BOTH_TOTALS] = "Both totals agree: each {group}'s {icons} and each category's {icons} add up to its own share of all {all}",
+        [PH_BOTH_TOTALS] = "Both totals agree: each {group}'s {icons} and each category's "
+                            "{icons} add up to its own share of all {all}",
         [PH_ICONS_WORD] = "icons",
         [PH_SQUARES_WORD] = "squares",
         [PH_CAP_ICON] = "each icon = {value}",
@@ -98,16 +102,20 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_GROUP_WORD] = "grupo",
         [PH_CLIPPED] = "; un icono recortado muestra una parte",
         [PH_FOR_SHOWN] = " para los recuentos mostrados",
-        [PH_NOTE_ROUNDED] = "Los recuentos se redondean a múltiplos de {n} para proteger la privacidad.",
+        [PH_NOTE_ROUNDED] = "Los recuentos se redondean a múltiplos de {n} para proteger "
+                            "la privacidad.",
         [PH_NOTE_SMALL] = "No se muestran los recuentos de {from} a {to} («{label}»).",
-        [PH_NOTE_COMPLEMENT] = "Tampoco se muestran algunos recuentos mayores («{label}»), para que los pequeños no puedan deducirse de los totales.",
+        [PH_NOTE_COMPLEMENT] = "Tampoco se muestran algunos recuentos mayores («{label}»), "
+                            "para que los pequeños no puedan deducirse de los totales.",
         [PH_NOTE_REQUESTED] = "Los recuentos marcados «{label}» no se publican.",
-        [PH_NOTE_WITHHELD] = "Los recuentos marcados «{label}» no fueron publicados por la fuente.",
+        [PH_NOTE_WITHHELD] = "Los recuentos marcados «{label}» no fueron publicados por la "
+                            "fuente.",
         [PH_NOTE_SHARES] = "Las proporciones se calculan sobre los recuentos mostrados.",
         [PH_NOTE_ZEROS] = "Los recuentos nulos se muestran como {zero}.",
         [PH_CHANGE_HIDDEN] = " (cambio no mostrado)",
         [PH_CHANGE_FROM] = "De {from} a {to}: ",
-        [PH_BOTH_TOTALS] = "Ambos totales coinciden: los {icons} de cada {group} y los de cada categoría suman su propia parte del total de {all}",
+        [PH_BOTH_TOTALS] = "Ambos totales coinciden: los {icons} de cada {group} y los de "
+                            "cada categoría suman su propia parte del total de {all}",
         [PH_ICONS_WORD] = "iconos",
         [PH_SQUARES_WORD] = "cuadrados",
         [PH_CAP_ICON] = "cada icono = {value}",
@@ -151,11 +159,17 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_GROUP_WORD] = "groupe",
         [PH_CLIPPED] = "\u00a0; une icône tronquée en montre une partie",
         [PH_FOR_SHOWN] = " pour les effectifs affichés",
-        [PH_NOTE_ROUNDED] = "Les effectifs sont arrondis à des multiples de {n} pour protéger la vie privée.",
-        [PH_NOTE_SMALL] = "Les effectifs de {from} à {to} ne sont pas affichés («\u00a0{label}\u00a0»).",
-        [PH_NOTE_COMPLEMENT] = "Certains effectifs plus grands ne sont pas affichés non plus («\u00a0{label}\u00a0»), afin que les petits ne puissent pas être déduits des totaux.",
-        [PH_NOTE_REQUESTED] = "Les effectifs marqués «\u00a0{label}\u00a0» ne sont pas publiés.",
-        [PH_NOTE_WITHHELD] = "Les effectifs marqués «\u00a0{label}\u00a0» n’ont pas été publiés par la source.",
+        [PH_NOTE_ROUNDED] = "Les effectifs sont arrondis à des multiples de {n} pour "
+                            "protéger la vie privée.",
+        [PH_NOTE_SMALL] = "Les effectifs de {from} à {to} ne sont pas affichés "
+                            "(«\u00a0{label}\u00a0»).",
+        [PH_NOTE_COMPLEMENT] = "Certains effectifs plus grands ne sont pas affichés non "
+                            "plus («\u00a0{label}\u00a0»), afin que les petits ne puissent "
+                            "pas être déduits des totaux.",
+        [PH_NOTE_REQUESTED] = "Les effectifs marqués «\u00a0{label}\u00a0» ne sont pas "
+                            "publiés.",
+        [PH_NOTE_WITHHELD] = "Les effectifs marqués «\u00a0{label}\u00a0» n’ont pas été "
+                            "publiés par la source.",
         [PH_NOTE_SHARES] = "Les parts portent sur les effectifs affichés.",
         [PH_NOTE_ZEROS] = "Les effectifs nuls sont affichés sous la forme {zero}.",
         [PH_CHANGE_HIDDEN] = " (évolution non affichée)",
@@ -205,16 +219,21 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_GROUP_WORD] = "Gruppe",
         [PH_CLIPPED] = "; ein abgeschnittenes Symbol zeigt einen Teil davon",
         [PH_FOR_SHOWN] = " für die angezeigten Zahlen",
-        [PH_NOTE_ROUNDED] = "Die Zahlen sind zum Schutz der Privatsphäre auf Vielfache von {n} gerundet.",
+        [PH_NOTE_ROUNDED] = "Die Zahlen sind zum Schutz der Privatsphäre auf Vielfache von "
+                            "{n} gerundet.",
         [PH_NOTE_SMALL] = "Zahlen von {from} bis {to} werden nicht angezeigt („{label}“).",
-        [PH_NOTE_COMPLEMENT] = "Auch einige größere Zahlen werden nicht angezeigt („{label}“), damit sich die kleinen nicht aus den Summen errechnen lassen.",
+        [PH_NOTE_COMPLEMENT] = "Auch einige größere Zahlen werden nicht angezeigt "
+                            "(„{label}“), damit sich die kleinen nicht aus den Summen "
+                            "errechnen lassen.",
         [PH_NOTE_REQUESTED] = "Mit „{label}“ markierte Zahlen werden zurückgehalten.",
-        [PH_NOTE_WITHHELD] = "Mit „{label}“ markierte Zahlen wurden von der Quelle zurückgehalten.",
+        [PH_NOTE_WITHHELD] = "Mit „{label}“ markierte Zahlen wurden von der Quelle "
+                            "zurückgehalten.",
         [PH_NOTE_SHARES] = "Die Anteile beziehen sich auf die angezeigten Zahlen.",
         [PH_NOTE_ZEROS] = "Nullwerte werden als {zero} angezeigt.",
         [PH_CHANGE_HIDDEN] = " (Veränderung nicht angezeigt)",
         [PH_CHANGE_FROM] = "Von {from} bis {to}: ",
-        [PH_BOTH_TOTALS] = "Beide Summen stimmen: die {icons} je {group} und je Kategorie ergeben jeweils ihren eigenen Anteil an allen {all}",
+        [PH_BOTH_TOTALS] = "Beide Summen stimmen: die {icons} je {group} und je Kategorie "
+                            "ergeben jeweils ihren eigenen Anteil an allen {all}",
         [PH_ICONS_WORD] = "Symbole",
         [PH_SQUARES_WORD] = "Quadrate",
         [PH_CAP_ICON] = "jedes Symbol = {value}",
@@ -258,16 +277,21 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_GROUP_WORD] = "grupo",
         [PH_CLIPPED] = "; um ícone cortado mostra uma parte",
         [PH_FOR_SHOWN] = " para as contagens mostradas",
-        [PH_NOTE_ROUNDED] = "As contagens são arredondadas para múltiplos de {n} para proteger a privacidade.",
+        [PH_NOTE_ROUNDED] = "As contagens são arredondadas para múltiplos de {n} para "
+                            "proteger a privacidade.",
         [PH_NOTE_SMALL] = "Contagens de {from} a {to} não são mostradas (“{label}”).",
-        [PH_NOTE_COMPLEMENT] = "Algumas contagens maiores também não são mostradas (“{label}”), para que as pequenas não possam ser deduzidas dos totais.",
+        [PH_NOTE_COMPLEMENT] = "Algumas contagens maiores também não são mostradas "
+                            "(“{label}”), para que as pequenas não possam ser deduzidas "
+                            "dos totais.",
         [PH_NOTE_REQUESTED] = "As contagens marcadas “{label}” não são publicadas.",
-        [PH_NOTE_WITHHELD] = "As contagens marcadas “{label}” não foram publicadas pela fonte.",
+        [PH_NOTE_WITHHELD] = "As contagens marcadas “{label}” não foram publicadas pela "
+                            "fonte.",
         [PH_NOTE_SHARES] = "As proporções referem-se às contagens mostradas.",
         [PH_NOTE_ZEROS] = "Contagens nulas são mostradas como {zero}.",
         [PH_CHANGE_HIDDEN] = " (variação não mostrada)",
         [PH_CHANGE_FROM] = "De {from} a {to}: ",
-        [PH_BOTH_TOTALS] = "Os dois totais coincidem: os {icons} de cada {group} e os de cada categoria somam a sua própria parte do total de {all}",
+        [PH_BOTH_TOTALS] = "Os dois totais coincidem: os {icons} de cada {group} e os de "
+                            "cada categoria somam a sua própria parte do total de {all}",
         [PH_ICONS_WORD] = "ícones",
         [PH_SQUARES_WORD] = "quadrados",
         [PH_CAP_ICON] = "cada ícone = {value}",
@@ -312,16 +336,21 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_GROUP_WORD] = "grupa",
         [PH_CLIPPED] = "; przycięta ikona pokazuje część tej liczby",
         [PH_FOR_SHOWN] = " dla pokazanych liczb",
-        [PH_NOTE_ROUNDED] = "Liczby zaokrąglono do wielokrotności {n} w celu ochrony prywatności.",
+        [PH_NOTE_ROUNDED] = "Liczby zaokrąglono do wielokrotności {n} w celu ochrony "
+                            "prywatności.",
         [PH_NOTE_SMALL] = "Liczby od {from} do {to} nie są pokazane („{label}”).",
-        [PH_NOTE_COMPLEMENT] = "Niektóre większe liczby również nie są pokazane („{label}”), aby małych nie dało się wyliczyć z sum.",
+        [PH_NOTE_COMPLEMENT] = "Niektóre większe liczby również nie są pokazane "
+                            "(„{label}”), aby małych nie dało się wyliczyć z sum.",
         [PH_NOTE_REQUESTED] = "Liczby oznaczone „{label}” nie są publikowane.",
-        [PH_NOTE_WITHHELD] = "Liczby oznaczone „{label}” nie zostały udostępnione przez źródło.",
+        [PH_NOTE_WITHHELD] = "Liczby oznaczone „{label}” nie zostały udostępnione przez "
+                            "źródło.",
         [PH_NOTE_SHARES] = "Udziały liczone są względem pokazanych liczb.",
         [PH_NOTE_ZEROS] = "Zerowe liczby są pokazane jako {zero}.",
         [PH_CHANGE_HIDDEN] = " (zmiana niepokazana)",
         [PH_CHANGE_FROM] = "Od {from} do {to}: ",
-        [PH_BOTH_TOTALS] = "Obie sumy się zgadzają: {icons} w każdej pozycji ({group}) i w każdej kategorii dają jej własny udział w łącznej liczbie: {all}",
+        [PH_BOTH_TOTALS] = "Obie sumy się zgadzają: {icons} w każdej pozycji ({group}) i w "
+                            "każdej kategorii dają jej własny udział w łącznej liczbie: "
+                            "{all}",
         [PH_ICONS_WORD] = "ikony",
         [PH_SQUARES_WORD] = "kwadraty",
         [PH_CAP_ICON] = "każda ikona = {value}",
@@ -369,14 +398,16 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_FOR_SHOWN] = " للأعداد المعروضة",
         [PH_NOTE_ROUNDED] = "قُرِّبت الأعداد إلى مضاعفات {n} لحماية الخصوصية.",
         [PH_NOTE_SMALL] = "لا تُعرض الأعداد من {from} إلى {to} («{label}»).",
-        [PH_NOTE_COMPLEMENT] = "ولا تُعرض أيضًا بعض الأعداد الأكبر («{label}»)، كي لا يمكن استنتاج الأعداد الصغيرة من المجاميع.",
+        [PH_NOTE_COMPLEMENT] = "ولا تُعرض أيضًا بعض الأعداد الأكبر («{label}»)، كي لا يمكن "
+                            "استنتاج الأعداد الصغيرة من المجاميع.",
         [PH_NOTE_REQUESTED] = "الأعداد المشار إليها بـ«{label}» محجوبة.",
         [PH_NOTE_WITHHELD] = "الأعداد المشار إليها بـ«{label}» حجبها المصدر.",
         [PH_NOTE_SHARES] = "الحصص محسوبة من الأعداد المعروضة.",
         [PH_NOTE_ZEROS] = "تُعرض الأعداد الصفرية على شكل {zero}.",
         [PH_CHANGE_HIDDEN] = " (التغيّر غير معروض)",
         [PH_CHANGE_FROM] = "من {from} إلى {to}: ",
-        [PH_BOTH_TOTALS] = "يتطابق المجموعان: {icons} كل {group} و{icons} كل فئة تساوي حصتها من مجموع {all}",
+        [PH_BOTH_TOTALS] = "يتطابق المجموعان: {icons} كل {group} و{icons} كل فئة تساوي "
+                            "حصتها من مجموع {all}",
         [PH_ICONS_WORD] = "رموز",
         [PH_SQUARES_WORD] = "مربعات",
         [PH_CAP_ICON] = "كل رمز = {value}",
