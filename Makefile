@@ -11,7 +11,8 @@ DESTDIR ?=
 BUILD   ?= build
 VERSION  = $(shell sed -n 's/^#define UG_VERSION "\(.*\)"/\1/p' include/unitgram.h)
 
-PKGS      = yaml-0.1 librsvg-2.0 cairo cairo-pdf cairo-png pangocairo fontconfig libxml-2.0 lcms2 libpng
+PKGS      = yaml-0.1 librsvg-2.0 cairo cairo-pdf cairo-png pangocairo fontconfig libxml-2.0 lcms2 libpng \
+            icu-uc icu-i18n
 WARNINGS  = -Wall -Wextra -Wshadow -Wstrict-prototypes -Wmissing-prototypes \
             -Wpointer-arith -Wformat=2 -Werror
 STD       = -std=c11 -D_POSIX_C_SOURCE=200809L
@@ -52,8 +53,9 @@ TSAN_ENV    = G_SLICE=always-malloc \
 
 DEBIAN_PACKAGES = build-essential pkg-config libyaml-dev librsvg2-dev libcairo2-dev \
   libpango1.0-dev liblcms2-dev libxml2-dev libcsv-dev check librsvg2-bin \
-  libxml2-utils poppler-utils fonts-dejavu-core valgrind libglpk-dev glpk-utils libpng-dev
-TEST_PACKAGES = python3-numpy python3-colorspacious python3-colormath chromium strace
+  libxml2-utils poppler-utils fonts-dejavu-core valgrind libglpk-dev glpk-utils libpng-dev libicu-dev
+TEST_PACKAGES = python3-numpy python3-colorspacious python3-colormath chromium strace \
+  python3-babel
 # make bench's yardstick script (tests/bench/waffle_plot.py)
 BENCH_PACKAGES = python3-matplotlib python3-yaml
 
@@ -82,7 +84,7 @@ SO_MAJOR = $(firstword $(subst ., ,$(VERSION)))
 SONAME   = libunitgram.so.$(SO_MAJOR)
 SHLIB    = $(BUILD)/libunitgram.so.$(VERSION)
 REF_DRIVERS = $(BUILD)/tests/ref/alloc_driver $(BUILD)/tests/ref/cvd_driver \
-              $(BUILD)/tests/ref/biprop_driver
+              $(BUILD)/tests/ref/biprop_driver $(BUILD)/tests/ref/lang_driver
 BENCH_DRIVERS = $(BUILD)/tests/bench/suppress
 BIN      = $(BUILD)/unitgram
 

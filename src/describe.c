@@ -12,18 +12,71 @@
 #include <string.h>
 
 #include "pack.h"
+#include "phrase.h"
 
-const char *pack_placeholder(const ug_allocation *a, pub_status s)
+const char *pack_lang(const ug_chart *c)
 {
-    return pub_placeholder(a->pub, s);
+    return c->lang.text ? c->lang.text : PHRASE_DEFAULT_LANG;
+}
+
+const char *pack_other_label(const ug_allocation *a)
+{
+    return phrase_text(pack_lang(a->chart), PH_NOT_SHOWN);
+}
+
+/* A hidden cell's text: the layout's own `suppress: label`, else the
+** catalog's "fewer than {n}" or "not shown" in the chart's language. */
+void pack_placeholder(const ug_allocation *a, pub_status s, ug_buf *b)
+{
+    const ug_chart *c = a->chart;
+    char n[PHRASE_NUMBER_MAX];
+    if (s == PUB_SMALL && c->suppress_label.text) {
+        ug_buf_puts(b, pub_placeholder(a->pub, s));
+    } else if (s == PUB_SMALL && c->has_suppress && c->suppress_below.v > 0) {
+        phrase_number(pack_lang(c), c->suppress_below, 0, n);
+        phrase_say(b, pack_lang(c), PH_FEWER, (phrase_slot[]){{"n", n}, {NULL, NULL}});
+    } else {
+        ug_buf_puts(b, pack_other_label(a));
+    }
+}
+
+/* The unit's form for count: the layout's form for count's CLDR plural
+** category, else its `other` form, else the one text it gave. */
+static const char *unit_form(const ug_chart *c, ug_dec count)
+{
+    static const char *const names[] = {"zero", "one", "two", "few", "many", "other"};
+    if (!c->has_unit_forms)
+        return c->unit_label.text;
+    const char *cat = phrase_plural(pack_lang(c), count, 0);
+    for (size_t k = 0; k < UG_PLURAL_COUNT; k++)
+        if (!strcmp(names[k], cat) && c->unit_forms[k].text)
+            return c->unit_forms[k].text;
+    return c->unit_label.text;
 }
 
 void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b)
 {
-    char n[64];
-    ug_buf_puts(b, ug_dec_format_grouped(count, n));
-    if (c->unit_label.text)
-        ug_buf_printf(b, " %s", c->unit_label.text);
+    char n[PHRASE_NUMBER_MAX];
+    phrase_number(pack_lang(c), count, 0, n);
+    if (!c->unit_label.text) {
+        ug_buf_puts(b, n);
+        return;
+    }
+    phrase_say(b, pack_lang(c), PH_COUNT,
+               (phrase_slot[]){{"n", n}, {"unit", unit_form(c, count)}, {NULL, NULL}});
+}
+
+/* Message id with one slot {n} holding a count phrase ("more than {n}"). */
+static void say_count(const ug_chart *c, phrase_id id, ug_dec count, ug_buf *b)
+{
+    ug_buf t;
+    ug_buf_init(&t);
+    pack_count_phrase(c, count, &t);
+    ug_buf_add(&t, "", 1);
+    if (!t.failed)
+        phrase_say(b, pack_lang(c), id, (phrase_slot[]){{"n", t.data}, {NULL, NULL}});
+    b->failed = b->failed || t.failed;
+    ug_buf_free(&t);
 }
 
 /* What is published of one line of the table (a group, a category or the
@@ -61,35 +114,65 @@ static bool any_status(const pub_table *t, pub_status st)
 
 /* What was done to protect people, in the words the key and the description
 ** share; empty when every count is published as counted. */
+/* One note of the disclosure list, followed by the language's space. */
+static void note(ug_buf *b, const char *lang, phrase_id id, const phrase_slot *slots)
+{
+    phrase_say(b, lang, id, slots);
+    ug_buf_puts(b, phrase_text(lang, PH_SPACE));
+}
+
+/* "Counts of 1 to 9 households are not shown ("fewer than 10")." */
+static void small_note(const ug_allocation *a, ug_buf *b)
+{
+    const pub_table *t = a->pub;
+    const char *lang = pack_lang(a->chart);
+    char from[PHRASE_NUMBER_MAX];
+    ug_buf to, label;
+    ug_buf_init(&to);
+    ug_buf_init(&label);
+    phrase_number(lang, (ug_dec){t->zeros_hidden ? 0 : UG_DEC_SCALE}, 0, from);
+    pack_count_phrase(a->chart, (ug_dec){t->below.v - UG_DEC_SCALE}, &to);
+    pack_placeholder(a, PUB_SMALL, &label);
+    ug_buf_add(&to, "", 1);
+    ug_buf_add(&label, "", 1);
+    if (!to.failed && !label.failed)
+        note(b, lang, PH_NOTE_SMALL, (phrase_slot[]){{"from", from}, {"to", to.data},
+                                                     {"label", label.data}, {NULL, NULL}});
+    b->failed = b->failed || to.failed || label.failed;
+    ug_buf_free(&to);
+    ug_buf_free(&label);
+}
+
+static bool shows_zero(const pub_table *t)
+{
+    for (size_t k = 0; k < t->ngroups * t->ncats; k++)
+        if (!pub_hidden(t->cells[k].status) && t->cells[k].value.v == 0)
+            return true;
+    return false;
+}
+
 void pack_disclosure_notes(const ug_allocation *a, ug_buf *b)
 {
     const pub_table *t = a->pub;
-    const char *unit = a->chart->unit_label.text;
-    char n[64];
+    const char *lang = pack_lang(a->chart);
+    const phrase_slot other[] = {{"label", pack_other_label(a)}, {NULL, NULL}};
+    char n[PHRASE_NUMBER_MAX];
     if (t->rounded)
-        ug_buf_printf(b, "Counts are rounded to multiples of %s to protect privacy. ",
-                      ug_dec_format_grouped(t->round_to, n));
+        note(b, lang, PH_NOTE_ROUNDED, (phrase_slot[]){
+            {"n", phrase_number(lang, t->round_to, 0, n)}, {NULL, NULL}});
     if (any_status(t, PUB_SMALL) && t->below.v > 0)
-        ug_buf_printf(b, "Counts of %s%s%s%s are not shown (\u201c%s\u201d). ",
-                      t->zeros_hidden ? "0 to " : "1 to ",
-                      ug_dec_format_grouped((ug_dec){t->below.v - UG_DEC_SCALE}, n),
-                      unit ? " " : "", unit ? unit : "", t->small_label);
+        small_note(a, b);
     if (any_status(t, PUB_COMPLEMENT))
-        ug_buf_printf(b, "Some larger counts are not shown either (\u201c%s\u201d), so "
-                         "that the small ones cannot be worked out from totals. ",
-                      t->other_label);
+        note(b, lang, PH_NOTE_COMPLEMENT, other);
     if (any_status(t, PUB_REQUESTED))
-        ug_buf_printf(b, "Counts marked \u201c%s\u201d are withheld. ", t->other_label);
+        note(b, lang, PH_NOTE_REQUESTED, other);
     if (any_status(t, PUB_WITHHELD))
-        ug_buf_printf(b, "Counts marked \u201c%s\u201d were withheld by the source. ",
-                      t->other_label);
+        note(b, lang, PH_NOTE_WITHHELD, other);
     if (t->nhidden && a->rule.by_cells)
-        ug_buf_puts(b, "Shares are of the counts shown. ");
-    bool zero = false;
-    for (size_t k = 0; k < t->ngroups * t->ncats; k++)
-        zero = zero || (!pub_hidden(t->cells[k].status) && t->cells[k].value.v == 0);
-    if (zero && t->nsmall)
-        ug_buf_puts(b, "Zero counts are shown as 0. ");
+        note(b, lang, PH_NOTE_SHARES, NULL);
+    if (shows_zero(t) && t->nsmall)
+        note(b, lang, PH_NOTE_ZEROS, (phrase_slot[]){
+            {"zero", phrase_number(lang, (ug_dec){0}, 0, n)}, {NULL, NULL}});
     if (b->len && b->data[b->len - 1] == ' ')
         b->len--;
 }
@@ -97,18 +180,14 @@ void pack_disclosure_notes(const ug_allocation *a, ug_buf *b)
 static void partial_phrase(const ug_allocation *a, const line_sum *s, ug_buf *b)
 {
     const ug_chart *c = a->chart;
-    if (s->visible.v == 0 && s->nsmall == s->nhidden && a->pub->below.v > 0) {
-        ug_buf_puts(b, "fewer than ");
-        pack_count_phrase(c, (ug_dec){a->pub->below.v * (ug_i128)s->nhidden}, b);
-    } else if (s->visible.v == 0) {
-        ug_buf_puts(b, a->pub->other_label);
-    } else {
-        ug_buf_puts(b, a->pub->rounded ? "about " : s->maybe_zero ? "at least "
-                                                                 : "more than ");
-        pack_count_phrase(c, s->visible, b);
-        if (a->pub->rounded)
-            ug_buf_puts(b, " and more not shown");
-    }
+    if (s->visible.v == 0 && s->nsmall == s->nhidden && a->pub->below.v > 0)
+        say_count(c, PH_FEWER, (ug_dec){a->pub->below.v * (ug_i128)s->nhidden}, b);
+    else if (s->visible.v == 0)
+        ug_buf_puts(b, pack_other_label(a));
+    else
+        say_count(c, a->pub->rounded ? PH_ABOUT_MORE : s->maybe_zero ? PH_AT_LEAST
+                                                                      : PH_MORE,
+                  s->visible, b);
 }
 
 static void margin_phrase(const ug_allocation *a, const pub_cell *m, const line_sum *s,
@@ -134,12 +213,13 @@ size_t pack_change_ref(const ug_allocation *a, size_t g)
 
 /* "+34, +8 %": from the published values only; the percentage rounded half
 ** away from zero, left out when the earlier value is 0. */
-static void change_amount(ug_dec from, ug_dec to, ug_buf *b)
+static void change_amount(const char *lang, ug_dec from, ug_dec to, ug_buf *b)
 {
-    char n[64];
+    char n[PHRASE_NUMBER_MAX];
     ug_dec d = {to.v - from.v};
     ug_dec mag = {d.v < 0 ? -d.v : d.v};
-    ug_buf_printf(b, "%s%s", d.v < 0 ? "-" : d.v > 0 ? "+" : "\u00b1", ug_dec_format_grouped(mag, n));
+    ug_buf_printf(b, "%s%s", d.v < 0 ? "-" : d.v > 0 ? "+" : "\u00b1",
+                  phrase_number(lang, mag, 0, n));
     if (from.v <= 0)
         return;
     ug_i128 num = mag.v * 100, q = num / from.v;
@@ -151,14 +231,15 @@ static void change_amount(ug_dec from, ug_dec to, ug_buf *b)
 
 /* " (+34, +8 %)" when both cells are published; " (change not shown)" when
 ** either is hidden, so a hidden count's change is hidden too. */
-static void change_note(const pub_cell *from, const pub_cell *to, ug_buf *b)
+static void change_note(const char *lang, const pub_cell *from, const pub_cell *to,
+                        ug_buf *b)
 {
     if (pub_hidden(from->status) || pub_hidden(to->status)) {
-        ug_buf_puts(b, " (change not shown)");
+        ug_buf_puts(b, phrase_text(lang, PH_CHANGE_HIDDEN));
         return;
     }
     ug_buf_puts(b, " (");
-    change_amount(from->value, to->value, b);
+    change_amount(lang, from->value, to->value, b);
     ug_buf_puts(b, ")");
 }
 
@@ -168,17 +249,17 @@ static void category_change_phrase(const ug_allocation *a, size_t i, ug_buf *b)
 {
     size_t last = a->ngroups - 1, ref = pack_change_ref(a, last);
     const pub_cell *from = pub_at(a->pub, ref, i), *to = pub_at(a->pub, last, i);
-    char n[64];
+    char n[PHRASE_NUMBER_MAX];
     if (pub_hidden(from->status))
-        ug_buf_puts(b, pack_placeholder(a, from->status));
+        pack_placeholder(a, from->status, b);
     else
-        ug_buf_puts(b, ug_dec_format_grouped(from->value, n));
+        ug_buf_puts(b, phrase_number(pack_lang(a->chart), from->value, 0, n));
     ug_buf_puts(b, " \u2192 ");
     if (pub_hidden(to->status))
-        ug_buf_puts(b, pack_placeholder(a, to->status));
+        pack_placeholder(a, to->status, b);
     else
         pack_count_phrase(a->chart, to->value, b);
-    change_note(from, to, b);
+    change_note(pack_lang(a->chart), from, to, b);
 }
 
 static void group_total_phrase(const ug_allocation *a, size_t g, ug_buf *b)
@@ -195,7 +276,8 @@ static void group_change_note(const ug_allocation *a, size_t g, ug_buf *b)
 {
     size_t ref = g == SIZE_MAX ? SIZE_MAX : pack_change_ref(a, g);
     if (ref != SIZE_MAX)
-        change_note(&a->pub->group_totals[ref], &a->pub->group_totals[g], b);
+        change_note(pack_lang(a->chart), &a->pub->group_totals[ref],
+                    &a->pub->group_totals[g], b);
 }
 
 void pack_group_phrase(const ug_allocation *a, size_t g, ug_buf *b)
@@ -215,7 +297,7 @@ void pack_category_phrase(const ug_allocation *a, size_t i, ug_buf *b)
         add_cell(a, g, i, &s);
     const pub_cell *only = pub_at(a->pub, 0, i);
     if (a->ngroups == 1 && pub_hidden(only->status)) {
-        ug_buf_puts(b, pack_placeholder(a, only->status));
+        pack_placeholder(a, only->status, b);
         return;
     }
     margin_phrase(a, &a->pub->cat_totals[i], &s, b);
@@ -225,75 +307,113 @@ void pack_category_cell(const ug_allocation *a, size_t g, size_t i, ug_buf *b)
 {
     const pub_cell *cell = pub_at(a->pub, g, i);
     if (pub_hidden(cell->status)) {
-        ug_buf_puts(b, pack_placeholder(a, cell->status));
+        pack_placeholder(a, cell->status, b);
     } else {
-        char n[64];
-        ug_buf_puts(b, ug_dec_format_grouped(cell->value, n));
+        char n[PHRASE_NUMBER_MAX];
+        ug_buf_puts(b, phrase_number(pack_lang(a->chart), cell->value, 0, n));
     }
     size_t ref = pack_change_ref(a, g);
     if (ref != SIZE_MAX)
-        change_note(pub_at(a->pub, ref, i), cell, b);
+        change_note(pack_lang(a->chart), pub_at(a->pub, ref, i), cell, b);
 }
 
-/* 100 / cells as a percentage, at most two decimals: 1/200 -> 0.5 */
-static void percent_text(long cells, char *buf)
+/* 100 / cells as a percentage in the chart's language, at most two
+** decimals: 1/200 -> "0.5%" ("0,5 %" in French). */
+static void percent_text(const ug_chart *c, long cells, char *buf)
 {
-    ug_ratio_format(100, cells > 0 ? cells : 1, 2, buf);
-    char *end = buf + strlen(buf) - 1;
-    while (strchr(buf, '.') && (*end == '0' || *end == '.'))
-        if (*end-- == '.')
-            break;
-    end[1] = '\0';
+    char raw[64];
+    ug_dec d;
+    ug_ratio_format(100, cells > 0 ? cells : 1, 2, raw);
+    if (ug_dec_parse(raw, strlen(raw), &d) != UG_DEC_OK)
+        d.v = 0;
+    phrase_percent(pack_lang(c), d, buf);
 }
 
-static void share_of_whole(const ug_allocation *a, ug_buf *b)
+static void share_of_whole(const ug_allocation *a, const char *pct, ug_buf *b)
 {
     const ug_chart *c = a->chart;
-    const char *unit = c->unit_label.text;
-    const char *shown = a->pub->nhidden ? " shown" : "";
+    const char *lang = pack_lang(c), *unit = c->unit_label.text;
+    const char *shown = a->pub->nhidden ? phrase_text(lang, PH_SHOWN) : "";
+    char n[PHRASE_NUMBER_MAX];
     if (c->groups.n) {
         /* "1% of each school's pupils": the layout names what a group is
         ** ("each", not "a", which would need "an" before some names) */
-        const char *group = c->group_label.text ? c->group_label.text : "group";
-        ug_buf_printf(b, " of each %s's %s%s", group, unit ? unit : "total", shown);
-    } else if (unit) {
-        ug_buf_puts(b, " of the ");
-        pack_count_phrase(c, (ug_dec){a->group_totals[0].v}, b);
-        ug_buf_puts(b, shown);
-    } else {
-        char n[64];
-        ug_buf_printf(b, " of the total%s, %s", shown, ug_dec_format_grouped(a->group_totals[0], n));
+        const char *group = c->group_label.text ? c->group_label.text
+                                                : phrase_text(lang, PH_GROUP_WORD);
+        phrase_say(b, lang, PH_SHARE_EACH, (phrase_slot[]){{"pct", pct}, {"group", group},
+                   {"unit", unit ? unit : phrase_text(lang, PH_TOTAL_WORD)},
+                   {"shown", shown}, {NULL, NULL}});
+        return;
     }
+    ug_buf t;
+    ug_buf_init(&t);
+    if (unit)
+        pack_count_phrase(c, (ug_dec){a->group_totals[0].v}, &t);
+    else
+        ug_buf_puts(&t, phrase_number(lang, a->group_totals[0], 0, n));
+    ug_buf_add(&t, "", 1);
+    if (!t.failed)
+        phrase_say(b, lang, unit ? PH_SHARE_OF : PH_SHARE_TOTAL,
+                   (phrase_slot[]){{"pct", pct}, {"count", t.data}, {"n", t.data},
+                                   {"shown", shown}, {NULL, NULL}});
+    b->failed = b->failed || t.failed;
+    ug_buf_free(&t);
 }
 
-void pack_value_statement(const ug_chart *c, const ug_allocation *a,
-                          const char *verb, ug_buf *b)
+/* What one icon stands for: a count, or a share of the whole. */
+static void icon_value_text(const ug_chart *c, const ug_allocation *a, ug_buf *b)
 {
-    ug_buf_printf(b, "Each %s %s ", pack_icon_word(c, false), verb);
     if (a->rule.by_cells) {
-        char pct[64];
-        percent_text(a->rule.cells, pct);
-        ug_buf_printf(b, "%s%%", pct);
-        share_of_whole(a, b);
+        char pct[PHRASE_NUMBER_MAX];
+        percent_text(c, a->rule.cells, pct);
+        share_of_whole(a, pct, b);
         return;
     }
     pack_count_phrase(c, a->rule.value, b);
     if (a->rule.partial)
-        ug_buf_printf(b, "; a clipped %s shows part of that", pack_icon_word(c, false));
+        ug_buf_puts(b, phrase_text(pack_lang(c), PH_CLIPPED));
+}
+
+void pack_value_statement(const ug_chart *c, const ug_allocation *a, bool key,
+                          ug_buf *b)
+{
+    const char *lang = pack_lang(c);
+    ug_buf t;
+    ug_buf_init(&t);
+    icon_value_text(c, a, &t);
+    ug_buf_add(&t, "", 1);
+    if (!t.failed)
+        phrase_say(b, lang, key ? PH_KEY : PH_IS, (phrase_slot[]){
+            {"each", phrase_text(lang, pack_icon_is_square(c) ? PH_EACH_SQUARE
+                                                               : PH_EACH_ICON)},
+            {"count", t.data}, {NULL, NULL}});
+    b->failed = b->failed || t.failed;
+    ug_buf_free(&t);
 }
 
 void pack_totals_note(const ug_allocation *a, ug_buf *b)
 {
     const ug_chart *c = a->chart;
+    const char *lang = pack_lang(c);
     if (!a->cat_icons)
         return;
     long n = 0;
     for (size_t g = 0; g < a->ngroups; g++)
         n += a->group_icons[g];
-    const char *group = c->group_label.text ? c->group_label.text : "group";
-    ug_buf_printf(b, "Both totals agree: each %s's %s and each category's %s add up "
-                     "to its own share of all %ld %s", group, pack_icon_word(c, true),
-                  pack_icon_word(c, true), n, pack_icon_word(c, n != 1));
+    const char *group = c->group_label.text ? c->group_label.text
+                                            : phrase_text(lang, PH_GROUP_WORD);
+    ug_buf all;
+    ug_buf_init(&all);
+    pack_icon_count(c, (ug_dec){(ug_i128)n * UG_DEC_SCALE}, 0, &all);
+    ug_buf_add(&all, "", 1);
+    if (!all.failed)
+        phrase_say(b, lang, PH_BOTH_TOTALS, (phrase_slot[]){
+            {"group", group}, {"all", all.data},
+            {"icons", phrase_text(lang, pack_icon_is_square(c) ? PH_SQUARES_WORD
+                                                              : PH_ICONS_WORD)},
+            {NULL, NULL}});
+    b->failed = b->failed || all.failed;
+    ug_buf_free(&all);
 }
 
 char *pack_icons_text(const alloc_share *s, char *buf)
@@ -317,24 +437,77 @@ static bool all_squares(const ug_chart *c)
     return true;
 }
 
+bool pack_icon_is_square(const ug_chart *c)
+{
+    return ug_form_about(c->form)->cell && all_squares(c);
+}
+
 const char *pack_icon_word(const ug_chart *c, bool plural)
 {
     const ug_form_info *f = ug_form_about(c->form);
-    if (f->cell && all_squares(c))
+    if (pack_icon_is_square(c))
         return plural ? f->cells : f->cell;
     return plural ? "icons" : "icon";
 }
 
 /* ---- the sentences -------------------------------------------------------- */
 
-static void sentence(ug_buf *b, const char *text)
+/* Whether text already ends a sentence, in any shipped language's stop. */
+static bool ends_sentence(const char *text, size_t n)
+{
+    static const char *const stops[] = {".", "!", "?", "\u3002", "\uff01", "\uff1f",
+                                        "\u061f"};
+    for (size_t k = 0; k < sizeof stops / sizeof stops[0]; k++) {
+        size_t sl = strlen(stops[k]);
+        if (n >= sl && !memcmp(text + n - sl, stops[k], sl))
+            return true;
+    }
+    return false;
+}
+
+static void sentence(ug_buf *b, const char *lang, const char *text)
 {
     size_t n = strlen(text);
     if (b->len)
-        ug_buf_puts(b, " ");
+        ug_buf_puts(b, phrase_text(lang, PH_SPACE));
     ug_buf_puts(b, text);
-    if (n && !strchr(".!?", text[n - 1]))
-        ug_buf_puts(b, ".");
+    if (n && !ends_sentence(text, n))
+        ug_buf_puts(b, phrase_text(lang, PH_STOP));
+}
+
+void pack_icon_count(const ug_chart *c, ug_dec d, int places, ug_buf *b)
+{
+    const char *lang = pack_lang(c);
+    char n[PHRASE_NUMBER_MAX];
+    phrase_number(lang, d, places, n);
+    phrase_say(b, lang, pack_icon_is_square(c) ? PH_SQUARES : PH_ICONS,
+               (phrase_slot[]){{"n", n}, {"plural", phrase_plural(lang, d, places)},
+                               {NULL, NULL}});
+}
+
+void pack_share_icons(const ug_chart *c, const alloc_share *s, ug_buf *b)
+{
+    char raw[64];
+    ug_dec d = {(ug_i128)s->icons * UG_DEC_SCALE};
+    if (s->partial) {
+        pack_icons_text(s, raw);
+        if (ug_dec_parse(raw, strlen(raw), &d) != UG_DEC_OK)
+            d.v = 0;
+    }
+    pack_icon_count(c, d, s->partial ? 2 : 0, b);
+}
+
+/* "(120 icons)" */
+static void icons_phrase(const ug_chart *c, const alloc_share *s, ug_buf *b)
+{
+    ug_buf t;
+    ug_buf_init(&t);
+    pack_share_icons(c, s, &t);
+    ug_buf_add(&t, "", 1);
+    if (!t.failed)
+        phrase_say(b, pack_lang(c), PH_PAREN, (phrase_slot[]){{"text", t.data}, {NULL, NULL}});
+    b->failed = b->failed || t.failed;
+    ug_buf_free(&t);
 }
 
 /* "Adults 1,200 households (120 icons)" or "Adults fewer than 10" */
@@ -345,29 +518,43 @@ static void cell_phrase(const ug_chart *c, const ug_allocation *a, size_t g,
     ug_buf_printf(b, "%s%s", c->cats[i].label.text ? c->cats[i].label.text
                                                   : c->cats[i].id, sep);
     if (alloc_hidden(s)) {
-        ug_buf_puts(b, pack_placeholder(a, s->status));
+        pack_placeholder(a, s->status, b);
         return;
     }
-    char n[64];
     pack_count_phrase(c, s->count, b);
-    bool one = !s->partial && s->icons == 1;
-    ug_buf_printf(b, " (%s %s)", pack_icons_text(s, n), pack_icon_word(c, !one));
+    ug_buf_puts(b, phrase_text(pack_lang(c), PH_SPACE));
+    icons_phrase(c, s, b);
 }
 
 static void group_sentence(const ug_chart *c, const ug_allocation *a, size_t g,
                            ug_buf *b)
 {
-    ug_buf_printf(b, " %s, ", c->groups.items[g].text);
+    const char *lang = pack_lang(c);
+    ug_buf total, change;
+    ug_buf_init(&total);
+    ug_buf_init(&change);
     /* "1,057 households in all (+34, +3 %):", the change after "in all" */
-    group_total_phrase(a, g, b);
-    ug_buf_puts(b, " in all");
-    group_change_note(a, g, b);
-    ug_buf_puts(b, ": ");
-    for (size_t i = 0; i < c->ncats; i++)
-        cell_phrase(c, a, g, i, " ", b), ug_buf_puts(b, i + 1 < c->ncats ? ", " : ".");
+    group_total_phrase(a, g, &total);
+    group_change_note(a, g, &change);
+    ug_buf_add(&total, "", 1);
+    ug_buf_add(&change, "", 1);
+    if (!total.failed && !change.failed) {
+        ug_buf_puts(b, phrase_text(lang, PH_SPACE));
+        phrase_say(b, lang, PH_GROUP_LEAD, (phrase_slot[]){
+            {"group", c->groups.items[g].text}, {"total", total.data},
+            {"change", change.data}, {NULL, NULL}});
+    }
+    b->failed = b->failed || total.failed || change.failed;
+    ug_buf_free(&total);
+    ug_buf_free(&change);
+    for (size_t i = 0; i < c->ncats; i++) {
+        cell_phrase(c, a, g, i, " ", b);
+        ug_buf_puts(b, phrase_text(lang, i + 1 < c->ncats ? PH_LIST_SEP : PH_STOP));
+    }
 }
 
-static void list_sentences(ug_buf *b, const ug_text_list *l, const char *lead)
+static void list_sentences(ug_buf *b, const char *lang, const ug_text_list *l,
+                           const char *lead)
 {
     if (!l->n)
         return;
@@ -378,7 +565,7 @@ static void list_sentences(ug_buf *b, const ug_text_list *l, const char *lead)
         ug_buf_printf(&line, "%s%s", i ? "; " : "", l->items[i].text);
     ug_buf_add(&line, "", 1);
     if (!line.failed)
-        sentence(b, line.data);
+        sentence(b, lang, line.data);
     else
         b->failed = true;
     ug_buf_free(&line);
@@ -390,8 +577,10 @@ static void change_sentence(const ug_chart *c, const ug_allocation *a, ug_buf *b
     size_t last = a->ngroups - 1, ref = pack_change_ref(a, last);
     if (ref == SIZE_MAX)
         return;
-    ug_buf_printf(b, " From %s to %s: ", c->groups.items[ref].text,
-                  c->groups.items[last].text);
+    ug_buf_puts(b, phrase_text(pack_lang(c), PH_SPACE));
+    phrase_say(b, pack_lang(c), PH_CHANGE_FROM, (phrase_slot[]){
+        {"from", c->groups.items[ref].text}, {"to", c->groups.items[last].text},
+        {NULL, NULL}});
     for (size_t i = 0; i < c->ncats; i++) {
         ug_buf_printf(b, "%s%s ", i ? "; " : "",
                       c->cats[i].label.text ? c->cats[i].label.text : c->cats[i].id);
@@ -400,30 +589,23 @@ static void change_sentence(const ug_chart *c, const ug_allocation *a, ug_buf *b
     ug_buf_puts(b, ".");
 }
 
-void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b)
+/* "Waffle chart: Title." in the chart's language. */
+static void opening(const ug_chart *c, ug_buf *b)
 {
-    ug_buf_puts(b, ug_form_about(c->form)->kind);
+    const char *lang = pack_lang(c);
+    const char *kind = phrase_text(lang, c->form == UG_FORM_WAFFLE ? PH_KIND_WAFFLE
+                                                                   : PH_KIND_ROWS);
     if (c->title.text)
-        ug_buf_printf(b, ": %s", c->title.text);
-    ug_buf_puts(b, strchr(".!?", b->len ? b->data[b->len - 1] : 0) ? "" : ".");
-    if (c->subtitle.text)
-        sentence(b, c->subtitle.text);
-    ug_buf_puts(b, " ");
-    pack_value_statement(c, a, "is", b);
-    ug_buf_puts(b, ".");
-    if (a->cat_icons) {
-        ug_buf_puts(b, " ");
-        pack_totals_note(a, b);
-        ug_buf_puts(b, ".");
-    }
-    for (size_t g = 0; c->groups.n && g < c->groups.n; g++)
-        group_sentence(c, a, g, b);
-    for (size_t i = 0; !c->groups.n && i < c->ncats; i++) {
-        ug_buf_puts(b, " ");
-        cell_phrase(c, a, 0, i, ": ", b);
-        ug_buf_puts(b, ".");
-    }
-    change_sentence(c, a, b);
+        phrase_say(b, lang, PH_KIND_TITLE,
+                   (phrase_slot[]){{"kind", kind}, {"title", c->title.text}, {NULL, NULL}});
+    else
+        ug_buf_puts(b, kind);
+    if (!b->len || !ends_sentence(b->data, b->len))
+        ug_buf_puts(b, phrase_text(lang, PH_STOP));
+}
+
+static void notes_sentence(const ug_allocation *a, ug_buf *b)
+{
     ug_buf notes;
     ug_buf_init(&notes);
     pack_disclosure_notes(a, &notes);
@@ -431,11 +613,36 @@ void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b)
     if (notes.failed)
         b->failed = true;
     else if (notes.data[0])
-        sentence(b, notes.data);
+        sentence(b, pack_lang(a->chart), notes.data);
     ug_buf_free(&notes);
+}
+
+void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b)
+{
+    const char *lang = pack_lang(c);
+    opening(c, b);
+    if (c->subtitle.text)
+        sentence(b, lang, c->subtitle.text);
+    ug_buf_puts(b, phrase_text(lang, PH_SPACE));
+    pack_value_statement(c, a, false, b);
+    ug_buf_puts(b, phrase_text(lang, PH_STOP));
+    if (a->cat_icons) {
+        ug_buf_puts(b, phrase_text(lang, PH_SPACE));
+        pack_totals_note(a, b);
+        ug_buf_puts(b, phrase_text(lang, PH_STOP));
+    }
+    for (size_t g = 0; c->groups.n && g < c->groups.n; g++)
+        group_sentence(c, a, g, b);
+    for (size_t i = 0; !c->groups.n && i < c->ncats; i++) {
+        ug_buf_puts(b, phrase_text(lang, PH_SPACE));
+        cell_phrase(c, a, 0, i, phrase_text(lang, PH_LABEL_SEP), b);
+        ug_buf_puts(b, phrase_text(lang, PH_STOP));
+    }
+    change_sentence(c, a, b);
+    notes_sentence(a, b);
     for (size_t i = 0; i < c->notes.n; i++)
-        sentence(b, c->notes.items[i].text);
-    list_sentences(b, &c->source, "Source: ");
+        sentence(b, lang, c->notes.items[i].text);
+    list_sentences(b, lang, &c->source, phrase_text(lang, PH_SOURCE));
 }
 
 ug_status ug_chart_describe(const ug_chart *c, const ug_allocation *a, char **out,

@@ -17,6 +17,8 @@
 #include "alloc.h"
 #include "layout.h"
 #include "raster.h"
+#include "pack.h"
+#include "phrase.h"
 #include "svg.h"
 
 /* ---- the SVG ------------------------------------------------------------- */
@@ -44,19 +46,49 @@ static const char *short_number(ug_i128 num, ug_i128 den, char *buf)
     return buf;
 }
 
+/* A phrase with one slot, escaped for HTML text. */
+static void phrase_say_escaped(ug_buf *b, const char *lang, phrase_id id, const char *slot,
+                               const char *value)
+{
+    ug_buf t;
+    ug_buf_init(&t);
+    phrase_say(&t, lang, id, (phrase_slot[]){{slot, value}, {NULL, NULL}});
+    ug_buf_add(&t, "", 1);
+    if (!t.failed)
+        svg_escape_text(b, t.data);
+    b->failed = b->failed || t.failed;
+    ug_buf_free(&t);
+}
+
+static void placeholder_cell(ug_buf *b, const ug_allocation *a, pub_status st)
+{
+    ug_buf t;
+    ug_buf_init(&t);
+    pack_placeholder(a, st, &t);
+    ug_buf_add(&t, "", 1);
+    if (!t.failed)
+        svg_escape_text(b, t.data);
+    b->failed = b->failed || t.failed;
+    ug_buf_free(&t);
+}
+
 static void caption(ug_buf *b, const ug_allocation *a)
 {
     const ug_chart *c = a->chart;
+    const char *lang = pack_lang(c);
     char v[64];
     ug_buf_puts(b, "<caption>");
     svg_escape_text(b, c->title.text ? c->title.text : "Chart");
+    ug_buf_puts(b, " (");
+    /* the exact value, as the table's figures are */
     if (a->rule.by_cells) {
         if (a->rule.cells == 100)
-            ug_buf_puts(b, " (each square = 1% of the total");
+            snprintf(v, sizeof v, "1%%");
         else
-            ug_buf_printf(b, " (each square = 1/%ld of the total", a->rule.cells);
+            snprintf(v, sizeof v, "1/%ld", a->rule.cells);
+        phrase_say_escaped(b, lang, PH_CAP_SQUARE, "share", v);
     } else {
-        ug_buf_printf(b, " (each icon = %s", ug_dec_format(a->rule.value, v));
+        phrase_say_escaped(b, lang, PH_CAP_ICON, "value", ug_dec_format(a->rule.value, v));
     }
     if (c->unit_label.text) {
         ug_buf_puts(b, " ");
@@ -65,14 +97,24 @@ static void caption(ug_buf *b, const ug_allocation *a)
     ug_buf_puts(b, ")</caption>\n");
 }
 
-static void head_row(ug_buf *b, bool groups)
+static void head_cell(ug_buf *b, const char *lang, phrase_id id)
 {
+    ug_buf_puts(b, "<th scope=\"col\">");
+    svg_escape_text(b, phrase_text(lang, id));
+    ug_buf_puts(b, "</th>");
+}
+
+static void head_row(ug_buf *b, const ug_chart *c)
+{
+    const char *lang = pack_lang(c);
     ug_buf_puts(b, "<thead><tr>");
-    if (groups)
-        ug_buf_puts(b, "<th scope=\"col\">Group</th>");
-    ug_buf_puts(b, "<th scope=\"col\">Category</th><th scope=\"col\">Count</th>"
-                   "<th scope=\"col\">Icons</th><th scope=\"col\">Shown value</th>"
-                   "</tr></thead>\n");
+    if (c->groups.n > 0)
+        head_cell(b, lang, PH_TH_GROUP);
+    head_cell(b, lang, PH_TH_CATEGORY);
+    head_cell(b, lang, PH_TH_COUNT);
+    head_cell(b, lang, PH_TH_ICONS);
+    head_cell(b, lang, PH_TH_SHOWN);
+    ug_buf_puts(b, "</tr></thead>\n");
 }
 
 static void body_row(ug_buf *b, const ug_allocation *a, size_t g, size_t i)
@@ -90,7 +132,7 @@ static void body_row(ug_buf *b, const ug_allocation *a, size_t g, size_t i)
     svg_escape_text(b, c->cats[i].label.text);
     if (alloc_hidden(s)) {
         ug_buf_puts(b, "</th><td>");
-        svg_escape_text(b, pub_placeholder(a->pub, s->status));
+        placeholder_cell(b, a, s->status);
         ug_buf_puts(b, "</td><td></td><td></td></tr>\n");
         return;
     }
@@ -103,11 +145,21 @@ static void body_row(ug_buf *b, const ug_allocation *a, size_t g, size_t i)
                   short_number(s->shown_num, s->shown_den * UG_DEC_SCALE, shown));
 }
 
-static void table(ug_buf *b, const ug_allocation *a)
+/* A handout may hold charts in two languages: a table in another language
+** than the page says which. */
+static void table(ug_buf *b, const ug_allocation *a, const ug_chart *first)
 {
-    ug_buf_puts(b, "<table>\n");
+    const char *lang = a->chart->lang.text, *page = first ? first->lang.text : NULL;
+    char tag[64];
+    ug_buf_puts(b, "<table");
+    if (lang && (!page || strcmp(lang, page))) {
+        ug_buf_puts(b, " lang=\"");
+        svg_escape_text(b, phrase_tag(lang, tag, sizeof tag));
+        ug_buf_printf(b, "\" dir=\"%s\"", phrase_dir(lang));
+    }
+    ug_buf_puts(b, ">\n");
     caption(b, a);
-    head_row(b, a->chart->groups.n > 0);
+    head_row(b, a->chart);
     ug_buf_puts(b, "<tbody>\n");
     for (size_t g = 0; g < a->ngroups; g++)
         for (size_t i = 0; i < a->ncats; i++)
@@ -152,9 +204,20 @@ static double svg_width_px(const char *svg, size_t len)
 /* The page is as wide as its picture (or 60em, whichever is more), so a
 ** wide chart is shown at its own size, icons unscaled; a narrow screen
 ** still shrinks it (svg max-width 100%). */
-static void page_head(ug_buf *b, const char *title, double picture_px)
+/* lang and dir from the first chart's `lang` (FORMAT.md §6); a chart that
+** states none keeps the page as it always was, lang="en" alone. */
+static void page_head(ug_buf *b, const ug_chart *first, const char *title,
+                      double picture_px)
 {
-    ug_buf_puts(b, "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n"
+    char tag[64];
+    ug_buf_puts(b, "<!DOCTYPE html>\n<html lang=\"");
+    if (first && first->lang.text) {
+        svg_escape_text(b, phrase_tag(first->lang.text, tag, sizeof tag));
+        ug_buf_printf(b, "\" dir=\"%s", phrase_dir(first->lang.text));
+    } else {
+        ug_buf_puts(b, PHRASE_DEFAULT_LANG);
+    }
+    ug_buf_puts(b, "\">\n<head>\n"
                    "<meta charset=\"utf-8\"/>\n"
                    "<meta name=\"viewport\" content=\"width=device-width\"/>\n"
                    "<title>");
@@ -188,7 +251,7 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
         description = first->description.text;
     ug_buf b;
     ug_buf_init(&b);
-    page_head(&b, title, svg_width_px(svg + at, svg_len - at));
+    page_head(&b, first, title, svg_width_px(svg + at, svg_len - at));
     ug_buf_puts(&b, "<figure>\n");
     ug_buf_add(&b, svg + at, svg_len - at);
     ug_buf_puts(&b, "\n</figure>\n");
@@ -198,7 +261,7 @@ ug_status ug_html_page(const char *title, const char *svg, size_t svg_len,
         ug_buf_puts(&b, "</p>\n");
     }
     for (size_t k = 0; k < nallocs; k++)
-        table(&b, allocs[k]);
+        table(&b, allocs[k], first);
     ug_buf_puts(&b, "</main>\n</body>\n</html>\n");
     return ug_buf_take(&b, out, len, err);
 }

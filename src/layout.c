@@ -57,6 +57,52 @@ static ug_status key_icon_value(loader *l, void *base, const layout_node *v)
     return st;
 }
 
+static ug_status key_lang(loader *l, void *base, const layout_node *v)
+{
+    return layout_read_lang(l, v, &((ug_chart *)base)->lang);
+}
+
+#define UG_PLURAL_NAME_(id, name) name,
+static const char *const plural_names[] = {UG_PLURAL_CATEGORIES(UG_PLURAL_NAME_) NULL};
+#undef UG_PLURAL_NAME_
+
+/* One `unit-label` form: the category it is for, once each. */
+static ug_status read_unit_form(loader *l, ug_chart *c, const layout_node *k,
+                                const layout_node *v)
+{
+    size_t f = 0;
+    while (plural_names[f] && strcmp(plural_names[f], k->text))
+        f++;
+    if (!plural_names[f])
+        return ug_fail(l->err, UG_ESCHEMA, k->mark,
+                       "'unit-label' forms are CLDR plural categories: zero, one, "
+                       "two, few, many, other (found '%s')", k->text);
+    if (c->unit_forms[f].text)
+        return ug_fail(l->err, UG_ESCHEMA, k->mark, "duplicate key '%s' (first at "
+                       "line %u)", k->text, c->unit_forms[f].mark.line);
+    return layout_read_text(l, v, false, &c->unit_forms[f]);
+}
+
+/* `unit-label`: one text, or its forms by plural category (FORMAT.md §6),
+** which must include `other`, the form every language has. */
+static ug_status key_unit_label(loader *l, void *base, const layout_node *v)
+{
+    ug_chart *c = base;
+    if (v->kind != LAYOUT_MAP)
+        return layout_read_text(l, v, false, &c->unit_label);
+    for (const layout_node *k = v->first; k && k->next; k = k->next->next) {
+        ug_status st = read_unit_form(l, c, k, k->next);
+        if (st)
+            return st;
+    }
+    if (!c->unit_forms[UG_PLURAL_OTHER].text)
+        return ug_fail(l->err, UG_ESCHEMA, v->mark,
+                       "'unit-label' forms need 'other', the form for any number");
+    c->unit_label = c->unit_forms[UG_PLURAL_OTHER];
+    c->has_unit_forms = true;
+    return UG_OK;
+}
+
 static ug_status key_tolerance(loader *l, void *base, const layout_node *v)
 {
     ug_chart *c = base;
@@ -343,7 +389,8 @@ static const key_rule chart_keys[] = {
      .choices = ug_form_names},
     {.name = "icon-value", .kind = K_FN, .fn = key_icon_value,
      .mark = CH(icon_value_mark), .flag = CH(has_icon_value)},
-    {.name = "unit-label", .kind = K_TEXT, .off = CH(unit_label)},
+    {.name = "unit-label", .kind = K_FN, .fn = key_unit_label},
+    {.name = "lang", .kind = K_FN, .fn = key_lang},
     {.name = "group-label", .kind = K_TEXT, .off = CH(group_label)},
     {.name = "rounding", .kind = K_ENUM, .off = CH(rounding),
      .mark = CH(rounding_mark), .choices = roundings},

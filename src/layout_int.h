@@ -63,6 +63,7 @@ ug_status layout_nomem(loader *l, const layout_node *n);
 bool layout_is_null(const layout_node *n);
 ug_status layout_want_scalar(loader *l, const layout_node *n, const char *what);
 ug_status layout_read_text(loader *l, const layout_node *n, bool multiline, ug_text *out);
+ug_status layout_read_lang(loader *l, const layout_node *n, ug_text *out);
 ug_status layout_read_text_list(loader *l, const layout_node *n, ug_text_list *out);
 ug_status layout_read_dec(loader *l, const layout_node *n, ug_dec *out);
 ug_status layout_walk_map(loader *l, void *base, const layout_node *map, const key_rule *t);

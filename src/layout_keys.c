@@ -9,6 +9,7 @@
 
 #include "colorparse.h"
 #include "layout_int.h"
+#include "phrase.h"
 
 /* ---- typed values -------------------------------------------------------- */
 
@@ -56,6 +57,17 @@ ug_status layout_read_text(loader *l, const layout_node *n, bool multiline,
     out->text = ug_arena_strndup(l->arena, n->text, n->len);
     out->mark = n->mark;
     return out->text ? UG_OK : layout_nomem(l, n);
+}
+
+/* `lang:` on a chart or a page: a BCP 47 tag with a catalog (FORMAT.md §6),
+** checked by ICU through the phrase module. */
+ug_status layout_read_lang(loader *l, const layout_node *n, ug_text *out)
+{
+    char why[300];
+    ug_status st = layout_read_text(l, n, false, out);
+    if (!st && phrase_check_lang(out->text, why, sizeof why))
+        return ug_fail(l->err, UG_ESCHEMA, n->mark, "%s", why);
+    return st;
 }
 
 /* A single text or a list of texts (source, notes, groups, audit.ignore). */

@@ -76,6 +76,11 @@ static ug_status key_panel_chart(loader *l, void *base, const layout_node *v)
     return layout_chart_load_at(path, &p->limits, v->mark, &panel->chart, l->err);
 }
 
+static ug_status key_page_lang(loader *l, void *base, const layout_node *v)
+{
+    return layout_read_lang(l, v, &((ug_page *)base)->lang);
+}
+
 #define PG(f) offsetof(ug_page, f)
 #define PN(f) offsetof(ug_panel, f)
 static const key_rule panel_keys[] = {
@@ -134,6 +139,7 @@ static const key_rule page_keys[] = {
     {.name = "page", .kind = K_MAP, .sub = page_box_keys, .mark = PG(page_mark)},
     {.name = "title", .kind = K_TEXT, .off = PG(title)},
     {.name = "source", .kind = K_LIST, .off = PG(source)},
+    {.name = "lang", .kind = K_FN, .fn = key_page_lang},
     {.name = "panels", .kind = K_FN, .fn = key_panels, .mark = PG(panels_mark)},
     {.name = "shared-scale", .kind = K_BOOL, .off = PG(shared_scale),
      .mark = PG(shared_scale_mark)},
@@ -171,6 +177,14 @@ static ug_status check_shared_scale(const ug_page *p, ug_error *err)
     return UG_OK;
 }
 
+/* A panel's chart speaks the page's language unless it names its own. */
+static void inherit_lang(ug_page *p)
+{
+    for (size_t i = 0; p->lang.text && i < p->npanels; i++)
+        if (p->panels[i].chart && !p->panels[i].chart->lang.text)
+            p->panels[i].chart->lang = p->lang;
+}
+
 static ug_status finish_page(ug_page *p, const layout_node *root, ug_error *err)
 {
     if (!p->npanels)
@@ -190,6 +204,7 @@ static ug_status finish_page(ug_page *p, const layout_node *root, ug_error *err)
             return ug_fail(err, UG_ESCHEMA, p->panels[i].mark,
                            "the panel spans %ld columns but the page has %ld",
                            p->panels[i].span, p->columns);
+    inherit_lang(p);
     return p->shared_scale ? check_shared_scale(p, err) : UG_OK;
 }
 

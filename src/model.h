@@ -73,6 +73,13 @@ typedef struct {
     ug_mark mark;
 } ug_text;
 
+/* CLDR's plural categories, in the order of its plural rules. */
+#define UG_PLURAL_CATEGORIES(X) X(ZERO, "zero") X(ONE, "one") X(TWO, "two") \
+    X(FEW, "few") X(MANY, "many") X(OTHER, "other")
+#define UG_PLURAL_ENUM_(id, name) UG_PLURAL_##id,
+typedef enum { UG_PLURAL_CATEGORIES(UG_PLURAL_ENUM_) UG_PLURAL_COUNT } ug_plural;
+#undef UG_PLURAL_ENUM_
+
 /* One cell named in `suppress: cells:`; resolved against groups and
 ** categories by the disclosure stage (which knows both after CSV loading). */
 typedef struct {
@@ -121,6 +128,11 @@ struct ug_chart {
     const char *dir;         /* its folder, for relative paths */
 
     ug_text title, subtitle, description, unit_label;
+    /* `unit-label` as CLDR plural forms (FORMAT.md §6), by UG_PLURAL_*; text
+    ** NULL for a form not given. unit_label holds the `other` form then. */
+    ug_text unit_forms[UG_PLURAL_COUNT];
+    bool has_unit_forms;
+    ug_text lang;                /* BCP 47 tag; NULL: the page's, else "en" */
     ug_text group_label;         /* what one group is ("school"); NULL: "group" */
     ug_text_list source, notes;
 
@@ -234,6 +246,7 @@ struct ug_page {
 
     ug_text title;
     ug_text_list source;
+    ug_text lang;            /* BCP 47 tag its panels take unless they say */
     ug_panel *panels;
     size_t npanels;
     ug_mark panels_mark;

@@ -21,6 +21,7 @@
 
 #include "glyph_cache.h"
 #include "pack.h"
+#include "phrase.h"
 #include "text.h"
 
 #define MARGIN PACK_MARGIN
@@ -551,8 +552,16 @@ static void rows_category(packer *p, const rows_frame *f, rows_cursor *cur,
         slots = slots > f->cols ? f->cols : slots;
         if (cur->k > 0 && cur->k + slots > f->cols)
             new_line(p, f, cur);
-        put_holder(p, slot_x(p, f->x0, cur->k), cur->top + (f->line_h - p->holder_h) / 2,
-                   i, g, pack_placeholder(p->a, sh->status));
+        ug_buf label;
+        ug_buf_init(&label);
+        pack_placeholder(p->a, sh->status, &label);
+        ug_buf_add(&label, "", 1);
+        if (label.failed)
+            fail(p, UG_ENOMEM);
+        else
+            put_holder(p, slot_x(p, f->x0, cur->k),
+                       cur->top + (f->line_h - p->holder_h) / 2, i, g, label.data);
+        ug_buf_free(&label);
         cur->k += slots;
         cur->fresh = false;
         return;
@@ -725,9 +734,10 @@ static void biprop_icons(const ug_allocation *a, size_t i, ug_buf *b)
     bool hidden = false;
     for (size_t g = 0; g < a->ngroups; g++)
         hidden = hidden || alloc_hidden(alloc_at(a, g, i));
-    long n = a->cat_icons[i];
-    ug_buf_printf(b, " \xc2\xb7 %ld %s%s", n, pack_icon_word(a->chart, n != 1),
-                  hidden ? " for the counts shown" : "");
+    ug_buf_puts(b, " \xc2\xb7 ");
+    pack_icon_count(a->chart, (ug_dec){(ug_i128)a->cat_icons[i] * UG_DEC_SCALE}, 0, b);
+    if (hidden)
+        ug_buf_puts(b, phrase_text(pack_lang(a->chart), PH_FOR_SHOWN));
 }
 
 static void key_detail(packer *p, size_t i, ug_buf *b)
@@ -741,9 +751,8 @@ static void key_detail(packer *p, size_t i, ug_buf *b)
     }
     if (c->groups.n || alloc_hidden(sh))
         return;
-    char n[64];
-    ug_buf_printf(b, " \xc2\xb7 %s %s", pack_icons_text(sh, n),
-                  pack_icon_word(c, sh->partial || sh->icons != 1));
+    ug_buf_puts(b, " \xc2\xb7 ");
+    pack_share_icons(c, sh, b);
 }
 
 static void key_entry(packer *p, size_t i, double lw)
@@ -787,7 +796,7 @@ static void pack_foot_texts(packer *p)
 {
     ug_buf b;
     ug_buf_init(&b);
-    pack_value_statement(p->c, p->a, "=", &b);
+    pack_value_statement(p->c, p->a, true, &b);
     if (p->a->cat_icons) {
         ug_buf_puts(&b, ". ");
         pack_totals_note(p->a, &b);
@@ -809,7 +818,7 @@ static void pack_foot_texts(packer *p)
         put_block(p, p->c->notes.items[i].text, SMALL_PX, false, 6, NULL);
     if (p->c->source.n) {
         ug_buf_init(&b);
-        ug_buf_puts(&b, "Source: ");
+        ug_buf_puts(&b, phrase_text(pack_lang(p->c), PH_SOURCE));
         for (size_t i = 0; i < p->c->source.n; i++)
             ug_buf_printf(&b, "%s%s", i ? "; " : "", p->c->source.items[i].text);
         ts = put_buf(p, &b, p->left, p->y + 4, content_width(p), SMALL_PX, false,
@@ -935,10 +944,20 @@ static void setup_holder(packer *p)
     if (!t->nhidden)
         return;
     p->holders = true;
-    const char *labels[] = {t->small_label, t->other_label};
+    const pub_status kinds[] = {PUB_SMALL, PUB_COMPLEMENT};
     for (size_t k = 0; k < 2; k++) {
-        text_size ts = put_text(p, labels[k], 0, 0, 0, HOLDER_PX, false, SCENE_START,
+        ug_buf label;
+        ug_buf_init(&label);
+        pack_placeholder(p->a, kinds[k], &label);
+        ug_buf_add(&label, "", 1);
+        if (label.failed) {
+            fail(p, UG_ENOMEM);
+            ug_buf_free(&label);
+            return;
+        }
+        text_size ts = put_text(p, label.data, 0, 0, 0, HOLDER_PX, false, SCENE_START,
                                 false);
+        ug_buf_free(&label);
         p->holder_w = fmax(p->holder_w, ts.w + 12);
         p->holder_h = fmax(p->holder_h, fmax(p->size, ts.line + 8));
     }
@@ -951,6 +970,32 @@ static void setup_holder(packer *p)
 
 /* The canvas is style.width wide unless one icon line or one waffle panel
 ** needs more: the icon never shrinks, so the page widens instead. */
+/* A right-to-left chart is the left-to-right one seen in a mirror
+** (FORMAT.md §6): icons flow from the right, text and key are right-aligned.
+** Only positions move, so every size and the order of icons stay; a text's
+** anchor turns to the other side. A clipped last icon still shows its left
+** part (svg.c clips from the left). */
+static void mirror(ug_scene *s)
+{
+    static const scene_anchor other[] = {[SCENE_START] = SCENE_END,
+                                         [SCENE_MIDDLE] = SCENE_MIDDLE,
+                                         [SCENE_END] = SCENE_START};
+    double w = s->width;
+    s->rtl = true;
+    for (size_t i = 0; i < s->ntexts; i++) {
+        s->texts[i].x = w - s->texts[i].x;
+        s->texts[i].anchor = other[s->texts[i].anchor];
+    }
+    for (size_t i = 0; i < s->nicons; i++)
+        s->icons[i].x = w - s->icons[i].x - s->icon_size;
+    for (size_t i = 0; i < s->nswatches; i++)
+        s->swatches[i].x = w - s->swatches[i].x - s->icon_size;
+    for (size_t i = 0; i < s->nholders; i++)
+        s->holders[i].x = w - s->holders[i].x - s->holders[i].w;
+    for (size_t i = 0; i < s->nrects; i++)
+        s->rects[i].x = w - s->rects[i].x - s->rects[i].w;
+}
+
 /* Each form's pack function, by form (model.h: UG_CHART_FORMS). */
 static void (*const pack_form[UG_FORM_COUNT])(packer *) = {
     [UG_FORM_ROWS] = pack_rows,
@@ -978,6 +1023,8 @@ static void setup(packer *p)
     p->pitch = p->size + p->gap;
     s->icon_size = p->size;
     s->font = ug_arena_strdup(&s->arena, c->style.font);
+    if (c->lang.text && !(s->lang = ug_arena_strdup(&s->arena, c->lang.text)))
+        fail(p, UG_ENOMEM);
     s->background = rgb_of(c->style.background);
     s->ink = rgb_of(c->style.ink);
     char *title = text_clean(c->title.text ? c->title.text : "Unit chart");
@@ -1061,6 +1108,8 @@ ug_status pack_scene(const ug_chart *c, const ug_allocation *a,
     p.s->height = reserved(&p, KEPT(&p, height), ceil(p.y + MARGIN));
     if (!p.st)
         sort_icons(&p);
+    if (!p.st && !strcmp(phrase_dir(pack_lang(c)), "rtl"))
+        mirror(p.s);
     set_desc(&p);
     if (p.st) {
         ug_scene_free(p.s);

@@ -13,8 +13,13 @@
 #include "alloc.h"
 #include "scene.h"
 
-/* The placeholder text of a hidden cell ("fewer than 10", "not shown"). */
-const char *pack_placeholder(const ug_allocation *a, pub_status s);
+/* The chart's language: its `lang`, else the page's it was given, else "en". */
+const char *pack_lang(const ug_chart *c);
+/* The placeholder text of a hidden cell ("fewer than 10", "not shown"), in
+** the chart's language unless the layout wrote its own. */
+void pack_placeholder(const ug_allocation *a, pub_status s, ug_buf *b);
+/* "not shown" in the chart's language. */
+const char *pack_other_label(const ug_allocation *a);
 /* "835 households", or without a unit "835". */
 void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b);
 /* The total of group g (of the whole chart when g == SIZE_MAX) as published:
@@ -31,14 +36,21 @@ void pack_category_phrase(const ug_allocation *a, size_t i, ug_buf *b);
 ** the key and the description; nothing when every count is as counted. */
 void pack_disclosure_notes(const ug_allocation *a, ug_buf *b);
 /* "Each icon = 10 households" / "Each square = 1% of the 835 households";
-** verb is "=" for the key and "is" for sentences. */
-void pack_value_statement(const ug_chart *c, const ug_allocation *a,
-                          const char *verb, ug_buf *b);
+** the key's wording when key, else the description's ("Each icon is ..."). */
+void pack_value_statement(const ug_chart *c, const ug_allocation *a, bool key,
+                          ug_buf *b);
 /* Under `method: biproportional` with groups (FORMAT.md §7), the sentence
 ** saying that both totals agree; nothing otherwise. */
 void pack_totals_note(const ug_allocation *a, ug_buf *b);
+/* "12 icons" / "1 square" in the chart's language, the form picked by the
+** CLDR plural category of d written with places fraction digits. */
+void pack_icon_count(const ug_chart *c, ug_dec d, int places, ug_buf *b);
+/* pack_icon_count of a share's icons: "49 icons", "4.25 icons" when clipped. */
+void pack_share_icons(const ug_chart *c, const alloc_share *s, ug_buf *b);
 /* Icons shown for a share: "49", or "4.25" for a clipped last icon. */
 char *pack_icons_text(const alloc_share *s, char *buf);
+/* Whether the chart's cells are called squares (a waffle of plain squares). */
+bool pack_icon_is_square(const ug_chart *c);
 /* "icon"/"icons" or "square"/"squares" by chart form. */
 const char *pack_icon_word(const ug_chart *c, bool plural);
 

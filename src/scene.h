@@ -76,6 +76,8 @@ struct ug_scene {
     const char *font;
     const char *title;   /* accessible name */
     const char *desc;    /* accessible description (ug_chart_describe) */
+    const char *lang;    /* BCP 47 tag the chart states (FORMAT.md §6); NULL: none */
+    bool rtl;            /* laid out mirrored, for a right-to-left language */
 
     scene_category *cats;
     size_t ncats;

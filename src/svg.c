@@ -126,6 +126,11 @@ static void root_attributes(ug_buf *b, const ug_scene *s, const char *idp)
                      " font-family=\"", s->sheet ? "" : " role=\"img\"", idp, name, idp,
                   name);
     svg_escape(b, s->font);
+    if (s->lang) {
+        /* the language readers and screen readers use for the text */
+        ug_buf_puts(b, "\" xml:lang=\"");
+        svg_escape(b, s->lang);
+    }
     ug_buf_printf(b, "\">\n<title id=\"%s%s-title\">", idp, name);
     svg_escape(b, s->title);
     ug_buf_printf(b, "</title>\n<desc id=\"%s%s-desc\">", idp, name);
@@ -156,16 +161,22 @@ static void defs(ug_buf *b, const ug_scene *s, const char *idp)
     ug_buf_puts(b, "</defs>\n");
 }
 
-static void text_line(ug_buf *b, const scene_text *t)
+/* In a right-to-left scene each line is written in that direction, where
+** text-anchor "start" is the right end (SVG 1.1, "text-anchor"): the anchor
+** named is the other one, so the line stays where the packer put it. */
+static void text_line(ug_buf *b, const scene_text *t, bool rtl)
 {
     static const char *const anchors[] = {"", " text-anchor=\"middle\"",
                                           " text-anchor=\"end\""};
+    static const char *const rtl_anchors[] = {" direction=\"rtl\" text-anchor=\"end\"",
+                                              " direction=\"rtl\" text-anchor=\"middle\"",
+                                              " direction=\"rtl\""};
     ug_buf_puts(b, "<text");
     attr(b, "x", t->x);
     attr(b, "y", t->y);
     attr(b, "font-size", t->size);
     ug_buf_puts(b, t->bold ? " font-weight=\"bold\"" : "");
-    ug_buf_puts(b, anchors[t->anchor]);
+    ug_buf_puts(b, (rtl ? rtl_anchors : anchors)[t->anchor]);
     ug_buf_puts(b, ">");
     svg_escape(b, t->text);
     ug_buf_puts(b, "</text>\n");
@@ -276,7 +287,7 @@ static void svg_element(ug_buf *b, const ug_scene *s, const char *idp)
     color(b, "fill", s->ink);
     ug_buf_puts(b, ">\n");
     for (size_t i = 0; i < s->ntexts; i++)
-        text_line(b, &s->texts[i]);
+        text_line(b, &s->texts[i], s->rtl);
     ug_buf_puts(b, "</g>\n");
     boxes(b, s);
     size_t next = 0, clip = 0;

@@ -92,6 +92,19 @@ static const nomem_case cases[] = {
      "categories:\n"
      "  - {label: Styled, glyph: ./hostile/style-attribute.svg, count: 3}\n"
      "  - {label: Scripted, glyph: ./hostile/onload.svg, count: 2}\n"},
+    /* the phrase module's paths: catalog messages with slots, plural forms,
+    ** placeholders and notes in another language, a mirrored scene */
+    {"Arabic waffle with suppression and unit forms", "data/good",
+     "lang: ar\n"
+     "title: T (demo data)\n"
+     "source: test\n"
+     "unit-label: {one: \u0623\u0633\u0631\u0629, other: \u0623\u0633\u0631}\n"
+     "form: waffle\n"
+     "suppress: {below: 10}\n"
+     "categories:\n"
+     "  - {label: A, count: 1240}\n"
+     "  - {label: B, count: 385}\n"
+     "  - {label: C, count: 4}\n"},
 };
 
 /* What a run made, folded into one number (FNV-1a, 64 bits): a run that

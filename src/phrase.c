@@ -1,0 +1,263 @@
+/*
+** Phrases (src/phrase.h): message catalogs with named slots, and numbers and
+** plural categories through ICU (CLDR). One catalog per language; the
+** catalogs live in src/phrase_catalog.c.
+**
+** A message is a text with slots in braces ("{each} = {count}"). A message
+** whose words change with a number is a list of CLDR plural forms,
+** "one=({n} icon)|other=({n} icons)": the form is picked by the plural
+** category ICU gives for {n} as it is written, so "1.5" and "1" may differ.
+*/
+#include <string.h>
+
+#include <unicode/uloc.h>
+#include <unicode/unumberformatter.h>
+#include <unicode/upluralrules.h>
+#include <unicode/ustring.h>
+
+#include "phrase.h"
+#include "phrase_int.h"
+
+static const char *const categories[] = {"zero", "one", "two", "few", "many", "other"};
+
+/* ICU's locale id for a tag; "en" when the tag is empty or unreadable (the
+** layout has checked it before any phrase is asked for). */
+static void locale_id(const char *lang, char *id, size_t size)
+{
+    UErrorCode st = U_ZERO_ERROR;
+    int32_t parsed = 0;
+    uloc_forLanguageTag(lang && *lang ? lang : PHRASE_DEFAULT_LANG, id, (int32_t)size,
+                        &parsed, &st);
+    if (U_FAILURE(st) || st == U_STRING_NOT_TERMINATED_WARNING || !*id)
+        snprintf(id, size, "%s", PHRASE_DEFAULT_LANG);
+}
+
+/* The catalog for a locale id: its language, and for Chinese its script
+** (zh-Hant has no catalog yet). NULL when there is none. */
+static const phrase_catalog *catalog_for_id(const char *id)
+{
+    char full[ULOC_FULLNAME_CAPACITY], lang[16], script[16];
+    UErrorCode st = U_ZERO_ERROR;
+    uloc_addLikelySubtags(id, full, sizeof full, &st);
+    if (U_FAILURE(st))
+        snprintf(full, sizeof full, "%s", id);
+    st = U_ZERO_ERROR;
+    uloc_getLanguage(full, lang, sizeof lang, &st);
+    uloc_getScript(full, script, sizeof script, &st);
+    if (U_FAILURE(st))
+        return NULL;
+    for (const phrase_catalog *c = phrase_catalogs; c->lang; c++)
+        if (!strcmp(c->lang, lang) && (!c->script || !strcmp(c->script, script)))
+            return c;
+    return NULL;
+}
+
+static const phrase_catalog *catalog(const char *lang)
+{
+    char id[ULOC_FULLNAME_CAPACITY];
+    locale_id(lang, id, sizeof id);
+    const phrase_catalog *c = catalog_for_id(id);
+    return c ? c : phrase_catalogs;
+}
+
+static void supported_list(char *buf, size_t size)
+{
+    size_t o = 0;
+    buf[0] = '\0';
+    for (const phrase_catalog *c = phrase_catalogs; c->lang && o < size; c++)
+        o += (size_t)snprintf(buf + o, size - o, "%s%s%s%s", o ? ", " : "", c->lang,
+                              c->script ? "-" : "", c->script ? c->script : "");
+}
+
+ug_status phrase_check_lang(const char *tag, char *why, size_t size)
+{
+    char id[ULOC_FULLNAME_CAPACITY], known[160];
+    UErrorCode st = U_ZERO_ERROR;
+    int32_t parsed = 0;
+    supported_list(known, sizeof known);
+    uloc_forLanguageTag(tag, id, sizeof id, &parsed, &st);
+    if (U_FAILURE(st) || st == U_STRING_NOT_TERMINATED_WARNING || !*id
+        || parsed != (int32_t)strlen(tag)) {
+        snprintf(why, size, "'lang' expects a BCP 47 language tag such as en, pt-BR "
+                 "or zh-Hans (found '%s')", tag);
+        return UG_ESCHEMA;
+    }
+    if (!catalog_for_id(id)) {
+        snprintf(why, size, "'lang' %s has no translation yet (languages: %s)", tag, known);
+        return UG_ESCHEMA;
+    }
+    return UG_OK;
+}
+
+const char *phrase_dir(const char *lang)
+{
+    char id[ULOC_FULLNAME_CAPACITY];
+    locale_id(lang, id, sizeof id);
+    return uloc_isRightToLeft(id) ? "rtl" : "ltr";
+}
+
+const char *phrase_tag(const char *lang, char *buf, size_t size)
+{
+    char id[ULOC_FULLNAME_CAPACITY];
+    UErrorCode st = U_ZERO_ERROR;
+    locale_id(lang, id, sizeof id);
+    uloc_toLanguageTag(id, buf, (int32_t)size, false, &st);
+    if (U_FAILURE(st) || st == U_STRING_NOT_TERMINATED_WARNING)
+        snprintf(buf, size, "%s", PHRASE_DEFAULT_LANG);
+    return buf;
+}
+
+const char *phrase_text(const char *lang, phrase_id id)
+{
+    const char *t = catalog(lang)->text[id];
+    return t ? t : phrase_catalogs[0].text[id];
+}
+
+/* ---- numbers and plural categories (ICU) -------------------------------- */
+
+static const char *category_name(const UChar *u)
+{
+    char name[16];
+    u_austrncpy(name, u, sizeof name - 1);
+    name[sizeof name - 1] = '\0';
+    for (size_t k = 0; k < sizeof categories / sizeof categories[0]; k++)
+        if (!strcmp(name, categories[k]))
+            return categories[k];
+    return "other";
+}
+
+/* Formats d once and reads both the text and its plural category from the
+** same formatted number, so visible fraction digits count as CLDR says. */
+static bool format_icu(const char *lang, ug_dec d, int min_frac, bool percent,
+                       char *buf, const char **plural)
+{
+    char id[ULOC_FULLNAME_CAPACITY], raw[64];
+    UChar skel[16] = {0}, text[PHRASE_NUMBER_MAX / 2], cat[16];
+    UErrorCode st = U_ZERO_ERROR;
+    locale_id(lang, id, sizeof id);
+    for (int k = 0; min_frac > 0 && k <= min_frac && k < 8; k++)
+        skel[k] = k ? u'0' : u'.';
+    if (percent)
+        u_uastrcpy(skel, "percent");
+    UNumberFormatter *f = unumf_openForSkeletonAndLocale(skel, -1, id, &st);
+    UFormattedNumber *r = unumf_openResult(&st);
+    unumf_formatDecimal(f, ug_dec_format(d, raw), -1, r, &st);
+    int32_t n = unumf_resultToString(r, text, PHRASE_NUMBER_MAX / 2, &st);
+    u_strToUTF8(buf, PHRASE_NUMBER_MAX, NULL, text, n, &st);
+    if (plural && U_SUCCESS(st)) {
+        UPluralRules *rules = uplrules_open(id, &st);
+        int32_t cn = uplrules_selectFormatted(rules, r, cat, 15, &st);
+        cat[U_SUCCESS(st) && cn < 15 ? cn : 0] = 0;
+        *plural = U_SUCCESS(st) ? category_name(cat) : "other";
+        uplrules_close(rules);
+    }
+    unumf_closeResult(r);
+    unumf_close(f);
+    return U_SUCCESS(st) && st != U_STRING_NOT_TERMINATED_WARNING;
+}
+
+char *phrase_number(const char *lang, ug_dec d, int min_frac, char *buf)
+{
+    if (!format_icu(lang, d, min_frac, false, buf, NULL))
+        ug_dec_format(d, buf);
+    return buf;
+}
+
+char *phrase_percent(const char *lang, ug_dec d, char *buf)
+{
+    if (!format_icu(lang, d, 0, true, buf, NULL))
+        strcat(ug_dec_format(d, buf), "%");
+    return buf;
+}
+
+const char *phrase_plural(const char *lang, ug_dec d, int min_frac)
+{
+    char buf[PHRASE_NUMBER_MAX];
+    const char *cat = "other";
+    return format_icu(lang, d, min_frac, false, buf, &cat) ? cat : "other";
+}
+
+/* ---- messages ------------------------------------------------------------ */
+
+/* Where form `cat` starts in a plural-forms text, and its length; NULL when
+** the text has no such form. */
+static const char *find_form(const char *forms, const char *cat, size_t *len)
+{
+    size_t cl = strlen(cat);
+    for (const char *p = forms; p && *p; p = strchr(p, '|') ? strchr(p, '|') + 1 : NULL)
+        if (!strncmp(p, cat, cl) && p[cl] == '=') {
+            const char *end = strchr(p, '|');
+            *len = end ? (size_t)(end - p - cl - 1) : strlen(p + cl + 1);
+            return p + cl + 1;
+        }
+    return NULL;
+}
+
+static bool has_forms(const char *text)
+{
+    for (size_t k = 0; k < sizeof categories / sizeof categories[0]; k++) {
+        size_t cl = strlen(categories[k]);
+        if (!strncmp(text, categories[k], cl) && text[cl] == '=')
+            return true;
+    }
+    return false;
+}
+
+void phrase_pick_form(const char *forms, const char *category, ug_buf *b)
+{
+    size_t len = 0;
+    const char *p = NULL;
+    if (!has_forms(forms)) {
+        ug_buf_puts(b, forms);
+        return;
+    }
+    if (!(p = find_form(forms, category, &len)))
+        p = find_form(forms, "other", &len);
+    if (p)
+        ug_buf_add(b, p, len);
+}
+
+static const char *slot_value(const phrase_slot *slots, const char *name, size_t len)
+{
+    for (size_t k = 0; slots && slots[k].name; k++)
+        if (strlen(slots[k].name) == len && !strncmp(slots[k].name, name, len))
+            return slots[k].value;
+    return NULL;
+}
+
+/* Copies text into b with each {name} replaced by its slot's value. */
+static void fill(ug_buf *b, const char *text, size_t len, const phrase_slot *slots)
+{
+    const char *p = text, *end = text + len;
+    while (p < end) {
+        const char *open = memchr(p, '{', (size_t)(end - p));
+        const char *close = open ? memchr(open, '}', (size_t)(end - open)) : NULL;
+        if (!close) {
+            ug_buf_add(b, p, (size_t)(end - p));
+            return;
+        }
+        ug_buf_add(b, p, (size_t)(open - p));
+        const char *v = slot_value(slots, open + 1, (size_t)(close - open - 1));
+        if (v)
+            ug_buf_puts(b, v);
+        p = close + 1;
+    }
+}
+
+void phrase_say(ug_buf *b, const char *lang, phrase_id id, const phrase_slot *slots)
+{
+    const char *text = phrase_text(lang, id);
+    if (!has_forms(text)) {
+        fill(b, text, strlen(text), slots);
+        return;
+    }
+    /* the count that picks the form travels as {n} and its category as
+    ** {plural}, which the caller took from the same formatted number */
+    const char *cat = slot_value(slots, "plural", 6);
+    ug_buf form;
+    ug_buf_init(&form);
+    phrase_pick_form(text, cat ? cat : "other", &form);
+    fill(b, form.data ? form.data : "", form.len, slots);
+    b->failed = b->failed || form.failed;
+    ug_buf_free(&form);
+}
