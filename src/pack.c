@@ -734,7 +734,7 @@ static void biprop_icons(const ug_allocation *a, size_t i, ug_buf *b)
     bool hidden = false;
     for (size_t g = 0; g < a->ngroups; g++)
         hidden = hidden || alloc_hidden(alloc_at(a, g, i));
-    ug_buf_puts(b, " \xc2\xb7 ");
+    ug_buf_puts(b, phrase_text(pack_lang(a->chart), PH_DETAIL_SEP));
     pack_icon_count(a->chart, (ug_dec){(ug_i128)a->cat_icons[i] * UG_DEC_SCALE}, 0, b);
     if (hidden)
         ug_buf_puts(b, phrase_text(pack_lang(a->chart), PH_FOR_SHOWN));
@@ -751,7 +751,7 @@ static void key_detail(packer *p, size_t i, ug_buf *b)
     }
     if (c->groups.n || alloc_hidden(sh))
         return;
-    ug_buf_puts(b, " \xc2\xb7 ");
+    ug_buf_puts(b, phrase_text(pack_lang(c), PH_DETAIL_SEP));
     pack_share_icons(c, sh, b);
 }
 

@@ -67,6 +67,7 @@ typedef enum {
     PH_TH_COUNT,
     PH_TH_ICONS,
     PH_TH_SHOWN,
+    PH_DETAIL_SEP,  /* " · " between a key entry's count and its icons */
     PH_COUNT_OF_IDS
 } phrase_id;
 

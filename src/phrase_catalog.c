@@ -36,6 +36,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = ": ",
+        [PH_DETAIL_SEP] = " \u00b7 ",
         [PH_GROUP_LEAD] = "{group}, {total} in all{change}: ",
         [PH_SHARE_OF] = "{pct} of the {count}{shown}",
         [PH_SHARE_EACH] = "{pct} of each {group}'s {unit}{shown}",
@@ -387,6 +388,9 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = "، ",
         [PH_LABEL_SEP] = ": ",
+        /* the middle dot reads as the Arabic-Indic zero (U+0660) beside
+        ** Arabic-Indic digits: the Arabic comma instead */
+        [PH_DETAIL_SEP] = "\u060c ",
         [PH_GROUP_LEAD] = "{group}، المجموع {total}{change}: ",
         [PH_SHARE_OF] = "{pct} من {count}{shown}",
         [PH_SHARE_EACH] = "{pct} من {unit}{shown} في كل {group}",
