@@ -13,6 +13,7 @@
 #include "pack.h"
 #include "color.h"
 #include "page.h"
+#include "phrase.h"
 #include "resolve.h"
 #include "svg.h"
 #include "text.h"
@@ -347,16 +348,17 @@ static bool listed(const ug_buf *b, const char *line)
     return false;
 }
 
-static void add_sources(ug_buf *b, const ug_text_list *l)
+/* Each source as "Source: ..." in the page's language. */
+static void add_sources(ug_buf *b, const ug_text_list *l, const char *prefix)
 {
     for (size_t i = 0; i < l->n; i++) {
         char *line = NULL;
-        size_t len = strlen(l->items[i].text) + 16;
+        size_t len = strlen(l->items[i].text) + strlen(prefix) + 1;
         if (!(line = ug_malloc(len))) {
             b->failed = true;
             return;
         }
-        snprintf(line, len, "Source: %s", l->items[i].text);
+        snprintf(line, len, "%s%s", prefix, l->items[i].text);
         if (!listed(b, line))
             ug_buf_printf(b, "%s%s", b->len ? "\n" : "", line);
         ug_free(line);
@@ -368,10 +370,11 @@ static ug_status foot(composer *k)
 {
     ug_buf b;
     ug_buf_init(&b);
-    add_sources(&b, &k->p->source);
+    const char *prefix = phrase_text(k->p->lang.text ? k->p->lang.text : "en", PH_SOURCE);
+    add_sources(&b, &k->p->source, prefix);
     for (size_t i = 0; i < k->p->npanels; i++)
         if (k->p->panels[i].chart)
-            add_sources(&b, &k->p->panels[i].chart->source);
+            add_sources(&b, &k->p->panels[i].chart->source, prefix);
     char *text, *clean;
     ug_status st = ug_buf_take(&b, &text, NULL, k->err);
     if (st)
@@ -479,6 +482,7 @@ static ug_status write_page(composer *k)
     sheet.width = k->g.width;
     sheet.height = k->g.height;
     /* stated in mm, so the sheet is exact whatever rounding the px carry */
+    sheet.lang = p->lang.text; /* NULL: no xml:lang, as before */
     sheet.width_mm = mm(p->width);
     sheet.height_mm = mm(p->height);
     sheet.background = k->paper;

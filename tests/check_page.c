@@ -391,6 +391,26 @@ START_TEST(test_sources_collected_once_at_the_foot)
 }
 END_TEST
 
+/* A page in another language says "Source:" in it (the catalog's word) and
+** states its language on the sheet; its charts' sources join its own. */
+START_TEST(test_sources_in_the_page_language)
+{
+    static const char page_de[] =
+        "page: {size: A4}\nlang: de\ntitle: Seite\nsource: Quelle A (demo data)\n"
+        "panels:\n  - text: Ein kurzer Text.\n"
+        "  - chart: {title: B, unit-label: Personen, icon-value: 1, source: Quelle B,\n"
+        "            categories: [{label: A, count: 12}]}\n";
+    page_result r;
+    ug_error err = {0};
+    ck_assert_int_eq(compose(page_de, &r, &err), UG_OK);
+    ck_assert_ptr_nonnull(strstr(r.svg, ">Quelle: Quelle A (demo data)<"));
+    ck_assert_ptr_nonnull(strstr(r.svg, ">Quelle: Quelle B<"));
+    ck_assert_ptr_null(strstr(r.svg, "Source:"));
+    ck_assert_ptr_nonnull(strstr(r.svg, "xml:lang=\"de\""));
+    done(&r);
+}
+END_TEST
+
 /* A text block: single line breaks are where the file wrapped; blank lines
 ** separate paragraphs. */
 START_TEST(test_text_block_paragraphs)
@@ -445,6 +465,7 @@ static Suite *page_suite(void)
     tcase_add_test(tp, test_too_narrow_column);
     tcase_add_test(tp, test_ids_unique_and_references_resolve);
     tcase_add_test(tp, test_sources_collected_once_at_the_foot);
+    tcase_add_test(tp, test_sources_in_the_page_language);
     tcase_add_test(tp, test_text_block_paragraphs);
     tcase_add_test(tp, test_handout_web_page);
     suite_add_tcase(s, tp);
