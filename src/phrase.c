@@ -8,6 +8,8 @@
 ** "one=({n} icon)|other=({n} icons)": the form is picked by the plural
 ** category ICU gives for {n} as it is written, so "1.5" and "1" may differ.
 */
+#include <pthread.h>
+#include <stdio.h>
 #include <string.h>
 
 #include <unicode/uloc.h>
@@ -128,6 +130,55 @@ static const char *category_name(const UChar *u)
 
 /* Formats d once and reads both the text and its plural category from the
 ** same formatted number, so visible fraction digits count as CLDR says. */
+/* ICU builds a number formatter and plural rules from the locale's data each
+** time one is opened, which was a fifth of a batch's time: they are opened
+** once per locale and skeleton and kept for the process. Both are immutable
+** and safe to use from several threads at once (ICU's LocalizedNumberFormatter
+** and PluralRules are thread-safe for formatting and selecting); the lock
+** guards only the table. A full table opens and closes per call as before. */
+#define ICU_CACHE 24
+
+static struct {
+    char id[ULOC_FULLNAME_CAPACITY];
+    UChar skel[16];
+    UNumberFormatter *f;
+    UPluralRules *rules;
+} icu_cache[ICU_CACHE];
+static size_t icu_cached;
+static pthread_mutex_t icu_lock = PTHREAD_MUTEX_INITIALIZER;
+
+/* The cached formatter and rules for id and skel; false when the table is
+** full or ICU fails (the caller then opens its own). */
+static bool cached_icu(const char *id, const UChar *skel, UNumberFormatter **f,
+                       UPluralRules **rules)
+{
+    bool ok = false;
+    pthread_mutex_lock(&icu_lock);
+    for (size_t i = 0; i < icu_cached && !ok; i++)
+        if (!strcmp(icu_cache[i].id, id) && !u_strcmp(icu_cache[i].skel, skel)) {
+            *f = icu_cache[i].f, *rules = icu_cache[i].rules;
+            ok = true;
+        }
+    if (!ok && icu_cached < ICU_CACHE) {
+        UErrorCode st = U_ZERO_ERROR;
+        UNumberFormatter *nf = unumf_openForSkeletonAndLocale(skel, -1, id, &st);
+        UPluralRules *pr = U_SUCCESS(st) ? uplrules_open(id, &st) : NULL;
+        if (U_SUCCESS(st)) {
+            size_t i = icu_cached++;
+            snprintf(icu_cache[i].id, sizeof icu_cache[i].id, "%s", id);
+            u_strcpy(icu_cache[i].skel, skel);
+            icu_cache[i].f = *f = nf;
+            icu_cache[i].rules = *rules = pr;
+            ok = true;
+        } else {
+            uplrules_close(pr);
+            unumf_close(nf);
+        }
+    }
+    pthread_mutex_unlock(&icu_lock);
+    return ok;
+}
+
 static bool format_icu(const char *lang, ug_dec d, int min_frac, bool percent,
                        char *buf, const char **plural)
 {
@@ -139,20 +190,27 @@ static bool format_icu(const char *lang, ug_dec d, int min_frac, bool percent,
         skel[k] = k ? u'0' : u'.';
     if (percent)
         u_uastrcpy(skel, "percent");
-    UNumberFormatter *f = unumf_openForSkeletonAndLocale(skel, -1, id, &st);
+    UNumberFormatter *f = NULL;
+    UPluralRules *rules = NULL;
+    bool own = !cached_icu(id, skel, &f, &rules);
+    if (own)
+        f = unumf_openForSkeletonAndLocale(skel, -1, id, &st);
     UFormattedNumber *r = unumf_openResult(&st);
     unumf_formatDecimal(f, ug_dec_format(d, raw), -1, r, &st);
     int32_t n = unumf_resultToString(r, text, PHRASE_NUMBER_MAX / 2, &st);
     u_strToUTF8(buf, PHRASE_NUMBER_MAX, NULL, text, n, &st);
     if (plural && U_SUCCESS(st)) {
-        UPluralRules *rules = uplrules_open(id, &st);
+        if (own)
+            rules = uplrules_open(id, &st);
         int32_t cn = uplrules_selectFormatted(rules, r, cat, 15, &st);
         cat[U_SUCCESS(st) && cn < 15 ? cn : 0] = 0;
         *plural = U_SUCCESS(st) ? category_name(cat) : "other";
-        uplrules_close(rules);
     }
     unumf_closeResult(r);
-    unumf_close(f);
+    if (own) {
+        uplrules_close(rules);
+        unumf_close(f);
+    }
     return U_SUCCESS(st) && st != U_STRING_NOT_TERMINATED_WARNING;
 }
 
