@@ -1014,21 +1014,28 @@ static ug_status finish(audit_ctx *x, ug_status st, ug_findings **out)
     return st;
 }
 
+/* One chart: what was drawn when alloc (and scene) are given, else as a
+** drawing would allocate it and load its glyphs (through opt). */
+static ug_status audit_chart(const ug_chart *chart, const ug_allocation *alloc,
+                             const ug_scene *scene, const ug_pack_options *opt,
+                             ug_findings **out, ug_error *err)
+{
+    ug_error_clear(err);
+    audit_ctx x = {chart, alloc, ug_calloc(1, sizeof(ug_findings)), err, opt, false, NULL,
+                   scene};
+    return finish(&x, x.f ? audit_one(&x) : oom(&x), out);
+}
+
 ug_status ug_chart_audit_with(const ug_chart *chart, const ug_pack_options *opt,
                               ug_findings **out, ug_error *err)
 {
-    ug_error_clear(err);
-    audit_ctx x = {chart, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt, false, NULL, NULL};
-    return finish(&x, x.f ? audit_one(&x) : oom(&x), out);
+    return audit_chart(chart, NULL, NULL, opt, out, err);
 }
 
 ug_status ug_chart_audit_drawn(const ug_chart *chart, const ug_allocation *alloc,
                                const ug_scene *scene, ug_findings **out, ug_error *err)
 {
-    ug_error_clear(err);
-    audit_ctx x = {chart, alloc, ug_calloc(1, sizeof(ug_findings)), err, NULL, false, NULL,
-                   scene};
-    return finish(&x, x.f ? audit_one(&x) : oom(&x), out);
+    return audit_chart(chart, alloc, scene, NULL, out, err);
 }
 
 /* ---- page files ----------------------------------------------------------- */

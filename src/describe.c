@@ -66,17 +66,25 @@ void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b)
                (phrase_slot[]){{"n", n}, {"unit", unit_form(c, count)}, {NULL, NULL}});
 }
 
+/* Message id with its one slot `name` holding the text built in t, which
+** this frees. */
+static void say_built(const ug_chart *c, phrase_id id, const char *name, ug_buf *t,
+                      ug_buf *b)
+{
+    ug_buf_add(t, "", 1);
+    if (!t->failed)
+        phrase_say(b, pack_lang(c), id, (phrase_slot[]){{name, t->data}, {NULL, NULL}});
+    b->failed = b->failed || t->failed;
+    ug_buf_free(t);
+}
+
 /* Message id with one slot {n} holding a count phrase ("more than {n}"). */
 static void say_count(const ug_chart *c, phrase_id id, ug_dec count, ug_buf *b)
 {
     ug_buf t;
     ug_buf_init(&t);
     pack_count_phrase(c, count, &t);
-    ug_buf_add(&t, "", 1);
-    if (!t.failed)
-        phrase_say(b, pack_lang(c), id, (phrase_slot[]){{"n", t.data}, {NULL, NULL}});
-    b->failed = b->failed || t.failed;
-    ug_buf_free(&t);
+    say_built(c, id, "n", &t, b);
 }
 
 /* What is published of one line of the table (a group, a category or the
@@ -503,11 +511,7 @@ static void icons_phrase(const ug_chart *c, const alloc_share *s, ug_buf *b)
     ug_buf t;
     ug_buf_init(&t);
     pack_share_icons(c, s, &t);
-    ug_buf_add(&t, "", 1);
-    if (!t.failed)
-        phrase_say(b, pack_lang(c), PH_PAREN, (phrase_slot[]){{"text", t.data}, {NULL, NULL}});
-    b->failed = b->failed || t.failed;
-    ug_buf_free(&t);
+    say_built(c, PH_PAREN, "text", &t, b);
 }
 
 /* "Adults 1,200 households (120 icons)" or "Adults fewer than 10" */

@@ -445,15 +445,22 @@ static void print_finding(const ug_finding *f)
     }
 }
 
+/* The findings of an audit that ran (st), or its error. */
+static int audit_result(ug_status st, ug_findings *f, const ug_error *err, bool strict)
+{
+    if (st) {
+        cli_report_error(err);
+        return cli_exit_for(err);
+    }
+    return cli_print_findings(f, strict);
+}
+
 int cli_print_audit(const ug_chart *chart, const ug_pack_options *opt, bool strict)
 {
     ug_error err = {0};
     ug_findings *f = NULL;
-    if (ug_chart_audit_with(chart, opt, &f, &err)) {
-        cli_report_error(&err);
-        return cli_exit_for(&err);
-    }
-    return cli_print_findings(f, strict);
+    ug_status st = ug_chart_audit_with(chart, opt, &f, &err);
+    return audit_result(st, f, &err, strict);
 }
 
 int cli_print_audit_drawn(const ug_chart *chart, const ug_allocation *alloc,
@@ -461,11 +468,8 @@ int cli_print_audit_drawn(const ug_chart *chart, const ug_allocation *alloc,
 {
     ug_error err = {0};
     ug_findings *f = NULL;
-    if (ug_chart_audit_drawn(chart, alloc, scene, &f, &err)) {
-        cli_report_error(&err);
-        return cli_exit_for(&err);
-    }
-    return cli_print_findings(f, strict);
+    ug_status st = ug_chart_audit_drawn(chart, alloc, scene, &f, &err);
+    return audit_result(st, f, &err, strict);
 }
 
 int cli_print_findings(ug_findings *f, bool strict)

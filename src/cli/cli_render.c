@@ -56,8 +56,9 @@ static int draw_page(const cli_draw_opts *o, char ***inputs)
     /* one glyph cache for the drawing and its audit: each glyph loads once */
     ug_glyph_cache *cache = NULL;
     ug_pack_options popt = {.glyph_dirs = o->glyph_dirs, .nglyph_dirs = o->nglyph_dirs};
-    if (ug_glyph_cache_new(&cache, &err) || (popt.glyph_cache = cache, false) ||
-        ug_page_load(o->layout, cli_limits(), &page, &err) ||
+    ug_status st = ug_glyph_cache_new(&cache, &err);
+    popt.glyph_cache = cache;
+    if (st || ug_page_load(o->layout, cli_limits(), &page, &err) ||
         ug_page_draw_with(page, &popt, format_of(o), o->dpi > 0 ? o->dpi : 96,
                           o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
         ug_page_audit(page, &popt, &f, &err)) {
