@@ -35,6 +35,7 @@
 #include "audit.h"
 #include "glyph.h"
 #include "glyph_cache.h"
+#include "page.h"
 #include "resolve.h"
 #include "scene.h"
 #include "text.h"
@@ -949,6 +950,8 @@ static const audit_rule rules[] = {
      "common practice, no source: text must print as itself, not as empty boxes"},
     {"page-scale-mismatch", UG_SEVERITY_WARNING, NULL,
      "isotype: one scale for charts compared (REFERENCES.md §6)"},
+    {"page-fitted", UG_SEVERITY_NOTE, NULL,
+     "common practice, no source: say when print is smaller than asked"},
 };
 
 static const audit_rule *rule_named(const char *name)
@@ -1128,20 +1131,45 @@ static ug_status check_page_scale(audit_ctx *x, const scale_of *s, size_t n)
     return st;
 }
 
+/* Fitting shrank the panels: the reader of the audit should know the
+** sheet does not show the sizes the files state. */
+static ug_status note_fit(audit_ctx *x, const ug_page *page, const page_result *r)
+{
+    if (r->fit >= 1)
+        return UG_OK;
+    x->rule = rule_named("page-fitted");
+    return add(x, page->page_mark.line ? page->page_mark : ug_mark_file(page->path),
+               "a larger page, more columns, a panel's own icon: {size: ...} or "
+               "fit: {shrink: false} to be told instead",
+               "to fit the sheet, every panel's icons and text are drawn at %.0f%% "
+               "of their stated sizes (not below fit: min-icon %gpx, min-text %gpx)",
+               100 * r->fit, page->min_icon, page->min_text);
+}
+
+/* The page as composed (fitted, shared scale applied): each chart panel is
+** audited as the sheet shows it, from its allocation and scene. */
 ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
                         ug_findings **out, ug_error *err)
 {
     ug_error_clear(err);
+    *out = NULL;
+    page_result r;
+    ug_status st = page_compose(page, opt, &r, err);
+    if (st)
+        return st;
     audit_ctx x = {NULL, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt, false, NULL, NULL};
     scale_of *scales = ug_calloc(page->npanels ? page->npanels : 1, sizeof *scales);
     size_t n = 0;
-    ug_status st = x.f && scales ? UG_OK : UG_ENOMEM;
+    st = x.f && scales ? UG_OK : UG_ENOMEM;
     if (st)
         ug_fail(err, st, ug_mark_file(page->path), "out of memory");
     for (size_t i = 0; !st && i < page->npanels; i++) {
         if (page->panels[i].kind != UG_PANEL_CHART)
             continue;
-        x.c = page->panels[i].chart;
+        r.charts[i].source = page->panels[i].chart->source; /* printed at the foot */
+        x.c = &r.charts[i];
+        x.a = r.allocs[r.alloc_of[i]];
+        x.scene = r.scenes[i];
         /* a new icon value for one chart would break the page's comparison */
         x.keep_scale = shares_unit(page, i);
         st = audit_one(&x);
@@ -1150,8 +1178,12 @@ ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
     }
     if (!st && !page->shared_scale)
         st = check_page_scale(&x, scales, n);
+    if (!st && n)
+        st = note_fit(&x, page, &r);
     ug_free(scales);
-    return finish(&x, st, out);
+    st = finish(&x, st, out);
+    page_result_free(&r);
+    return st;
 }
 
 /* ---- output ----------------------------------------------------------------- */

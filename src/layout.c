@@ -35,6 +35,7 @@ static const char *const roundings[] = {"whole", "partial", NULL};
 static const char *const methods[] = {"largest-remainder", "sainte-lague", "dhondt",
                                       "biproportional", NULL};
 static const char *const arrangements[] = {"inline", "split", NULL};
+static const char *const key_places[] = {"auto", "below", "beside", NULL};
 static const char *const fills[] = {"by-row", "by-column", "snake", NULL};
 static const char *const starts[] = {"top-left", "bottom-left", NULL};
 static const char *const palettes[] = {"okabe-ito", "tol-bright", "tol-muted", NULL};
@@ -332,12 +333,27 @@ static ug_status key_font(loader *l, void *base, const layout_node *v)
     return UG_OK;
 }
 
+#define ROLE(role, i) {.name = role, .kind = K_LENGTH, .off = (i) * sizeof(double), .lo = 1}
+static const key_rule chart_type_keys[] = {
+    ROLE("title", UG_TYPE_TITLE), ROLE("subtitle", UG_TYPE_SUBTITLE),
+    ROLE("label", UG_TYPE_LABEL), ROLE("note", UG_TYPE_NOTE), {.name = NULL},
+};
+#undef ROLE
+
+static ug_status key_type(loader *l, void *base, const layout_node *v)
+{
+    ug_chart *c = base;
+    return layout_read_type_scale(l, v, chart_type_keys, c->style.type,
+                                  &c->style.type_mark);
+}
+
 static const key_rule style_keys[] = {
     {.name = "width", .kind = K_LENGTH, .off = CH(style.width), .lo = 1},
     {.name = "font", .kind = K_FN, .fn = key_font},
     {.name = "background", .kind = K_COLOR, .off = CH(style.background)},
     {.name = "ink", .kind = K_COLOR, .off = CH(style.ink)},
     {.name = "palette", .kind = K_ENUM, .off = CH(style.palette), .choices = palettes},
+    {.name = "type", .kind = K_FN, .fn = key_type},
     {.name = NULL},
 };
 
@@ -400,6 +416,7 @@ static const key_rule chart_keys[] = {
     {.name = "columns", .kind = K_LONG, .off = CH(columns), .lo = 1, .hi = 1000,
      .mark = CH(columns_mark)},
     {.name = "cluster", .kind = K_LONG, .off = CH(cluster), .lo = 0, .hi = 1000},
+    {.name = "key-place", .kind = K_ENUM, .off = CH(key_place), .choices = key_places},
     {.name = "arrangement", .kind = K_ENUM, .off = CH(arrangement),
      .choices = arrangements},
     {.name = "groups", .kind = K_FN, .fn = key_groups},

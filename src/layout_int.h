@@ -15,6 +15,9 @@
 /* No length on a chart or page needs more than this (about 26 m); larger ones
 ** would overflow the text layout's integer units (found by fuzz_draw). */
 #define LAYOUT_MAX_LENGTH_PX 100000.0
+/* The smallest text a type scale may name: 6 pt, 8 px (common practice for
+** print, no source). */
+#define LAYOUT_MIN_TYPE_PX 8.0
 
 /* The loader's state while one chart or page is walked. */
 typedef struct {
@@ -66,6 +69,8 @@ ug_status layout_read_text(loader *l, const layout_node *n, bool multiline, ug_t
 ug_status layout_read_lang(loader *l, const layout_node *n, ug_text *out);
 ug_status layout_read_text_list(loader *l, const layout_node *n, ug_text_list *out);
 ug_status layout_read_dec(loader *l, const layout_node *n, ug_dec *out);
+ug_status layout_read_type_scale(loader *l, const layout_node *v, const key_rule *roles,
+                                 double *px, ug_mark *mark);
 ug_status layout_walk_map(loader *l, void *base, const layout_node *map, const key_rule *t);
 ug_status layout_refuse_foreign(const layout_node *root, const key_rule *t, const char *kind, ug_error *err);
 

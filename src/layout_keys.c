@@ -70,6 +70,31 @@ ug_status layout_read_lang(loader *l, const layout_node *n, ug_text *out)
     return st;
 }
 
+/* A type scale (style.type, page.type): a mapping of roles, each a length,
+** over the sizes already there (the defaults). `roles` names them largest
+** first, NULL-ended; its offsets are into `px`. The scale must keep that
+** order and stay legible, or titles and notes trade places. */
+ug_status layout_read_type_scale(loader *l, const layout_node *v, const key_rule *roles,
+                                 double *px, ug_mark *mark)
+{
+    ug_status st = layout_walk_map(l, px, v, roles);
+    if (st)
+        return st;
+    *mark = v->mark;
+    for (size_t i = 0; roles[i].name; i++) {
+        if (px[i] < LAYOUT_MIN_TYPE_PX)
+            return ug_fail(l->err, UG_ESCHEMA, v->mark,
+                           "'%s' is %gpx, below the legible minimum of 6pt (%gpx)",
+                           roles[i].name, px[i], LAYOUT_MIN_TYPE_PX);
+        if (i && px[i] > px[i - 1])
+            return ug_fail(l->err, UG_ESCHEMA, v->mark,
+                           "a type scale runs from largest to smallest, but '%s' "
+                           "(%gpx) is larger than '%s' (%gpx)", roles[i].name, px[i],
+                           roles[i - 1].name, px[i - 1]);
+    }
+    return UG_OK;
+}
+
 /* A single text or a list of texts (source, notes, groups, audit.ignore). */
 ug_status layout_read_text_list(loader *l, const layout_node *n, ug_text_list *out)
 {

@@ -6,6 +6,7 @@
 #include <strings.h>
 
 #include "layout_int.h"
+#include "resolve.h"
 
 /* ---- page files (FORMAT.md §2) ------------------------------------------- */
 
@@ -83,10 +84,19 @@ static ug_status key_page_lang(loader *l, void *base, const layout_node *v)
 
 #define PG(f) offsetof(ug_page, f)
 #define PN(f) offsetof(ug_panel, f)
+static const key_rule panel_icon_keys[] = {
+    {.name = "size", .kind = K_LENGTH, .off = PN(icon_size), .lo = 1},
+    {.name = "gap", .kind = K_LENGTH, .off = PN(icon_gap)},
+    {.name = NULL},
+};
+
 static const key_rule panel_keys[] = {
     {.name = "chart", .kind = K_FN, .fn = key_panel_chart},
     {.name = "text", .kind = K_MULTILINE, .off = PN(text)},
     {.name = "span", .kind = K_LONG, .off = PN(span), .lo = 1, .hi = 12},
+    {.name = "icon", .kind = K_MAP, .sub = panel_icon_keys, .mark = PN(icon_mark)},
+    {.name = "columns", .kind = K_LONG, .off = PN(columns), .lo = 1, .hi = 1000,
+     .mark = PN(columns_mark)},
     {.name = NULL},
 };
 
@@ -95,12 +105,18 @@ static ug_status read_panel(loader *l, ug_panel *panel, const layout_node *v)
     panel->mark = v->mark;
     panel->span = 1;
     panel->kind = UG_PANEL_TEXT;
+    panel->icon_gap = -1; /* not given: 0 is a gap one may ask for */
     ug_status st = layout_walk_map(l, panel, v, panel_keys);
     if (st)
         return st;
     if (!panel->chart == !panel->text.text)
         return ug_fail(l->err, UG_ESCHEMA, v->mark,
                        "a panel holds either 'chart' or 'text' (one of them)");
+    ug_mark own = panel->icon_mark.line ? panel->icon_mark : panel->columns_mark;
+    if (!panel->chart && own.line)
+        return ug_fail(l->err, UG_ESCHEMA, own,
+                       "'%s' sets a chart's size, but this panel holds text",
+                       panel->icon_mark.line ? "icon" : "columns");
     return UG_OK;
 }
 
@@ -135,6 +151,28 @@ static const key_rule page_box_keys[] = {
     {.name = NULL},
 };
 
+#define ROLE(role, i) {.name = role, .kind = K_LENGTH, .off = (i) * sizeof(double), .lo = 1}
+static const key_rule page_type_keys[] = {
+    ROLE("title", UG_PAGE_TYPE_TITLE), ROLE("panel-title", UG_PAGE_TYPE_PANEL_TITLE),
+    ROLE("subtitle", UG_PAGE_TYPE_SUBTITLE), ROLE("text", UG_PAGE_TYPE_TEXT),
+    ROLE("label", UG_PAGE_TYPE_LABEL), ROLE("note", UG_PAGE_TYPE_NOTE),
+    ROLE("source", UG_PAGE_TYPE_SOURCE), {.name = NULL},
+};
+#undef ROLE
+
+static ug_status key_page_type(loader *l, void *base, const layout_node *v)
+{
+    ug_page *p = base;
+    return layout_read_type_scale(l, v, page_type_keys, p->type, &p->type_mark);
+}
+
+static const key_rule fit_keys[] = {
+    {.name = "shrink", .kind = K_BOOL, .off = PG(shrink)},
+    {.name = "min-icon", .kind = K_LENGTH, .off = PG(min_icon), .lo = 1},
+    {.name = "min-text", .kind = K_LENGTH, .off = PG(min_text), .lo = 1},
+    {.name = NULL},
+};
+
 static const key_rule page_keys[] = {
     {.name = "page", .kind = K_MAP, .sub = page_box_keys, .mark = PG(page_mark)},
     {.name = "title", .kind = K_TEXT, .off = PG(title)},
@@ -143,6 +181,8 @@ static const key_rule page_keys[] = {
     {.name = "panels", .kind = K_FN, .fn = key_panels, .mark = PG(panels_mark)},
     {.name = "shared-scale", .kind = K_BOOL, .off = PG(shared_scale),
      .mark = PG(shared_scale_mark)},
+    {.name = "type", .kind = K_FN, .fn = key_page_type},
+    {.name = "fit", .kind = K_MAP, .sub = fit_keys, .mark = PG(fit_mark)},
     {.name = NULL},
 };
 
@@ -177,12 +217,28 @@ static ug_status check_shared_scale(const ug_page *p, ug_error *err)
     return UG_OK;
 }
 
-/* A panel's chart speaks the page's language unless it names its own. */
-static void inherit_lang(ug_page *p)
+/* A panel's chart speaks the page's language unless it names its own,
+** takes the page's type scale unless it states one, and the panel's icon
+** size and line length over its own (the page owns its charts). */
+static void adapt_chart(const ug_page *p, const ug_panel *pn, ug_chart *c)
 {
-    for (size_t i = 0; p->lang.text && i < p->npanels; i++)
-        if (p->panels[i].chart && !p->panels[i].chart->lang.text)
-            p->panels[i].chart->lang = p->lang;
+    if (p->lang.text && !c->lang.text)
+        c->lang = p->lang;
+    if (!c->style.type_mark.line) {
+        c->style.type[UG_TYPE_TITLE] = p->type[UG_PAGE_TYPE_PANEL_TITLE];
+        c->style.type[UG_TYPE_SUBTITLE] = p->type[UG_PAGE_TYPE_SUBTITLE];
+        c->style.type[UG_TYPE_LABEL] = p->type[UG_PAGE_TYPE_LABEL];
+        c->style.type[UG_TYPE_NOTE] = p->type[UG_PAGE_TYPE_NOTE];
+    }
+    if (pn->icon_mark.line) {
+        c->icon_size = pn->icon_size > 0 ? pn->icon_size : c->icon_size;
+        c->icon_gap = pn->icon_gap >= 0 ? pn->icon_gap : c->icon_gap;
+        c->icon_mark = pn->icon_mark;
+    }
+    if (pn->columns_mark.line) {
+        c->columns = pn->columns;
+        c->columns_mark = pn->columns_mark;
+    }
 }
 
 static ug_status finish_page(ug_page *p, const layout_node *root, ug_error *err)
@@ -204,7 +260,14 @@ static ug_status finish_page(ug_page *p, const layout_node *root, ug_error *err)
             return ug_fail(err, UG_ESCHEMA, p->panels[i].mark,
                            "the panel spans %ld columns but the page has %ld",
                            p->panels[i].span, p->columns);
-    inherit_lang(p);
+    for (size_t i = 0; i < p->npanels; i++)
+        if (p->panels[i].chart)
+            adapt_chart(p, &p->panels[i], p->panels[i].chart);
+    if (p->shrink && p->fit_mark.line && p->min_text > p->type[UG_PAGE_TYPE_SOURCE] + 0.01)
+        return ug_fail(err, UG_ESCHEMA, p->fit_mark,
+                       "'min-text' (%gpx) is larger than the page's smallest text "
+                       "(source, %gpx): shrinking could only make text larger",
+                       p->min_text, p->type[UG_PAGE_TYPE_SOURCE]);
     return p->shared_scale ? check_shared_scale(p, err) : UG_OK;
 }
 
@@ -224,6 +287,11 @@ static ug_page *page_new(const char *path, const ug_limits *limits)
     p->height = paper[1].h * paper[1].unit_px;
     p->margin = 15 * 96.0 / 25.4;
     p->columns = 1;
+    const double type[UG_PAGE_TYPE_COUNT] = RESOLVE_PAGE_TYPE_PX;
+    memcpy(p->type, type, sizeof type);
+    p->shrink = true;
+    p->min_icon = RESOLVE_PAGE_MIN_ICON_PX;
+    p->min_text = RESOLVE_PAGE_MIN_TEXT_PX;
     return p;
 }
 

@@ -122,6 +122,19 @@ typedef struct {
     bool present;
 } ug_data_spec;
 
+/* Where the key goes: beside the plot when it fits there unwrapped (auto),
+** or always below, or beside even if its texts must wrap. */
+typedef enum { UG_KEY_AUTO, UG_KEY_BELOW, UG_KEY_BESIDE } ug_key_place;
+
+/* The roles of a chart's text, largest first (style.type). */
+typedef enum {
+    UG_TYPE_TITLE,
+    UG_TYPE_SUBTITLE,
+    UG_TYPE_LABEL,    /* group and category names, the key */
+    UG_TYPE_NOTE,     /* value statement, notes, source */
+    UG_TYPE_COUNT
+} ug_type_role;
+
 struct ug_chart {
     ug_arena arena;
     const char *path;        /* the layout file as named by the caller */
@@ -157,6 +170,7 @@ struct ug_chart {
     ug_mark columns_mark;
     long cluster;               /* rows: 0 = none; default 5 */
     ug_arrangement arrangement;
+    ug_key_place key_place;    /* default auto: beside the plot when it fits */
     ug_fill fill;
     ug_start start;
 
@@ -208,6 +222,9 @@ struct ug_chart {
         ug_color background;     /* default #ffffff */
         ug_color ink;            /* default #222222 */
         ug_palette palette;
+        /* the type scale, px by UG_TYPE_*: largest to smallest, checked */
+        double type[UG_TYPE_COUNT];
+        ug_mark type_mark;       /* line 0: not stated (a page may pick its own) */
         ug_mark mark;
     } style;
 
@@ -229,8 +246,27 @@ typedef struct {
     ug_text chart_file;    /* the path as written; text NULL for an inline chart */
     ug_text text;          /* UG_PANEL_TEXT: the paragraph (newlines kept) */
     long span;             /* columns spanned, 1..page columns; default 1 */
+    /* the panel's own `icon` and `columns`, over its chart's (mark line 0:
+    ** not given); the loader writes them into the chart it owns */
+    double icon_size, icon_gap;
+    ug_mark icon_mark;
+    long columns;
+    ug_mark columns_mark;
     ug_mark mark;          /* the panel's mapping */
 } ug_panel;
+
+/* The roles of a page's text, largest first (page `type:`): the page's
+** title, and the type scale panels' charts take unless they state one. */
+typedef enum {
+    UG_PAGE_TYPE_TITLE,
+    UG_PAGE_TYPE_PANEL_TITLE,
+    UG_PAGE_TYPE_SUBTITLE,
+    UG_PAGE_TYPE_TEXT,     /* text panels */
+    UG_PAGE_TYPE_LABEL,
+    UG_PAGE_TYPE_NOTE,
+    UG_PAGE_TYPE_SOURCE,   /* the sources at the foot */
+    UG_PAGE_TYPE_COUNT
+} ug_page_type_role;
 
 struct ug_page {
     ug_arena arena;
@@ -252,6 +288,13 @@ struct ug_page {
     ug_mark panels_mark;
     bool shared_scale;
     ug_mark shared_scale_mark;
+    double type[UG_PAGE_TYPE_COUNT]; /* px; defaults in page_new */
+    ug_mark type_mark;
+    /* `fit:` the composer shrinks icons and text together, one factor for
+    ** every panel, down to these floors (px), before it gives up */
+    bool shrink;             /* default true */
+    double min_icon, min_text;
+    ug_mark fit_mark;
     ug_limits limits;        /* resolved: no zeros */
 };
 

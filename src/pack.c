@@ -22,16 +22,15 @@
 #include "glyph_cache.h"
 #include "pack.h"
 #include "phrase.h"
+#include "resolve.h"
 #include "text.h"
 
 #define MARGIN PACK_MARGIN
-#define TITLE_PX 26.0
-#define SUBTITLE_PX 17.0
-#define LABEL_PX 15.0
-#define SMALL_PX 13.0
-#define HOLDER_PX 12.0
+/* Spaces at the default label size (style.type); they follow the labels,
+** so a smaller type scale (a handout panel) is tighter all through. */
 #define BLOCK_GAP 28.0 /* between title, plot, key and foot */
 #define COL_GAP 16.0   /* between a text column and icons */
+#define HOLDER_OF_NOTE (12.0 / 13.0) /* placeholder text beside notes */
 #define DEFAULT_WIDTH 800.0
 
 struct pack_frame {
@@ -63,12 +62,19 @@ typedef struct {
     size_t cap_icons, cap_texts, cap_holders, cap_rects, cap_swatches;
     double size, gap, pitch, left, right;
     double y; /* top of the next block */
+    double type[UG_TYPE_COUNT]; /* the chart's type scale, px */
+    double holder_px, block_gap, col_gap;
+    double k; /* the labels' size to the default's: spaces follow it */
     /* hidden-count placeholder, one size for the chart whatever it says */
     bool holders;
     double holder_w, holder_h;
     pack_frame *frame; /* a batch's shared layout, or NULL */
     bool measuring;    /* filling the frame rather than reading it */
 } packer;
+
+/* A space of n px at the default labels, for this chart's labels: whole
+** px, so what is placed after it stays on the pixel grid. */
+static double space(const packer *p, double n) { return round(n * p->k); }
 
 pack_frame *pack_frame_new(size_t ncats)
 {
@@ -280,9 +286,9 @@ static void put_holder(packer *p, double x, double y, size_t cat, size_t group,
         return;
     *h = (scene_placeholder){x, y, p->holder_w, p->holder_h, (unsigned)cat,
                              (unsigned)group};
-    double lb = line_box(p, HOLDER_PX, false);
+    double lb = line_box(p, p->holder_px, false);
     put_text(p, label, x + p->holder_w / 2, y + (p->holder_h - lb) / 2, 0,
-             HOLDER_PX, false, SCENE_MIDDLE, true);
+             p->holder_px, false, SCENE_MIDDLE, true);
 }
 
 /* Icons sit in the scene grouped by category (the SVG writer's <g> per
@@ -368,7 +374,7 @@ static double widest_side(packer *p, bool left)
                 ug_buf_puts(&b, c->groups.items[g].text);
             else if (split)
                 ug_buf_puts(&b, cat_label(c, i));
-            text_size ts = put_buf(p, &b, 0, 0, 0, LABEL_PX, left, SCENE_START, false);
+            text_size ts = put_buf(p, &b, 0, 0, 0, p->type[UG_TYPE_LABEL], left, SCENE_START, false);
             w = fmax(w, ts.w);
         }
     return w;
@@ -380,10 +386,10 @@ static rows_frame rows_setup(packer *p)
     double cw = content_width(p);
     f.lw = shared(p, KEPT(p, lw), fmin(widest_side(p, true), 0.3 * cw));
     f.tw = shared(p, KEPT(p, tw), fmin(widest_side(p, false), 0.3 * cw));
-    f.x0 = p->left + (f.lw > 0 ? f.lw + COL_GAP : 0);
-    f.avail = p->right - (f.tw > 0 ? f.tw + COL_GAP : 0) - f.x0;
+    f.x0 = p->left + (f.lw > 0 ? f.lw + p->col_gap : 0);
+    f.avail = p->right - (f.tw > 0 ? f.tw + p->col_gap : 0) - f.x0;
     f.cols = fit_columns(p, f.x0, f.avail);
-    f.tx = fmax(slot_x(p, f.x0, f.cols - 1) + p->size, f.x0 + p->holder_w) + COL_GAP;
+    f.tx = fmax(slot_x(p, f.x0, f.cols - 1) + p->size, f.x0 + p->holder_w) + p->col_gap;
     f.line_h = fmax(p->size, p->holders ? p->holder_h : 0);
     f.band_gap = fmax(14, p->size * 0.75);
     return f;
@@ -521,20 +527,20 @@ static void side_texts(packer *p, const rows_frame *f, rows_cursor *cur,
 {
     const ug_chart *c = p->c;
     bool split = c->arrangement == UG_ARRANGE_SPLIT;
-    double lb = line_box(p, LABEL_PX, false);
+    double lb = line_box(p, p->type[UG_TYPE_LABEL], false);
     double top = cur->top + (f->line_h - lb) / 2;
     text_size l = {0, 0, 0}, r = {0, 0, 0};
     if (first && c->groups.n)
-        l = put_text(p, c->groups.items[g].text, p->left, top, f->lw, LABEL_PX,
+        l = put_text(p, c->groups.items[g].text, p->left, top, f->lw, p->type[UG_TYPE_LABEL],
                      true, SCENE_START, true);
     else if (split && !c->groups.n)
-        l = put_text(p, cat_label(c, i), p->left, top, f->lw, LABEL_PX, false,
+        l = put_text(p, cat_label(c, i), p->left, top, f->lw, p->type[UG_TYPE_LABEL], false,
                      SCENE_START, true);
     if (first || split) {
         ug_buf b;
         ug_buf_init(&b);
         right_text(p, g, i, &b);
-        r = put_buf(p, &b, f->tx, top, p->right - f->tx, LABEL_PX, false, SCENE_START,
+        r = put_buf(p, &b, f->tx, top, p->right - f->tx, p->type[UG_TYPE_LABEL], false, SCENE_START,
                     true);
     }
     /* the next line's text starts above its icons when text is taller */
@@ -593,7 +599,7 @@ static void next_category_line(packer *p, const rows_frame *f, rows_cursor *cur,
 static void rows_band(packer *p, const rows_frame *f, size_t g)
 {
     bool split = p->c->arrangement == UG_ARRANGE_SPLIT;
-    double lb = line_box(p, LABEL_PX, false);
+    double lb = line_box(p, p->type[UG_TYPE_LABEL], false);
     /* whole-pixel tops keep icon edges crisp when rendered */
     rows_cursor cur = {ceil(p->y + fmax(0, (lb - f->line_h) / 2)), p->y, 0, 0, true};
     double band_top = cur.top, cat_top = cur.top;
@@ -622,7 +628,7 @@ static void pack_rows(packer *p)
     rows_frame f = rows_setup(p);
     for (size_t g = 0; g < chart_ngroups(p->c) && !p->st; g++)
         rows_band(p, &f, g);
-    p->y += BLOCK_GAP - f.band_gap;
+    p->y += p->block_gap - f.band_gap;
 }
 
 /* ---- waffle ------------------------------------------------------------------ */
@@ -646,7 +652,7 @@ static waffle_frame waffle_setup(const packer *p)
     f.rows = (f.cells + f.cols - 1) / f.cols;
     f.w = (double)f.cols * p->pitch - p->gap;
     f.h = f.rows ? (double)f.rows * p->pitch - p->gap : 0;
-    f.gap = fmax(40, 2 * p->size);
+    f.gap = fmax(space(p, 40), 2 * p->size);
     double fit = floor((content_width(p) + f.gap) / (f.w + f.gap));
     f.per_row = fit < 1 ? 1 : (size_t)fit;
     return f;
@@ -696,14 +702,14 @@ static double panel_header(packer *p, const waffle_frame *f, size_t g, double x,
 {
     if (!p->c->groups.n)
         return 0;
-    text_size l = put_text(p, p->c->groups.items[g].text, x, p->y, f->w, LABEL_PX,
+    text_size l = put_text(p, p->c->groups.items[g].text, x, p->y, f->w, p->type[UG_TYPE_LABEL],
                            true, SCENE_START, place);
     ug_buf b;
     ug_buf_init(&b);
     pack_group_phrase(p->a, g, &b);
-    text_size t = put_buf(p, &b, x, p->y + l.h + 4, f->w, SMALL_PX, false,
+    text_size t = put_buf(p, &b, x, p->y + l.h + 4, f->w, p->type[UG_TYPE_NOTE], false,
                           SCENE_START, place);
-    return l.h + 4 + t.h + 10;
+    return l.h + 4 + t.h + space(p, 10);
 }
 
 static void pack_waffle(packer *p)
@@ -722,7 +728,7 @@ static void pack_waffle(packer *p)
             panel_header(p, &f, g, x, true);
             waffle_cells(p, &f, g, x, p->y + head);
         }
-        p->y += head + f.h + (g1 < n ? f.gap * 0.75 : BLOCK_GAP);
+        p->y += head + f.h + (g1 < n ? f.gap * 0.75 : p->block_gap);
     }
 }
 
@@ -755,41 +761,113 @@ static void key_detail(packer *p, size_t i, ug_buf *b)
     pack_share_icons(c, sh, b);
 }
 
-static void key_entry(packer *p, size_t i, double lw)
+/* One key entry: swatch, label, and its detail beside the label or, stacked,
+** under it (a key beside the plot, where the width is short). */
+static void key_entry(packer *p, size_t i, double lw, bool stacked)
 {
-    double lb = line_box(p, LABEL_PX, true);
+    double lb = line_box(p, p->type[UG_TYPE_LABEL], true);
     double top = ceil(p->y + fmax(0, (lb - p->size) / 2));
     double text_top = top + (p->size - lb) / 2;
-    double lx = p->left + p->size + 10, dx = lx + lw + 24;
+    double lx = p->left + p->size + space(p, 10), dx = stacked ? lx : lx + lw + space(p, 24);
     scene_icon *sw = PUSH(p, swatches, nswatches, cap_swatches);
     if (sw)
         *sw = (scene_icon){p->left, top, 1.0, (unsigned)i, 0};
-    text_size l = put_text(p, cat_label(p->c, i), lx, text_top, lw, LABEL_PX, true,
+    text_size l = put_text(p, cat_label(p->c, i), lx, text_top, lw, p->type[UG_TYPE_LABEL], true,
                            SCENE_START, true);
     ug_buf b;
     ug_buf_init(&b);
     key_detail(p, i, &b);
-    text_size d = put_buf(p, &b, dx, text_top, p->right - dx, LABEL_PX, false,
+    double dtop = stacked ? text_top + l.h : text_top;
+    text_size d = put_buf(p, &b, dx, dtop, p->right - dx, p->type[UG_TYPE_LABEL], false,
                           SCENE_START, true);
+    if (stacked)
+        d.h += l.h;
     double bottom = fmax(top + p->size, text_top + fmax(l.h, d.h));
     if (p->c->cats[i].note.text) {
         text_size nt = put_text(p, p->c->cats[i].note.text, lx, bottom + 4,
-                                p->right - lx, SMALL_PX, false, SCENE_START, true);
+                                p->right - lx, p->type[UG_TYPE_NOTE], false, SCENE_START, true);
         bottom += 4 + nt.h;
     }
-    p->y = top + reserved(p, p->frame ? &p->frame->key_adv[i] : NULL, bottom - top) + 12;
+    p->y = top + reserved(p, p->frame ? &p->frame->key_adv[i] : NULL, bottom - top) + space(p, 12);
 }
 
-static void pack_key(packer *p)
+static void pack_key(packer *p, bool stacked)
 {
-    double lw = 0, lx = p->size + 10;
+    double lw = 0, lx = p->size + space(p, 10);
     for (size_t i = 0; i < p->c->ncats; i++)
-        lw = fmax(lw, put_text(p, cat_label(p->c, i), 0, 0, 0, LABEL_PX, true,
+        lw = fmax(lw, put_text(p, cat_label(p->c, i), 0, 0, 0, p->type[UG_TYPE_LABEL], true,
                                SCENE_START, false).w);
-    lw = fmin(lw, 0.45 * (content_width(p) - lx));
+    lw = stacked ? content_width(p) - lx : fmin(lw, 0.45 * (content_width(p) - lx));
     for (size_t i = 0; i < p->c->ncats && !p->st; i++)
-        key_entry(p, i, lw);
-    p->y += BLOCK_GAP - 12;
+        key_entry(p, i, lw, stacked);
+    p->y += space(p, 16);
+}
+
+/* The key's width with nothing wrapped: swatch, widest label, widest detail. */
+static double key_natural_width(packer *p, bool stacked)
+{
+    double lw = 0, detail = 0;
+    for (size_t i = 0; i < p->c->ncats && !p->st; i++) {
+        ug_buf b;
+        ug_buf_init(&b);
+        key_detail(p, i, &b);
+        lw = fmax(lw, put_text(p, cat_label(p->c, i), 0, 0, 0, p->type[UG_TYPE_LABEL],
+                               true, SCENE_START, false).w);
+        detail = fmax(detail, put_buf(p, &b, 0, 0, 0, p->type[UG_TYPE_LABEL], false,
+                                      SCENE_START, false).w);
+    }
+    return p->size + space(p, 10) + (stacked ? fmax(lw, detail) : lw + space(p, 24) + detail);
+}
+
+/* How many of each kind of box the scene held when the plot began. */
+typedef struct {
+    size_t icons, texts, holders, rects;
+} scene_counts;
+
+static scene_counts count_boxes(const ug_scene *s)
+{
+    return (scene_counts){s->nicons, s->ntexts, s->nholders, s->nrects};
+}
+
+/* The right edge of everything placed since `from`. */
+static double right_since(const ug_scene *s, scene_counts from)
+{
+    double r = 0, x0, y0, x1, y1;
+    for (size_t i = from.icons; i < s->nicons; i++)
+        r = fmax(r, s->icons[i].x + s->icon_size);
+    for (size_t i = from.texts; i < s->ntexts; i++) {
+        scene_text_box(&s->texts[i], &x0, &y0, &x1, &y1);
+        r = fmax(r, x1);
+    }
+    for (size_t i = from.holders; i < s->nholders; i++)
+        r = fmax(r, s->holders[i].x + s->holders[i].w);
+    for (size_t i = from.rects; i < s->nrects; i++)
+        r = fmax(r, s->rects[i].x + s->rects[i].w);
+    return r;
+}
+
+/* The key beside the plot, its top at the plot's, when the plot leaves it
+** room enough unwrapped (or `key-place: beside` asks for it and a third of
+** the width is left); below it otherwise. A batch keeps it below, so every
+** row's key entries stay where the others' are. */
+static void place_key(packer *p, double plot_top, scene_counts plot)
+{
+    ug_key_place want = p->c->key_place;
+    double x = ceil(right_since(p->s, plot) + 2 * p->col_gap);
+    bool flat = x + key_natural_width(p, false) <= p->right;
+    bool stacked = !flat && x + key_natural_width(p, true) <= p->right;
+    if (want == UG_KEY_BESIDE && !flat && !stacked)
+        stacked = p->right - x >= content_width(p) / 3;
+    if (want == UG_KEY_BELOW || p->frame || (!flat && !stacked) || p->st) {
+        pack_key(p, false);
+        return;
+    }
+    double left = p->left, below = p->y;
+    p->left = x;
+    p->y = plot_top;
+    pack_key(p, stacked);
+    p->left = left;
+    p->y = fmax(below, p->y);
 }
 
 static void pack_foot_texts(packer *p)
@@ -802,26 +880,26 @@ static void pack_foot_texts(packer *p)
         pack_totals_note(p->a, &b);
         ug_buf_puts(&b, ".");
     }
-    text_size ts = put_buf(p, &b, p->left, p->y, content_width(p), LABEL_PX, true,
+    text_size ts = put_buf(p, &b, p->left, p->y, content_width(p), p->type[UG_TYPE_LABEL], true,
                            SCENE_START, true);
     p->y += ts.h + 14;
     ug_buf_init(&b);
     pack_disclosure_notes(p->a, &b);
     if (b.len || b.failed) {
-        ts = put_buf(p, &b, p->left, p->y, content_width(p), SMALL_PX, false,
+        ts = put_buf(p, &b, p->left, p->y, content_width(p), p->type[UG_TYPE_NOTE], false,
                      SCENE_START, true);
         p->y += ts.h + 6;
     } else {
         ug_buf_free(&b);
     }
     for (size_t i = 0; i < p->c->notes.n; i++)
-        put_block(p, p->c->notes.items[i].text, SMALL_PX, false, 6, NULL);
+        put_block(p, p->c->notes.items[i].text, p->type[UG_TYPE_NOTE], false, 6, NULL);
     if (p->c->source.n) {
         ug_buf_init(&b);
         ug_buf_puts(&b, phrase_text(pack_lang(p->c), PH_SOURCE));
         for (size_t i = 0; i < p->c->source.n; i++)
             ug_buf_printf(&b, "%s%s", i ? "; " : "", p->c->source.items[i].text);
-        ts = put_buf(p, &b, p->left, p->y + 4, content_width(p), SMALL_PX, false,
+        ts = put_buf(p, &b, p->left, p->y + 4, content_width(p), p->type[UG_TYPE_NOTE], false,
                      SCENE_START, true);
         p->y += 4 + ts.h;
     }
@@ -955,7 +1033,7 @@ static void setup_holder(packer *p)
             ug_buf_free(&label);
             return;
         }
-        text_size ts = put_text(p, label.data, 0, 0, 0, HOLDER_PX, false, SCENE_START,
+        text_size ts = put_text(p, label.data, 0, 0, 0, p->holder_px, false, SCENE_START,
                                 false);
         ug_buf_free(&label);
         p->holder_w = fmax(p->holder_w, ts.w + 12);
@@ -1009,7 +1087,7 @@ static double canvas_width(const packer *p)
     if (p->c->form == UG_FORM_WAFFLE)
         need = (double)alloc_default_columns(p->c) * p->pitch - p->gap;
     else /* text columns take at most 55% of the width; one icon the rest */
-        need = (p->size + 2 * COL_GAP + p->holder_w) / 0.45;
+        need = (p->size + 2 * p->col_gap + p->holder_w) / 0.45;
     return fmax(w, ceil(2 * MARGIN + need));
 }
 
@@ -1076,6 +1154,30 @@ ug_status ug_scene_pack_with(const ug_chart *c, const ug_allocation *a,
     return pack_scene(c, a, opt, NULL, false, out, err);
 }
 
+/* The type scale and the spaces that follow it. */
+static void set_type(packer *p)
+{
+    static const double usual[UG_TYPE_COUNT] = RESOLVE_TYPE_PX;
+    const double *t = p->c->style.type;
+    for (size_t i = 0; i < UG_TYPE_COUNT; i++)
+        p->type[i] = t[i] > 0 ? t[i] : usual[i]; /* a chart made by hand */
+    p->k = p->type[UG_TYPE_LABEL] / usual[UG_TYPE_LABEL];
+    p->holder_px = p->type[UG_TYPE_NOTE] * HOLDER_OF_NOTE;
+    p->block_gap = space(p, BLOCK_GAP);
+    p->col_gap = space(p, COL_GAP);
+}
+
+static void pack_head(packer *p)
+{
+    const ug_chart *c = p->c;
+    if (!p->st && c->title.text)
+        put_block(p, c->title.text, p->type[UG_TYPE_TITLE], true,
+                  c->subtitle.text ? 6 : p->block_gap, KEPT(p, title_h));
+    if (!p->st && c->subtitle.text)
+        put_block(p, c->subtitle.text, p->type[UG_TYPE_SUBTITLE], false, p->block_gap,
+                  KEPT(p, subtitle_h));
+}
+
 ug_status pack_scene(const ug_chart *c, const ug_allocation *a,
                      const ug_pack_options *opt, pack_frame *frame, bool measuring,
                      ug_scene **out, ug_error *err)
@@ -1092,17 +1194,15 @@ ug_status pack_scene(const ug_chart *c, const ug_allocation *a,
     p.measuring = frame && measuring;
     if (!(p.s = ug_calloc(1, sizeof *p.s)))
         return ug_fail(err, UG_ENOMEM, ug_mark_file(c->path), "out of memory");
+    set_type(&p);
     setup(&p);
-    if (!p.st && c->title.text)
-        put_block(&p, c->title.text, TITLE_PX, true, c->subtitle.text ? 6 : BLOCK_GAP,
-                  KEPT(&p, title_h));
-    if (!p.st && c->subtitle.text)
-        put_block(&p, c->subtitle.text, SUBTITLE_PX, false, BLOCK_GAP,
-                  KEPT(&p, subtitle_h));
+    pack_head(&p);
+    double plot_top = p.y;
+    scene_counts plot = count_boxes(p.s);
     if (!p.st)
         pack_form[c->form < UG_FORM_COUNT ? c->form : UG_FORM_ROWS](&p);
     if (!p.st)
-        pack_key(&p);
+        place_key(&p, plot_top, plot);
     if (!p.st)
         pack_foot(&p);
     p.s->height = reserved(&p, KEPT(&p, height), ceil(p.y + MARGIN));

@@ -2,9 +2,11 @@
 ** Page stage: a handout page (FORMAT.md §2) -> one scene the size of the
 ** sheet. Panels are laid on a column grid in reading order; the page title
 ** sits at the top and the sources of every panel are collected at the foot.
-** Nothing is shrunk to fit: content that does not fit is an error saying
-** which panel and by how much, because a silently smaller icon would break
-** the shared scale readers compare across panels.
+** Content too large for the sheet is shrunk to fit: icons and text of every
+** panel by one factor, in steps, down to the page's legible floors (`fit:`),
+** so panels that were drawn alike stay alike and a shared scale stays
+** shared. Only when even the floors do not fit is it an error, saying which
+** panel and by how much at those sizes. The audit notes any shrinking.
 */
 #include <assert.h>
 #include <math.h>
@@ -72,10 +74,13 @@ size_t page_place(const page_grid *g, const long *spans, const double *heights,
 
 /* ---- composing the page -------------------------------------------------- */
 
-#define PAGE_TITLE_PX 26.0
-#define PAGE_TEXT_PX 15.0
-#define PAGE_SOURCE_PX 12.0
 #define PAGE_GUTTER 16.0  /* between columns, rows and blocks */
+#define FIT_STEP 0.05     /* each try is 5 % of the stated sizes smaller */
+
+/* A chart's sizes as stated (after shared-scale), which fitting scales. */
+typedef struct {
+    double icon, gap, type[UG_TYPE_COUNT];
+} panel_sizes;
 
 typedef struct {
     const ug_page *p;
@@ -95,6 +100,11 @@ typedef struct {
     ug_buf desc;
     ug_pack_options pack; /* the caller's, always with a glyph cache */
     size_t glyph_bytes;   /* glyph markup in the panels so far */
+    panel_sizes *stated;  /* one per panel */
+    double fit;           /* this try's factor: 1 = as stated */
+    bool at_floor;        /* this try is the smallest there is */
+    bool misfit;          /* this try failed on width, not on a fault */
+    double title_px, text_px, source_px; /* the page's own text, this try */
 } composer;
 
 static ug_status nomem(composer *k)
@@ -260,23 +270,40 @@ static ug_status describe_panel(composer *k, const ug_chart *c,
     return k->desc.failed ? nomem(k) : UG_OK;
 }
 
+/* What a failure says when fitting has run out of room to shrink. */
+static const char *floor_note(const composer *k)
+{
+    if (!k->p->shrink)
+        return " (fitting is off: fit: {shrink: false})";
+    return k->at_floor && k->fit < 1 ? " even with every panel shrunk to the page's "
+                                       "smallest icons and text (fit: min-icon, min-text)"
+                                     : "";
+}
+
 static ug_status chart_panel(composer *k, size_t i)
 {
     ug_chart *c = &k->r->charts[i];
-    ug_allocation *a = NULL;
     ug_scene *s = NULL;
     char name[160];
     /* whole px: a browser lays a nested <svg> out on whole pixels and would
     ** scale a chart whose canvas is a fraction wider than its slot */
     double room = floor(page_span_width(&k->g, k->spans[i]));
-    c->source.n = 0; /* collected at the foot of the page */
-    ug_status st = ug_chart_allocate(c, &a, k->err);
+    /* a chart on a background of its own keeps a little of it around its
+    ** content, or its text would touch the edge of the coloured box */
+    const ug_color *bg = &c->style.background;
+    double pad = bg->r != k->paper.r || bg->g != k->paper.g || bg->b != k->paper.b
+                     ? ceil(PAGE_GUTTER / 2) : 0;
+    room -= 2 * pad;
+    ug_status st = pack_panel(k, i, k->r->allocs[k->r->alloc_of[i]], room, &s);
+    if (st == UG_ELIMIT && c->columns_mark.line &&
+        k->err->where.line == c->columns_mark.line)
+        k->misfit = true; /* `columns` wider than the column: smaller icons may fit */
     if (st)
         return st;
-    k->r->allocs[k->r->nallocs++] = a;
-    if ((st = describe_panel(k, c, a)) || (st = pack_panel(k, i, a, room, &s)))
-        return st;
     k->crops[i] = content_box(s);
+    k->crops[i].x -= pad, k->crops[i].y -= pad;
+    k->crops[i].w += 2 * pad, k->crops[i].h += 2 * pad;
+    room += 2 * pad;
     k->heights[i] = k->crops[i].h;
     /* Every panel's SVG holds its glyphs again: bound them on the page as
     ** on one chart. */
@@ -290,10 +317,11 @@ static ug_status chart_panel(composer *k, size_t i)
                      "glyph files", name, k->glyph_bytes, SCENE_MAX_GLYPH_BYTES);
     } else if (k->crops[i].w > room + 0.5) {
         panel_name(k->p, i, name, sizeof name);
+        k->misfit = true;
         st = ug_fail(k->err, UG_ELIMIT, k->p->panels[i].mark,
-                     "%s needs %.1f mm of width but its column is %.1f mm wide; "
+                     "%s needs %.1f mm of width but its column is %.1f mm wide%s; "
                      "give it a larger span, use fewer columns or smaller icons",
-                     name, mm(k->crops[i].w), mm(room));
+                     name, mm(k->crops[i].w), mm(room), floor_note(k));
     } else {
         k->scenes[i] = s;
         return UG_OK;
@@ -325,7 +353,7 @@ static void join_lines(char *s)
 
 static ug_status text_panel(composer *k, size_t i)
 {
-    text_font f = {k->font, PAGE_TEXT_PX, false, k->font_mark};
+    text_font f = {k->font, k->text_px, false, k->font_mark};
     char *clean = text_clean(k->p->panels[i].text.text ? k->p->panels[i].text.text : "");
     if (!clean)
         return nomem(k);
@@ -383,7 +411,7 @@ static ug_status foot(composer *k)
     ug_free(text);
     if (!clean)
         return ug_fail(k->err, UG_ENOMEM, ug_mark_file(k->p->path), "out of memory");
-    text_font f = {k->font, PAGE_SOURCE_PX, false, k->font_mark};
+    text_font f = {k->font, k->source_px, false, k->font_mark};
     st = text_wrap(&f, clean, k->g.width - 2 * k->g.margin, &k->foot, k->err);
     ug_free(clean);
     return st;
@@ -391,7 +419,7 @@ static ug_status foot(composer *k)
 
 static ug_status title(composer *k)
 {
-    text_font f = {k->font, PAGE_TITLE_PX, true, k->font_mark};
+    text_font f = {k->font, k->title_px, true, k->font_mark};
     char *clean = text_clean(k->p->title.text ? k->p->title.text : "");
     if (!clean)
         return nomem(k);
@@ -437,11 +465,11 @@ static ug_status sheet_texts(composer *k, ug_scene *sheet)
         n += k->texts[i].n;
     if (n && !(sheet->texts = ug_arena_alloc(&sheet->arena, n * sizeof *sheet->texts)))
         return nomem(k);
-    add_lines(sheet, &k->title, k->g.margin, k->g.margin, PAGE_TITLE_PX, true);
+    add_lines(sheet, &k->title, k->g.margin, k->g.margin, k->title_px, true);
     for (size_t i = 0; i < k->p->npanels; i++)
-        add_lines(sheet, &k->texts[i], k->boxes[i].x, k->boxes[i].y, PAGE_TEXT_PX, false);
+        add_lines(sheet, &k->texts[i], k->boxes[i].x, k->boxes[i].y, k->text_px, false);
     add_lines(sheet, &k->foot, k->g.margin,
-              k->g.height - k->g.margin - block_height(&k->foot), PAGE_SOURCE_PX, false);
+              k->g.height - k->g.margin - block_height(&k->foot), k->source_px, false);
     return UG_OK;
 }
 
@@ -508,11 +536,10 @@ static ug_status overflow(composer *k, size_t i, double over)
     char name[160];
     panel_name(k->p, i, name, sizeof name);
     return ug_fail(k->err, UG_ELIMIT, k->p->panels[i].mark,
-                   "the content does not fit on the page: %s reaches %.1f mm "
+                   "the content does not fit on the page%s: %s reaches %.1f mm "
                    "below the room above the sources, so the page needs %.1f mm "
-                   "more; use a larger page, more columns, fewer panels or smaller "
-                   "icons (nothing is shrunk to fit)",
-                   name, mm(over), mm(over));
+                   "more; use a larger page, more columns or fewer panels",
+                   floor_note(k), name, mm(over), mm(over));
 }
 
 static ug_status set_up(composer *k)
@@ -538,13 +565,15 @@ static ug_status set_up(composer *k)
                            none.style.background.b};
     k->r->charts = ug_calloc(n, sizeof *k->r->charts);
     k->r->allocs = ug_calloc(n, sizeof *k->r->allocs);
+    k->r->alloc_of = ug_calloc(n, sizeof *k->r->alloc_of);
+    k->stated = ug_calloc(n, sizeof *k->stated);
     k->scenes = ug_calloc(n, sizeof *k->scenes);
     k->texts = ug_calloc(n, sizeof *k->texts);
     k->spans = ug_calloc(n, sizeof *k->spans);
     k->heights = ug_calloc(n, sizeof *k->heights);
     k->boxes = ug_calloc(n, sizeof *k->boxes);
     k->crops = ug_calloc(n, sizeof *k->crops);
-    if (!k->r->charts || !k->r->allocs || !k->scenes || !k->texts || !k->spans ||
+    if (!k->r->charts || !k->r->allocs || !k->r->alloc_of || !k->stated || !k->scenes || !k->texts || !k->spans ||
         !k->heights || !k->boxes || !k->crops)
         return nomem(k);
     set_grid(k);
@@ -558,20 +587,138 @@ static ug_status set_up(composer *k)
     return p->shared_scale ? share_scale(k) : UG_OK;
 }
 
-static ug_status compose(composer *k)
+/* Each chart is allocated, and described, once: fitting changes sizes,
+** never counts. Sources are collected at the foot of the page. */
+static ug_status allocate_panels(composer *k)
+{
+    for (size_t i = 0; i < k->p->npanels; i++) {
+        ug_chart *c = &k->r->charts[i];
+        ug_status st;
+        if (!k->p->panels[i].chart)
+            continue;
+        c->source.n = 0;
+        k->r->alloc_of[i] = k->r->nallocs;
+        if ((st = ug_chart_allocate(c, &k->r->allocs[k->r->nallocs], k->err)))
+            return st;
+        if ((st = describe_panel(k, c, k->r->allocs[k->r->nallocs++])))
+            return st;
+        k->stated[i].icon = c->icon_size;
+        k->stated[i].gap = c->icon_gap;
+        memcpy(k->stated[i].type, c->style.type, sizeof c->style.type);
+    }
+    return UG_OK;
+}
+
+/* A length at factor f, never below its floor nor above what was stated. */
+static double shrunk(double stated, double f, double floor_px)
+{
+    return stated <= floor_px ? stated : fmax(floor_px, stated * f);
+}
+
+/* Icons on whole pixels, so they stay sharp at 96 dpi; the gap keeps its
+** proportion to the icon. */
+static void shrink_icon(ug_chart *c, const panel_sizes *st, double f, double floor_px)
+{
+    c->icon_size = st->icon <= floor_px ? st->icon : fmax(ceil(floor_px), floor(st->icon * f));
+    c->icon_gap = st->gap > 0 ? fmax(1, round(st->gap * c->icon_size / st->icon)) : 0;
+}
+
+static void scale_page(composer *k, double f)
+{
+    const ug_page *p = k->p;
+    k->fit = f;
+    k->title_px = shrunk(p->type[UG_PAGE_TYPE_TITLE], f, p->min_text);
+    k->text_px = shrunk(p->type[UG_PAGE_TYPE_TEXT], f, p->min_text);
+    k->source_px = shrunk(p->type[UG_PAGE_TYPE_SOURCE], f, p->min_text);
+    for (size_t i = 0; i < p->npanels; i++) {
+        ug_chart *c = &k->r->charts[i];
+        if (!p->panels[i].chart)
+            continue;
+        shrink_icon(c, &k->stated[i], f, p->min_icon);
+        for (size_t t = 0; t < UG_TYPE_COUNT; t++)
+            c->style.type[t] = shrunk(k->stated[i].type[t], f, p->min_text);
+    }
+}
+
+/* The factor below which nothing gets smaller: every size at its floor. */
+static double floor_factor(const composer *k)
+{
+    const ug_page *p = k->p;
+    double f = 1;
+    for (size_t t = 0; t < UG_PAGE_TYPE_COUNT; t++)
+        if (p->type[t] > p->min_text)
+            f = fmin(f, p->min_text / p->type[t]);
+    for (size_t i = 0; i < p->npanels; i++) {
+        const panel_sizes *st = &k->stated[i];
+        if (!p->panels[i].chart)
+            continue;
+        if (st->icon > p->min_icon)
+            f = fmin(f, ceil(p->min_icon) / st->icon);
+        for (size_t t = 0; t < UG_TYPE_COUNT; t++)
+            if (st->type[t] > p->min_text)
+                f = fmin(f, p->min_text / st->type[t]);
+    }
+    return f;
+}
+
+/* What one try made, undone before the next. */
+static void clear_try(composer *k)
+{
+    for (size_t i = 0; i < k->p->npanels; i++) {
+        ug_scene_free(k->scenes[i]);
+        k->scenes[i] = NULL;
+        text_block_free(&k->texts[i]);
+    }
+    text_block_free(&k->title);
+    text_block_free(&k->foot);
+    k->glyph_bytes = 0;
+    k->misfit = false;
+    ug_error_clear(k->err);
+}
+
+/* One try at the current sizes: *bad gets the panel reaching lowest past
+** the room, or npanels when everything fits. */
+static ug_status lay_out(composer *k, size_t *bad, double *over)
 {
     ug_status st;
-    if ((st = set_up(k)) || (st = title(k)) || (st = foot(k)))
+    *bad = k->p->npanels;
+    if ((st = title(k)) || (st = foot(k)))
         return st;
+    set_grid(k);
     fit_header_and_foot(k);
     for (size_t i = 0; i < k->p->npanels; i++)
         if ((st = k->p->panels[i].chart ? chart_panel(k, i) : text_panel(k, i)))
             return st;
-    double over;
-    size_t bad = page_place(&k->g, k->spans, k->heights, k->p->npanels, k->boxes,
-                            &over);
-    if (bad < k->p->npanels)
-        return overflow(k, bad, over);
+    *bad = page_place(&k->g, k->spans, k->heights, k->p->npanels, k->boxes, over);
+    return UG_OK;
+}
+
+/* Tries the stated sizes, then each step smaller down to the floors; the
+** first try that fits is the page. */
+static ug_status fit_page(composer *k)
+{
+    double least = k->p->shrink ? floor_factor(k) : 1;
+    for (int step = 0;; step++) {
+        double f = fmax(least, 1.0 - FIT_STEP * step), over = 0;
+        size_t bad;
+        k->at_floor = f <= least;
+        scale_page(k, f);
+        ug_status st = lay_out(k, &bad, &over);
+        if (!st && bad == k->p->npanels) {
+            k->r->fit = f;
+            return UG_OK;
+        }
+        if ((st && !k->misfit) || k->at_floor)
+            return st ? st : overflow(k, bad, over);
+        clear_try(k);
+    }
+}
+
+static ug_status compose(composer *k)
+{
+    ug_status st;
+    if ((st = set_up(k)) || (st = allocate_panels(k)) || (st = fit_page(k)))
+        return st;
     if ((st = ug_buf_take(&k->desc, &k->r->desc, NULL, k->err)))
         return st;
     return write_page(k);
@@ -597,6 +744,11 @@ ug_status page_compose(const ug_page *page, const ug_pack_options *opt,
         k.pack.glyph_cache = own;
     ug_status st = compose(&k);
     ug_glyph_cache_free(own);
+    if (!st) { /* the scenes go with the result */
+        out->scenes = k.scenes;
+        out->npanels = page->npanels;
+        k.scenes = NULL;
+    }
     /* Each array is checked on its own: set_up may have made some of them
     ** and not the rest. */
     for (size_t i = 0; k.scenes && i < page->npanels; i++)
@@ -609,6 +761,7 @@ ug_status page_compose(const ug_page *page, const ug_pack_options *opt,
     ug_free(k.heights);
     ug_free(k.boxes);
     ug_free(k.crops);
+    ug_free(k.stated);
     text_block_free(&k.title);
     text_block_free(&k.foot);
     ug_buf_free(&k.desc);
@@ -624,6 +777,10 @@ void page_result_free(page_result *r)
     for (size_t i = 0; i < r->nallocs; i++)
         ug_allocation_free(r->allocs[i]);
     ug_free(r->allocs);
+    ug_free(r->alloc_of);
+    for (size_t i = 0; r->scenes && i < r->npanels; i++)
+        ug_scene_free(r->scenes[i]);
+    ug_free(r->scenes);
     ug_free(r->charts); /* shallow copies: their strings belong to the page */
     ug_free(r->svg);
     ug_free(r->desc);

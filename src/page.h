@@ -39,14 +39,19 @@ size_t page_place(const page_grid *g, const long *spans, const double *heights,
 ** units in px) and, for the web page's tables, one allocation per chart
 ** panel. The allocations borrow `charts`, shallow copies of the page's
 ** charts adjusted for the page (panel width, shared scale, sources moved to
-** the foot), which borrow the page: free the result before the page. */
+** the foot), which borrow the page: free the result before the page. The
+** scenes are what the sheet shows of each chart, for the audit. */
 typedef struct {
     char *svg;
     size_t len;
     char *desc;           /* the page's description: each chart's, in order */
     ug_allocation **allocs;
     size_t nallocs;
+    size_t *alloc_of;     /* panel i's allocation: allocs[alloc_of[i]] (charts) */
     ug_chart *charts;
+    ug_scene **scenes;    /* panel i's scene as drawn (NULL for text) */
+    size_t npanels;
+    double fit;           /* the factor sizes were drawn at: 1 = as stated */
 } page_result;
 
 ug_status page_compose(const ug_page *page, const ug_pack_options *opt,

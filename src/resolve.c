@@ -39,6 +39,8 @@ void resolve_defaults(ug_chart *c)
     c->style.font_mark = ug_mark_file(c->path);
     c->style.background = hex_color(RESOLVE_BACKGROUND);
     c->style.ink = hex_color(RESOLVE_INK);
+    const double type[UG_TYPE_COUNT] = RESOLVE_TYPE_PX;
+    memcpy(c->style.type, type, sizeof type);
     c->audit.tolerance_percent.v = RESOLVE_TOLERANCE_PERCENT * UG_DEC_SCALE;
     c->audit.small_count.v = RESOLVE_SMALL_COUNT * UG_DEC_SCALE;
 }

@@ -15,6 +15,18 @@
 #define RESOLVE_BACKGROUND 0xffffff
 #define RESOLVE_ICON_PX 24
 #define RESOLVE_GAP_PX 4
+/* The type scale of a chart on its own, px by UG_TYPE_* (common practice, no
+** source: steps of about 1.2 to 1.5 between roles, labels near 11 pt). */
+#define RESOLVE_TYPE_PX {26.0, 17.0, 15.0, 13.0}
+/* A handout's type scale, by UG_PAGE_TYPE_*: the page title clearly above
+** the panels' titles, and panels a step smaller than a chart alone, since a
+** page is read at arm's length like a chart on a screen (common practice,
+** no source). */
+#define RESOLVE_PAGE_TYPE_PX {26.0, 18.0, 14.0, 14.0, 13.0, 11.0, 11.0}
+/* How far a page may shrink its panels to fit: icons of 8 px (2.1 mm
+** printed) and text of 7 pt (common practice for print, no source). */
+#define RESOLVE_PAGE_MIN_ICON_PX 8.0
+#define RESOLVE_PAGE_MIN_TEXT_PX (7.0 * 96.0 / 72.0)
 #define RESOLVE_CELLS 100           /* a waffle of shares */
 #define RESOLVE_TOLERANCE_PERCENT 10 /* audit.tolerance: common practice, no source */
 #define RESOLVE_SMALL_COUNT 10       /* small-count threshold (REFERENCES.md §7) */

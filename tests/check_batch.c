@@ -323,7 +323,9 @@ START_TEST(test_unshared_rows_differ)
 {
     char dir[] = "/tmp/ug-batch-XXXXXX", tmpl[64], csv[64];
     temp_files(dir, tmpl, csv, sizeof tmpl);
-    write_text(tmpl, "title: Row {group}\nicon-value: 1\ncolumns: 10\ncategories:\n"
+    write_text(tmpl, "title: Row {group}\nicon-value: 1\ncolumns: 10\n"
+                     /* a batch keeps its key below; so must the row alone */
+                     "key-place: below\ncategories:\n"
                      "  - {id: a, label: A}\n  - {id: b, label: B}\n");
     write_text(csv, "name,a,b\nsmall,3,4\nlarge,95,4\n");
     ug_error err = {0};

@@ -270,6 +270,13 @@ static const string_case strings[] = {
     {"root:$6$salt$hash:19000:0:99999:7:::\n", UG_ESCHEMA, 0, 0, "not a chart layout"},
     /* a misspelt key still gets its suggestion */
     {"titel: x\n", UG_ESCHEMA, 1, 1, "unknown key 'titel' (did you mean 'title'?)"},
+    /* a type scale keeps its order and stays legible */
+    {ROWS "style: {type: {title: 20, label: 12pt, note: 9}}\n" CAT, UG_OK, 0, 0, NULL},
+    {ROWS "style: {type: {title: 14, subtitle: 16}}\n" CAT, UG_ESCHEMA, 3, 15,
+     "'subtitle' (16px) is larger than 'title' (14px)"},
+    {ROWS "style: {type: {note: 5pt}}\n" CAT, UG_ESCHEMA, 3, 15, "legible minimum of 6pt"},
+    {ROWS "style: {type: {lable: 12}}\n" CAT, UG_ESCHEMA, 3, 16, "did you mean 'label'?"},
+    {ROWS "key-place: left\n" CAT, UG_ESCHEMA, 3, 12, "beside"},
 };
 
 START_TEST(test_strings)

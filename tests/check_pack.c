@@ -4,6 +4,7 @@
 #include <check.h>
 #include <glob.h>
 #include <libxml/tree.h>
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -43,6 +44,48 @@ static void check_and_free(ug_chart *c)
 START_TEST(test_pantry_waffle_invariants)
 {
     check_and_free(fx_chart(UG_FORM_WAFFLE, "Who the pantry served", NULL, 0, pantry, 3));
+}
+END_TEST
+
+/* The right edge of the plot's icons and the left of the key's swatches. */
+static void key_and_plot(const ug_scene *s, double *plot_right, double *key_left,
+                         double *plot_bottom, double *key_top)
+{
+    *plot_right = *plot_bottom = 0;
+    *key_left = *key_top = 1e9;
+    for (size_t i = 0; i < s->nicons; i++) {
+        *plot_right = fmax(*plot_right, s->icons[i].x + s->icon_size);
+        *plot_bottom = fmax(*plot_bottom, s->icons[i].y + s->icon_size);
+    }
+    for (size_t i = 0; i < s->nswatches; i++) {
+        *key_left = fmin(*key_left, s->swatches[i].x);
+        *key_top = fmin(*key_top, s->swatches[i].y);
+    }
+}
+
+/* A 10 x 10 waffle leaves most of an 800 px canvas free: the key goes
+** beside it, top to top, and is no shorter for it (every entry drawn);
+** `key-place: below` puts it under the grid. Both pass the invariants. */
+START_TEST(test_key_beside_or_below)
+{
+    for (int below = 0; below < 2; below++) {
+        ug_chart *c = fx_chart(UG_FORM_WAFFLE, "Who the pantry served", NULL, 0, pantry, 3);
+        c->key_place = below ? UG_KEY_BELOW : UG_KEY_AUTO;
+        ug_allocation *a = NULL;
+        ug_scene *s = pack_ok(c, &a);
+        double pr, kl, pb, kt;
+        key_and_plot(s, &pr, &kl, &pb, &kt);
+        ck_assert_uint_eq(s->nswatches, 3);
+        if (below)
+            ck_assert_msg(kt >= pb, "key top %g above the grid's bottom %g", kt, pb);
+        else
+            ck_assert_msg(kl > pr && kt < pb, "key at %g,%g; grid to %g,%g", kl, kt, pr, pb);
+        const char *bad = inv_check(c, a, s);
+        ck_assert_msg(bad == NULL, "%s", bad ? bad : "");
+        ug_scene_free(s);
+        ug_allocation_free(a);
+        fx_free(c);
+    }
 }
 END_TEST
 
@@ -500,6 +543,7 @@ static Suite *pack_suite(void)
     TCase *t = tcase_create("geometry");
     tcase_set_timeout(t, 120);
     tcase_add_test(t, test_pantry_waffle_invariants);
+    tcase_add_test(t, test_key_beside_or_below);
     tcase_add_test(t, test_more_means_more_icons_not_bigger);
     tcase_add_loop_test(t, test_waffle_fill_orders, 0, sizeof fills / sizeof fills[0]);
     tcase_add_test(t, test_small_multiples_align);

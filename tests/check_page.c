@@ -6,6 +6,7 @@
 #include <check.h>
 #include <libxml/parser.h>
 #include <libxml/xpath.h>
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -297,7 +298,7 @@ START_TEST(test_overflow_names_panel_and_amount)
     ck_assert_int_eq(compose(page_yaml("A5", tall_chart), &r, &err), UG_ELIMIT);
     ck_assert_uint_eq(err.where.line, 4);
     ck_assert_msg(strstr(err.msg, "panel 1 (inline chart)") &&
-                  strstr(err.msg, "mm more") && strstr(err.msg, "nothing is shrunk"),
+                  strstr(err.msg, "mm more") && strstr(err.msg, "even with every panel shrunk"),
                   "%s", err.msg);
     ck_assert_ptr_null(r.svg);
     done(&r);
@@ -332,6 +333,155 @@ START_TEST(test_too_narrow_column)
     ck_assert_int_eq(compose(yaml, &r, &err), UG_ELIMIT);
     ck_assert_msg(strstr(err.msg, "mm of width but its column is"), "%s", err.msg);
     done(&r);
+}
+END_TEST
+
+/* Two charts of the same thing at the same stated size, each 150 icons at
+** 12 a line of 20 px: about 680 px of icons against an A5 sheet's 700 px of
+** room, so neither fits at its stated size beside the other. */
+static const char two_charts[] =
+    "  - chart:\n"
+    "      title: North households (demo data)\n"
+    "      unit-label: households\n"
+    "      icon-value: 1\n"
+    "      columns: 12\n"
+    "      icon: {size: 20, gap: 4}\n"
+    "      categories:\n"
+    "        - {label: Households, glyph: square, color: \"#0072B2\", count: 150}\n"
+    "  - chart:\n"
+    "      title: South households (demo data)\n"
+    "      unit-label: households\n"
+    "      icon-value: 1\n"
+    "      columns: 12\n"
+    "      icon: {size: 20, gap: 4}\n"
+    "      categories:\n"
+    "        - {label: Households, glyph: square, color: \"#D55E00\", count: 150}\n";
+
+/* Shrunk to fit: one factor for both, whole-pixel icons no smaller than the
+** floor, text no smaller than 7 pt, the sheet's content inside its room. */
+START_TEST(test_shrinks_to_fit_alike)
+{
+    page_result r;
+    ug_error err = {0};
+    ck_assert_msg(compose(page_yaml("A5", two_charts), &r, &err) == UG_OK, "%s", err.msg);
+    ck_assert(r.fit < 1 && r.fit > 0);
+    ck_assert_double_eq(r.charts[0].icon_size, r.charts[1].icon_size);
+    ck_assert_double_eq(r.charts[0].icon_size, floor(r.charts[0].icon_size));
+    ck_assert(r.charts[0].icon_size < 20 && r.charts[0].icon_size >= 8);
+    for (size_t t = 0; t < UG_TYPE_COUNT; t++)
+        ck_assert(r.charts[0].style.type[t] >= 7 * 96.0 / 72 - 1e-9);
+    done(&r);
+}
+END_TEST
+
+static double at_least_7pt(double px) { return fmax(px, 7 * 96.0 / 72); }
+
+/* The factor is the first step that fits: at the step before it the same
+** sizes, stated and not shrunk, do not fit. */
+START_TEST(test_fit_is_the_largest_step)
+{
+    page_result r;
+    ug_error err = {0};
+    ck_assert_msg(compose(page_yaml("A5", two_charts), &r, &err) == UG_OK, "%s", err.msg);
+    double before = r.fit + 0.05, icon = floor(20 * before), gap = round(4 * icon / 20);
+    done(&r);
+    char panels[2048], yaml[4096], size[64];
+    snprintf(size, sizeof size, "{size: %g, gap: %g}", icon, gap);
+    snprintf(panels, sizeof panels, "%s", two_charts);
+    for (char *at; (at = strstr(panels, "{size: 20, gap: 4}"));) {
+        memmove(at + strlen(size), at + 18, strlen(at + 18) + 1);
+        memcpy(at, size, strlen(size));
+    }
+    /* the text at that step too: a page type scale of the stated sizes times it */
+    snprintf(yaml, sizeof yaml,
+             "page: {size: A5, columns: 1}\ntitle: A sheet (demo data)\n"
+             "fit: {shrink: false}\n"
+             "type: {title: %g, panel-title: %g, subtitle: %g, text: %g, label: %g, "
+             "note: %g, source: %g}\npanels:\n%s",
+             at_least_7pt(26 * before), at_least_7pt(18 * before),
+             at_least_7pt(14 * before), at_least_7pt(14 * before),
+             at_least_7pt(13 * before), at_least_7pt(11 * before),
+             at_least_7pt(11 * before), panels);
+    ck_assert_int_eq(compose(yaml, &r, &err), UG_ELIMIT);
+    ck_assert_msg(strstr(err.msg, "fitting is off"), "%s", err.msg);
+    done(&r);
+}
+END_TEST
+
+START_TEST(test_no_shrink_says_so)
+{
+    char yaml[4096];
+    snprintf(yaml, sizeof yaml, "page: {size: A5}\ntitle: T (demo data)\n"
+                                "fit: {shrink: false}\npanels:\n%s", two_charts);
+    page_result r;
+    ug_error err = {0};
+    ck_assert_int_eq(compose(yaml, &r, &err), UG_ELIMIT);
+    ck_assert_msg(strstr(err.msg, "panel 2") && strstr(err.msg, "fitting is off"), "%s",
+                  err.msg);
+    done(&r);
+}
+END_TEST
+
+/* A panel's own icon and columns reach its chart; the page's type scale
+** reaches charts that state none, and not one that states its own. */
+START_TEST(test_panel_overrides_and_type)
+{
+    const char *yaml =
+        "page: {size: A4}\ntitle: T (demo data)\n"
+        "type: {title: 24, panel-title: 16, subtitle: 13, text: 13, label: 12, note: 10, "
+        "source: 10}\n"
+        "panels:\n"
+        "  - icon: {size: 9, gap: 1}\n"
+        "    columns: 7\n"
+        "    chart:\n"
+        "      title: A (demo data)\n"
+        "      icon-value: 10\n"
+        "      icon: {size: 20, gap: 4}\n"
+        "      categories:\n"
+        "        - {label: Households, color: \"#0072B2\", count: 40}\n"
+        "  - chart:\n"
+        "      title: B (demo data)\n"
+        "      icon-value: 10\n"
+        "      style: {type: {title: 20, subtitle: 15, label: 14, note: 12}}\n"
+        "      categories:\n"
+        "        - {label: Households, color: \"#0072B2\", count: 40}\n";
+    page_result r;
+    ug_error err = {0};
+    ck_assert_msg(compose(yaml, &r, &err) == UG_OK, "%s", err.msg);
+    ck_assert(r.fit == 1);
+    ck_assert_double_eq(r.charts[0].icon_size, 9);
+    ck_assert_double_eq(r.charts[0].icon_gap, 1);
+    ck_assert_int_eq(r.charts[0].columns, 7);
+    ck_assert_double_eq(r.charts[0].style.type[UG_TYPE_TITLE], 16);
+    ck_assert_double_eq(r.charts[0].style.type[UG_TYPE_NOTE], 10);
+    ck_assert_double_eq(r.charts[1].style.type[UG_TYPE_TITLE], 20);
+    ck_assert(strstr(r.svg, "font-size=\"24\"") != NULL); /* the page title */
+    done(&r);
+}
+END_TEST
+
+static void load_fails(const char *yaml, unsigned line, const char *says)
+{
+    ug_page *p = NULL;
+    ug_error err = {0};
+    ck_assert(ug_page_load_string(yaml, strlen(yaml), "page.yaml", NULL, &p, &err));
+    ck_assert_msg(err.where.line == line && strstr(err.msg, says), "%u: %s",
+                  err.where.line, err.msg);
+    ck_assert_ptr_null(p);
+}
+
+START_TEST(test_type_scale_and_fit_errors)
+{
+    load_fails("page: {size: A4}\ntype: {title: 12, panel-title: 18}\npanels:\n"
+               "  - text: x\n", 2, "runs from largest to smallest");
+    load_fails("page: {size: A4}\ntype: {note: 4pt}\npanels:\n  - text: x\n", 2,
+               "legible minimum");
+    load_fails("page: {size: A4}\nfit: {min-text: 14}\npanels:\n  - text: x\n", 2,
+               "shrinking could only make text larger");
+    load_fails("page: {size: A4}\npanels:\n  - text: x\n    icon: {size: 9}\n", 4,
+               "this panel holds text");
+    load_fails("page: {size: A4}\nfit: {shrnk: false}\npanels:\n  - text: x\n", 2,
+               "shrink");
 }
 END_TEST
 
@@ -463,6 +613,11 @@ static Suite *page_suite(void)
     tcase_add_test(tp, test_overflow_names_panel_and_amount);
     tcase_add_test(tp, test_taller_sheet_fits);
     tcase_add_test(tp, test_too_narrow_column);
+    tcase_add_test(tp, test_shrinks_to_fit_alike);
+    tcase_add_test(tp, test_fit_is_the_largest_step);
+    tcase_add_test(tp, test_no_shrink_says_so);
+    tcase_add_test(tp, test_panel_overrides_and_type);
+    tcase_add_test(tp, test_type_scale_and_fit_errors);
     tcase_add_test(tp, test_ids_unique_and_references_resolve);
     tcase_add_test(tp, test_sources_collected_once_at_the_foot);
     tcase_add_test(tp, test_sources_in_the_page_language);
