@@ -49,6 +49,7 @@ struct pack_frame {
     double head_h;           /* waffle: group name and total */
     double foot_h;           /* value statement, notes, source */
     double *key_adv;         /* key entries */
+    double key_w;            /* the widest key entry, unwrapped */
 };
 
 typedef struct {
@@ -791,18 +792,6 @@ static void key_entry(packer *p, size_t i, double lw, bool stacked)
     p->y = top + reserved(p, p->frame ? &p->frame->key_adv[i] : NULL, bottom - top) + space(p, 12);
 }
 
-static void pack_key(packer *p, bool stacked)
-{
-    double lw = 0, lx = p->size + space(p, 10);
-    for (size_t i = 0; i < p->c->ncats; i++)
-        lw = fmax(lw, put_text(p, cat_label(p->c, i), 0, 0, 0, p->type[UG_TYPE_LABEL], true,
-                               SCENE_START, false).w);
-    lw = stacked ? content_width(p) - lx : fmin(lw, 0.45 * (content_width(p) - lx));
-    for (size_t i = 0; i < p->c->ncats && !p->st; i++)
-        key_entry(p, i, lw, stacked);
-    p->y += space(p, 16);
-}
-
 /* The key's width with nothing wrapped: swatch, widest label, widest detail. */
 static double key_natural_width(packer *p, bool stacked)
 {
@@ -817,6 +806,47 @@ static double key_natural_width(packer *p, bool stacked)
                                       SCENE_START, false).w);
     }
     return p->size + space(p, 10) + (stacked ? fmax(lw, detail) : lw + space(p, 24) + detail);
+}
+
+#define KEY_COLUMN_GAP 32.0 /* between columns of key entries */
+
+/* Key entries side by side, as many as fit unwrapped (a long key then takes
+** a few lines, not one line per entry); one column for a stacked key. A
+** batch lays every row's key out for the widest entry any row has. */
+static size_t key_columns(packer *p, bool stacked)
+{
+    if (stacked || p->c->ncats < 2)
+        return 1;
+    double gap = space(p, KEY_COLUMN_GAP);
+    double one = shared(p, KEPT(p, key_w), key_natural_width(p, false));
+    double fit = floor((content_width(p) + gap) / (one + gap));
+    return fit < 1 ? 1 : fit > (double)p->c->ncats ? p->c->ncats : (size_t)fit;
+}
+
+static void pack_key(packer *p, bool stacked)
+{
+    size_t ncol = key_columns(p, stacked);
+    double left = p->left, right = p->right, gap = space(p, KEY_COLUMN_GAP);
+    double colw = floor((content_width(p) - (double)(ncol - 1) * gap) / (double)ncol);
+    double lw = 0, lx = p->size + space(p, 10);
+    for (size_t i = 0; i < p->c->ncats; i++)
+        lw = fmax(lw, put_text(p, cat_label(p->c, i), 0, 0, 0, p->type[UG_TYPE_LABEL], true,
+                               SCENE_START, false).w);
+    lw = stacked ? colw - lx : fmin(lw, 0.45 * (colw - lx));
+    for (size_t row = 0; row < p->c->ncats && !p->st; row += ncol) {
+        double top = p->y, bottom = top;
+        for (size_t c = 0; c < ncol && row + c < p->c->ncats; c++) {
+            p->left = left + (double)c * (colw + gap);
+            p->right = p->left + colw;
+            p->y = top;
+            key_entry(p, row + c, lw, stacked);
+            bottom = fmax(bottom, p->y);
+        }
+        p->y = bottom;
+    }
+    p->left = left;
+    p->right = right;
+    p->y += space(p, 16);
 }
 
 /* How many of each kind of box the scene held when the plot began. */
