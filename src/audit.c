@@ -1142,8 +1142,8 @@ static ug_status note_fit(audit_ctx *x, const ug_page *page, const page_result *
                "a larger page, more columns, a panel's own icon: {size: ...} or "
                "fit: {shrink: false} to be told instead",
                "to fit the sheet, every panel's icons and text are drawn at %.0f%% "
-               "of their stated sizes (not below fit: min-icon %gpx, min-text %gpx)",
-               100 * r->fit, page->min_icon, page->min_text);
+               "of their stated sizes (not below fit: min-icon %gpx, min-text %.3gpt)",
+               100 * r->fit, page->min_icon, page->min_text * 72 / 96);
 }
 
 /* The page as composed (fitted, shared scale applied): each chart panel is
