@@ -36,6 +36,7 @@
 #include "glyph.h"
 #include "glyph_cache.h"
 #include "page.h"
+#include "phrase.h"
 #include "resolve.h"
 #include "scene.h"
 #include "text.h"
@@ -209,13 +210,48 @@ static ug_status check_source(audit_ctx *x)
                "the chart names no source for its counts");
 }
 
+/* The CLDR plural category the key's icon value takes in the chart's
+** language ("one" for 1 in English); "other" for a waffle of shares. */
+static const char *value_category(const audit_ctx *x)
+{
+    if (!x->a || x->a->rule.by_cells)
+        return "other";
+    return phrase_plural(x->c->lang.text ? x->c->lang.text : "en", x->a->rule.value, 0);
+}
+
 static ug_status check_unit_label(audit_ctx *x)
 {
     if (x->c->unit_label.text)
         return UG_OK;
-    return add(x, file_start(x->c), "unit-label: <what one icon counts, e.g. households>",
+    char fix[160];
+    const char *cat = value_category(x);
+    if (strcmp(cat, "other")) /* one form would make "Each icon = 1 households" */
+        snprintf(fix, sizeof fix, "unit-label: {%s: <what one icon counts in the "
+                 "singular>, other: <the same in the plural>}", cat);
+    else
+        snprintf(fix, sizeof fix, "unit-label: <what one icon counts, e.g. households>");
+    return add(x, file_start(x->c), fix,
                "the chart does not say what is counted, so its key cannot say "
                "what one icon stands for");
+}
+
+/* One unit-label for every number: "Each icon = 1 people" where the chart's
+** language puts the icon value in a plural category of its own (CLDR plural
+** rules, through ICU). */
+static ug_status check_unit_forms(audit_ctx *x)
+{
+    const ug_chart *c = x->c;
+    const char *lang = c->lang.text ? c->lang.text : "en", *cat = value_category(x);
+    if (!c->unit_label.text || c->has_unit_forms || !strcmp(cat, "other"))
+        return UG_OK;
+    char num[PHRASE_NUMBER_MAX], fix[512];
+    phrase_number(lang, x->a->rule.value, 0, num);
+    snprintf(fix, sizeof fix, "unit-label: {%s: <the unit's form for %s>, other: %s}",
+             cat, num, c->unit_label.text);
+    return add(x, c->unit_label.mark, fix,
+               "the key says each icon is %s %s, but in '%s' that number takes the "
+               "unit's '%s' form, which unit-label does not give", num,
+               c->unit_label.text, lang, cat);
 }
 
 /* ---- stated total --------------------------------------------------------- */
@@ -927,6 +963,8 @@ static const audit_rule rules[] = {
     {"missing-source", UG_SEVERITY_WARNING, check_source, "common practice, no source"},
     {"missing-unit-label", UG_SEVERITY_WARNING, check_unit_label,
      "isotype: the key says what one icon stands for (REFERENCES.md §6)"},
+    {"unit-plural", UG_SEVERITY_WARNING, check_unit_forms,
+     "CLDR plural rules (Unicode TR35, Part 3 Numbers, Language Plural Rules), through ICU"},
     {"total-mismatch", UG_SEVERITY_ERROR, check_total, "FORMAT.md §1 (total)"},
     {"vanished-category", UG_SEVERITY_ERROR, check_vanished,
      "unitgram's own rule: a counted category never disappears (FORMAT.md §3)"},

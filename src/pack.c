@@ -216,7 +216,7 @@ static text_size put_text(packer *p, const char *s, double x, double top,
         scene_text *t = PUSH(p, texts, ntexts, cap_texts);
         if (!t)
             break;
-        *t = (scene_text){x, top + b.ascent + (double)i * b.pitch, px, b.widths[i],
+        *t = (scene_text){x, top + b.ascent + (double)i * b.pitch, b.px, b.widths[i],
                           b.ascent, b.descent, bold, an,
                           ug_arena_strdup(&p->s->arena, b.lines[i])};
         if (!t->text)
@@ -360,7 +360,26 @@ static void right_text(packer *p, size_t g, size_t i, ug_buf *b)
         pack_group_phrase(p->a, g, b);
 }
 
-static double widest_side(packer *p, bool left)
+/* The widest single word of s: a text column narrower than that would have
+** to shrink the text or break the word. */
+static double widest_word(packer *p, const char *s, bool bold)
+{
+    double w = 0;
+    while (s && *s) {
+        size_t n = strcspn(s, " ");
+        char word[256];
+        if (n && n < sizeof word) {
+            memcpy(word, s, n);
+            word[n] = '\0';
+            w = fmax(w, put_text(p, word, 0, 0, 0, p->type[UG_TYPE_LABEL], bold,
+                                 SCENE_START, false).w);
+        }
+        s += n + (s[n] == ' ');
+    }
+    return w;
+}
+
+static double widest_side(packer *p, bool left, double *word)
 {
     const ug_chart *c = p->c;
     bool split = c->arrangement == UG_ARRANGE_SPLIT;
@@ -375,6 +394,8 @@ static double widest_side(packer *p, bool left)
                 ug_buf_puts(&b, c->groups.items[g].text);
             else if (split)
                 ug_buf_puts(&b, cat_label(c, i));
+            if (word && b.data) /* a ug_buf's text is always NUL-ended */
+                *word = fmax(*word, widest_word(p, b.data, left));
             text_size ts = put_buf(p, &b, 0, 0, 0, p->type[UG_TYPE_LABEL], left, SCENE_START, false);
             w = fmax(w, ts.w);
         }
@@ -385,8 +406,12 @@ static rows_frame rows_setup(packer *p)
 {
     rows_frame f;
     double cw = content_width(p);
-    f.lw = shared(p, KEPT(p, lw), fmin(widest_side(p, true), 0.3 * cw));
-    f.tw = shared(p, KEPT(p, tw), fmin(widest_side(p, false), 0.3 * cw));
+    /* the label column takes up to 30 % of the width, and more for a word
+    ** that would not fit otherwise, while ten icons still fit on a line */
+    double word = 0, labels = widest_side(p, true, &word);
+    f.tw = shared(p, KEPT(p, tw), fmin(widest_side(p, false, NULL), 0.3 * cw));
+    double spare = cw - 2 * p->col_gap - f.tw - 10 * p->pitch;
+    f.lw = shared(p, KEPT(p, lw), fmin(labels, fmax(0.3 * cw, fmin(word, spare))));
     f.x0 = p->left + (f.lw > 0 ? f.lw + p->col_gap : 0);
     f.avail = p->right - (f.tw > 0 ? f.tw + p->col_gap : 0) - f.x0;
     f.cols = fit_columns(p, f.x0, f.avail);
@@ -456,11 +481,18 @@ typedef struct {
     bool fresh;        /* nothing on the current line yet */
 } rows_cursor;
 
-static void new_line(const packer *p, const rows_frame *f, rows_cursor *cur)
+/* The next line of icons. A category's own icons wrap straight under its
+** line, close by, even beside a label of several lines (their column is the
+** label's, not theirs); a line that brings side texts of its own (the next
+** category, split) starts below the texts before it. */
+static void new_line(const packer *p, const rows_frame *f, rows_cursor *cur,
+                     bool has_texts)
 {
     if (cur->fresh)
         return;
-    cur->top = fmax(cur->top + f->line_h + p->gap, ceil(cur->floor));
+    cur->top = cur->top + f->line_h + p->gap;
+    if (has_texts)
+        cur->top = fmax(cur->top, ceil(cur->floor));
     cur->line++;
     cur->k = 0;
     cur->fresh = true;
@@ -515,7 +547,7 @@ static void go_to_reserved(packer *p, const rows_frame *f, rows_cursor *cur, siz
     reserved_start(p, f, i, &line, &k);
     while (cur->line < line) {
         cur->fresh = false;
-        new_line(p, f, cur);
+        new_line(p, f, cur, false);
     }
     if (k > cur->k) {
         cur->k = k;
@@ -558,7 +590,7 @@ static void rows_category(packer *p, const rows_frame *f, rows_cursor *cur,
         long slots = holder_slots(p);
         slots = slots > f->cols ? f->cols : slots;
         if (cur->k > 0 && cur->k + slots > f->cols)
-            new_line(p, f, cur);
+            new_line(p, f, cur, false);
         ug_buf label;
         ug_buf_init(&label);
         pack_placeholder(p->a, sh->status, &label);
@@ -576,7 +608,7 @@ static void rows_category(packer *p, const rows_frame *f, rows_cursor *cur,
     long n = sh->icons + (sh->partial ? 1 : 0);
     for (long j = 0; j < n && !p->st; j++) {
         if (cur->k == f->cols)
-            new_line(p, f, cur);
+            new_line(p, f, cur, false);
         double frac = j == sh->icons ? (double)sh->rem / (double)sh->quota_den : 1.0;
         put_icon(p, slot_x(p, f->x0, cur->k), cur->top + dy, i, g, frac);
         cur->k++;
@@ -590,7 +622,7 @@ static void next_category_line(packer *p, const rows_frame *f, rows_cursor *cur,
                                size_t i, double *cat_top)
 {
     cur->fresh = false; /* an empty category still gets its line */
-    new_line(p, f, cur);
+    new_line(p, f, cur, true);
     double adv = reserved(p, p->frame ? &p->frame->cat_adv[i] : NULL,
                           cur->top - *cat_top);
     cur->top = *cat_top + adv;
@@ -832,7 +864,8 @@ static void pack_key(packer *p, bool stacked)
     for (size_t i = 0; i < p->c->ncats; i++)
         lw = fmax(lw, put_text(p, cat_label(p->c, i), 0, 0, 0, p->type[UG_TYPE_LABEL], true,
                                SCENE_START, false).w);
-    lw = stacked ? colw - lx : fmin(lw, 0.45 * (colw - lx));
+    /* side by side, a column is as wide as its widest entry unwrapped */
+    lw = stacked ? colw - lx : ncol > 1 ? lw : fmin(lw, 0.45 * (colw - lx));
     for (size_t row = 0; row < p->c->ncats && !p->st; row += ncol) {
         double top = p->y, bottom = top;
         for (size_t c = 0; c < ncol && row + c < p->c->ncats; c++) {

@@ -448,12 +448,12 @@ static void fit_header_and_foot(composer *k)
 
 /* A text block's lines as scene text, top-left at (x, top). */
 static void add_lines(ug_scene *sheet, const text_block *t, double x, double top,
-                      double px, bool bold)
+                      bool bold)
 {
     for (size_t i = 0; i < t->n; i++)
         if (t->lines[i][0])
             sheet->texts[sheet->ntexts++] = (scene_text){
-                .x = x, .y = top + t->ascent + (double)i * t->pitch, .size = px,
+                .x = x, .y = top + t->ascent + (double)i * t->pitch, .size = t->px,
                 .bold = bold, .anchor = SCENE_START, .text = t->lines[i]};
 }
 
@@ -465,11 +465,11 @@ static ug_status sheet_texts(composer *k, ug_scene *sheet)
         n += k->texts[i].n;
     if (n && !(sheet->texts = ug_arena_alloc(&sheet->arena, n * sizeof *sheet->texts)))
         return nomem(k);
-    add_lines(sheet, &k->title, k->g.margin, k->g.margin, k->title_px, true);
+    add_lines(sheet, &k->title, k->g.margin, k->g.margin, true);
     for (size_t i = 0; i < k->p->npanels; i++)
-        add_lines(sheet, &k->texts[i], k->boxes[i].x, k->boxes[i].y, k->text_px, false);
+        add_lines(sheet, &k->texts[i], k->boxes[i].x, k->boxes[i].y, false);
     add_lines(sheet, &k->foot, k->g.margin,
-              k->g.height - k->g.margin - block_height(&k->foot), k->source_px, false);
+              k->g.height - k->g.margin - block_height(&k->foot), false);
     return UG_OK;
 }
 

@@ -13,6 +13,7 @@
 #include <limits.h>
 #include <pthread.h>
 #include <stdio.h>
+#include <math.h>
 #include <string.h>
 
 #include "context.h"
@@ -305,6 +306,52 @@ static bool has_letter_or_digit(const char *s)
     return false;
 }
 
+/* One try at wrapping s at f's size: pango's word wrapping, or breaking
+** between characters as well when `anywhere`. */
+static ug_status wrap_once(const text_font *f, const char *s, double max_width,
+                           bool anywhere, text_block *out)
+{
+    memset(out, 0, sizeof *out);
+    PangoLayout *l = layout_for(f, s);
+    if (max_width > 0) {
+        /* pango widths are ints in 1/1024 px: keep far from INT_MAX */
+        double cap = (double)(INT_MAX / PANGO_SCALE / 2);
+        pango_layout_set_width(l, (int)((max_width < cap ? max_width : cap) * PANGO_SCALE));
+        pango_layout_set_wrap(l, anywhere ? PANGO_WRAP_WORD_CHAR : PANGO_WRAP_WORD);
+    }
+    set_metrics(l, out, f);
+    out->px = f->size;
+    ug_status st = take_lines(l, s, out);
+    g_object_unref(l);
+    if (st)
+        text_block_free(out);
+    return st;
+}
+
+#define WRAP_SHRINK_STEP 0.05
+#define WRAP_SHRINK_LEAST 0.7 /* a title shrunk further reads as another role */
+#define WRAP_LEAST_PX 8.0     /* 6 pt, the smallest legible print (common
+                                 practice, no source) */
+
+/* Words are never broken while a smaller size lets the widest one fit: a
+** word cut in two ("North / gate") reads as two words. */
+static ug_status wrap_whole_words(const text_font *f, const char *s, double max_width,
+                                  text_block *out)
+{
+    text_font at = *f;
+    double least = fmax(WRAP_LEAST_PX, f->size * WRAP_SHRINK_LEAST);
+    for (int step = 0;; step++) {
+        at.size = f->size * (1 - WRAP_SHRINK_STEP * step);
+        if (at.size < least - 1e-9)
+            break;
+        ug_status st = wrap_once(&at, s, max_width, false, out);
+        if (st || max_width <= 0 || out->width <= max_width + 0.5)
+            return st;
+        text_block_free(out);
+    }
+    return wrap_once(f, s, max_width, true, out);
+}
+
 ug_status text_wrap(const text_font *f, const char *s, double max_width,
                     text_block *out, ug_error *err)
 {
@@ -312,20 +359,9 @@ ug_status text_wrap(const text_font *f, const char *s, double max_width,
     ug_status checked = check_family(f, err);
     if (checked)
         return checked;
-    PangoLayout *l = layout_for(f, s);
-    if (max_width > 0) {
-        /* pango widths are ints in 1/1024 px: keep far from INT_MAX */
-        double cap = (double)(INT_MAX / PANGO_SCALE / 2);
-        pango_layout_set_width(l, (int)((max_width < cap ? max_width : cap) * PANGO_SCALE));
-        pango_layout_set_wrap(l, PANGO_WRAP_WORD_CHAR);
-    }
-    set_metrics(l, out, f);
-    ug_status st = take_lines(l, s, out);
-    g_object_unref(l);
-    if (st) {
-        text_block_free(out);
+    ug_status st = wrap_whole_words(f, s, max_width, out);
+    if (st)
         return ug_fail(err, st, ug_mark_file(NULL), "out of memory");
-    }
     if (out->width <= 0 && has_letter_or_digit(s)) {
         text_block_free(out);
         return ug_fail(err, UG_ERENDER, f->named,

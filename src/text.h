@@ -24,12 +24,16 @@ typedef struct {
     size_t n;
     double width;       /* widest line */
     double ascent, descent, pitch; /* per line; pitch = baseline to baseline */
+    double px;          /* the size the lines were set at (see text_wrap) */
 } text_block;
 
 /* Width of s on one line. */
 double text_width(const text_font *f, const char *s);
-/* Wrap s (which may hold newlines) to max_width px; a single word wider than
-** that is broken between characters. max_width <= 0: no wrapping. */
+/* Wrap s (which may hold newlines) to max_width px, between words only. A
+** word wider than that sets the whole block smaller, in 5 % steps down to
+** 70 % (never under 8 px), until it fits; only a word too wide even then is
+** broken between characters. out->px says the size used. max_width <= 0:
+** no wrapping. */
 ug_status text_wrap(const text_font *f, const char *s, double max_width,
                     text_block *out, ug_error *err);
 void text_block_free(text_block *b);

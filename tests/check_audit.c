@@ -46,6 +46,10 @@ static ug_chart *chart_new(const cat_spec *cats, size_t n, size_t ngroups,
     resolve_defaults(c); /* as the loader does */
     c->title = (ug_text){"Households served (demo data)", {"test.yaml", 1, 8}};
     c->unit_label = (ug_text){"households", {"test.yaml", 3, 13}};
+    /* both English forms, so "Each icon = 1 household" (unit-plural) */
+    c->unit_forms[UG_PLURAL_ONE] = (ug_text){"household", {"test.yaml", 3, 20}};
+    c->unit_forms[UG_PLURAL_OTHER] = c->unit_label;
+    c->has_unit_forms = true;
     c->source.items = ug_arena_alloc(&c->arena, sizeof(ug_text));
     c->source.items[0] = (ug_text){"Alder Lane Pantry log (demo data)", {"test.yaml", 2, 9}};
     c->source.n = 1;
@@ -526,6 +530,47 @@ START_TEST(test_missing_labels)
 }
 END_TEST
 
+/* The plural categories are CLDR's (Unicode TR35 Part 3, Language Plural
+** Rules; the CLDR charts' plural table): English 1 is `one`, 2 and 10
+** `other`; Polish 2 is `few`, 5 `many`; Chinese has `other` only. */
+typedef struct {
+    const char *lang, *value;
+    bool warns;
+    const char *category;
+} plural_case;
+
+static const plural_case plural_cases[] = {
+    {"en", "1", true, "one"},   {"en", "2", false, NULL}, {"en", "10", false, NULL},
+    {"pl", "2", true, "few"},   {"pl", "5", true, "many"}, {"pl", "1", true, "one"},
+    {"zh-Hans", "1", false, NULL}, {"fr", "1", true, "one"}, {"de", "5", false, NULL},
+};
+
+START_TEST(test_unit_plural)
+{
+    const plural_case *t = &plural_cases[_i];
+    ug_chart *c = chart_new(blue, 2, 0, t->value);
+    c->lang.text = t->lang;
+    c->has_unit_forms = false; /* one form for every number */
+    ug_findings *f = audit(c);
+    const ug_finding *it = find(f, "unit-plural");
+    ck_assert_msg(!it == !t->warns, "%s %s: %s", t->lang, t->value, it ? it->message : "none");
+    if (it) {
+        char want[64];
+        snprintf(want, sizeof want, "{%s: ", t->category);
+        ck_assert_msg(strstr(it->fix, want) && strstr(it->fix, "other: households"), "%s",
+                      it->fix);
+        ck_assert_uint_eq(it->where.line, 3); /* at unit-label */
+    }
+    ug_findings_free(f);
+    /* giving the forms answers it */
+    c->has_unit_forms = true;
+    f = audit(c);
+    ck_assert_ptr_null(find(f, "unit-plural"));
+    ug_findings_free(f);
+    chart_done(c);
+}
+END_TEST
+
 /* ---- ignore, output, failures ------------------------------------------- */
 
 START_TEST(test_ignore)
@@ -688,6 +733,7 @@ static Suite *audit_suite(void)
     TCase *t = tcase_create("audit");
     tcase_set_timeout(t, 30);
     tcase_add_test(t, test_vanished_category);
+    tcase_add_loop_test(t, test_unit_plural, 0, sizeof plural_cases / sizeof plural_cases[0]);
     tcase_add_test(t, test_rounding_difference);
     tcase_add_test(t, test_rounding_fix_partial);
     tcase_add_test(t, test_rounding_uses_biproportional_icons);

@@ -88,9 +88,20 @@ START_TEST(test_wrap_keeps_words_and_width)
     ck_assert_str_eq(joined, s);
     ck_assert(b.pitch >= b.ascent + b.descent);
     text_block_free(&b);
-    /* a word wider than the width is broken between characters */
+    /* a word a little wider than the width sets the block smaller, whole:
+    ** the widest size in 5 % steps at which pango measures it within 140 px */
+    double room = 0.88 * text_width(&f, "Neighbourhood");
+    ck_assert_int_eq(text_wrap(&f, "Neighbourhood watch", room, &b, &err), UG_OK);
+    ck_assert_str_eq(b.lines[0], "Neighbourhood");
+    ck_assert(b.px < 16 && b.px >= 16 * 0.7 && b.widths[0] <= room + 0.5);
+    text_font larger = f;
+    larger.size = b.px + 16 * 0.05;
+    ck_assert(text_width(&larger, "Neighbourhood") > room + 0.5); /* a step up is too wide */
+    text_block_free(&b);
+    /* a word too wide even at 70 % is broken between characters, at full size */
     ck_assert_int_eq(text_wrap(&f, "Supercalifragilistic", 60, &b, &err), UG_OK);
     ck_assert_uint_gt(b.n, 1);
+    ck_assert(b.px == 16);
     for (size_t i = 0; i < b.n; i++)
         ck_assert(b.widths[i] <= 60.5);
     text_block_free(&b);
