@@ -31,6 +31,7 @@ static ug_color hex_color(unsigned hex)
 void resolve_defaults(ug_chart *c)
 {
     c->cells = RESOLVE_CELLS;
+    c->counts_are = UG_COUNTS_ARE_COUNTS;
     c->cluster = -1; /* not given: the form decides */
     c->icon_size = RESOLVE_ICON_PX;
     c->icon_gap = RESOLVE_GAP_PX;
