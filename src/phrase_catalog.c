@@ -494,8 +494,8 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_SHARE_TOTAL] = "总数{shown}的 {pct}，{n}",
         [PH_SHARE_PCT] = "{unit}\u7684 {pct}",  /* new: for native-speaker review */
         [PH_SHARE_PCT_WHOLE] = "\u6574\u4f53\u7684 {pct}",
-        [PH_NOTE_PERCENT] = "\u6570\u5b57\u4e3a\u767e\u5206\u6bd4\u4efd\u989d\uff0c\u672a\u8bf4\u660e\u5176\u6240\u5360\u7684\u603b\u6570\u3002"
-                            "\u6570\u5b57\u4e3a\u767e\u5206\u6bd4\u4efd\u989d\uff0c\u672a\u8bf4\u660e\u5176\u6240\u5360\u7684\u603b\u6570\u3002",
+        [PH_NOTE_PERCENT] = "\u6570\u5b57\u4e3a\u767e\u5206\u6bd4\u4efd\u989d\uff0c"
+                            "\u672a\u8bf4\u660e\u5176\u6240\u5360\u7684\u603b\u6570\u3002",
         [PH_GROUP_LEAD_SHARES] = "{group}\uff1a",
         [PH_SHOWN] = "（仅计已显示）",
         [PH_TOTAL_WORD] = "总数",
