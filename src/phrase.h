@@ -72,6 +72,7 @@ typedef enum {
     PH_SHARE_PCT_WHOLE, /* {pct} of the whole, when no unit-label names it */
     PH_NOTE_PERCENT, /* the figures are shares; their total is not stated */
     PH_GROUP_LEAD_SHARES, /* {group}: , a percent chart's group (no sum) */
+    PH_TH_SHARE,    /* the table's heading for a percent chart's shares */
     PH_COUNT_OF_IDS
 } phrase_id;
 
