@@ -741,8 +741,8 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
         return ug_fail(l->err, UG_ESCHEMA, c->change_mark,
                        "'change' compares periods: the chart needs at least two groups "
                        "(the periods, in order), it has %zu", c->groups.n);
-    /* a batch template's shares come row by row (batch.c) */
-    return chart_is_percent(c) && !c->is_template ? check_shares(l, c) : UG_OK;
+    /* a batch template has its --each-row rows as groups by now */
+    return chart_is_percent(c) ? check_shares(l, c) : UG_OK;
 }
 
 /* ---- loading a chart ----------------------------------------------------- */
