@@ -729,8 +729,8 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
             return st;
     if ((st = check_protection(l, c)))
         return st;
-    if (resolve_chart(c))
-        return ug_fail(l->err, UG_ENOMEM, root->mark, "out of memory");
+    if ((st = resolve_chart(c, l->err)))
+        return st;
     if (c->is_template)
         st = template_data(l, c);
     else if (c->data.present && !(st = check_data_spec(l, c)))
