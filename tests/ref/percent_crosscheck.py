@@ -74,7 +74,9 @@ def layout(title, shares_by_group, cells, mode, factor=Fraction(1)):
              "categories:"]
     for i in range(len(shares_by_group[0])):
         vals = ", ".join(text(col[i] * factor) for col in shares_by_group)
-        lines += [f"  - label: c{i}", f"    counts: [{vals}]"]
+        # own colours: more categories than the palette's seven are refused
+        lines += [f"  - label: c{i}", f'    color: "#{(i * 0x1f3d5b) % 0xffffff:06x}"',
+                  f"    counts: [{vals}]"]
     return "\n".join(lines) + "\n"
 
 
