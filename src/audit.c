@@ -170,6 +170,8 @@ static const char *cat_name(const ug_chart *c, size_t i)
 
 static const char *unit(const ug_chart *c)
 {
+    if (chart_is_percent(c))
+        return "%";
     return c->unit_label.text ? c->unit_label.text : "counted";
 }
 
@@ -593,6 +595,8 @@ static ug_dec small_threshold(const ug_chart *c, const resolve_small_preset **p)
 static ug_status check_small(audit_ctx *x)
 {
     const ug_chart *c = x->c;
+    if (chart_is_percent(c))
+        return UG_OK; /* 5 % of an unknown total may be anyone: no count to judge */
     const resolve_small_preset *p;
     ug_dec below = small_threshold(c, &p);
     bool zero_too = p && p->zero_too;

@@ -57,6 +57,10 @@ static const char *unit_form(const ug_chart *c, ug_dec count)
 void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b)
 {
     char n[PHRASE_NUMBER_MAX];
+    if (chart_is_percent(c)) { /* a share says what it is: "41.5 %" */
+        ug_buf_puts(b, phrase_percent(pack_lang(c), count, n));
+        return;
+    }
     phrase_number(pack_lang(c), count, 0, n);
     if (!c->unit_label.text) {
         ug_buf_puts(b, n);
@@ -290,12 +294,32 @@ static void group_change_note(const ug_allocation *a, size_t g, ug_buf *b)
 
 void pack_group_phrase(const ug_allocation *a, size_t g, ug_buf *b)
 {
+    if (chart_is_percent(a->chart))
+        return; /* a group's shares add to 100 %; no count is known */
     group_total_phrase(a, g, b);
     group_change_note(a, g, b);
 }
 
+/* "North 41.5 %, South 38 %": a category's shares, one per group, never
+** added (a sum of shares of different totals is no share of anything). */
+static void category_shares(const ug_allocation *a, size_t i, ug_buf *b)
+{
+    const ug_chart *c = a->chart;
+    for (size_t g = 0; g < a->ngroups; g++) {
+        if (g)
+            ug_buf_puts(b, phrase_text(pack_lang(c), PH_LIST_SEP));
+        ug_buf_printf(b, "%s%s", c->groups.items[g].text,
+                      phrase_text(pack_lang(c), PH_SPACE));
+        pack_count_phrase(c, alloc_at(a, g, i)->count, b);
+    }
+}
+
 void pack_category_phrase(const ug_allocation *a, size_t i, ug_buf *b)
 {
+    if (chart_is_percent(a->chart) && a->ngroups > 1) {
+        category_shares(a, i, b);
+        return;
+    }
     if (pack_change_ref(a, a->ngroups - 1) != SIZE_MAX) {
         category_change_phrase(a, i, b);
         return;
@@ -343,6 +367,11 @@ static void share_of_whole(const ug_allocation *a, const char *pct, ug_buf *b)
     const char *lang = pack_lang(c), *unit = c->unit_label.text;
     const char *shown = a->pub->nhidden ? phrase_text(lang, PH_SHOWN) : "";
     char n[PHRASE_NUMBER_MAX];
+    if (chart_is_percent(c) && !c->groups.n) { /* "1 % of pupils": no total known */
+        phrase_say(b, lang, unit ? PH_SHARE_PCT : PH_SHARE_PCT_WHOLE,
+                   (phrase_slot[]){{"pct", pct}, {"unit", unit}, {NULL, NULL}});
+        return;
+    }
     if (c->groups.n) {
         /* "1% of each school's pupils": the layout names what a group is
         ** ("each", not "a", which would need "an" before some names) */
@@ -530,11 +559,28 @@ static void cell_phrase(const ug_chart *c, const ug_allocation *a, size_t g,
     icons_phrase(c, s, b);
 }
 
+static void group_cells(const ug_chart *c, const ug_allocation *a, size_t g,
+                        ug_buf *b)
+{
+    const char *lang = pack_lang(c);
+    for (size_t i = 0; i < c->ncats; i++) {
+        cell_phrase(c, a, g, i, " ", b);
+        ug_buf_puts(b, phrase_text(lang, i + 1 < c->ncats ? PH_LIST_SEP : PH_STOP));
+    }
+}
+
 static void group_sentence(const ug_chart *c, const ug_allocation *a, size_t g,
                            ug_buf *b)
 {
     const char *lang = pack_lang(c);
     ug_buf total, change;
+    if (chart_is_percent(c)) {
+        ug_buf_puts(b, phrase_text(lang, PH_SPACE));
+        phrase_say(b, lang, PH_GROUP_LEAD_SHARES, (phrase_slot[]){
+            {"group", c->groups.items[g].text}, {NULL, NULL}});
+        group_cells(c, a, g, b);
+        return;
+    }
     ug_buf_init(&total);
     ug_buf_init(&change);
     /* "1,057 households in all (+34, +3 %):", the change after "in all" */
@@ -551,10 +597,7 @@ static void group_sentence(const ug_chart *c, const ug_allocation *a, size_t g,
     b->failed = b->failed || total.failed || change.failed;
     ug_buf_free(&total);
     ug_buf_free(&change);
-    for (size_t i = 0; i < c->ncats; i++) {
-        cell_phrase(c, a, g, i, " ", b);
-        ug_buf_puts(b, phrase_text(lang, i + 1 < c->ncats ? PH_LIST_SEP : PH_STOP));
-    }
+    group_cells(c, a, g, b);
 }
 
 static void list_sentences(ug_buf *b, const char *lang, const ug_text_list *l,
@@ -630,6 +673,8 @@ void describe_chart(const ug_chart *c, const ug_allocation *a, ug_buf *b)
     ug_buf_puts(b, phrase_text(lang, PH_SPACE));
     pack_value_statement(c, a, false, b);
     ug_buf_puts(b, phrase_text(lang, PH_STOP));
+    if (chart_is_percent(c))
+        sentence(b, lang, phrase_text(lang, PH_NOTE_PERCENT));
     if (a->cat_icons) {
         ug_buf_puts(b, phrase_text(lang, PH_SPACE));
         pack_totals_note(a, b);

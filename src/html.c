@@ -111,7 +111,7 @@ static void head_row(ug_buf *b, const ug_chart *c)
     if (c->groups.n > 0)
         head_cell(b, lang, PH_TH_GROUP);
     head_cell(b, lang, PH_TH_CATEGORY);
-    head_cell(b, lang, PH_TH_COUNT);
+    head_cell(b, lang, chart_is_percent(c) ? PH_TH_SHARE : PH_TH_COUNT);
     head_cell(b, lang, PH_TH_ICONS);
     head_cell(b, lang, PH_TH_SHOWN);
     ug_buf_puts(b, "</tr></thead>\n");

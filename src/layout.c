@@ -31,6 +31,7 @@ const ug_form_info *ug_form_about(ug_form f)
 }
 
 static const char *const changes[] = {"none", "previous", "first", NULL};
+static const char *const counts_are[] = {"counts", "percent", NULL};
 static const char *const roundings[] = {"whole", "partial", NULL};
 static const char *const methods[] = {"largest-remainder", "sainte-lague", "dhondt",
                                       "biproportional", NULL};
@@ -403,6 +404,8 @@ static const key_rule chart_keys[] = {
      .choices = changes},
     {.name = "form", .kind = K_ENUM, .off = CH(form), .mark = CH(form_mark),
      .choices = ug_form_names},
+    {.name = "counts-are", .kind = K_ENUM, .off = CH(counts_are),
+     .mark = CH(counts_are_mark), .choices = counts_are},
     {.name = "icon-value", .kind = K_FN, .fn = key_icon_value,
      .mark = CH(icon_value_mark), .flag = CH(has_icon_value)},
     {.name = "unit-label", .kind = K_FN, .fn = key_unit_label},
@@ -624,6 +627,87 @@ static ug_status check_protection(loader *l, const ug_chart *c)
     return UG_OK;
 }
 
+/* `counts-are: percent` (README, "Shares in percent"): the numbers are shares
+** of a total nobody stated, so whatever needs that total is refused at its
+** key, with the reason. */
+static ug_status check_percent_keys(loader *l, const ug_chart *c)
+{
+    if (c->form != UG_FORM_WAFFLE)
+        return ug_fail(l->err, UG_ESCHEMA, c->counts_are_mark,
+                       "'counts-are: percent' is for waffle charts (form: waffle): "
+                       "a rows chart's icons each stand for a count, and a share "
+                       "of an unknown total is no count");
+    if (c->has_total)
+        return ug_fail(l->err, UG_ESCHEMA, c->total_mark,
+                       "'total' is a count, and the shares of a percent chart are "
+                       "of a total that is not known: leave 'total' out");
+    if (c->has_suppress || c->protect.present)
+        return ug_fail(l->err, UG_ESCHEMA, c->has_suppress ? c->suppress_mark
+                                                           : c->protect.mark,
+                       "a share of an unknown total cannot be checked for "
+                       "disclosure (how many people 5 %% is depends on the total): "
+                       "protect the counts before they become shares, and leave "
+                       "'%s' out of a percent chart",
+                       c->has_suppress ? "suppress" : "protect");
+    if (c->has_icon_value)
+        return ug_fail(l->err, UG_ESCHEMA, c->icon_value_mark,
+                       "'icon-value' is a count per icon; a percent waffle "
+                       "states 'cells' (default 100, one per percent)");
+    if (c->change != UG_CHANGE_NONE)
+        return ug_fail(l->err, UG_ESCHEMA, c->change_mark,
+                       "'change' states differences of counts; a change of shares "
+                       "is in percentage points, which a percent chart does not "
+                       "state");
+    return UG_OK;
+}
+
+/* Half a unit in the last decimal place of d as written without trailing
+** zeros, doubled so it stays whole: 33.3 -> 0.1 (of 2 x 0.05). */
+static ug_i128 doubled_half_unit(ug_dec d)
+{
+    ug_i128 unit = UG_DEC_SCALE;
+    while (unit > 1 && d.v % unit)
+        unit /= 10;
+    return unit;
+}
+
+/* Each group's shares add to 100 within what the rounding of the shares as
+** written allows: n shares each rounded to their last place are off by at
+** most half a unit there, so 33 + 33 + 33 = 99 passes, 60 + 50 does not. */
+static ug_status check_group_shares(loader *l, const ug_chart *c, size_t g)
+{
+    ug_i128 sum = 0, slack = 0;
+    for (size_t i = 0; i < c->ncats; i++) {
+        sum += c->cats[i].counts[g].v;
+        slack += doubled_half_unit(c->cats[i].counts[g]);
+    }
+    ug_i128 off = sum - 100 * UG_DEC_SCALE;
+    if (2 * (off < 0 ? -off : off) <= slack)
+        return UG_OK;
+    char got[64], allow[64], grp[UG_MAX_STRING + 16] = "";
+    ug_dec_format((ug_dec){sum}, got);
+    ug_ratio_format(slack, 2 * UG_DEC_SCALE, 6, allow);
+    ug_dec allowed;
+    if (ug_dec_parse(allow, strlen(allow), &allowed) == UG_DEC_OK)
+        ug_dec_format(allowed, allow); /* without trailing zeros */
+    if (c->groups.n)
+        snprintf(grp, sizeof grp, "group '%s': ", c->groups.items[g].text);
+    ug_mark at = c->cats[0].count_marks ? c->cats[0].count_marks[g] : c->categories_mark;
+    return ug_fail(l->err, UG_EDATA, at,
+                   "%sthe shares add to %s %%, not 100 %% (the rounding of the "
+                   "shares as written allows 100 \u00b1 %s): add the missing share "
+                   "as a category (such as 'not stated') or correct the shares",
+                   grp, got, allow);
+}
+
+static ug_status check_shares(loader *l, const ug_chart *c)
+{
+    ug_status st = UG_OK;
+    for (size_t g = 0; !st && g < chart_ngroups(c); g++)
+        st = check_group_shares(l, c, g);
+    return st;
+}
+
 /* A batch template's data is the --each-row CSV, a wide table with one group
 ** per row; counts written in the template are not used. */
 static ug_status template_data(loader *l, ug_chart *t)
@@ -650,6 +734,8 @@ static ug_status template_data(loader *l, ug_chart *t)
 static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
 {
     ug_status st = check_form(l, c, root);
+    if (!st && chart_is_percent(c))
+        st = check_percent_keys(l, c);
     if (st)
         return st;
     if (!c->ncats)
@@ -660,8 +746,8 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
             return st;
     if ((st = check_protection(l, c)))
         return st;
-    if (resolve_chart(c))
-        return ug_fail(l->err, UG_ENOMEM, root->mark, "out of memory");
+    if ((st = resolve_chart(c, l->err)))
+        return st;
     if (c->is_template)
         st = template_data(l, c);
     else if (c->data.present && !(st = check_data_spec(l, c)))
@@ -672,7 +758,8 @@ static ug_status finish_chart(loader *l, ug_chart *c, const layout_node *root)
         return ug_fail(l->err, UG_ESCHEMA, c->change_mark,
                        "'change' compares periods: the chart needs at least two groups "
                        "(the periods, in order), it has %zu", c->groups.n);
-    return UG_OK;
+    /* a batch template has its --each-row rows as groups by now */
+    return chart_is_percent(c) ? check_shares(l, c) : UG_OK;
 }
 
 /* ---- loading a chart ----------------------------------------------------- */

@@ -42,6 +42,9 @@ extern const char *const ug_form_names[];
 /* `change:` (FORMAT.md §5): against the period before, or the first. */
 typedef enum { UG_CHANGE_NONE, UG_CHANGE_PREVIOUS, UG_CHANGE_FIRST } ug_change;
 typedef enum { UG_ROUND_WHOLE, UG_ROUND_PARTIAL } ug_rounding;
+/* `counts-are:`: what the categories' numbers are. Percent: each group's
+** shares of a total nobody stated, so no sum of them is a count. */
+typedef enum { UG_COUNTS_ARE_COUNTS, UG_COUNTS_ARE_PERCENT } ug_counts_are;
 typedef enum {
     UG_METHOD_LARGEST_REMAINDER,
     UG_METHOD_SAINTE_LAGUE,
@@ -150,6 +153,8 @@ struct ug_chart {
     ug_text_list source, notes;
 
     ug_form form;
+    ug_counts_are counts_are;
+    ug_mark counts_are_mark;
     ug_change change;        /* groups are periods: state each one's change */
     ug_mark change_mark;
     ug_mark form_mark;
@@ -297,6 +302,11 @@ struct ug_page {
     ug_mark fit_mark;
     ug_limits limits;        /* resolved: no zeros */
 };
+
+static inline bool chart_is_percent(const ug_chart *c)
+{
+    return c->counts_are == UG_COUNTS_ARE_PERCENT;
+}
 
 /* Number of count columns per category: groups.n, or 1 without groups. */
 static inline size_t chart_ngroups(const ug_chart *c)

@@ -68,6 +68,11 @@ typedef enum {
     PH_TH_ICONS,
     PH_TH_SHOWN,
     PH_DETAIL_SEP,  /* " · " between a key entry's count and its icons */
+    PH_SHARE_PCT,   /* counts-are: percent: {pct} of {unit}, no total known */
+    PH_SHARE_PCT_WHOLE, /* {pct} of the whole, when no unit-label names it */
+    PH_NOTE_PERCENT, /* the figures are shares; their total is not stated */
+    PH_GROUP_LEAD_SHARES, /* {group}: , a percent chart's group (no sum) */
+    PH_TH_SHARE,    /* the table's heading for a percent chart's shares */
     PH_COUNT_OF_IDS
 } phrase_id;
 

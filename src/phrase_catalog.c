@@ -41,6 +41,11 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_SHARE_OF] = "{pct} of the {count}{shown}",
         [PH_SHARE_EACH] = "{pct} of each {group}'s {unit}{shown}",
         [PH_SHARE_TOTAL] = "{pct} of the total{shown}, {n}",
+        [PH_SHARE_PCT] = "{pct} of {unit}",
+        [PH_SHARE_PCT_WHOLE] = "{pct} of the whole",
+        [PH_NOTE_PERCENT] = "The figures are shares in percent; the total they are shares "
+                            "of is not stated.",
+        [PH_GROUP_LEAD_SHARES] = "{group}: ",
         [PH_SHOWN] = " shown",
         [PH_TOTAL_WORD] = "total",
         [PH_GROUP_WORD] = "group",
@@ -67,6 +72,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TH_GROUP] = "Group",
         [PH_TH_CATEGORY] = "Category",
         [PH_TH_COUNT] = "Count",
+        [PH_TH_SHARE] = "Share (%)",
         [PH_TH_ICONS] = "Icons",
         [PH_TH_SHOWN] = "Shown value",
     }},
@@ -98,6 +104,11 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_SHARE_OF] = "{pct} del total de {count}{shown}",
         [PH_SHARE_EACH] = "{pct} de {unit}{shown} de cada {group}",
         [PH_SHARE_TOTAL] = "{pct} del total{shown}, {n}",
+        [PH_SHARE_PCT] = "{pct} de {unit}",  /* new: for native-speaker review */
+        [PH_SHARE_PCT_WHOLE] = "{pct} del conjunto",
+        [PH_NOTE_PERCENT] = "Las cifras son proporciones en porcentaje; no se indica el "
+                            "total del que son proporci\u00f3n.",
+        [PH_GROUP_LEAD_SHARES] = "{group}: ",
         [PH_SHOWN] = " mostrados",
         [PH_TOTAL_WORD] = "total",
         [PH_GROUP_WORD] = "grupo",
@@ -124,6 +135,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TH_GROUP] = "Grupo",
         [PH_TH_CATEGORY] = "Categoría",
         [PH_TH_COUNT] = "Recuento",
+        [PH_TH_SHARE] = "Proporci\u00f3n (%)",
         [PH_TH_ICONS] = "Iconos",
         [PH_TH_SHOWN] = "Valor mostrado",
     }},
@@ -155,6 +167,11 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_SHARE_OF] = "{pct} du total de {count}{shown}",
         [PH_SHARE_EACH] = "{pct} des {unit}{shown} de chaque {group}",
         [PH_SHARE_TOTAL] = "{pct} du total{shown}, {n}",
+        [PH_SHARE_PCT] = "{pct} des {unit}",  /* new: for native-speaker review */
+        [PH_SHARE_PCT_WHOLE] = "{pct} de l\u2019ensemble",
+        [PH_NOTE_PERCENT] = "Les chiffres sont des parts en pourcentage\u00a0; le total "
+                            "dont elles sont les parts n\u2019est pas indiqu\u00e9.",
+        [PH_GROUP_LEAD_SHARES] = "{group}\u00a0: ",
         [PH_SHOWN] = " affichés",
         [PH_TOTAL_WORD] = "total",
         [PH_GROUP_WORD] = "groupe",
@@ -184,6 +201,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TH_GROUP] = "Groupe",
         [PH_TH_CATEGORY] = "Catégorie",
         [PH_TH_COUNT] = "Effectif",
+        [PH_TH_SHARE] = "Part (%)",
         [PH_TH_ICONS] = "Icônes",
         [PH_TH_SHOWN] = "Valeur affichée",
     }},
@@ -215,6 +233,11 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_SHARE_OF] = "{pct} der {count}{shown}",
         [PH_SHARE_EACH] = "{pct} der {unit}{shown} je {group}",
         [PH_SHARE_TOTAL] = "{pct} der Gesamtzahl{shown}, {n}",
+        [PH_SHARE_PCT] = "{pct} der {unit}",  /* new: for native-speaker review */
+        [PH_SHARE_PCT_WHOLE] = "{pct} des Ganzen",
+        [PH_NOTE_PERCENT] = "Die Zahlen sind Anteile in Prozent; die Gesamtzahl, auf die "
+                            "sie sich beziehen, ist nicht angegeben.",
+        [PH_GROUP_LEAD_SHARES] = "{group}: ",
         [PH_SHOWN] = " (nur angezeigte)",
         [PH_TOTAL_WORD] = "Gesamtzahl",
         [PH_GROUP_WORD] = "Gruppe",
@@ -242,6 +265,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TH_GROUP] = "Gruppe",
         [PH_TH_CATEGORY] = "Kategorie",
         [PH_TH_COUNT] = "Anzahl",
+        [PH_TH_SHARE] = "Anteil (%)",
         [PH_TH_ICONS] = "Symbole",
         [PH_TH_SHOWN] = "Angezeigter Wert",
     }},
@@ -273,6 +297,11 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_SHARE_OF] = "{pct} do total de {count}{shown}",
         [PH_SHARE_EACH] = "{pct} de {unit}{shown} de cada {group}",
         [PH_SHARE_TOTAL] = "{pct} do total{shown}, {n}",
+        [PH_SHARE_PCT] = "{pct} de {unit}",  /* new: for native-speaker review */
+        [PH_SHARE_PCT_WHOLE] = "{pct} do todo",
+        [PH_NOTE_PERCENT] = "Os valores s\u00e3o propor\u00e7\u00f5es em percentagem; o "
+                            "total a que se referem n\u00e3o \u00e9 indicado.",
+        [PH_GROUP_LEAD_SHARES] = "{group}: ",
         [PH_SHOWN] = " mostrados",
         [PH_TOTAL_WORD] = "total",
         [PH_GROUP_WORD] = "grupo",
@@ -300,6 +329,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TH_GROUP] = "Grupo",
         [PH_TH_CATEGORY] = "Categoria",
         [PH_TH_COUNT] = "Contagem",
+        [PH_TH_SHARE] = "Propor\u00e7\u00e3o (%)",
         [PH_TH_ICONS] = "Ícones",
         [PH_TH_SHOWN] = "Valor mostrado",
     }},
@@ -332,6 +362,12 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_SHARE_OF] = "{pct} z {count}{shown}",
         [PH_SHARE_EACH] = "{pct}: {unit}{shown}, osobno w każdej pozycji ({group})",
         [PH_SHARE_TOTAL] = "{pct} całości{shown}, {n}",
+        [PH_SHARE_PCT] = "{pct}: {unit}",  /* new: for native-speaker review */
+        [PH_SHARE_PCT_WHOLE] = "{pct} ca\u0142o\u015bci",
+        [PH_NOTE_PERCENT] = "Liczby s\u0105 udzia\u0142ami w procentach; "
+                            "ca\u0142o\u015b\u0107, kt\u00f3rej s\u0105 udzia\u0142ami, "
+                            "nie jest podana.",
+        [PH_GROUP_LEAD_SHARES] = "{group}: ",
         [PH_SHOWN] = " (tylko pokazane)",
         [PH_TOTAL_WORD] = "całość",
         [PH_GROUP_WORD] = "grupa",
@@ -359,6 +395,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TH_GROUP] = "Grupa",
         [PH_TH_CATEGORY] = "Kategoria",
         [PH_TH_COUNT] = "Liczba",
+        [PH_TH_SHARE] = "Udzia\u0142 (%)",
         [PH_TH_ICONS] = "Ikony",
         [PH_TH_SHOWN] = "Pokazana wartość",
     }},
@@ -395,6 +432,17 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_SHARE_OF] = "{pct} من {count}{shown}",
         [PH_SHARE_EACH] = "{pct} من {unit}{shown} في كل {group}",
         [PH_SHARE_TOTAL] = "{pct} من المجموع{shown}، {n}",
+        [PH_SHARE_PCT] = "{pct} \u0645\u0646 {unit}",  /* new: for native-speaker review */
+        [PH_SHARE_PCT_WHOLE] = "{pct} \u0645\u0646 \u0627\u0644\u0643\u0644",
+        [PH_NOTE_PERCENT] = "\u0627\u0644\u0623\u0631\u0642\u0627\u0645 "
+                            "\u062d\u0635\u0635 "
+                            "\u0628\u0627\u0644\u0646\u0633\u0628\u0629 "
+                            "\u0627\u0644\u0645\u0626\u0648\u064a\u0629\u060c "
+                            "\u0648\u0644\u0645 \u064a\u064f\u0630\u0643\u0631 "
+                            "\u0627\u0644\u0645\u062c\u0645\u0648\u0639 "
+                            "\u0627\u0644\u0630\u064a \u0647\u064a \u062d\u0635\u0635 "
+                            "\u0645\u0646\u0647.",
+        [PH_GROUP_LEAD_SHARES] = "{group}: ",
         [PH_SHOWN] = " المعروضة",
         [PH_TOTAL_WORD] = "المجموع",
         [PH_GROUP_WORD] = "مجموعة",
@@ -419,6 +467,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TH_GROUP] = "المجموعة",
         [PH_TH_CATEGORY] = "الفئة",
         [PH_TH_COUNT] = "العدد",
+        [PH_TH_SHARE] = "\u0627\u0644\u062d\u0635\u0629 (\u066a)",
         [PH_TH_ICONS] = "الرموز",
         [PH_TH_SHOWN] = "القيمة المعروضة",
     }},
@@ -450,6 +499,11 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_SHARE_OF] = "{count}{shown}的 {pct}",
         [PH_SHARE_EACH] = "每个{group}的{unit}{shown}的 {pct}",
         [PH_SHARE_TOTAL] = "总数{shown}的 {pct}，{n}",
+        [PH_SHARE_PCT] = "{unit}\u7684 {pct}",  /* new: for native-speaker review */
+        [PH_SHARE_PCT_WHOLE] = "\u6574\u4f53\u7684 {pct}",
+        [PH_NOTE_PERCENT] = "\u6570\u5b57\u4e3a\u767e\u5206\u6bd4\u4efd\u989d\uff0c"
+                            "\u672a\u8bf4\u660e\u5176\u6240\u5360\u7684\u603b\u6570\u3002",
+        [PH_GROUP_LEAD_SHARES] = "{group}\uff1a",
         [PH_SHOWN] = "（仅计已显示）",
         [PH_TOTAL_WORD] = "总数",
         [PH_GROUP_WORD] = "组",
@@ -472,6 +526,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_TH_GROUP] = "组",
         [PH_TH_CATEGORY] = "类别",
         [PH_TH_COUNT] = "数量",
+        [PH_TH_SHARE] = "\u4efd\u989d\uff08%\uff09",
         [PH_TH_ICONS] = "图标",
         [PH_TH_SHOWN] = "显示值",
     }},

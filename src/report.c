@@ -384,7 +384,8 @@ static void report_text(const ug_allocation *a, ug_buf *b)
             ug_buf_puts(b, "\n");
         }
         ug_buf_printf(b, "  %-24s %12s %12s %8s %12s %12s %8s\n", "category",
-                      "count", "quota", "icons", "shown", "difference", "rel %");
+                      chart_is_percent(c) ? "share %" : "count", "quota", "icons",
+                      "shown", "difference", "rel %");
         for (size_t i = 0; i < a->ncats; i++) {
             row_text t;
             describe_share(a, alloc_at(a, g, i), &t);

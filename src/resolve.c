@@ -31,6 +31,7 @@ static ug_color hex_color(unsigned hex)
 void resolve_defaults(ug_chart *c)
 {
     c->cells = RESOLVE_CELLS;
+    c->counts_are = UG_COUNTS_ARE_COUNTS;
     c->cluster = -1; /* not given: the form decides */
     c->icon_size = RESOLVE_ICON_PX;
     c->icon_gap = RESOLVE_GAP_PX;
@@ -106,10 +107,41 @@ static size_t safe_palette(const ug_chart *c, ug_color *order)
     return next;
 }
 
+/* Whether no two categories share a glyph: shape is then a second cue
+** besides colour (WCAG 2.1 SC 1.4.1). No glyph is the square. */
+static bool glyphs_distinct(const ug_chart *c)
+{
+    for (size_t i = 0; i < c->ncats; i++)
+        for (size_t j = 0; j < i; j++) {
+            const char *a = c->cats[i].glyph.text, *b = c->cats[j].glyph.text;
+            if (!strcmp(a ? a : "square", b ? b : "square"))
+                return false;
+        }
+    return true;
+}
+
+/* More categories to colour than safe colours would repeat a colour, so two
+** categories would differ in nothing a reader sees: refused unless every
+** category has a glyph of its own. Safe colours that are merely close under
+** a colour-vision deficiency stay the audit's warning (confusable-colors). */
+static ug_status enough_colors(const ug_chart *c, size_t want, size_t safe,
+                               ug_error *err)
+{
+    if (want <= safe || glyphs_distinct(c))
+        return UG_OK;
+    return ug_fail(err, UG_ESCHEMA, c->categories_mark,
+                   "%zu categories take their colour from the palette, but it has "
+                   "only %zu safe colours on this background, so colours would "
+                   "repeat (WCAG 2.1 SC 1.4.1: colour must not be the only cue): "
+                   "group the smallest categories into one 'Other', or give each "
+                   "category a glyph of its own as a second cue", want, safe);
+}
+
 /* Categories without a colour take the safe palette in order, wrapping
-** around only when there are more of them than safe colours (the audit then
-** says which two are confusable). */
-static ug_status assign_colors(ug_chart *c)
+** around only when there are more of them than safe colours and every
+** category has its own glyph (the audit then says which two are
+** confusable). */
+static ug_status assign_colors(ug_chart *c, ug_error *err)
 {
     size_t want = 0;
     for (size_t i = 0; i < c->ncats; i++)
@@ -119,7 +151,10 @@ static ug_status assign_colors(ug_chart *c)
     ug_color order[16];
     size_t n = safe_palette(c, order);
     if (!n)
-        return ug_fail(NULL, UG_ENOMEM, ug_mark_file(c->path), "out of memory");
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(c->path), "out of memory");
+    ug_status st = enough_colors(c, want, n, err);
+    if (st)
+        return st;
     for (size_t i = 0, used = 0; i < c->ncats; i++) {
         if (c->cats[i].color_given)
             continue;
@@ -131,8 +166,8 @@ static ug_status assign_colors(ug_chart *c)
     return UG_OK;
 }
 
-ug_status resolve_chart(ug_chart *c)
+ug_status resolve_chart(ug_chart *c, ug_error *err)
 {
     ink_follows_background(c);
-    return assign_colors(c);
+    return assign_colors(c, err);
 }

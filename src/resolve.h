@@ -49,7 +49,9 @@ void resolve_defaults(ug_chart *c);
 ** (light ink on a dark one); categories without a colour take the palette
 ** as it is safe on that background: colours reaching 3:1 against it first,
 ** then the others shaded to 3:1, none confusable with one taken before.
-** Fails only when out of memory (err not filled: the caller reports it). */
-ug_status resolve_chart(ug_chart *c);
+** Fails when more categories need a palette colour than it has colours
+** apart on this background, unless each has a glyph of its own (an error at
+** `categories:`), and when out of memory; err may be NULL. */
+ug_status resolve_chart(ug_chart *c, ug_error *err);
 
 #endif

@@ -667,6 +667,68 @@ START_TEST(test_random_house_monotone)
 }
 END_TEST
 
+/* ---- counts-are: percent against counts --------------------------------------- */
+
+/* A waffle's quotas are count * cells / total, so k times the shares given as
+** counts must fill the same cells as the shares given as percent: the two
+** input paths checked against each other, not against a figure of ours. */
+static ug_allocation *waffle_of(const char *mode, const char *const *vals, size_t n,
+                                const char *k, long cells, ug_chart **c)
+{
+    char text[2048], v[64];
+    ug_dec f, d;
+    ck_assert_int_eq(ug_dec_parse(k, strlen(k), &f), UG_DEC_OK);
+    int len = snprintf(text, sizeof text, "form: waffle\ncounts-are: %s\ncells: %ld\n"
+                       "categories:\n", mode, cells);
+    for (size_t i = 0; i < n; i++) {
+        ck_assert_int_eq(ug_dec_parse(vals[i], strlen(vals[i]), &d), UG_DEC_OK);
+        d.v = d.v * f.v / UG_DEC_SCALE; /* exact: k has few places */
+        len += snprintf(text + len, sizeof text - (size_t)len,
+                        "  - {label: c%zu, count: %s}\n", i, ug_dec_format(d, v));
+    }
+    ug_error err = {0};
+    ug_allocation *a = NULL;
+    ck_assert_msg(ug_chart_load_string(text, strlen(text), "k.yaml", NULL, c, &err)
+                  == UG_OK, "%s\n%s", err.msg, text);
+    ck_assert_int_eq(ug_chart_allocate(*c, &a, &err), UG_OK);
+    return a;
+}
+
+START_TEST(test_percent_equals_scaled_counts)
+{
+    static const char *const sets[][6] = {
+        {"41.6", "23.2", "17.9", "11.1", "6.2", NULL},
+        {"33.3", "33.3", "33.3", NULL},       /* adds to 99.9 */
+        {"50", "25", "12.5", "12.5", NULL},
+        {"0.4", "0.4", "99.2", NULL},
+    };
+    static const char *const ks[] = {"1", "0.25", "3", "7.125", "1000"};
+    static const long cells[] = {100, 10, 37, 250};
+    for (size_t s = 0; s < sizeof sets / sizeof sets[0]; s++) {
+        size_t n = 0;
+        while (sets[s][n])
+            n++;
+        for (size_t ci = 0; ci < sizeof cells / sizeof cells[0]; ci++) {
+            ug_chart *pc;
+            ug_allocation *p = waffle_of("percent", sets[s], n, "1", cells[ci], &pc);
+            for (size_t ki = 0; ki < sizeof ks / sizeof ks[0]; ki++) {
+                ug_chart *cc;
+                ug_allocation *q = waffle_of("counts", sets[s], n, ks[ki], cells[ci], &cc);
+                for (size_t i = 0; i < n; i++)
+                    ck_assert_msg(p->shares[i].icons == q->shares[i].icons,
+                                  "set %zu cells %ld k %s category %zu: %ld vs %ld", s,
+                                  cells[ci], ks[ki], i, p->shares[i].icons,
+                                  q->shares[i].icons);
+                ug_allocation_free(q);
+                ug_chart_free(cc);
+            }
+            ug_allocation_free(p);
+            ug_chart_free(pc);
+        }
+    }
+}
+END_TEST
+
 static Suite *alloc_suite(void)
 {
     Suite *s = suite_create("alloc");
@@ -674,6 +736,7 @@ static Suite *alloc_suite(void)
     tcase_add_loop_test(tc, test_worked_examples, 0,
                         (int)(sizeof cases / sizeof cases[0]));
     tcase_add_test(tc, test_thousand_largest_counts);
+    tcase_add_test(tc, test_percent_equals_scaled_counts);
     tcase_add_test(tc, test_thousand_equal_counts_tie);
     tcase_add_test(tc, test_quota_and_shown_cells);
     tcase_add_test(tc, test_partial_rounding);

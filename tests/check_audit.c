@@ -287,6 +287,28 @@ START_TEST(test_small_count_default)
 }
 END_TEST
 
+/* Shares of 91 % and 9 %: as counts the 9 is flagged, as shares of an unknown
+** total (counts-are: percent) it is not, and nothing in the findings speaks
+** of households. */
+static ug_chart *share_waffle(bool percent)
+{
+    static const cat_spec shares[] = {{"Adults", 0x0072b2, {"91"}},
+                                      {"Veterans", 0x000000, {"9"}}};
+    ug_chart *c = chart_new(shares, 2, 0, "1");
+    c->form = UG_FORM_WAFFLE;
+    c->has_icon_value = false;
+    c->counts_are = percent ? UG_COUNTS_ARE_PERCENT : UG_COUNTS_ARE_COUNTS;
+    return c;
+}
+
+START_TEST(test_small_count_not_on_shares)
+{
+    expect(share_waffle(false), "small-count", UG_SEVERITY_WARNING, 15, 13,
+           "suppress: {below: 10}");
+    expect_none(share_waffle(true), "small-count");
+}
+END_TEST
+
 /* REFERENCES.md §7: CMS hides 1-10, NHS HES 1-7, CDC WONDER 0-9. */
 typedef struct {
     const char *preset, *count;
@@ -739,6 +761,7 @@ static Suite *audit_suite(void)
     tcase_add_test(t, test_rounding_uses_biproportional_icons);
     tcase_add_test(t, test_total_mismatch);
     tcase_add_test(t, test_small_count_default);
+    tcase_add_test(t, test_small_count_not_on_shares);
     tcase_add_loop_test(t, test_small_count_presets, 0,
                         sizeof preset_cases / sizeof preset_cases[0]);
     tcase_add_test(t, test_small_count_threshold_setting);

@@ -215,11 +215,97 @@ START_TEST(test_number_grouping)
 }
 END_TEST
 
+/* ---- counts-are: percent --------------------------------------------------- */
+
+static ug_chart *load_text(const char *text)
+{
+    ug_chart *c = NULL;
+    ug_error err = {0};
+    ck_assert_msg(ug_chart_load_string(text, strlen(text), "p.yaml", NULL, &c, &err)
+                  == UG_OK, "%s", err.msg);
+    return c;
+}
+
+static char *describe_text(const char *text)
+{
+    ug_chart *c = load_text(text);
+    char *d = describe(c);
+    ug_chart_free(c);
+    return d;
+}
+
+#define HEATING_CATS "categories:\n  - {label: Gas, count: 41.6}\n" \
+    "  - {label: Heat pump, count: 23.2}\n  - {label: District, count: 17.9}\n" \
+    "  - {label: Electric, count: 11.1}\n  - {label: Other, count: 6.2}\n"
+
+/* Shares adding to 100 in 100 cells: quotas are the shares; whole parts
+** 41 + 23 + 17 + 11 + 6 = 98, the two left go to .9 and .6: 42, 23, 18, 11, 6.
+** The sentence states shares of residents, no total and no sum of shares. */
+START_TEST(test_percent_sentences)
+{
+    char *d = describe_text("title: Heating\nform: waffle\ncounts-are: percent\n"
+                            "unit-label: residents\n" HEATING_CATS);
+    ck_assert_str_eq(d, "Waffle chart: Heating. Each square is 1% of residents. The "
+                        "figures are shares in percent; the total they are shares of "
+                        "is not stated. Gas: 41.6% (42 squares). Heat pump: 23.2% (23 "
+                        "squares). District: 17.9% (18 squares). Electric: 11.1% (11 "
+                        "squares). Other: 6.2% (6 squares).");
+    ug_free(d);
+    d = describe_text("title: Heating\nform: waffle\ncounts-are: percent\n" HEATING_CATS);
+    ck_assert_msg(strstr(d, "Each square is 1% of the whole."), "%s", d);
+    ug_free(d);
+}
+END_TEST
+
+/* German percent: CLDR's de pattern is "#,##0 %" with U+00A0 before the sign
+** and the decimal comma (python3-babel 2.10: Locale('de').percent_formats). */
+START_TEST(test_percent_german)
+{
+    char *d = describe_text("lang: de\ntitle: Heizung\nform: waffle\ncounts-are: percent\n"
+                            "unit-label: Befragten\n" HEATING_CATS);
+    ck_assert_msg(strstr(d, "1\u00a0% der Befragten") && strstr(d, "Gas: 41,6\u00a0% "
+                  "(42 Quadrate)"), "%s", d);
+    ug_free(d);
+}
+END_TEST
+
+/* With groups each group's column is its own: no "in all", no 100 %, and the
+** key gives each group's share of a category instead of a sum of them. */
+START_TEST(test_percent_groups)
+{
+    ug_chart *c = load_text("title: T\nform: waffle\ncounts-are: percent\n"
+                            "groups: [North, South]\ncategories:\n"
+                            "  - {label: Gas, counts: [33, 41]}\n"
+                            "  - {label: Pump, counts: [33, 30]}\n"
+                            "  - {label: Other, counts: [33, 29]}\n");
+    ug_error err = {0};
+    ug_allocation *a;
+    ck_assert_int_eq(ug_chart_allocate(c, &a, &err), UG_OK);
+    char *d;
+    ck_assert_int_eq(ug_chart_describe(c, a, &d, NULL, &err), UG_OK);
+    ck_assert_msg(strstr(d, " North: Gas 33% (34 squares), Pump 33% (33 squares), "
+                            "Other 33% (33 squares). South: Gas 41% (41 squares)")
+                  && !strstr(d, "in all") && !strstr(d, "100"), "%s", d);
+    ug_buf b;
+    ug_buf_init(&b);
+    pack_category_phrase(a, 0, &b);
+    ug_buf_add(&b, "", 1);
+    ck_assert_str_eq(b.data, "North 33%, South 41%"); /* not 74% */
+    ug_buf_free(&b);
+    ug_free(d);
+    ug_allocation_free(a);
+    ug_chart_free(c);
+}
+END_TEST
+
 static Suite *describe_suite(void)
 {
     Suite *s = suite_create("describe");
     TCase *t = tcase_create("describe");
     tcase_add_test(t, test_waffle_sentences);
+    tcase_add_test(t, test_percent_sentences);
+    tcase_add_test(t, test_percent_german);
+    tcase_add_test(t, test_percent_groups);
     tcase_add_test(t, test_half_percent_cells);
     tcase_add_test(t, test_biproportional_says_totals_agree);
     tcase_add_test(t, test_groups_and_suppression);

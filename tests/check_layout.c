@@ -622,6 +622,84 @@ START_TEST(test_form_table)
 }
 END_TEST
 
+/* ---- counts-are: percent ------------------------------------------------- */
+
+/* The shares must add to 100 within half a unit in the last place of each
+** share as written (the largest error of rounding to that place, a
+** textbook bound); each expected verdict below is that sum worked by hand. */
+typedef struct {
+    const char *keys;      /* before categories */
+    const char *cats;      /* the categories block */
+    const char *error;     /* NULL: loads; else file:line:col: message */
+} percent_case;
+
+#define PCT_HEAD "title: T\ncounts-are: percent\n"
+static const percent_case percent_cases[] = {
+    {"form: waffle\n", "  - {label: A, count: 33}\n  - {label: B, count: 33}\n"
+     "  - {label: C, count: 33}\n", NULL}, /* 99, allowed 100 +- 1.5 */
+    {"form: waffle\n", "  - {label: A, count: 33.3}\n  - {label: B, count: 33.3}\n"
+     "  - {label: C, count: 33.3}\n", NULL}, /* 99.9, +- 0.15 */
+    {"form: waffle\n", "  - {label: A, count: 50.5}\n  - {label: B, count: 49}\n",
+     NULL}, /* 99.5, +- 0.55 */
+    {"form: waffle\n", "  - {label: A, count: 50.5}\n  - {label: B, count: 48}\n",
+     "p.yaml:5:23: the shares add to 98.5 %, not 100 % (the rounding of the shares "
+     "as written allows 100 \u00b1 0.55): add the missing share as a category (such "
+     "as 'not stated') or correct the shares"},
+    {"form: waffle\n", "  - {label: A, count: 60}\n  - {label: B, count: 50}\n",
+     "p.yaml:5:23: the shares add to 110 %, not 100 % (the rounding of the shares "
+     "as written allows 100 \u00b1 1): add the missing share as a category (such "
+     "as 'not stated') or correct the shares"},
+    {"form: waffle\ngroups: [North, South]\n",
+     "  - {label: A, counts: [50, 50]}\n  - {label: B, counts: [50, 40]}\n",
+     "p.yaml:6:29: group 'South': the shares add to 90 %, not 100 %"},
+    {"form: rows\nicon-value: 1\n", "  - {label: A, count: 100}\n",
+     "p.yaml:2:13: 'counts-are: percent' is for waffle charts (form: waffle)"},
+    {"form: waffle\ntotal: 100\n", "  - {label: A, count: 100}\n",
+     "p.yaml:4:8: 'total' is a count, and the shares of a percent chart are of a "
+     "total that is not known"},
+    {"form: waffle\nsuppress: {below: 10}\n", "  - {label: A, count: 100}\n",
+     "p.yaml:4:11: a share of an unknown total cannot be checked for disclosure"},
+    {"form: waffle\nprotect: {round-to: 5}\n", "  - {label: A, count: 100}\n",
+     "p.yaml:4:10: a share of an unknown total cannot be checked for disclosure"},
+    {"form: waffle\nicon-value: 2\n", "  - {label: A, count: 100}\n",
+     "p.yaml:4:13: 'icon-value' is a count per icon"},
+    {"form: waffle\ngroups: [Q1, Q2]\nchange: previous\n",
+     "  - {label: A, counts: [100, 100]}\n", "p.yaml:5:9: 'change' states differences"},
+};
+
+START_TEST(test_percent)
+{
+    const percent_case *k = &percent_cases[_i];
+    char text[1024], got[1024];
+    snprintf(text, sizeof text, PCT_HEAD "%scategories:\n%s", k->keys, k->cats);
+    ug_chart *c = NULL;
+    ug_error err = {0};
+    ug_status st = ug_chart_load_string(text, strlen(text), "p.yaml", NULL, &c, &err);
+    if (!k->error) {
+        ck_assert_msg(st == UG_OK, "%s", err.msg);
+        ck_assert_int_eq(c->counts_are, UG_COUNTS_ARE_PERCENT);
+        ug_chart_free(c);
+        return;
+    }
+    ck_assert_int_ne(st, UG_OK);
+    snprintf(got, sizeof got, "%s:%u:%u: %s", err.where.file, err.where.line,
+             err.where.column, err.msg);
+    ck_assert_msg(!strncmp(got, k->error, strlen(k->error)), "got  %s\nwant %s", got,
+                  k->error);
+}
+END_TEST
+
+START_TEST(test_counts_are_default)
+{
+    const char *text = "form: waffle\ncategories: [{label: A, count: 3}]\n";
+    ug_chart *c = NULL;
+    ug_error err;
+    ck_assert(ug_chart_load_string(text, strlen(text), "t.yaml", NULL, &c, &err) == UG_OK);
+    ck_assert_int_eq(c->counts_are, UG_COUNTS_ARE_COUNTS);
+    ug_chart_free(c);
+}
+END_TEST
+
 static Suite *suite(void)
 {
     Suite *s = suite_create("layout");
@@ -633,6 +711,8 @@ static Suite *suite(void)
     tcase_add_test(t, test_full_chart);
     tcase_add_test(t, test_defaults);
     tcase_add_test(t, test_form_table);
+    tcase_add_loop_test(t, test_percent, 0, sizeof percent_cases / sizeof percent_cases[0]);
+    tcase_add_test(t, test_counts_are_default);
     tcase_add_loop_test(t, test_strings, 0, sizeof strings / sizeof strings[0]);
     tcase_add_test(t, test_small_count_preset);
     tcase_add_test(t, test_file_size_limit);

@@ -393,11 +393,49 @@ START_TEST(test_out_of_memory_each_step)
 }
 END_TEST
 
+/* The published table of a percent chart: the shares as given, a `measure`
+** column saying so, and no total rows (no sum of shares is published); a
+** table of counts keeps its columns as before. */
+static char *table_of(const char *yaml)
+{
+    ug_chart *c = NULL;
+    ug_allocation *a = NULL;
+    ug_error err = {0};
+    char *out = NULL;
+    ck_assert_msg(ug_chart_load_string(yaml, strlen(yaml), "t.yaml", NULL, &c, &err)
+                  == UG_OK, "%s", err.msg);
+    ck_assert_int_eq(ug_chart_allocate(c, &a, &err), UG_OK);
+    const ug_allocation *one[] = {a};
+    ck_assert_int_eq(ug_table_csv(one, 1, &out, NULL, &err), UG_OK);
+    ug_allocation_free(a);
+    ug_chart_free(c);
+    return out;
+}
+
+/* 62.5 and 37.5 tie at .5: the larger count gets the cell (alloc.c's rule). */
+START_TEST(test_table_of_shares)
+{
+    char *t = table_of("form: waffle\ncounts-are: percent\ngroups: [N, S]\ncategories:\n"
+                       "  - {label: Gas, counts: [62.5, 41]}\n"
+                       "  - {label: Pump, counts: [37.5, 59]}\n");
+    ck_assert_str_eq(t, "group,category,count,icons,status,level,measure\n"
+                        "N,Gas,62.5,63,exact,cell,percent\n"
+                        "N,Pump,37.5,37,exact,cell,percent\n"
+                        "S,Gas,41,41,exact,cell,percent\n"
+                        "S,Pump,59,59,exact,cell,percent\n");
+    ug_free(t);
+    t = table_of("form: waffle\ncategories: [{label: Gas, count: 5}]\n");
+    ck_assert_msg(!strncmp(t, "group,category,count,icons,status,level\n", 40), "%s", t);
+    ug_free(t);
+}
+END_TEST
+
 static Suite *report_suite(void)
 {
     Suite *s = suite_create("report");
     TCase *tc = tcase_create("core");
     tcase_add_test(tc, test_csv_waffle_clubs);
+    tcase_add_test(tc, test_table_of_shares);
     tcase_add_test(tc, test_csv_repeating_decimals);
     tcase_add_test(tc, test_csv_groups_and_quoting);
     tcase_add_test(tc, test_json_escaping);

@@ -77,7 +77,7 @@ static void check_order(unsigned bg, ug_palette pal)
     c->style.palette = pal;
     c->cats[0].color_given = true;
     c->cats[0].color = color_rgb(1, 2, 3);
-    ck_assert_int_eq(resolve_chart(c), UG_OK);
+    ck_assert_int_eq(resolve_chart(c, NULL), UG_OK);
     ck_assert(c->cats[0].color.r == 1 && c->cats[0].color.b == 3);
     size_t passing = 0, apart = 1;
     for (size_t k = 0; k < n; k++)
@@ -119,7 +119,7 @@ END_TEST
 START_TEST(test_okabe_ito_on_white)
 {
     ug_chart *c = bare_chart(5);
-    ck_assert_int_eq(resolve_chart(c), UG_OK);
+    ck_assert_int_eq(resolve_chart(c, NULL), UG_OK);
     for (size_t i = 0; i < 4; i++)
         for (size_t j = 0; j < i; j++)
             ck_assert(min_delta_e(c->cats[i].color, c->cats[j].color) >= COLOR_MIN_DELTA_E);
@@ -128,12 +128,25 @@ START_TEST(test_okabe_ito_on_white)
 }
 END_TEST
 
-/* More categories than colours wrap around the same order. */
+/* Category i drawn as glyph names[i]: each its own, or all squares. */
+static const char *const glyph_names[] = {"person", "family", "house", "bus",
+    "bicycle", "car", "school", "tree", "heart", "book", "tap", "bed",
+    "phone", "bag", "cup", "star"};
+
+static void own_glyphs(ug_chart *c)
+{
+    for (size_t i = 0; i < c->ncats; i++)
+        c->cats[i].glyph.text = glyph_names[i];
+}
+
+/* More categories than colours wrap around the same order when each has its
+** own glyph, a second cue besides colour (WCAG 2.1 SC 1.4.1). */
 START_TEST(test_palette_wraps)
 {
     size_t n = color_palette_size(UG_PALETTE_OKABE_ITO);
     ug_chart *c = bare_chart(2 * n);
-    ck_assert_int_eq(resolve_chart(c), UG_OK);
+    own_glyphs(c);
+    ck_assert_int_eq(resolve_chart(c, NULL), UG_OK);
     for (size_t i = 0; i < n; i++)
         ck_assert(memcmp(&c->cats[i].color, &c->cats[i + n].color, 3) == 0);
     ck_assert_uint_eq(c->cats[n].color.mark.line, c->cats[n].mark.line);
@@ -151,7 +164,7 @@ START_TEST(test_ink_follows_background)
         ug_chart *c = bare_chart(1);
         unsigned bg = backgrounds[b];
         c->style.background = color_rgb((bg >> 16) & 255, (bg >> 8) & 255, bg & 255);
-        ck_assert_int_eq(resolve_chart(c), UG_OK);
+        ck_assert_int_eq(resolve_chart(c, NULL), UG_OK);
         ug_color dark = color_rgb(0x22, 0x22, 0x22), light = color_rgb(0xf2, 0xf2, 0xf2);
         double want = fmax(color_contrast(dark, c->style.background),
                            color_contrast(light, c->style.background));
@@ -162,8 +175,37 @@ START_TEST(test_ink_follows_background)
     c->style.background = color_rgb(0, 0, 0);
     c->style.ink = color_rgb(0x11, 0x11, 0x11);
     c->style.ink.mark = (ug_mark){"test.yaml", 4, 8};
-    ck_assert_int_eq(resolve_chart(c), UG_OK);
+    ck_assert_int_eq(resolve_chart(c, NULL), UG_OK);
     ck_assert_int_eq(c->style.ink.r, 0x11);
+    chart_done(c);
+}
+END_TEST
+
+/* Okabe and Ito's palette (Color Universal Design, 2008) has eight colours,
+** black among them, which unitgram leaves to text: seven to hand out, all
+** safe on white once shaded to 3:1. An eighth category to colour
+** is refused at `categories:` with both numbers, unless shape tells every
+** category apart; a colour the layout gives takes no palette colour. */
+START_TEST(test_more_categories_than_colours)
+{
+    ck_assert_uint_eq(color_palette_size(UG_PALETTE_OKABE_ITO), 7);
+    ug_chart *c = bare_chart(8);
+    c->categories_mark = (ug_mark){"test.yaml", 7, 1};
+    ug_error err = {0};
+    ck_assert_int_eq(resolve_chart(c, &err), UG_ESCHEMA);
+    ck_assert_uint_eq(err.where.line, 7);
+    ck_assert_msg(strstr(err.msg, "8 categories take their colour from the palette, but "
+                                  "it has only 7 safe colours") &&
+                  strstr(err.msg, "'Other'") && strstr(err.msg, "1.4.1"), "%s", err.msg);
+    own_glyphs(c);
+    c->cats[7].glyph.text = c->cats[0].glyph.text; /* two alike: colour alone again */
+    ck_assert_int_eq(resolve_chart(c, &err), UG_ESCHEMA);
+    c->cats[7].glyph.text = glyph_names[7];
+    ck_assert_int_eq(resolve_chart(c, &err), UG_OK);
+    chart_done(c);
+    c = bare_chart(8);
+    c->cats[3].color_given = true;
+    ck_assert_int_eq(resolve_chart(c, NULL), UG_OK);
     chart_done(c);
 }
 END_TEST
@@ -176,6 +218,7 @@ static Suite *resolve_suite(void)
     tcase_add_test(t, test_palette_safe_order);
     tcase_add_test(t, test_okabe_ito_on_white);
     tcase_add_test(t, test_palette_wraps);
+    tcase_add_test(t, test_more_categories_than_colours);
     tcase_add_test(t, test_ink_follows_background);
     suite_add_tcase(s, t);
     return s;

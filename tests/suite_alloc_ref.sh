@@ -2,7 +2,10 @@
 # Outside cross-check of the allocator: our largest-remainder and
 # Sainte-Laguë results against the npm packages hare-niemeyer@3.0.0 and
 # sainte-lague@3.0.0 on thousands of random cases where those packages can be
-# trusted (see tests/ref/alloc_crosscheck.mjs).
+# trusted (see tests/ref/alloc_crosscheck.mjs). First, `counts-are: percent`
+# through the CLI against an exact largest remainder in Python's
+# fractions.Fraction, and against the same shares times k given as counts
+# (tests/ref/percent_crosscheck.py).
 #
 #   bash tests/suite_alloc_ref.sh build/unitgram
 #
@@ -24,6 +27,10 @@ skip() {
     echo "SKIP: alloc reference check: $1"
     exit 0
 }
+
+work=$(mktemp -d)
+trap 'rm -rf "$work"' EXIT
+python3 "$here/ref/percent_crosscheck.py" "$(cd "$(dirname "$cli")" && pwd)/$(basename "$cli")" "$work"
 
 command -v node >/dev/null 2>&1 || skip "node is not installed"
 command -v npm >/dev/null 2>&1 || skip "npm is not installed"
