@@ -27,6 +27,19 @@
 
 #include "raster.h"
 
+/* LeakSanitizer builds only (gcc defines __SANITIZE_ADDRESS__, clang answers
+** __has_feature). */
+#if defined(__SANITIZE_ADDRESS__)
+#define RASTER_LSAN 1
+#elif defined(__has_feature)
+#if __has_feature(address_sanitizer)
+#define RASTER_LSAN 1
+#endif
+#endif
+#ifdef RASTER_LSAN
+#include <sanitizer/lsan_interface.h>
+#endif
+
 /* ---- formats ------------------------------------------------------------- */
 
 static const char *const format_names[] = {"svg", "png", "pdf", "html", "csv"};
@@ -210,11 +223,49 @@ static ug_status pdf_size(double w, double h, double scale, double *pw,
 
 /* ---- drawing ------------------------------------------------------------- */
 
+/*
+** cairo 1.16 (Debian 12) loses 768 bytes each time it embeds a subset of a
+** CID-keyed CFF font in a PDF (Noto Sans CJK, which Chinese and Japanese
+** text uses): a cairo_array grown while the surface is finished is never
+** freed. Seven lines of pango and cairo, none of ours, show it under ASan.
+** The lost memory is cairo's own, but LeakSanitizer cannot say so: cairo
+** has no frame pointers, so the stack it records stops inside libcairo, and
+** a rule naming libcairo would hide every cairo object we forget to
+** destroy. So in sanitizer builds LeakSanitizer is told to ignore what is
+** allocated while a PDF surface is finished, except inside to_buf, where
+** our own buffer grows. The flag is per thread, as LeakSanitizer's
+** __lsan_disable is.
+*/
+#ifdef RASTER_LSAN
+static _Thread_local bool finishing_pdf;
+#endif
+
+static void finish_pdf(cairo_surface_t *s)
+{
+#ifdef RASTER_LSAN
+    finishing_pdf = true;
+    __lsan_disable();
+#endif
+    cairo_surface_finish(s);
+#ifdef RASTER_LSAN
+    __lsan_enable();
+    finishing_pdf = false;
+#endif
+}
+
 static cairo_status_t to_buf(void *closure, const unsigned char *data,
                              unsigned int length)
 {
+#ifdef RASTER_LSAN
+    if (finishing_pdf)
+        __lsan_enable();
+#endif
     ug_buf *b = closure;
     ug_buf_add(b, (const char *)data, length);
+#ifdef RASTER_LSAN
+    if (finishing_pdf)
+        __lsan_disable();
+#endif
     return b->failed ? CAIRO_STATUS_NO_MEMORY : CAIRO_STATUS_SUCCESS;
 }
 
@@ -470,7 +521,7 @@ ug_status ug_render_pdf_pages(const char *const *svgs, const size_t *lens,
         st = pdf_page(&s, &b, svgs[i], lens[i], titles ? titles[i] : NULL, (int)i + 1,
                       scale, err);
     if (s) {
-        cairo_surface_finish(s);
+        finish_pdf(s);
         if (!st)
             st = surface_done(s, &b, err);
         cairo_surface_destroy(s);
