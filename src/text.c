@@ -271,25 +271,59 @@ static char *resolved_family(const char *want)
 ** same family hundreds of times. */
 static _Thread_local char checked_family[256];
 
+/* The first family of the list `want` fontconfig does not have, into
+** missing (NULL when each is installed, or stands for any font), and what
+** it would give in its place into *got. Each is asked for alone: asked for
+** the whole list, fontconfig gives the first installed one and hides a
+** misspelt fallback until the text that needs it prints as boxes. */
+static ug_status unlisted_family(const char *want, char *missing, size_t size, char **got)
+{
+    *got = NULL;
+    *missing = '\0';
+    for (const char *p = want; *p;) {
+        size_t len = strcspn(p, ",");
+        const char *next = p[len] ? p + len + 1 : p + len;
+        while (len && *p == ' ')
+            p++, len--;
+        while (len && p[len - 1] == ' ')
+            len--;
+        snprintf(missing, size, "%.*s", (int)len, p);
+        if (len && !generic_family(p, len)) {
+            char *one = resolved_family(missing);
+            if (!one)
+                return UG_ERENDER;
+            if (!family_listed(missing, one)) {
+                *got = one;
+                return UG_OK;
+            }
+            ug_free(one);
+        }
+        p = next;
+    }
+    *missing = '\0';
+    return UG_OK;
+}
+
 static ug_status check_family(const text_font *f, ug_error *err)
 {
     const char *want = family_of(f);
     if (strcmp(checked_family, want) == 0)
         return UG_OK;
-    char *got = resolved_family(want);
-    bool ok = got && family_listed(want, got);
-    ug_status st = UG_OK;
-    if (!got)
+    char missing[256], *got;
+    ug_status st = unlisted_family(want, missing, sizeof missing, &got);
+    if (st)
         st = ug_fail(err, UG_ERENDER, f->named,
                      "no font can be loaded for '%s': fontconfig found no fonts "
                      "(is fonts-dejavu-core installed and fontconfig's "
                      "configuration readable, and was there memory for it?)", want);
-    else if (!ok)
+    else if (got)
         st = ug_fail(err, UG_ERENDER, f->named,
                      "font '%s' is not installed here: fontconfig would measure and "
                      "draw '%s' in its place, so the chart would not be the one the "
-                     "layout asks for; install it, or name an installed family under "
-                     "style: font", want, got);
+                     "layout asks for; install it%s, or name an installed family under "
+                     "style: font", missing, got,
+                     strncmp(missing, "Noto Sans CJK", 13) ? ""
+                     : " (Debian's fonts-noto-cjk, which make deps installs)");
     else if (strlen(want) < sizeof checked_family)
         strcpy(checked_family, want);
     ug_free(got);

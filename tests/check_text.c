@@ -7,6 +7,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "resolve.h"
 #include "text.h"
 #include "check_run.h"
 
@@ -156,7 +157,8 @@ static void fc_match(const char *name, char *out, size_t size)
 }
 
 /* A family that is not installed is an error naming what would be drawn
-** instead; a generic family, an installed one, or a list holding one is not. */
+** instead, alone or anywhere in a fallback list; a generic family, an
+** installed one, or a list of installed and generic ones is not. */
 START_TEST(test_family_must_be_installed)
 {
     static const char absent[] = "Unitgram Absent Family";
@@ -174,8 +176,7 @@ START_TEST(test_family_must_be_installed)
     ck_assert_uint_eq(err.where.column, 9);
     ck_assert_uint_eq(b.n, 0);
     static const char *const fine[] = {"DejaVu Serif", "sans-serif", "Monospace",
-                                       "Unitgram Absent Family, DejaVu Sans",
-                                       "Unitgram Absent Family, serif"};
+                                       "DejaVu Sans, serif", "DejaVu Sans,DejaVu Serif"};
     for (size_t i = 0; i < sizeof fine / sizeof *fine; i++) {
         f.family = fine[i];
         ck_assert_msg(text_wrap(&f, "Households", 0, &b, &err) == UG_OK, "%s: %s",
@@ -186,6 +187,20 @@ START_TEST(test_family_must_be_installed)
     /* asked again after a good family, the absent one is still refused */
     f.family = absent;
     ck_assert_int_eq(text_wrap(&f, "Households", 0, &b, &err), UG_ERENDER);
+    /* a misspelt fallback is refused too, named alone, first or last */
+    static const char *const lists[] = {"DejaVu Sans, Unitgram Absent Family",
+                                        " Unitgram Absent Family ,DejaVu Sans",
+                                        "sans-serif, DejaVu Serif, Unitgram Absent Family"};
+    for (size_t i = 0; i < sizeof lists / sizeof *lists; i++) {
+        f.family = lists[i];
+        memset(&err, 0, sizeof err);
+        ck_assert_int_eq(text_wrap(&f, "Households", 0, &b, &err), UG_ERENDER);
+        ck_assert_msg(strstr(err.msg, "font 'Unitgram Absent Family' is not installed"),
+                      "%s: %s", lists[i], err.msg);
+        ck_assert_msg(strstr(err.msg, substitute), "fc-match says '%s'; we said: %s",
+                      substitute, err.msg);
+        ck_assert_uint_eq(err.where.line, 7);
+    }
 }
 END_TEST
 
@@ -197,17 +212,33 @@ START_TEST(test_clean)
 }
 END_TEST
 
-/* Whether any installed font covers code point cp, as fontconfig itself
-** answers (fc-list(1) with a charset pattern, fontconfig-bin). */
-static bool some_font_has(unsigned long cp)
+/* Whether fontconfig lists any font matching pattern (fc-list(1),
+** fontconfig-bin). */
+static bool fc_lists(const char *pattern)
 {
-    char cmd[96], line[512];
-    snprintf(cmd, sizeof cmd, "fc-list ':charset=%lx' family", cp);
+    char cmd[192], line[512];
+    snprintf(cmd, sizeof cmd, "fc-list '%s' family", pattern);
     FILE *f = popen(cmd, "r");
     ck_assert_ptr_nonnull(f);
     bool any = fgets(line, sizeof line, f) != NULL;
     pclose(f);
     return any;
+}
+
+/* Whether any installed font covers code point cp, as fontconfig answers. */
+static bool some_font_has(unsigned long cp)
+{
+    char pattern[32];
+    snprintf(pattern, sizeof pattern, ":charset=%lx", cp);
+    return fc_lists(pattern);
+}
+
+/* Whether fontconfig lists a font of this family. */
+static bool some_family(const char *family)
+{
+    char pattern[160];
+    snprintf(pattern, sizeof pattern, ":family=%s", family);
+    return fc_lists(pattern);
 }
 
 /* text_undrawable agrees with fontconfig character by character: Latin,
@@ -245,6 +276,98 @@ START_TEST(test_undrawable_matches_fontconfig)
 }
 END_TEST
 
+/* The family pango draws each character of s with, in the family list
+** `family`: the fonts of its runs as pango itemizes them, with a font map
+** of its own set up as src/text.c's is. librsvg lays the SVG's text out
+** with pango too, so this is the face a PNG or PDF shows. Returns how
+** many runs; their families (owned) into fams. */
+static size_t run_families(const char *family, const char *s, char **fams, size_t max)
+{
+    PangoFontMap *map = pango_cairo_font_map_new();
+    PangoContext *ctx = pango_font_map_create_context(map);
+    PangoLayout *l = pango_layout_new(ctx);
+    PangoFontDescription *d = pango_font_description_from_string(family);
+    pango_font_description_set_absolute_size(d, 16 * PANGO_SCALE);
+    pango_layout_set_font_description(l, d);
+    pango_font_description_free(d);
+    pango_layout_set_text(l, s, -1);
+    size_t n = 0;
+    PangoLayoutIter *it = pango_layout_get_iter(l);
+    do {
+        PangoLayoutRun *run = pango_layout_iter_get_run_readonly(it);
+        if (!run || n == max)
+            continue;
+        PangoFontDescription *got = pango_font_describe(run->item->analysis.font);
+        fams[n++] = strdup(pango_font_description_get_family(got));
+        pango_font_description_free(got);
+    } while (pango_layout_iter_next_run(it));
+    pango_layout_iter_free(it);
+    g_object_unref(l);
+    g_object_unref(ctx);
+    g_object_unref(map);
+    return n;
+}
+
+/* make deps installs fonts-noto-cjk (Makefile, DEBIAN_PACKAGES): without it
+** Chinese prints as boxes, so its absence fails here rather than skipping.
+** The family name is the package's (fontconfig's fc-list on the files of
+** Debian 12's fonts-noto-cjk 1:20220127+repack1-1). */
+START_TEST(test_simplified_chinese_draws)
+{
+    ck_assert_msg(some_family("Noto Sans CJK SC"),
+                  "no 'Noto Sans CJK SC' in fc-list: install Debian's fonts-noto-cjk "
+                  "(make deps)");
+    /* "community clinic visits", as zh-clinic.yaml writes them */
+    static const char hans[] = "\xe7\xa4\xbe\xe5\x8c\xba\xe8\xaf\x8a\xe6\x89\x80"
+                               "\xe5\xb0\xb1\xe8\xaf\x8a\xe4\xba\xba\xe6\xac\xa1";
+    text_font f = {.family = RESOLVE_FONT_HANS, .size = 16};
+    unsigned long got[4];
+    size_t listed = 0;
+    ck_assert_uint_eq(text_undrawable(&f, hans, got, 4, &listed), 0);
+    text_block b;
+    ug_error err;
+    memset(&err, 0, sizeof err);
+    ck_assert_msg(text_wrap(&f, hans, 0, &b, &err) == UG_OK, "%s", err.msg);
+    ck_assert_double_gt(b.width, 0);
+    text_block_free(&b);
+    /* Han characters in the SC face, Latin and digits in DejaVu's */
+    char *fams[8];
+    size_t n = run_families(RESOLVE_FONT_HANS, hans, fams, 8);
+    ck_assert_uint_ge(n, 1);
+    for (size_t i = 0; i < n; i++) {
+        ck_assert_msg(!strcmp(fams[i], "Noto Sans CJK SC"), "run %zu in '%s'", i, fams[i]);
+        free(fams[i]);
+    }
+    n = run_families(RESOLVE_FONT_HANS, "2025 \xe5\xb9\xb4", fams, 8);
+    ck_assert_uint_eq(n, 2);
+    ck_assert_str_eq(fams[0], "DejaVu Sans");
+    ck_assert_str_eq(fams[1], "Noto Sans CJK SC");
+    free(fams[0]);
+    free(fams[1]);
+}
+END_TEST
+
+/* Characters no installed font has stay undrawable with the Chinese list
+** too: a private-use one (U+E000) and an emoji newer than the fonts
+** (U+1F9EA, test tube, Unicode 11). Each is first shown uncovered by
+** fontconfig itself, so the test means something on this machine. */
+START_TEST(test_undrawable_beyond_fallbacks)
+{
+    static const struct { const char *s; unsigned long cp; } none[] = {
+        {"\xee\x80\x80", 0xe000}, {"\xf0\x9f\xa7\xaa", 0x1f9ea}};
+    text_font f = {.family = RESOLVE_FONT_HANS, .size = 16};
+    for (size_t i = 0; i < sizeof none / sizeof *none; i++) {
+        ck_assert_msg(!some_font_has(none[i].cp), "U+%04lX: a font here has it", none[i].cp);
+        unsigned long got[2];
+        size_t listed = 0;
+        char s[32];
+        snprintf(s, sizeof s, "\xe8\xaf\x8a%s", none[i].s); /* after a Han character */
+        ck_assert_uint_eq(text_undrawable(&f, s, got, 2, &listed), 1);
+        ck_assert_uint_eq(got[0], none[i].cp);
+    }
+}
+END_TEST
+
 static Suite *text_suite(void)
 {
     Suite *s = suite_create("text");
@@ -254,6 +377,8 @@ static Suite *text_suite(void)
     tcase_add_test(t, test_wrap_keeps_words_and_width);
     tcase_add_test(t, test_family_must_be_installed);
     tcase_add_test(t, test_undrawable_matches_fontconfig);
+    tcase_add_test(t, test_simplified_chinese_draws);
+    tcase_add_test(t, test_undrawable_beyond_fallbacks);
     tcase_add_loop_test(t, test_clean, 0, sizeof cleans / sizeof cleans[0]);
     suite_add_tcase(s, t);
     return s;
