@@ -24,6 +24,26 @@ const char *pack_other_label(const ug_allocation *a)
     return phrase_text(pack_lang(a->chart), PH_NOT_SHOWN);
 }
 
+/* The chart's `number-format` and `currency` as phrase.c takes them. */
+static phrase_numbers chart_numbers(const ug_chart *c)
+{
+    return (phrase_numbers){.compact = c->number_format != UG_NUMBERS_PLAIN,
+                            .short_words = c->number_format == UG_NUMBERS_COMPACT_SHORT,
+                            .currency = c->currency.text};
+}
+
+char *pack_amount(const ug_chart *c, ug_dec d, phrase_rounding r, char *buf)
+{
+    phrase_numbers how = chart_numbers(c);
+    return phrase_amount(pack_lang(c), &how, d, r, buf, NULL);
+}
+
+/* "fewer than" counts, "less than" money. */
+static phrase_id fewer_id(const ug_chart *c)
+{
+    return c->currency.text ? PH_LESS : PH_FEWER;
+}
+
 /* A hidden cell's text: the layout's own `suppress: label`, else the
 ** catalog's "fewer than {n}" or "not shown" in the chart's language. */
 void pack_placeholder(const ug_allocation *a, pub_status s, ug_buf *b)
@@ -33,41 +53,64 @@ void pack_placeholder(const ug_allocation *a, pub_status s, ug_buf *b)
     if (s == PUB_SMALL && c->suppress_label.text) {
         ug_buf_puts(b, pub_placeholder(a->pub, s));
     } else if (s == PUB_SMALL && c->has_suppress && c->suppress_below.v > 0) {
-        phrase_number(pack_lang(c), c->suppress_below, 0, n);
-        phrase_say(b, pack_lang(c), PH_FEWER, (phrase_slot[]){{"n", n}, {NULL, NULL}});
+        pack_amount(c, c->suppress_below, PHRASE_UP, n);
+        phrase_say(b, pack_lang(c), fewer_id(c), (phrase_slot[]){{"n", n}, {NULL, NULL}});
     } else {
         ug_buf_puts(b, pack_other_label(a));
     }
 }
 
-/* The unit's form for count: the layout's form for count's CLDR plural
-** category, else its `other` form, else the one text it gave. */
-static const char *unit_form(const ug_chart *c, ug_dec count)
+/* The unit's form for a count of CLDR plural category cat: the layout's
+** form for it, else its `other` form, else the one text it gave. */
+static const char *unit_form(const ug_chart *c, const char *cat)
 {
     static const char *const names[] = {"zero", "one", "two", "few", "many", "other"};
     if (!c->has_unit_forms)
         return c->unit_label.text;
-    const char *cat = phrase_plural(pack_lang(c), count, 0);
     for (size_t k = 0; k < UG_PLURAL_COUNT; k++)
         if (!strcmp(names[k], cat) && c->unit_forms[k].text)
             return c->unit_forms[k].text;
     return c->unit_label.text;
 }
 
-void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b)
+/* Does the language elide before this unit ("d’habitants", not "de
+** habitants")? Its catalog lists the letters that ask for it. */
+static bool elides_before(const char *lang, const char *unit)
+{
+    const char *letters = phrase_text(lang, PH_ELIDE_BEFORE);
+    unsigned long first, cp;
+    if (!ug_utf8_decode(unit, strlen(unit), &first))
+        return false;
+    for (size_t k = 0, n; letters[k]; k += n)
+        if (!(n = ug_utf8_decode(letters + k, strlen(letters + k), &cp)) || cp == first)
+            return n != 0;
+    return false;
+}
+
+/* A count as the chart writes it, its last digit rounded as r says; money
+** names no unit ("€412.5M", not "€412.5M dollars"). */
+static void count_phrase(const ug_chart *c, ug_dec count, phrase_rounding r, ug_buf *b)
 {
     char n[PHRASE_NUMBER_MAX];
+    const char *lang = pack_lang(c), *cat = "other";
     if (chart_is_percent(c)) { /* a share says what it is: "41.5 %" */
-        ug_buf_puts(b, phrase_percent(pack_lang(c), count, n));
+        ug_buf_puts(b, phrase_percent(lang, count, n));
         return;
     }
-    phrase_number(pack_lang(c), count, 0, n);
-    if (!c->unit_label.text) {
+    phrase_numbers how = chart_numbers(c);
+    phrase_amount(lang, &how, count, r, n, &cat);
+    if (!c->unit_label.text || c->currency.text) {
         ug_buf_puts(b, n);
         return;
     }
-    phrase_say(b, pack_lang(c), PH_COUNT,
-               (phrase_slot[]){{"n", n}, {"unit", unit_form(c, count)}, {NULL, NULL}});
+    const char *unit = unit_form(c, cat);
+    phrase_say(b, lang, elides_before(lang, unit) ? PH_COUNT_ELIDED : PH_COUNT,
+               (phrase_slot[]){{"n", n}, {"unit", unit}, {"plural", cat}, {NULL, NULL}});
+}
+
+void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b)
+{
+    count_phrase(c, count, PHRASE_NEAREST, b);
 }
 
 /* Message id with its one slot `name` holding the text built in t, which
@@ -82,12 +125,14 @@ static void say_built(const ug_chart *c, phrase_id id, const char *name, ug_buf 
     ug_buf_free(t);
 }
 
-/* Message id with one slot {n} holding a count phrase ("more than {n}"). */
+/* Message id with one slot {n} holding a count phrase ("more than {n}"). A
+** bound stays true when its number is shortened: "fewer than" rounds up,
+** "more than" and "at least" round down. */
 static void say_count(const ug_chart *c, phrase_id id, ug_dec count, ug_buf *b)
 {
     ug_buf t;
     ug_buf_init(&t);
-    pack_count_phrase(c, count, &t);
+    count_phrase(c, count, id == PH_FEWER || id == PH_LESS ? PHRASE_UP : PHRASE_DOWN, &t);
     say_built(c, id, "n", &t, b);
 }
 
@@ -133,21 +178,27 @@ static void note(ug_buf *b, const char *lang, phrase_id id, const phrase_slot *s
     ug_buf_puts(b, phrase_text(lang, PH_SPACE));
 }
 
-/* "Counts of 1 to 9 households are not shown ("fewer than 10")." */
+/* "Counts of 1 to 9 households are not shown ("fewer than 10")."; money,
+** which has cents between its whole amounts, "Amounts below $10 ...". */
 static void small_note(const ug_allocation *a, ug_buf *b)
 {
     const pub_table *t = a->pub;
     const char *lang = pack_lang(a->chart);
+    bool money = a->chart->currency.text != NULL;
     char from[PHRASE_NUMBER_MAX];
     ug_buf to, label;
     ug_buf_init(&to);
     ug_buf_init(&label);
-    phrase_number(lang, (ug_dec){t->zeros_hidden ? 0 : UG_DEC_SCALE}, 0, from);
-    pack_count_phrase(a->chart, (ug_dec){t->below.v - UG_DEC_SCALE}, &to);
+    pack_amount(a->chart, money ? t->below : (ug_dec){t->zeros_hidden ? 0 : UG_DEC_SCALE},
+                money ? PHRASE_UP : PHRASE_NEAREST, from);
+    count_phrase(a->chart, (ug_dec){t->below.v - UG_DEC_SCALE}, PHRASE_UP, &to);
     pack_placeholder(a, PUB_SMALL, &label);
     ug_buf_add(&to, "", 1);
     ug_buf_add(&label, "", 1);
-    if (!to.failed && !label.failed)
+    if (!to.failed && !label.failed && money)
+        note(b, lang, PH_NOTE_SMALL_MONEY,
+             (phrase_slot[]){{"n", from}, {"label", label.data}, {NULL, NULL}});
+    else if (!to.failed && !label.failed)
         note(b, lang, PH_NOTE_SMALL, (phrase_slot[]){{"from", from}, {"to", to.data},
                                                      {"label", label.data}, {NULL, NULL}});
     b->failed = b->failed || to.failed || label.failed;
@@ -171,7 +222,7 @@ void pack_disclosure_notes(const ug_allocation *a, ug_buf *b)
     char n[PHRASE_NUMBER_MAX];
     if (t->rounded)
         note(b, lang, PH_NOTE_ROUNDED, (phrase_slot[]){
-            {"n", phrase_number(lang, t->round_to, 0, n)}, {NULL, NULL}});
+            {"n", pack_amount(a->chart, t->round_to, PHRASE_NEAREST, n)}, {NULL, NULL}});
     if (any_status(t, PUB_SMALL) && t->below.v > 0)
         small_note(a, b);
     if (any_status(t, PUB_COMPLEMENT))
@@ -193,7 +244,7 @@ static void partial_phrase(const ug_allocation *a, const line_sum *s, ug_buf *b)
 {
     const ug_chart *c = a->chart;
     if (s->visible.v == 0 && s->nsmall == s->nhidden && a->pub->below.v > 0)
-        say_count(c, PH_FEWER, (ug_dec){a->pub->below.v * (ug_i128)s->nhidden}, b);
+        say_count(c, fewer_id(c), (ug_dec){a->pub->below.v * (ug_i128)s->nhidden}, b);
     else if (s->visible.v == 0)
         ug_buf_puts(b, pack_other_label(a));
     else
@@ -223,35 +274,40 @@ size_t pack_change_ref(const ug_allocation *a, size_t g)
     return c->change == UG_CHANGE_FIRST ? 0 : g - 1;
 }
 
-/* "+34, +8 %": from the published values only; the percentage rounded half
-** away from zero, left out when the earlier value is 0. */
-static void change_amount(const char *lang, ug_dec from, ug_dec to, ug_buf *b)
+/* "+34, +8%": from the published values only, with the language's signs,
+** percent and list separator (CLDR, through ICU); the percentage rounded
+** half away from zero, left out when the earlier value is 0; no change is
+** "\u00b10". */
+static void change_amount(const ug_chart *c, ug_dec from, ug_dec to, ug_buf *b)
 {
+    const char *lang = pack_lang(c);
     char n[PHRASE_NUMBER_MAX];
     ug_dec d = {to.v - from.v};
-    ug_dec mag = {d.v < 0 ? -d.v : d.v};
-    ug_buf_printf(b, "%s%s", d.v < 0 ? "-" : d.v > 0 ? "+" : "\u00b1",
-                  phrase_number(lang, mag, 0, n));
+    phrase_numbers how = chart_numbers(c);
+    how.sign = true;
+    ug_buf_printf(b, "%s%s", d.v ? "" : "\u00b1",
+                  phrase_amount(lang, &how, d, PHRASE_NEAREST, n, NULL));
     if (from.v <= 0)
         return;
-    ug_i128 num = mag.v * 100, q = num / from.v;
+    ug_i128 mag = d.v < 0 ? -d.v : d.v, num = mag * 100, q = num / from.v;
     if ((num % from.v) * 2 >= from.v)
         q++;
-    ug_buf_printf(b, ", %s%lld %%", d.v < 0 ? "-" : d.v > 0 ? "+" : "\u00b1",
-                  (long long)q);
+    ug_buf_printf(b, "%s%s%s", phrase_text(lang, PH_LIST_SEP), q ? "" : "\u00b1",
+                  phrase_percent_change(lang, (ug_dec){(d.v < 0 ? -q : q) * UG_DEC_SCALE},
+                                        n));
 }
 
 /* " (+34, +8 %)" when both cells are published; " (change not shown)" when
 ** either is hidden, so a hidden count's change is hidden too. */
-static void change_note(const char *lang, const pub_cell *from, const pub_cell *to,
+static void change_note(const ug_chart *c, const pub_cell *from, const pub_cell *to,
                         ug_buf *b)
 {
     if (pub_hidden(from->status) || pub_hidden(to->status)) {
-        ug_buf_puts(b, phrase_text(lang, PH_CHANGE_HIDDEN));
+        ug_buf_puts(b, phrase_text(pack_lang(c), PH_CHANGE_HIDDEN));
         return;
     }
     ug_buf_puts(b, " (");
-    change_amount(lang, from->value, to->value, b);
+    change_amount(c, from->value, to->value, b);
     ug_buf_puts(b, ")");
 }
 
@@ -265,13 +321,13 @@ static void category_change_phrase(const ug_allocation *a, size_t i, ug_buf *b)
     if (pub_hidden(from->status))
         pack_placeholder(a, from->status, b);
     else
-        ug_buf_puts(b, phrase_number(pack_lang(a->chart), from->value, 0, n));
-    ug_buf_puts(b, " \u2192 ");
+        ug_buf_puts(b, pack_amount(a->chart, from->value, PHRASE_NEAREST, n));
+    ug_buf_puts(b, phrase_text(pack_lang(a->chart), PH_CHANGE_ARROW));
     if (pub_hidden(to->status))
         pack_placeholder(a, to->status, b);
     else
         pack_count_phrase(a->chart, to->value, b);
-    change_note(pack_lang(a->chart), from, to, b);
+    change_note(a->chart, from, to, b);
 }
 
 static void group_total_phrase(const ug_allocation *a, size_t g, ug_buf *b)
@@ -288,7 +344,7 @@ static void group_change_note(const ug_allocation *a, size_t g, ug_buf *b)
 {
     size_t ref = g == SIZE_MAX ? SIZE_MAX : pack_change_ref(a, g);
     if (ref != SIZE_MAX)
-        change_note(pack_lang(a->chart), &a->pub->group_totals[ref],
+        change_note(a->chart, &a->pub->group_totals[ref],
                     &a->pub->group_totals[g], b);
 }
 
@@ -342,11 +398,11 @@ void pack_category_cell(const ug_allocation *a, size_t g, size_t i, ug_buf *b)
         pack_placeholder(a, cell->status, b);
     } else {
         char n[PHRASE_NUMBER_MAX];
-        ug_buf_puts(b, phrase_number(pack_lang(a->chart), cell->value, 0, n));
+        ug_buf_puts(b, pack_amount(a->chart, cell->value, PHRASE_NEAREST, n));
     }
     size_t ref = pack_change_ref(a, g);
     if (ref != SIZE_MAX)
-        change_note(pack_lang(a->chart), pub_at(a->pub, ref, i), cell, b);
+        change_note(a->chart, pub_at(a->pub, ref, i), cell, b);
 }
 
 /* 100 / cells as a percentage in the chart's language, at most two
@@ -387,7 +443,7 @@ static void share_of_whole(const ug_allocation *a, const char *pct, ug_buf *b)
     if (unit)
         pack_count_phrase(c, (ug_dec){a->group_totals[0].v}, &t);
     else
-        ug_buf_puts(&t, phrase_number(lang, a->group_totals[0], 0, n));
+        ug_buf_puts(&t, pack_amount(c, a->group_totals[0], PHRASE_NEAREST, n));
     ug_buf_add(&t, "", 1);
     if (!t.failed)
         phrase_say(b, lang, unit ? PH_SHARE_OF : PH_SHARE_TOTAL,

@@ -90,6 +90,11 @@ static void caption(ug_buf *b, const ug_allocation *a)
     } else {
         phrase_say_escaped(b, lang, PH_CAP_ICON, "value", ug_dec_format(a->rule.value, v));
     }
+    /* exact figures of money still say which money: the ISO 4217 code */
+    if (c->currency.text) {
+        ug_buf_puts(b, " ");
+        svg_escape_text(b, c->currency.text);
+    }
     if (c->unit_label.text) {
         ug_buf_puts(b, " ");
         svg_escape_text(b, c->unit_label.text);

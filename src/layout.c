@@ -14,6 +14,7 @@
 #include "context.h"
 #include "resolve.h"
 #include "layout_int.h"
+#include "phrase.h"
 
 /* ---- chart keys ---------------------------------------------------------- */
 
@@ -32,6 +33,7 @@ const ug_form_info *ug_form_about(ug_form f)
 
 static const char *const changes[] = {"none", "previous", "first", NULL};
 static const char *const counts_are[] = {"counts", "percent", NULL};
+const char *const layout_number_formats[] = {"plain", "compact", "compact-short", NULL};
 static const char *const roundings[] = {"whole", "partial", NULL};
 static const char *const methods[] = {"largest-remainder", "sainte-lague", "dhondt",
                                       "biproportional", NULL};
@@ -62,6 +64,16 @@ static ug_status key_icon_value(loader *l, void *base, const layout_node *v)
 static ug_status key_lang(loader *l, void *base, const layout_node *v)
 {
     return layout_read_lang(l, v, &((ug_chart *)base)->lang);
+}
+
+static ug_status key_currency(loader *l, void *base, const layout_node *v)
+{
+    char why[200];
+    ug_text *out = &((ug_chart *)base)->currency;
+    ug_status st = layout_read_text(l, v, false, out);
+    if (!st && phrase_check_currency(out->text, why, sizeof why))
+        return ug_fail(l->err, UG_ESCHEMA, v->mark, "%s", why);
+    return st;
 }
 
 #define UG_PLURAL_NAME_(id, name) name,
@@ -410,6 +422,9 @@ static const key_rule chart_keys[] = {
      .mark = CH(icon_value_mark), .flag = CH(has_icon_value)},
     {.name = "unit-label", .kind = K_FN, .fn = key_unit_label},
     {.name = "lang", .kind = K_FN, .fn = key_lang},
+    {.name = "number-format", .kind = K_ENUM, .off = CH(number_format),
+     .mark = CH(number_format_mark), .choices = layout_number_formats},
+    {.name = "currency", .kind = K_FN, .fn = key_currency},
     {.name = "group-label", .kind = K_TEXT, .off = CH(group_label)},
     {.name = "rounding", .kind = K_ENUM, .off = CH(rounding),
      .mark = CH(rounding_mark), .choices = roundings},
@@ -420,6 +435,8 @@ static const key_rule chart_keys[] = {
      .mark = CH(columns_mark)},
     {.name = "cluster", .kind = K_LONG, .off = CH(cluster), .lo = 0, .hi = 1000},
     {.name = "key-place", .kind = K_ENUM, .off = CH(key_place), .choices = key_places},
+    {.name = "direct-labels", .kind = K_BOOL, .off = CH(direct_labels),
+     .mark = CH(direct_labels_mark)},
     {.name = "arrangement", .kind = K_ENUM, .off = CH(arrangement),
      .choices = arrangements},
     {.name = "groups", .kind = K_FN, .fn = key_groups},
@@ -489,6 +506,10 @@ static ug_status check_form(loader *l, ug_chart *c, const layout_node *root)
                            "a rows chart needs 'icon-value' (a number, or auto)");
         if (c->cluster < 0)
             c->cluster = 5;
+        if (c->direct_labels && c->arrangement != UG_ARRANGE_SPLIT)
+            return ug_fail(l->err, UG_ESCHEMA, c->direct_labels_mark,
+                           "'direct-labels' names each category on its own line: "
+                           "it needs 'arrangement: split'");
         if (c->method == UG_METHOD_BIPROPORTIONAL && c->rounding == UG_ROUND_PARTIAL)
             return ug_fail(l->err, UG_ESCHEMA, c->method_mark,
                            "'method: biproportional' rounds to whole icons; it "
@@ -510,6 +531,10 @@ static ug_status check_form(loader *l, ug_chart *c, const layout_node *root)
         return ug_fail(l->err, UG_ESCHEMA, c->rounding_mark,
                        "'rounding: partial' is for rows charts; waffle cells are "
                        "always whole");
+    if (c->direct_labels)
+        return ug_fail(l->err, UG_ESCHEMA, c->direct_labels_mark,
+                       "'direct-labels' is for rows charts with 'arrangement: split'; "
+                       "a waffle's key names its colours");
     if (c->cluster < 0)
         c->cluster = 0;
     return UG_OK;
@@ -653,6 +678,14 @@ static ug_status check_percent_keys(loader *l, const ug_chart *c)
         return ug_fail(l->err, UG_ESCHEMA, c->icon_value_mark,
                        "'icon-value' is a count per icon; a percent waffle "
                        "states 'cells' (default 100, one per percent)");
+    if (c->currency.text)
+        return ug_fail(l->err, UG_ESCHEMA, c->currency.mark,
+                       "'currency' makes the counts sums of money; a percent "
+                       "chart's figures are shares: leave 'currency' out");
+    if (c->number_format != UG_NUMBERS_PLAIN)
+        return ug_fail(l->err, UG_ESCHEMA, c->number_format_mark,
+                       "'number-format' writes large counts in words; a percent "
+                       "chart's figures are shares of at most 100: leave it out");
     if (c->change != UG_CHANGE_NONE)
         return ug_fail(l->err, UG_ESCHEMA, c->change_mark,
                        "'change' states differences of counts; a change of shares "

@@ -37,6 +37,10 @@ typedef enum {
 } key_kind;
 
 typedef struct key_rule key_rule;
+/* The most keys one table may hold (the chart's has 33); the walker marks
+** which it has seen in an array this long. */
+#define LAYOUT_MAX_KEYS 64
+
 typedef ug_status (*key_fn)(loader *l, void *base, const layout_node *v);
 
 /* One key a mapping may hold. Offsets are into the struct being filled;
@@ -67,6 +71,8 @@ bool layout_is_null(const layout_node *n);
 ug_status layout_want_scalar(loader *l, const layout_node *n, const char *what);
 ug_status layout_read_text(loader *l, const layout_node *n, bool multiline, ug_text *out);
 ug_status layout_read_lang(loader *l, const layout_node *n, ug_text *out);
+/* `number-format`'s names, by ug_number_format, for a chart and a page. */
+extern const char *const layout_number_formats[];
 ug_status layout_read_text_list(loader *l, const layout_node *n, ug_text_list *out);
 ug_status layout_read_dec(loader *l, const layout_node *n, ug_dec *out);
 ug_status layout_read_type_scale(loader *l, const layout_node *v, const key_rule *roles,

@@ -380,7 +380,7 @@ ug_status layout_walk_map(loader *l, void *base, const layout_node *map,
     if (map->kind != LAYOUT_MAP)
         return ug_fail(l->err, UG_ESCHEMA, map->mark, "'%s' expects a mapping, not %s",
                        l->key ? l->key : "the file", layout_kind_name(map));
-    ug_mark seen[32] = {{0}};
+    ug_mark seen[LAYOUT_MAX_KEYS] = {{0}};
     const layout_node *prev_k = NULL;
     for (const layout_node *k = map->first; k; prev_k = k, k = k->next->next) {
         const layout_node *v = k->next;
@@ -392,7 +392,7 @@ ug_status layout_walk_map(loader *l, void *base, const layout_node *map,
             i++;
         if (!t[i].name)
             return unknown_key(l, k, t, prev_k);
-        assert(i < 32);
+        assert(i < LAYOUT_MAX_KEYS);
         if (seen[i].line)
             return ug_fail(l->err, UG_ESCHEMA, k->mark,
                            "duplicate key '%s' (first at line %u)", k->text,

@@ -178,6 +178,8 @@ static const key_rule page_keys[] = {
     {.name = "title", .kind = K_TEXT, .off = PG(title)},
     {.name = "source", .kind = K_LIST, .off = PG(source)},
     {.name = "lang", .kind = K_FN, .fn = key_page_lang},
+    {.name = "number-format", .kind = K_ENUM, .off = PG(number_format),
+     .mark = PG(number_format_mark), .choices = layout_number_formats},
     {.name = "panels", .kind = K_FN, .fn = key_panels, .mark = PG(panels_mark)},
     {.name = "shared-scale", .kind = K_BOOL, .off = PG(shared_scale),
      .mark = PG(shared_scale_mark)},
@@ -217,13 +219,17 @@ static ug_status check_shared_scale(const ug_page *p, ug_error *err)
     return UG_OK;
 }
 
-/* A panel's chart speaks the page's language unless it names its own,
-** takes the page's type scale unless it states one, and the panel's icon
-** size and line length over its own (the page owns its charts). */
+/* A panel's chart speaks the page's language and writes its numbers as the
+** page does unless it says otherwise (a percent chart's shares are never
+** compact), takes the page's type scale unless it states one, and the
+** panel's icon size and line length over its own (the page owns its
+** charts). */
 static void adapt_chart(const ug_page *p, const ug_panel *pn, ug_chart *c)
 {
     if (p->lang.text && !c->lang.text)
         c->lang = p->lang;
+    if (p->number_format_mark.line && !c->number_format_mark.line && !chart_is_percent(c))
+        c->number_format = p->number_format;
     if (!c->style.type_mark.line) {
         c->style.type[UG_TYPE_TITLE] = p->type[UG_PAGE_TYPE_PANEL_TITLE];
         c->style.type[UG_TYPE_SUBTITLE] = p->type[UG_PAGE_TYPE_SUBTITLE];

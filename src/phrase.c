@@ -12,6 +12,8 @@
 #include <stdio.h>
 #include <string.h>
 
+#include <unicode/ucurr.h>
+#include <unicode/uenum.h>
 #include <unicode/uloc.h>
 #include <unicode/unumberformatter.h>
 #include <unicode/upluralrules.h>
@@ -128,45 +130,52 @@ static const char *category_name(const UChar *u)
     return "other";
 }
 
-/* Formats d once and reads both the text and its plural category from the
-** same formatted number, so visible fraction digits count as CLDR says. */
 /* ICU builds a number formatter and plural rules from the locale's data each
 ** time one is opened, which was a fifth of a batch's time: they are opened
 ** once per locale and skeleton and kept for the process. Both are immutable
 ** and safe to use from several threads at once (ICU's LocalizedNumberFormatter
 ** and PluralRules are thread-safe for formatting and selecting); the lock
 ** guards only the table. A full table opens and closes per call as before. */
-#define ICU_CACHE 24
+#define ICU_CACHE 32
+#define SKELETON_MAX 64
 
 static struct {
     char id[ULOC_FULLNAME_CAPACITY];
-    UChar skel[16];
+    char skel[SKELETON_MAX];
     UNumberFormatter *f;
     UPluralRules *rules;
 } icu_cache[ICU_CACHE];
 static size_t icu_cached;
 static pthread_mutex_t icu_lock = PTHREAD_MUTEX_INITIALIZER;
 
+static UNumberFormatter *open_formatter(const char *id, const char *skel, UErrorCode *st)
+{
+    UChar u[SKELETON_MAX];
+    u_uastrncpy(u, skel, SKELETON_MAX - 1);
+    u[SKELETON_MAX - 1] = 0;
+    return unumf_openForSkeletonAndLocale(u, -1, id, st);
+}
+
 /* The cached formatter and rules for id and skel; false when the table is
 ** full or ICU fails (the caller then opens its own). */
-static bool cached_icu(const char *id, const UChar *skel, UNumberFormatter **f,
+static bool cached_icu(const char *id, const char *skel, UNumberFormatter **f,
                        UPluralRules **rules)
 {
     bool ok = false;
     pthread_mutex_lock(&icu_lock);
     for (size_t i = 0; i < icu_cached && !ok; i++)
-        if (!strcmp(icu_cache[i].id, id) && !u_strcmp(icu_cache[i].skel, skel)) {
+        if (!strcmp(icu_cache[i].id, id) && !strcmp(icu_cache[i].skel, skel)) {
             *f = icu_cache[i].f, *rules = icu_cache[i].rules;
             ok = true;
         }
-    if (!ok && icu_cached < ICU_CACHE) {
+    if (!ok && icu_cached < ICU_CACHE && strlen(skel) < SKELETON_MAX) {
         UErrorCode st = U_ZERO_ERROR;
-        UNumberFormatter *nf = unumf_openForSkeletonAndLocale(skel, -1, id, &st);
+        UNumberFormatter *nf = open_formatter(id, skel, &st);
         UPluralRules *pr = U_SUCCESS(st) ? uplrules_open(id, &st) : NULL;
         if (U_SUCCESS(st)) {
             size_t i = icu_cached++;
             snprintf(icu_cache[i].id, sizeof icu_cache[i].id, "%s", id);
-            u_strcpy(icu_cache[i].skel, skel);
+            snprintf(icu_cache[i].skel, sizeof icu_cache[i].skel, "%s", skel);
             icu_cache[i].f = *f = nf;
             icu_cache[i].rules = *rules = pr;
             ok = true;
@@ -179,22 +188,22 @@ static bool cached_icu(const char *id, const UChar *skel, UNumberFormatter **f,
     return ok;
 }
 
-static bool format_icu(const char *lang, ug_dec d, int min_frac, bool percent,
-                       char *buf, const char **plural)
+/* d written by ICU with the number skeleton skel (ICU's "Number Skeletons"
+** syntax). Formats d once and reads both the text and its plural category
+** from the same formatted number, so visible fraction digits (and a compact
+** number's exponent) count as CLDR says. */
+static bool format_icu(const char *lang, const char *skel, ug_dec d, char *buf,
+                       const char **plural)
 {
     char id[ULOC_FULLNAME_CAPACITY], raw[64];
-    UChar skel[16] = {0}, text[PHRASE_NUMBER_MAX / 2], cat[16];
+    UChar text[PHRASE_NUMBER_MAX / 2], cat[16];
     UErrorCode st = U_ZERO_ERROR;
     locale_id(lang, id, sizeof id);
-    for (int k = 0; min_frac > 0 && k <= min_frac && k < 8; k++)
-        skel[k] = k ? u'0' : u'.';
-    if (percent)
-        u_uastrcpy(skel, "percent");
     UNumberFormatter *f = NULL;
     UPluralRules *rules = NULL;
     bool own = !cached_icu(id, skel, &f, &rules);
     if (own)
-        f = unumf_openForSkeletonAndLocale(skel, -1, id, &st);
+        f = open_formatter(id, skel, &st);
     UFormattedNumber *r = unumf_openResult(&st);
     unumf_formatDecimal(f, ug_dec_format(d, raw), -1, r, &st);
     int32_t n = unumf_resultToString(r, text, PHRASE_NUMBER_MAX / 2, &st);
@@ -214,25 +223,126 @@ static bool format_icu(const char *lang, ug_dec d, int min_frac, bool percent,
     return U_SUCCESS(st) && st != U_STRING_NOT_TERMINATED_WARNING;
 }
 
+/* "" or ".000": exactly min_frac fraction digits (at most 7). */
+static const char *fraction_skeleton(int min_frac, char *skel)
+{
+    int k = 0;
+    if (min_frac > 0)
+        for (skel[k++] = '.'; k <= min_frac && k < 8; k++)
+            skel[k] = '0';
+    skel[k] = '\0';
+    return skel;
+}
+
 char *phrase_number(const char *lang, ug_dec d, int min_frac, char *buf)
 {
-    if (!format_icu(lang, d, min_frac, false, buf, NULL))
+    char skel[16];
+    if (!format_icu(lang, fraction_skeleton(min_frac, skel), d, buf, NULL))
         ug_dec_format(d, buf);
     return buf;
 }
 
 char *phrase_percent(const char *lang, ug_dec d, char *buf)
 {
-    if (!format_icu(lang, d, 0, true, buf, NULL))
+    if (!format_icu(lang, "percent", d, buf, NULL))
+        strcat(ug_dec_format(d, buf), "%");
+    return buf;
+}
+
+char *phrase_percent_change(const char *lang, ug_dec d, char *buf)
+{
+    if (!format_icu(lang, "percent sign-except-zero", d, buf, NULL))
         strcat(ug_dec_format(d, buf), "%");
     return buf;
 }
 
 const char *phrase_plural(const char *lang, ug_dec d, int min_frac)
 {
-    char buf[PHRASE_NUMBER_MAX];
+    char buf[PHRASE_NUMBER_MAX], skel[16];
     const char *cat = "other";
-    return format_icu(lang, d, min_frac, false, buf, &cat) ? cat : "other";
+    return format_icu(lang, fraction_skeleton(min_frac, skel), d, buf, &cat) ? cat
+                                                                             : "other";
+}
+
+/* ---- amounts: compact numbers and money ---------------------------------- */
+
+static bool is_whole(ug_dec d)
+{
+    return d.v % UG_DEC_SCALE == 0;
+}
+
+/* The ICU skeleton for an amount. Compact numbers keep one decimal
+** ("412.5 million": a tenth of the unit word is as close as a reader takes
+** in); money not compacted is whole when the amount is, else in the
+** currency's own minor unit (CLDR's currency data, "€12.50"). Which way the
+** last digit goes follows what the sentence claims: a lower bound ("more
+** than") rounds down and an upper bound ("fewer than") up, so rounding never
+** makes a true statement false; anything else rounds half up, as people
+** round by hand (common practice, no source). */
+static void amount_skeleton(const phrase_numbers *how, ug_dec d, phrase_rounding r,
+                            char *skel, size_t size)
+{
+    static const char *const modes[] = {
+        [PHRASE_NEAREST] = "rounding-mode-half-up",
+        [PHRASE_DOWN] = "rounding-mode-floor",
+        [PHRASE_UP] = "rounding-mode-ceiling",
+    };
+    size_t o = 0;
+    if (how->compact) /* CLDR has no long words for money: "€412.5M" */
+        o += (size_t)snprintf(skel, size, "%s ", how->short_words || how->currency
+                                                     ? "compact-short"
+                                                     : "compact-long");
+    if (how->currency)
+        o += (size_t)snprintf(skel + o, size - o, "currency/%s ", how->currency);
+    if (how->sign)
+        o += (size_t)snprintf(skel + o, size - o, "sign-except-zero ");
+    if (how->compact || how->currency)
+        o += (size_t)snprintf(skel + o, size - o, "%s ",
+                              how->compact  ? ".#"
+                              : is_whole(d) ? "precision-integer"
+                                            : "precision-currency-standard");
+    snprintf(skel + o, o < size ? size - o : 0, "%s", modes[r]);
+}
+
+char *phrase_amount(const char *lang, const phrase_numbers *how, ug_dec d,
+                    phrase_rounding r, char *buf, const char **plural)
+{
+    char skel[SKELETON_MAX];
+    if (plural)
+        *plural = "other";
+    if (!how || (!how->compact && !how->currency && !how->sign)) {
+        phrase_number(lang, d, 0, buf);
+        if (plural)
+            *plural = phrase_plural(lang, d, 0);
+        return buf;
+    }
+    amount_skeleton(how, d, r, skel, sizeof skel);
+    if (!format_icu(lang, skel, d, buf, plural))
+        ug_dec_format(d, buf);
+    return buf;
+}
+
+ug_status phrase_check_currency(const char *code, char *why, size_t size)
+{
+    bool known = false;
+    UErrorCode st = U_ZERO_ERROR;
+    bool shaped = strlen(code) == 3;
+    for (size_t k = 0; shaped && k < 3; k++)
+        shaped = code[k] >= 'A' && code[k] <= 'Z';
+    /* ICU's list of ISO 4217 codes in use, not a table of our own */
+    UEnumeration *all = shaped ? ucurr_openISOCurrencies(UCURR_COMMON | UCURR_NON_DEPRECATED,
+                                                         &st) : NULL;
+    const char *c;
+    while (all && U_SUCCESS(st) && !known && (c = uenum_next(all, NULL, &st)))
+        known = !strcmp(c, code);
+    uenum_close(all);
+    if (known)
+        return UG_OK;
+    snprintf(why, size, shaped ? "'currency' %s is not an ISO 4217 code in use (such as "
+                                 "EUR, USD or PLN)"
+                               : "'currency' expects an ISO 4217 code in capitals, such "
+                                 "as EUR, USD or PLN (found '%s')", code);
+    return UG_ESCHEMA;
 }
 
 /* ---- messages ------------------------------------------------------------ */

@@ -21,10 +21,13 @@ typedef enum {
     PH_EACH_SQUARE,
     PH_KEY,         /* {each} = {count} */
     PH_IS,          /* {each} is {count} */
-    PH_COUNT,       /* {n} {unit} */
+    PH_COUNT,       /* {n} {unit}, by {n}'s plural form: "1 million de ménages" */
+    PH_COUNT_ELIDED, /* the same before a unit that elides: "d’habitants" */
+    PH_ELIDE_BEFORE, /* the letters a unit may start with to elide; "": never */
     PH_ICONS,       /* plural by {n}: "12 icons" */
     PH_SQUARES,
     PH_FEWER,       /* fewer than {n} */
+    PH_LESS,        /* less than {n}: an amount of money, not a count */
     PH_NOT_SHOWN,
     PH_MORE,        /* more than {n} */
     PH_AT_LEAST,
@@ -50,6 +53,7 @@ typedef enum {
     PH_FOR_SHOWN,   /* " for the counts shown", after a category's icons */
     PH_NOTE_ROUNDED, /* counts rounded to multiples of {n} */
     PH_NOTE_SMALL,  /* {from} to {to} not shown ({label}) */
+    PH_NOTE_SMALL_MONEY, /* amounts below {n} not shown ({label}): cents too */
     PH_NOTE_COMPLEMENT, /* larger counts hidden too ({label}) */
     PH_NOTE_REQUESTED, /* marked {label}: withheld */
     PH_NOTE_WITHHELD, /* marked {label}: withheld by the source */
@@ -57,6 +61,8 @@ typedef enum {
     PH_NOTE_ZEROS,  /* zeros shown as {zero} */
     PH_CHANGE_HIDDEN, /* " (change not shown)" */
     PH_CHANGE_FROM, /* From {from} to {to}:  */
+    PH_CHANGE_ARROW, /* " \u2192 " from one period's count to the next; points the
+                     ** way the text reads (an arrow is not mirrored by bidi) */
     PH_BOTH_TOTALS, /* biproportional: {group} {icons} {all} */
     PH_ICONS_WORD,  /* "icons" alone */
     PH_SQUARES_WORD, /* "squares" alone */
@@ -103,9 +109,33 @@ const char *phrase_text(const char *lang, phrase_id id);
 char *phrase_number(const char *lang, ug_dec d, int min_frac, char *buf);
 /* d as a percentage in lang ("1%", "0,5 %"): d is already in percent. */
 char *phrase_percent(const char *lang, ug_dec d, char *buf);
+/* A change in percent with its sign ("+8%", "-3 %"); 0 without one. */
+char *phrase_percent_change(const char *lang, ug_dec d, char *buf);
 /* The CLDR plural category of d as phrase_number writes it ("one", "few",
 ** "other"...), from ICU's plural rules. */
 const char *phrase_plural(const char *lang, ug_dec d, int min_frac);
+/* How a chart writes its amounts (`number-format`, `currency`): plain
+** numbers by default; compact ("412.5 million", "412,5 Mio.") with CLDR's
+** long words, or its short ones ("412.5M"); money in an ISO 4217 currency. */
+typedef struct {
+    bool compact, short_words;
+    const char *currency; /* NULL: not money */
+    bool sign;            /* a change: "+34", "-12", with the language's signs */
+} phrase_numbers;
+
+/* Which way an amount's last shown digit is rounded: to the nearest (half
+** up), or down for a lower bound and up for an upper bound. */
+typedef enum { PHRASE_NEAREST, PHRASE_DOWN, PHRASE_UP } phrase_rounding;
+
+/* d as an amount in lang, by how (NULL: plain, as phrase_number); *plural,
+** when asked for, is the CLDR plural category of the text written ("1.2
+** million" is `many` in French). Never fails: the plain digits on an ICU
+** error. */
+char *phrase_amount(const char *lang, const phrase_numbers *how, ug_dec d,
+                    phrase_rounding r, char *buf, const char **plural);
+/* UG_OK when code is an ISO 4217 code ICU knows as in use; else UG_ESCHEMA
+** with why. */
+ug_status phrase_check_currency(const char *code, char *why, size_t size);
 /* The form of a plural-forms text ("one=icon|other=icons") for category; the
 ** `other` form when category has none; the whole text when it has no forms. */
 void phrase_pick_form(const char *forms, const char *category, ug_buf *b);

@@ -19,9 +19,12 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} is {count}",
         [PH_COUNT] = "{n} {unit}",
+        [PH_COUNT_ELIDED] = "{n} {unit}",
+        [PH_ELIDE_BEFORE] = "",
         [PH_ICONS] = "one={n} icon|other={n} icons",
         [PH_SQUARES] = "one={n} square|other={n} squares",
         [PH_FEWER] = "fewer than {n}",
+        [PH_LESS] = "less than {n}",
         [PH_NOT_SHOWN] = "not shown",
         [PH_MORE] = "more than {n}",
         [PH_AT_LEAST] = "at least {n}",
@@ -53,6 +56,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_FOR_SHOWN] = " for the counts shown",
         [PH_NOTE_ROUNDED] = "Counts are rounded to multiples of {n} to protect privacy.",
         [PH_NOTE_SMALL] = "Counts of {from} to {to} are not shown (\u201c{label}\u201d).",
+        [PH_NOTE_SMALL_MONEY] = "Amounts below {n} are not shown (\u201c{label}\u201d).",
         [PH_NOTE_COMPLEMENT] = "Some larger counts are not shown either "
                             "(\u201c{label}\u201d), so that the small ones cannot be "
                             "worked out from totals.",
@@ -63,6 +67,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ZEROS] = "Zero counts are shown as {zero}.",
         [PH_CHANGE_HIDDEN] = " (change not shown)",
         [PH_CHANGE_FROM] = "From {from} to {to}: ",
+        [PH_CHANGE_ARROW] = " \u2192 ",
         [PH_BOTH_TOTALS] = "Both totals agree: each {group}'s {icons} and each category's "
                             "{icons} add up to its own share of all {all}",
         [PH_ICONS_WORD] = "icons",
@@ -82,10 +87,13 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_EACH_SQUARE] = "Cada cuadrado",
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} equivale a {count}",
-        [PH_COUNT] = "{n} {unit}",
+        [PH_COUNT] = "many={n} de {unit}|other={n} {unit}",
+        [PH_COUNT_ELIDED] = "many={n} de {unit}|other={n} {unit}", /* never elides */
+        [PH_ELIDE_BEFORE] = "",
         [PH_ICONS] = "one={n} icono|many={n} de iconos|other={n} iconos",
         [PH_SQUARES] = "one={n} cuadrado|many={n} de cuadrados|other={n} cuadrados",
         [PH_FEWER] = "menos de {n}",
+        [PH_LESS] = "menos de {n}",
         [PH_NOT_SHOWN] = "no se muestra",
         [PH_MORE] = "más de {n}",
         [PH_AT_LEAST] = "al menos {n}",
@@ -100,6 +108,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = ": ",
+        [PH_DETAIL_SEP] = " \u00b7 ",
         [PH_GROUP_LEAD] = "{group}, {total} en total{change}: ",
         [PH_SHARE_OF] = "{pct} del total de {count}{shown}",
         [PH_SHARE_EACH] = "{pct} de {unit}{shown} de cada {group}",
@@ -117,6 +126,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ROUNDED] = "Los recuentos se redondean a múltiplos de {n} para proteger "
                             "la privacidad.",
         [PH_NOTE_SMALL] = "No se muestran los recuentos de {from} a {to} («{label}»).",
+        [PH_NOTE_SMALL_MONEY] = "No se muestran los importes inferiores a {n} («{label}»).",
         [PH_NOTE_COMPLEMENT] = "Tampoco se muestran algunos recuentos mayores («{label}»), "
                             "para que los pequeños no puedan deducirse de los totales.",
         [PH_NOTE_REQUESTED] = "Los recuentos marcados «{label}» no se publican.",
@@ -126,6 +136,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ZEROS] = "Los recuentos nulos se muestran como {zero}.",
         [PH_CHANGE_HIDDEN] = " (cambio no mostrado)",
         [PH_CHANGE_FROM] = "De {from} a {to}: ",
+        [PH_CHANGE_ARROW] = " \u2192 ",
         [PH_BOTH_TOTALS] = "Ambos totales coinciden: los {icons} de cada {group} y los de "
                             "cada categoría suman su propia parte del total de {all}",
         [PH_ICONS_WORD] = "iconos",
@@ -145,10 +156,13 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_EACH_SQUARE] = "Chaque carré",
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} représente {count}",
-        [PH_COUNT] = "{n} {unit}",
+        [PH_COUNT] = "many={n} de {unit}|other={n} {unit}",
+        [PH_COUNT_ELIDED] = "many={n} d’{unit}|other={n} {unit}",
+        [PH_ELIDE_BEFORE] = "aâàæeéèêëiîïoôœuùûüyhAÂÀÆEÉÈÊËIÎÏOÔŒUÙÛÜYH",
         [PH_ICONS] = "one={n} icône|many={n} d’icônes|other={n} icônes",
         [PH_SQUARES] = "one={n} carré|many={n} de carrés|other={n} carrés",
         [PH_FEWER] = "moins de {n}",
+        [PH_LESS] = "moins de {n}",
         [PH_NOT_SHOWN] = "non affiché",
         [PH_MORE] = "plus de {n}",
         [PH_AT_LEAST] = "au moins {n}",
@@ -163,6 +177,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = "\u00a0: ",
+        [PH_DETAIL_SEP] = " \u00b7 ",
         [PH_GROUP_LEAD] = "{group}, {total} au total{change}\u00a0: ",
         [PH_SHARE_OF] = "{pct} du total de {count}{shown}",
         [PH_SHARE_EACH] = "{pct} des {unit}{shown} de chaque {group}",
@@ -181,6 +196,8 @@ const phrase_catalog phrase_catalogs[] = {
                             "protéger la vie privée.",
         [PH_NOTE_SMALL] = "Les effectifs de {from} à {to} ne sont pas affichés "
                             "(«\u00a0{label}\u00a0»).",
+        [PH_NOTE_SMALL_MONEY] = "Les montants inférieurs à {n} ne sont pas affichés "
+                            "(«\u00a0{label}\u00a0»).",
         [PH_NOTE_COMPLEMENT] = "Certains effectifs plus grands ne sont pas affichés non "
                             "plus («\u00a0{label}\u00a0»), afin que les petits ne puissent "
                             "pas être déduits des totaux.",
@@ -192,6 +209,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ZEROS] = "Les effectifs nuls sont affichés sous la forme {zero}.",
         [PH_CHANGE_HIDDEN] = " (évolution non affichée)",
         [PH_CHANGE_FROM] = "De {from} à {to}\u00a0: ",
+        [PH_CHANGE_ARROW] = " \u2192 ",
         [PH_BOTH_TOTALS] = "Les deux totaux concordent\u00a0: les {icons} de chaque {group} comme de chaque "
                             "catégorie forment leur propre part du total de {all}",
         [PH_ICONS_WORD] = "icônes",
@@ -212,9 +230,12 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} steht für {count}",
         [PH_COUNT] = "{n} {unit}",
+        [PH_COUNT_ELIDED] = "{n} {unit}", /* never elides */
+        [PH_ELIDE_BEFORE] = "",
         [PH_ICONS] = "one={n} Symbol|other={n} Symbole",
         [PH_SQUARES] = "one={n} Quadrat|other={n} Quadrate",
         [PH_FEWER] = "weniger als {n}",
+        [PH_LESS] = "weniger als {n}",
         [PH_NOT_SHOWN] = "nicht angezeigt",
         [PH_MORE] = "mehr als {n}",
         [PH_AT_LEAST] = "mindestens {n}",
@@ -229,6 +250,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = ": ",
+        [PH_DETAIL_SEP] = " \u00b7 ",
         [PH_GROUP_LEAD] = "{group}, insgesamt {total}{change}: ",
         [PH_SHARE_OF] = "{pct} der {count}{shown}",
         [PH_SHARE_EACH] = "{pct} der {unit}{shown} je {group}",
@@ -246,6 +268,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ROUNDED] = "Die Zahlen sind zum Schutz der Privatsphäre auf Vielfache von "
                             "{n} gerundet.",
         [PH_NOTE_SMALL] = "Zahlen von {from} bis {to} werden nicht angezeigt („{label}“).",
+        [PH_NOTE_SMALL_MONEY] = "Beträge unter {n} werden nicht angezeigt („{label}“).",
         [PH_NOTE_COMPLEMENT] = "Auch einige größere Zahlen werden nicht angezeigt "
                             "(„{label}“), damit sich die kleinen nicht aus den Summen "
                             "errechnen lassen.",
@@ -256,6 +279,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ZEROS] = "Nullwerte werden als {zero} angezeigt.",
         [PH_CHANGE_HIDDEN] = " (Veränderung nicht angezeigt)",
         [PH_CHANGE_FROM] = "Von {from} bis {to}: ",
+        [PH_CHANGE_ARROW] = " \u2192 ",
         [PH_BOTH_TOTALS] = "Beide Summen stimmen: die {icons} je {group} und je Kategorie "
                             "ergeben jeweils ihren eigenen Anteil an allen {all}",
         [PH_ICONS_WORD] = "Symbole",
@@ -275,10 +299,13 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_EACH_SQUARE] = "Cada quadrado",
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} equivale a {count}",
-        [PH_COUNT] = "{n} {unit}",
+        [PH_COUNT] = "many={n} de {unit}|other={n} {unit}",
+        [PH_COUNT_ELIDED] = "many={n} de {unit}|other={n} {unit}", /* never elides */
+        [PH_ELIDE_BEFORE] = "",
         [PH_ICONS] = "one={n} ícone|many={n} de ícones|other={n} ícones",
         [PH_SQUARES] = "one={n} quadrado|many={n} de quadrados|other={n} quadrados",
         [PH_FEWER] = "menos de {n}",
+        [PH_LESS] = "menos de {n}",
         [PH_NOT_SHOWN] = "não mostrado",
         [PH_MORE] = "mais de {n}",
         [PH_AT_LEAST] = "pelo menos {n}",
@@ -293,6 +320,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = ": ",
+        [PH_DETAIL_SEP] = " \u00b7 ",
         [PH_GROUP_LEAD] = "{group}, {total} no total{change}: ",
         [PH_SHARE_OF] = "{pct} do total de {count}{shown}",
         [PH_SHARE_EACH] = "{pct} de {unit}{shown} de cada {group}",
@@ -310,6 +338,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ROUNDED] = "As contagens são arredondadas para múltiplos de {n} para "
                             "proteger a privacidade.",
         [PH_NOTE_SMALL] = "Contagens de {from} a {to} não são mostradas (“{label}”).",
+        [PH_NOTE_SMALL_MONEY] = "Valores abaixo de {n} não são mostrados (“{label}”).",
         [PH_NOTE_COMPLEMENT] = "Algumas contagens maiores também não são mostradas "
                             "(“{label}”), para que as pequenas não possam ser deduzidas "
                             "dos totais.",
@@ -320,6 +349,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ZEROS] = "Contagens nulas são mostradas como {zero}.",
         [PH_CHANGE_HIDDEN] = " (variação não mostrada)",
         [PH_CHANGE_FROM] = "De {from} a {to}: ",
+        [PH_CHANGE_ARROW] = " \u2192 ",
         [PH_BOTH_TOTALS] = "Os dois totais coincidem: os {icons} de cada {group} e os de "
                             "cada categoria somam a sua própria parte do total de {all}",
         [PH_ICONS_WORD] = "ícones",
@@ -340,10 +370,13 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} oznacza {count}",
         [PH_COUNT] = "{n} {unit}",
+        [PH_COUNT_ELIDED] = "{n} {unit}", /* never elides */
+        [PH_ELIDE_BEFORE] = "",
         [PH_ICONS] = "one={n} ikona|few={n} ikony|many={n} ikon|other={n} ikony",
         [PH_SQUARES] = "one={n} kwadrat|few={n} kwadraty|many={n} kwadratów"
                        "|other={n} kwadratu",
         [PH_FEWER] = "mniej niż {n}",
+        [PH_LESS] = "mniej niż {n}",
         [PH_NOT_SHOWN] = "nie pokazano",
         [PH_MORE] = "ponad {n}",
         [PH_AT_LEAST] = "co najmniej {n}",
@@ -358,6 +391,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_PAREN] = "({text})",
         [PH_LIST_SEP] = ", ",
         [PH_LABEL_SEP] = ": ",
+        [PH_DETAIL_SEP] = " \u00b7 ",
         [PH_GROUP_LEAD] = "{group}, łącznie {total}{change}: ",
         [PH_SHARE_OF] = "{pct} z {count}{shown}",
         [PH_SHARE_EACH] = "{pct}: {unit}{shown}, osobno w każdej pozycji ({group})",
@@ -376,6 +410,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ROUNDED] = "Liczby zaokrąglono do wielokrotności {n} w celu ochrony "
                             "prywatności.",
         [PH_NOTE_SMALL] = "Liczby od {from} do {to} nie są pokazane („{label}”).",
+        [PH_NOTE_SMALL_MONEY] = "Kwoty poniżej {n} nie są pokazane („{label}”).",
         [PH_NOTE_COMPLEMENT] = "Niektóre większe liczby również nie są pokazane "
                             "(„{label}”), aby małych nie dało się wyliczyć z sum.",
         [PH_NOTE_REQUESTED] = "Liczby oznaczone „{label}” nie są publikowane.",
@@ -385,6 +420,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ZEROS] = "Zerowe liczby są pokazane jako {zero}.",
         [PH_CHANGE_HIDDEN] = " (zmiana niepokazana)",
         [PH_CHANGE_FROM] = "Od {from} do {to}: ",
+        [PH_CHANGE_ARROW] = " \u2192 ",
         [PH_BOTH_TOTALS] = "Obie sumy się zgadzają: {icons} w każdej pozycji ({group}) i w "
                             "każdej kategorii dają jej własny udział w łącznej liczbie: "
                             "{all}",
@@ -406,11 +442,14 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each} يمثل {count}",
         [PH_COUNT] = "{n} {unit}",
+        [PH_COUNT_ELIDED] = "{n} {unit}", /* never elides */
+        [PH_ELIDE_BEFORE] = "",
         [PH_ICONS] = "zero={n} رمز|one=رمز واحد|two=رمزان|few={n} رموز"
                      "|many={n} رمزًا|other={n} رمز",
         [PH_SQUARES] = "zero={n} مربع|one=مربع واحد|two=مربعان|few={n} مربعات"
                        "|many={n} مربعًا|other={n} مربع",
         [PH_FEWER] = "أقل من {n}",
+        [PH_LESS] = "أقل من {n}",
         [PH_NOT_SHOWN] = "غير معروض",
         [PH_MORE] = "أكثر من {n}",
         [PH_AT_LEAST] = "{n} على الأقل",
@@ -450,6 +489,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_FOR_SHOWN] = " للأعداد المعروضة",
         [PH_NOTE_ROUNDED] = "قُرِّبت الأعداد إلى مضاعفات {n} لحماية الخصوصية.",
         [PH_NOTE_SMALL] = "لا تُعرض الأعداد من {from} إلى {to} («{label}»).",
+        [PH_NOTE_SMALL_MONEY] = "لا تُعرض المبالغ الأقل من {n} («{label}»).",
         [PH_NOTE_COMPLEMENT] = "ولا تُعرض أيضًا بعض الأعداد الأكبر («{label}»)، كي لا يمكن "
                             "استنتاج الأعداد الصغيرة من المجاميع.",
         [PH_NOTE_REQUESTED] = "الأعداد المشار إليها بـ«{label}» محجوبة.",
@@ -458,6 +498,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ZEROS] = "تُعرض الأعداد الصفرية على شكل {zero}.",
         [PH_CHANGE_HIDDEN] = " (التغيّر غير معروض)",
         [PH_CHANGE_FROM] = "من {from} إلى {to}: ",
+        [PH_CHANGE_ARROW] = " \u2190 ",
         [PH_BOTH_TOTALS] = "يتطابق المجموعان: {icons} كل {group} و{icons} كل فئة تساوي "
                             "حصتها من مجموع {all}",
         [PH_ICONS_WORD] = "رموز",
@@ -478,9 +519,12 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_KEY] = "{each} = {count}",
         [PH_IS] = "{each}代表 {count}",
         [PH_COUNT] = "{n} {unit}",
+        [PH_COUNT_ELIDED] = "{n} {unit}", /* never elides */
+        [PH_ELIDE_BEFORE] = "",
         [PH_ICONS] = "other={n} 个图标",
         [PH_SQUARES] = "other={n} 个方格",
         [PH_FEWER] = "少于 {n}",
+        [PH_LESS] = "少于 {n}",
         [PH_NOT_SHOWN] = "未显示",
         [PH_MORE] = "超过 {n}",
         [PH_AT_LEAST] = "至少 {n}",
@@ -495,6 +539,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_PAREN] = "（{text}）",
         [PH_LIST_SEP] = "，",
         [PH_LABEL_SEP] = "：",
+        [PH_DETAIL_SEP] = " \u00b7 ",
         [PH_GROUP_LEAD] = "{group}，共 {total}{change}：",
         [PH_SHARE_OF] = "{count}{shown}的 {pct}",
         [PH_SHARE_EACH] = "每个{group}的{unit}{shown}的 {pct}",
@@ -511,6 +556,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_FOR_SHOWN] = "（仅计已显示的数）",
         [PH_NOTE_ROUNDED] = "为保护隐私，数字已取整为 {n} 的倍数。",
         [PH_NOTE_SMALL] = "{from} 至 {to} 的数字不予显示（“{label}”）。",
+        [PH_NOTE_SMALL_MONEY] = "低于 {n} 的金额不予显示（“{label}”）。",
         [PH_NOTE_COMPLEMENT] = "部分较大的数字也不予显示（“{label}”），以免从合计推算出较小的数字。",
         [PH_NOTE_REQUESTED] = "标为“{label}”的数字不予公布。",
         [PH_NOTE_WITHHELD] = "标为“{label}”的数字由来源方隐去。",
@@ -518,6 +564,7 @@ const phrase_catalog phrase_catalogs[] = {
         [PH_NOTE_ZEROS] = "零值显示为 {zero}。",
         [PH_CHANGE_HIDDEN] = "（变化未显示）",
         [PH_CHANGE_FROM] = "从{from}到{to}：",
+        [PH_CHANGE_ARROW] = " \u2192 ",
         [PH_BOTH_TOTALS] = "两个合计一致：每个{group}的{icons}和每个类别的{icons}都等于其在全部 {all}中应得的份额",
         [PH_ICONS_WORD] = "图标",
         [PH_SQUARES_WORD] = "方格",

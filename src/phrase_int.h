@@ -1,6 +1,6 @@
 /*
 ** The message catalogs phrase.c reads (src/phrase_catalog.c); nothing else
-** includes this.
+** includes this but the test of their completeness (tests/check_phrase.c).
 */
 #ifndef UG_PHRASE_INT_H
 #define UG_PHRASE_INT_H

@@ -2,7 +2,7 @@
 """Change between periods (`change: previous`, FORMAT.md §5) against exact
 arithmetic done here with Python's fractions module (a rational type we did
 not write: docs.python.org/3/library/fractions.html), over random two-period
-histories: each category's "from -> to (+d, +p %)" in the description, the
+histories: each category's "from -> to (+d, +p%)" in the description, the
 percentage rounded half away from zero and left out when the earlier value
 is 0, and "(change not shown)" whenever either count is hidden (below 10),
 since a hidden count's change must not be read back from a published one.
@@ -57,7 +57,7 @@ def note(a, b):
     sign = "-" if d < 0 else "+" if d > 0 else "\u00b1"
     text = f" ({sign}{number(abs(d))}"
     if a > 0:
-        text += f", {sign}{rounded_percent(abs(d), a)} %"
+        text += f", {sign}{number(rounded_percent(abs(d), a))}%"  # CLDR en "#,##0%"
     return text + ")"
 
 

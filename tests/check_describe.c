@@ -148,7 +148,8 @@ END_TEST
 /* `change: previous`: the description, the key and the group labels state
 ** each change from the period before, from published values only.
 ** By hand: Adults 412 -> 446 is +34, 34/412 = 8.25 % -> +8 %; Children
-** 150 -> 160 is +10, 6.67 % -> +7 %; totals 562 -> 606, +44, 7.83 % -> +8 %. */
+** 150 -> 160 is +10, 6.67 % -> +7 %; totals 562 -> 606, +44, 7.83 % -> +8 %.
+** Written as CLDR's English percent pattern writes them ("#,##0%", en.xml). */
 START_TEST(test_change_between_periods)
 {
     const char *groups[] = {"Q2 2026", "Q3 2026"};
@@ -157,9 +158,9 @@ START_TEST(test_change_between_periods)
     ug_chart *c = fx_chart(UG_FORM_ROWS, "Pantry visits", groups, 2, cats, 2);
     c->change = UG_CHANGE_PREVIOUS;
     char *d = describe(c);
-    ck_assert_msg(strstr(d, "Q3 2026, 606 households in all (+44, +8 %):"), "%s", d);
+    ck_assert_msg(strstr(d, "Q3 2026, 606 households in all (+44, +8%):"), "%s", d);
     ck_assert_msg(strstr(d, "From Q2 2026 to Q3 2026: Adults 412 \u2192 446 households "
-                            "(+34, +8 %); Children 150 \u2192 160 households (+10, +7 %)."),
+                            "(+34, +8%); Children 150 \u2192 160 households (+10, +7%)."),
                   "%s", d);
     ug_free(d);
     /* the key shows the latest period and its change, never the sum (1,168) */
@@ -170,7 +171,7 @@ START_TEST(test_change_between_periods)
     ug_buf_init(&b);
     pack_category_phrase(a, 0, &b);
     ug_buf_add(&b, "", 1);
-    ck_assert_str_eq(b.data, "412 \u2192 446 households (+34, +8 %)");
+    ck_assert_str_eq(b.data, "412 \u2192 446 households (+34, +8%)");
     ug_buf_free(&b);
     ug_allocation_free(a);
     /* a hidden count's change is hidden too; a fall is signed */
@@ -179,11 +180,37 @@ START_TEST(test_change_between_periods)
     fx_suppress(c, "10");
     c->suppress_margins = UG_MARGINS_HIDDEN;
     d = describe(c);
-    ck_assert_msg(strstr(d, "Adults 412 \u2192 400 households (-12, -3 %)"), "%s", d);
+    ck_assert_msg(strstr(d, "Adults 412 \u2192 400 households (-12, -3%)"), "%s", d);
     ck_assert_msg(strstr(d, "Children 150 \u2192 fewer than 10 (change not shown)"), "%s", d);
     ck_assert_ptr_null(strstr(d, "143"));
     ug_free(d);
     fx_free(c);
+}
+END_TEST
+
+/* The change in French, Chinese and Arabic (German: check_phrase): signs, percent
+** and separator are CLDR's (fr.xml percentFormat "#,##0 %", the space U+00A0; zh.xml
+** "#,##0%"; python3-babel's format_percent agrees) and the catalog's list
+** separator (zh "，"). */
+START_TEST(test_change_in_other_languages)
+{
+    static const struct { const char *lang, *want; } cases[] = {
+        {"fr", "(+34, +8\u00a0%)"},
+        {"zh-Hans", "(+34\uff0c+8%)"},
+        /* the arrow points the way Arabic reads: 412 then 446, leftwards */
+        {"ar", "\u0664\u0661\u0662 \u2190 \u0664\u0664\u0666"},
+    };
+    const char *groups[] = {"Q2", "Q3"};
+    const fx_cat cats[] = {{"A", "person", 0x0072B2, {"412", "446"}, NULL}};
+    for (size_t k = 0; k < sizeof cases / sizeof cases[0]; k++) {
+        ug_chart *c = fx_chart(UG_FORM_ROWS, "T", groups, 2, cats, 1);
+        c->change = UG_CHANGE_PREVIOUS;
+        c->lang.text = cases[k].lang;
+        char *d = describe(c);
+        ck_assert_msg(strstr(d, cases[k].want), "%s: %s", cases[k].lang, d);
+        ug_free(d);
+        fx_free(c);
+    }
 }
 END_TEST
 
@@ -298,6 +325,110 @@ START_TEST(test_percent_groups)
 }
 END_TEST
 
+
+/* ---- number-format and currency (FORMAT.md §6) ------------------------------ */
+
+#define BUDGET "title: Budget\nform: rows\nicon-value: 10000000\n" \
+    "categories:\n  - {label: Schools, count: 412487000}\n" \
+    "  - {label: Roads, count: 96250000}\n  - {label: Parks, count: 12500000}\n"
+
+/* Compact words and money through ICU; the words are CLDR's own (en.xml
+** decimalFormats-long "0 million", currencyFormats short "¤0M"; Debian
+** unicode-cldr-core, common/main/en.xml). 412,487,000 to one decimal of a
+** million is 412.5 (half up); quotas 41.25, 9.63, 1.25 give 41, 10, 1. */
+START_TEST(test_compact_money_sentences)
+{
+    char *d = describe_text("number-format: compact\nunit-label: euros\n" BUDGET);
+    ck_assert_str_eq(d, "Pictogram chart: Budget. Each icon is 10 million euros. Schools: "
+                        "412.5 million euros (41 icons). Roads: 96.3 million euros (10 "
+                        "icons). Parks: 12.5 million euros (1 icon).");
+    ug_free(d);
+    d = describe_text("currency: EUR\nnumber-format: compact\n" BUDGET);
+    ck_assert_str_eq(d, "Pictogram chart: Budget. Each icon is \u20ac10M. Schools: "
+                        "\u20ac412.5M (41 icons). Roads: \u20ac96.3M (10 icons). Parks: "
+                        "\u20ac12.5M (1 icon).");
+    ug_free(d);
+    /* money in full: whole amounts stay whole, grouped as CLDR says */
+    d = describe_text("currency: USD\n" BUDGET);
+    ck_assert_msg(strstr(d, "Schools: $412,487,000 (41 icons)."), "%s", d);
+    ug_free(d);
+    d = describe_text("number-format: compact-short\nunit-label: euros\n" BUDGET);
+    ck_assert_msg(strstr(d, "Schools: 412.5M euros (41 icons)."), "%s", d);
+    ug_free(d);
+}
+END_TEST
+
+/* One chart in six languages. Expected words from CLDR 42's long compact
+** patterns and plural rules (unicode-cldr-core common/main/LANG.xml,
+** decimalFormats-long; common/supplemental/plurals.xml): French and Spanish
+** put "de" before the unit when the number is `many` (1.2 million has
+** exponent 6: CLDR's operand e), and French elides it before a vowel. */
+static const struct {
+    const char *lang, *unit, *want;
+} compact_langs[] = {
+    {"de", "Menschen", "A: 1,2 Millionen Menschen (12 Symbole). B: 412,5 Tausend Menschen"},
+    {"fr", "habitants", "A\u00a0: 1,2 million d\u2019habitants (12 ic\u00f4nes). "
+                        "B\u00a0: 412,5 mille habitants"},
+    {"fr", "personnes", "A\u00a0: 1,2 million de personnes"},
+    {"es", "personas", "A: 1,2 millones de personas (12 iconos). B: 412,5 mil personas"},
+    {"pt", "pessoas", "A: 1,2 milh\u00e3o de pessoas (12 \u00edcones). B: 412,5 mil pessoas"},
+    {"pl", "os\u00f3b", "A: 1,2 miliona os\u00f3b (12 ikon). B: 412,5 tysi\u0105ca os\u00f3b"},
+    {"zh-Hans", "\u4eba", "A\uff1a120\u4e07 \u4eba\uff0812 \u4e2a\u56fe\u6807\uff09\u3002"
+                          "B\uff1a41.2\u4e07 \u4eba"},
+};
+
+START_TEST(test_compact_languages)
+{
+    char text[512];
+    snprintf(text, sizeof text, "title: T\nform: rows\nicon-value: 100000\nlang: %s\n"
+             "unit-label: %s\nnumber-format: compact\ncategories:\n"
+             "  - {label: A, count: 1200000}\n  - {label: B, count: 412487}\n",
+             compact_langs[_i].lang, compact_langs[_i].unit);
+    char *d = describe_text(text);
+    ck_assert_msg(strstr(d, compact_langs[_i].want), "%s\nwant %s", d, compact_langs[_i].want);
+    ug_free(d);
+}
+END_TEST
+
+/* A bound says what is true of the exact count: the published part of North
+** is 1,299,999, so "more than 1.2 million" (rounded down; half up would say
+** 1.3 million, which is more than there are), and a hidden count under 10
+** stays "fewer than 10". */
+START_TEST(test_compact_bounds_stay_true)
+{
+    char *d = describe_text("title: T\nform: rows\nicon-value: 100000\n"
+                            "unit-label: households\nnumber-format: compact\n"
+                            "suppress: {below: 10, margins: hidden}\n"
+                            "groups: [North, South]\ncategories:\n"
+                            "  - {label: A, counts: [1299999, 2500000]}\n"
+                            "  - {label: B, counts: [3, 1000000]}\n");
+    ck_assert_msg(strstr(d, "North, more than 1.2 million households in all: A 1.3 "
+                            "million households (13 icons), B fewer than 10."), "%s", d);
+    ck_assert_msg(strstr(d, "South, 3.5 million households in all"), "%s", d);
+    ug_free(d);
+    d = describe_text("title: T\nform: rows\nicon-value: 100000\ncurrency: USD\n"
+                      "suppress: {below: 10, margins: hidden}\n"
+                      "groups: [North, South]\ncategories:\n"
+                      "  - {label: A, counts: [1299999, 2500000]}\n"
+                      "  - {label: B, counts: [3, 1000000]}\n");
+    ck_assert_msg(strstr(d, "North, more than $1,299,999 in all"), "%s", d);
+    ck_assert_msg(strstr(d, "B less than $10."), "%s", d);
+    ck_assert_msg(strstr(d, "Amounts below $10 are not shown (\u201cless than $10\u201d)."),
+                  "%s", d);
+    ug_free(d);
+    /* the same in German: the catalog's words, CLDR's money format (de.xml
+    ** currencyFormats standard "#,##0.00 ¤", whole amounts without cents) */
+    d = describe_text("title: T\nform: rows\nicon-value: 100000\ncurrency: EUR\nlang: de\n"
+                      "suppress: {below: 10, margins: hidden}\n"
+                      "groups: [North, South]\ncategories:\n"
+                      "  - {label: A, counts: [1299999, 2500000]}\n"
+                      "  - {label: B, counts: [3, 1000000]}\n");
+    ck_assert_msg(strstr(d, "B weniger als 10\u00a0\u20ac."), "%s", d);
+    ck_assert_msg(strstr(d, "Betr\u00e4ge unter 10\u00a0\u20ac werden nicht angezeigt"), "%s", d);
+    ug_free(d);
+}
+END_TEST
+
 static Suite *describe_suite(void)
 {
     Suite *s = suite_create("describe");
@@ -305,11 +436,16 @@ static Suite *describe_suite(void)
     tcase_add_test(t, test_waffle_sentences);
     tcase_add_test(t, test_percent_sentences);
     tcase_add_test(t, test_percent_german);
+    tcase_add_test(t, test_compact_money_sentences);
+    tcase_add_loop_test(t, test_compact_languages, 0,
+                        sizeof compact_langs / sizeof compact_langs[0]);
+    tcase_add_test(t, test_compact_bounds_stay_true);
     tcase_add_test(t, test_percent_groups);
     tcase_add_test(t, test_half_percent_cells);
     tcase_add_test(t, test_biproportional_says_totals_agree);
     tcase_add_test(t, test_groups_and_suppression);
     tcase_add_test(t, test_change_between_periods);
+    tcase_add_test(t, test_change_in_other_languages);
     tcase_add_test(t, test_waffle_of_glyphs_says_icons);
     tcase_add_test(t, test_group_label_names_the_share);
     tcase_add_test(t, test_layout_description_wins);

@@ -19,6 +19,7 @@
 #include "model.h"
 #include "scene.h"
 #include "phrase.h"
+#include "phrase_int.h"
 #include "check_run.h"
 
 typedef struct {
@@ -281,15 +282,16 @@ static char *describe_text(const char *text)
     return d;
 }
 
-/* Change between periods in German: 1000 -> 1250 is +250, +25 %. */
+/* Change between periods in German: 1000 -> 1250 is +250, +25 %, the
+** percent as CLDR writes it (de.xml "#,##0 %", the space U+00A0). */
 START_TEST(test_change_in_german)
 {
     char *d = describe_text("lang: de\ntitle: T\nicon-value: 1\nchange: previous\n"
                             "groups: [Q1, Q2]\nunit-label: Haushalte\ncategories:\n"
                             "  - {label: A, counts: [1000, 1250]}\n");
-    ck_assert_msg(strstr(d, " Q2, insgesamt 1.250 Haushalte (+250, +25 %): A 1.250 "
+    ck_assert_msg(strstr(d, " Q2, insgesamt 1.250 Haushalte (+250, +25\u00a0%): A 1.250 "
                             "Haushalte (1.250 Symbole). Von Q1 bis Q2: A 1.000 \u2192 1.250 "
-                            "Haushalte (+250, +25 %)."), "%s", d);
+                            "Haushalte (+250, +25\u00a0%)."), "%s", d);
     ug_free(d);
 }
 END_TEST
@@ -308,12 +310,129 @@ START_TEST(test_totals_note_in_french)
 }
 END_TEST
 
+/* ---- amounts ----------------------------------------------------------------- */
+
+static ug_dec dec_of(const char *s)
+{
+    ug_dec d;
+    ck_assert_int_eq(ug_dec_parse(s, strlen(s), &d), UG_DEC_OK);
+    return d;
+}
+
+/* Plural categories of compact numbers take CLDR's exponent operand e
+** (plurals.xml, CLDR 38 and later): French "1,2 million" is `many`, "1,2
+** millier" is `other` for 3000 (e = 3 is in 0..5); Polish "1,2 tys." is
+** `many` (its operands are those of 1200: i = 1200, v = 0, i % 10 = 0);
+** plain amounts are as phrase_number writes them. */
+START_TEST(test_amount_plural_and_plain)
+{
+    const phrase_numbers long_words = {.compact = true};
+    char buf[PHRASE_NUMBER_MAX], plain[PHRASE_NUMBER_MAX];
+    const char *cat = NULL;
+    ck_assert_str_eq(phrase_amount("fr", &long_words, dec_of("1200000"), PHRASE_NEAREST,
+                                   buf, &cat), "1,2 million");
+    ck_assert_str_eq(cat, "many");
+    phrase_amount("fr", &long_words, dec_of("3000"), PHRASE_NEAREST, buf, &cat);
+    ck_assert_str_eq(cat, "other");
+    ck_assert_str_eq(phrase_amount("pl", &(phrase_numbers){.compact = true, .short_words = true},
+                                   dec_of("1200"), PHRASE_NEAREST, buf, &cat), "1,2\u00a0tys.");
+    ck_assert_str_eq(cat, "many");
+    /* NULL and a plain format are phrase_number's text and plural */
+    ck_assert_str_eq(phrase_amount("de", NULL, dec_of("1234567.25"), PHRASE_NEAREST, buf,
+                                   &cat), phrase_number("de", dec_of("1234567.25"), 0, plain));
+    ck_assert_str_eq(cat, "other");
+    phrase_amount("en", &(phrase_numbers){0}, dec_of("1"), PHRASE_UP, buf, &cat);
+    ck_assert_str_eq(cat, "one");
+    /* money: ISO 4217 minor units (JPY has none, EUR two) */
+    const phrase_numbers yen = {.currency = "JPY"}, euro = {.currency = "EUR"};
+    ck_assert_str_eq(phrase_amount("en", &yen, dec_of("1234.5"), PHRASE_NEAREST, buf, NULL),
+                     "\u00a51,235");
+    ck_assert_str_eq(phrase_amount("de", &euro, dec_of("1234.5"), PHRASE_NEAREST, buf, NULL),
+                     "1.234,50\u00a0\u20ac");
+    ck_assert_str_eq(phrase_amount("de", &euro, dec_of("1234"), PHRASE_NEAREST, buf, NULL),
+                     "1.234\u00a0\u20ac");
+}
+END_TEST
+
+/* "412.5 thousand" read back as an exact integer (English long words). */
+static long long read_back(const char *text)
+{
+    static const struct { const char *word; long long times; } words[] = {
+        {" thousand", 1000LL}, {" million", 1000000LL}, {" billion", 1000000000LL},
+        {" trillion", 1000000000000LL}};
+    long long mant = 0, scale = 1, times = 1;
+    bool point = false;
+    const char *p = text;
+    for (; (*p >= '0' && *p <= '9') || *p == '.'; p++)
+        if (*p == '.')
+            point = true;
+        else
+            mant = mant * 10 + (*p - '0'), scale *= point ? 10 : 1;
+    for (size_t k = 0; k < sizeof words / sizeof words[0]; k++)
+        if (!strcmp(p, words[k].word))
+            times = words[k].times;
+    ck_assert_msg(*p == '\0' || times > 1, "cannot read back '%s'", text);
+    return mant * times / scale;
+}
+
+/* A property over 3,000 amounts from 1 to 10^14: rounded down the amount
+** is never more than the count, rounded up never less, the two a step of
+** the last shown digit apart at most, and the nearest within half of it; so
+** "more than" and "fewer than" stay true. */
+START_TEST(test_amount_rounding_directions)
+{
+    const phrase_numbers how = {.compact = true};
+    unsigned long long x = 88172645463325252ULL;
+    for (int k = 0; k < 3000; k++) {
+        x ^= x << 13, x ^= x >> 7, x ^= x << 17; /* xorshift64 */
+        long long n = (long long)(x % 100000000000000ULL >> (x % 44)) + 1;
+        char raw[32], down[PHRASE_NUMBER_MAX], up[PHRASE_NUMBER_MAX], near[PHRASE_NUMBER_MAX];
+        snprintf(raw, sizeof raw, "%lld", n);
+        ug_dec d = dec_of(raw);
+        long long lo = read_back(phrase_amount("en", &how, d, PHRASE_DOWN, down, NULL));
+        long long hi = read_back(phrase_amount("en", &how, d, PHRASE_UP, up, NULL));
+        long long mid = read_back(phrase_amount("en", &how, d, PHRASE_NEAREST, near, NULL));
+        ck_assert_msg(lo <= n && n <= hi, "%lld: down %s, up %s", n, down, up);
+        long long step = 0; /* a tenth of the largest power of 1000 up to n */
+        for (long long m = 1000; m <= n; m *= 1000)
+            step = m / 10;
+        ck_assert_msg(mid >= lo && mid <= hi && hi - lo <= step,
+                      "%lld: %s .. %s .. %s", n, down, near, up);
+        ck_assert_msg(2 * (mid > n ? mid - n : n - mid) <= hi - lo, "%lld: nearest %s", n, near);
+    }
+}
+END_TEST
+
+/* ICU's ISO 4217 list (ucurr_openISOCurrencies): codes in use pass. */
+START_TEST(test_currency_codes)
+{
+    char why[200];
+    const char *good[] = {"EUR", "USD", "PLN", "CNY", "MAD", "BRL"};
+    for (size_t k = 0; k < sizeof good / sizeof *good; k++)
+        ck_assert_msg(phrase_check_currency(good[k], why, sizeof why) == UG_OK, "%s", why);
+    ck_assert_int_eq(phrase_check_currency("XYZ", why, sizeof why), UG_ESCHEMA);
+    ck_assert_int_eq(phrase_check_currency("usd", why, sizeof why), UG_ESCHEMA);
+    ck_assert_int_eq(phrase_check_currency("", why, sizeof why), UG_ESCHEMA);
+}
+END_TEST
+
+/* Every shipped catalog gives every message: a missing one would put the
+** English words into a French chart without a word of warning. */
+START_TEST(test_catalogs_complete)
+{
+    for (const phrase_catalog *c = phrase_catalogs; c->lang; c++)
+        for (int id = 0; id < PH_COUNT_OF_IDS; id++)
+            ck_assert_msg(c->text[id] != NULL, "catalog %s lacks message %d", c->lang, id);
+}
+END_TEST
+
 static Suite *phrase_suite(void)
 {
     Suite *s = suite_create("phrase");
     TCase *t = tcase_create("core");
     tcase_add_loop_test(t, test_description_key_and_page, 0, sizeof cases / sizeof cases[0]);
     tcase_add_test(t, test_english_one_person);
+    tcase_add_test(t, test_catalogs_complete);
     tcase_add_test(t, test_page_lang_reaches_panels);
     tcase_add_test(t, test_page_lang_error_at_its_place);
     tcase_add_test(t, test_pick_form);
@@ -321,6 +440,9 @@ static Suite *phrase_suite(void)
     tcase_add_test(t, test_totals_note_in_french);
     tcase_add_test(t, test_arabic_is_mirrored);
     tcase_add_test(t, test_placeholder_words);
+    tcase_add_test(t, test_amount_plural_and_plain);
+    tcase_add_test(t, test_amount_rounding_directions);
+    tcase_add_test(t, test_currency_codes);
     suite_add_tcase(s, t);
     return s;
 }

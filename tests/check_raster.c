@@ -658,6 +658,30 @@ START_TEST(test_html_page)
 }
 END_TEST
 
+/* Money in the table: the figures stay exact and the caption names the
+** currency by its ISO 4217 code, which the figures alone would not say. */
+START_TEST(test_html_table_names_the_currency)
+{
+    ug_chart ca, cb;
+    make_charts(&ca, &cb);
+    ca.currency.text = "EUR";
+    ug_allocation *allocs[1];
+    ug_error err = {0};
+    ck_assert_int_eq(ug_chart_allocate(&ca, &allocs[0], &err), UG_OK);
+    size_t len;
+    char *page = make_page(allocs, 1, &len);
+    htmlDocPtr doc = htmlReadMemory(page, (int)len, "page.html", "utf-8",
+                                    HTML_PARSE_NONET | HTML_PARSE_NOERROR);
+    ck_assert_ptr_nonnull(doc);
+    const char *cap = xpath_text(doc, "//table[1]/caption");
+    ck_assert_msg(strstr(cap, " EUR") != NULL, "%s", cap);
+    check_rows(doc, allocs[0], 1);
+    xmlFreeDoc(doc);
+    ug_free(page);
+    ug_allocation_free(allocs[0]);
+}
+END_TEST
+
 START_TEST(test_html_refuses_scripts_and_non_svg)
 {
     const char *bad[] = {
@@ -742,6 +766,7 @@ static Suite *raster_suite(void)
                         (int)(sizeof path_cases / sizeof path_cases[0]));
     tcase_add_test(tc, test_format_names);
     tcase_add_test(tc, test_html_page);
+    tcase_add_test(tc, test_html_table_names_the_currency);
     tcase_add_test(tc, test_html_refuses_scripts_and_non_svg);
     suite_add_tcase(s, tc);
     return s;

@@ -1,9 +1,11 @@
 /*
 ** Test driver for tests/lang_ref.py (numbers and plural categories against
 ** python3-babel, which reads CLDR without ICU): reads one case a line,
-**     LANG NUMBER
-** and prints LANG, NUMBER, the number as the chart writes it and its CLDR
-** plural category, separated by tabs, or "error: MESSAGE".
+**     LANG NUMBER [STYLE ROUNDING]
+** (STYLE plain, compact or compact-short; ROUNDING nearest, down or up) and
+** prints LANG, NUMBER, the number as the chart writes it and its CLDR
+** plural category, separated by tabs, or "error: MESSAGE". tests/amount_ref.py
+** uses the styles.
 */
 #include <stdio.h>
 #include <string.h>
@@ -12,11 +14,15 @@
 
 int main(void)
 {
-    char line[256], lang[64], num[128], why[300], out[PHRASE_NUMBER_MAX];
+    char line[256], lang[64], num[128], style[32] = "plain", mode[16] = "nearest";
+    char why[300], out[PHRASE_NUMBER_MAX];
     while (fgets(line, sizeof line, stdin)) {
         ug_dec d;
-        if (sscanf(line, "%63s %127s", lang, num) != 2) {
-            printf("error: expected LANG NUMBER\n");
+        int got = sscanf(line, "%63s %127s %31s %15s", lang, num, style, mode);
+        if (got == 2)
+            strcpy(style, "plain"), strcpy(mode, "nearest");
+        if (got != 2 && got != 4) {
+            printf("error: expected LANG NUMBER [STYLE ROUNDING]\n");
             continue;
         }
         if (phrase_check_lang(lang, why, sizeof why)) {
@@ -27,8 +33,13 @@ int main(void)
             printf("error: not a decimal: %s\n", num);
             continue;
         }
-        printf("%s\t%s\t%s\t%s\n", lang, num, phrase_number(lang, d, 0, out),
-               phrase_plural(lang, d, 0));
+        const phrase_numbers how = {.compact = strncmp(style, "compact", 7) == 0,
+                                    .short_words = strcmp(style, "compact-short") == 0};
+        phrase_rounding r = !strcmp(mode, "down") ? PHRASE_DOWN
+                            : !strcmp(mode, "up") ? PHRASE_UP : PHRASE_NEAREST;
+        const char *cat = "other";
+        phrase_amount(lang, &how, d, r, out, &cat);
+        printf("%s\t%s\t%s\t%s\n", lang, num, out, cat);
     }
     return 0;
 }
