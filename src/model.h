@@ -45,6 +45,13 @@ typedef enum { UG_ROUND_WHOLE, UG_ROUND_PARTIAL } ug_rounding;
 /* `counts-are:`: what the categories' numbers are. Percent: each group's
 ** shares of a total nobody stated, so no sum of them is a count. */
 typedef enum { UG_COUNTS_ARE_COUNTS, UG_COUNTS_ARE_PERCENT } ug_counts_are;
+/* `number-format:` (FORMAT.md §6): how the key, labels and description write
+** amounts; the table keeps the exact figures. */
+typedef enum {
+    UG_NUMBERS_PLAIN,
+    UG_NUMBERS_COMPACT,      /* CLDR's long words: "412.5 million" */
+    UG_NUMBERS_COMPACT_SHORT /* and its short ones: "412.5M" */
+} ug_number_format;
 typedef enum {
     UG_METHOD_LARGEST_REMAINDER,
     UG_METHOD_SAINTE_LAGUE,
@@ -150,6 +157,9 @@ struct ug_chart {
     bool has_unit_forms;
     ug_text lang;                /* BCP 47 tag; NULL: the page's, else "en" */
     ug_text group_label;         /* what one group is ("school"); NULL: "group" */
+    ug_number_format number_format;
+    ug_mark number_format_mark;
+    ug_text currency;            /* ISO 4217 code; NULL: the counts are no money */
     ug_text_list source, notes;
 
     ug_form form;
@@ -175,6 +185,8 @@ struct ug_chart {
     ug_mark columns_mark;
     long cluster;               /* rows: 0 = none; default 5 */
     ug_arrangement arrangement;
+    bool direct_labels;        /* split rows with groups: each line names its */
+    ug_mark direct_labels_mark; /* category; not given: on (resolve_direct_labels) */
     ug_key_place key_place;    /* default auto: beside the plot when it fits */
     ug_fill fill;
     ug_start start;
@@ -288,6 +300,8 @@ struct ug_page {
     ug_text title;
     ug_text_list source;
     ug_text lang;            /* BCP 47 tag its panels take unless they say */
+    ug_number_format number_format; /* its panels' too, unless they say or are percent */
+    ug_mark number_format_mark;
     ug_panel *panels;
     size_t npanels;
     ug_mark panels_mark;

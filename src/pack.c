@@ -350,14 +350,20 @@ typedef struct {
     long cols;
     double line_h;     /* one line of icons (a placeholder may be taller) */
     double band_gap;
+    double cat_gap;    /* split: extra space between categories when one wraps */
 } rows_frame;
 
 static void right_text(packer *p, size_t g, size_t i, ug_buf *b)
 {
-    if (p->c->arrangement == UG_ARRANGE_SPLIT)
-        pack_category_cell(p->a, g, i, b);
-    else
+    if (p->c->arrangement != UG_ARRANGE_SPLIT) {
         pack_group_phrase(p->a, g, b);
+        return;
+    }
+    if (resolve_direct_labels(p->c)) {
+        ug_buf_puts(b, cat_label(p->c, i));
+        ug_buf_puts(b, phrase_text(pack_lang(p->c), PH_LABEL_SEP));
+    }
+    pack_category_cell(p->a, g, i, b);
 }
 
 /* The widest single word of s: a text column narrower than that would have
@@ -402,6 +408,8 @@ static double widest_side(packer *p, bool left, double *word)
     return w;
 }
 
+static bool a_category_wraps(const packer *p, long cols);
+
 static rows_frame rows_setup(packer *p)
 {
     rows_frame f;
@@ -418,6 +426,9 @@ static rows_frame rows_setup(packer *p)
     f.tx = fmax(slot_x(p, f.x0, f.cols - 1) + p->size, f.x0 + p->holder_w) + p->col_gap;
     f.line_h = fmax(p->size, p->holders ? p->holder_h : 0);
     f.band_gap = fmax(14, p->size * 0.75);
+    /* a wrapped line must sit nearer its own category than the next one */
+    bool split = p->c->arrangement == UG_ARRANGE_SPLIT;
+    f.cat_gap = split && a_category_wraps(p, f.cols) ? fmax(p->gap, round(p->size * 0.5)) : 0;
     return f;
 }
 
@@ -504,6 +515,15 @@ static long category_slots(const packer *p, size_t g, size_t i)
 {
     const alloc_share *sh = alloc_at(p->a, g, i);
     return alloc_hidden(sh) ? holder_slots(p) : sh->icons + (sh->partial ? 1 : 0);
+}
+
+static bool a_category_wraps(const packer *p, long cols)
+{
+    for (size_t g = 0; g < chart_ngroups(p->c); g++)
+        for (size_t i = 0; i < p->c->ncats; i++)
+            if (category_slots(p, g, i) > cols)
+                return true;
+    return false;
 }
 
 /* Where category i starts on a line shared by all categories when each one
@@ -623,6 +643,7 @@ static void next_category_line(packer *p, const rows_frame *f, rows_cursor *cur,
 {
     cur->fresh = false; /* an empty category still gets its line */
     new_line(p, f, cur, true);
+    cur->top += f->cat_gap;
     double adv = reserved(p, p->frame ? &p->frame->cat_adv[i] : NULL,
                           cur->top - *cat_top);
     cur->top = *cat_top + adv;
@@ -1163,7 +1184,7 @@ static void setup(packer *p)
     p->gap = c->icon_gap;
     p->pitch = p->size + p->gap;
     s->icon_size = p->size;
-    s->font = ug_arena_strdup(&s->arena, c->style.font);
+    s->font = ug_arena_strdup(&s->arena, resolve_font(c));
     if (c->lang.text && !(s->lang = ug_arena_strdup(&s->arena, c->lang.text)))
         fail(p, UG_ENOMEM);
     s->background = rgb_of(c->style.background);

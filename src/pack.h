@@ -11,6 +11,7 @@
 #define PACK_MARGIN 40.0
 
 #include "alloc.h"
+#include "phrase.h"
 #include "scene.h"
 
 /* The chart's language: its `lang`, else the page's it was given, else "en". */
@@ -20,6 +21,9 @@ const char *pack_lang(const ug_chart *c);
 void pack_placeholder(const ug_allocation *a, pub_status s, ug_buf *b);
 /* "not shown" in the chart's language. */
 const char *pack_other_label(const ug_allocation *a);
+/* d as the chart writes amounts (`number-format`, `currency`), its last
+** digit rounded as r says. */
+char *pack_amount(const ug_chart *c, ug_dec d, phrase_rounding r, char *buf);
 /* "835 households", or without a unit "835". */
 void pack_count_phrase(const ug_chart *c, ug_dec count, ug_buf *b);
 /* The total of group g (of the whole chart when g == SIZE_MAX) as published:

@@ -3,6 +3,7 @@
 ** palette's colours for categories that name none.
 */
 #include <string.h>
+#include <strings.h>
 
 #include "color.h"
 #include "resolve.h"
@@ -44,6 +45,39 @@ void resolve_defaults(ug_chart *c)
     memcpy(c->style.type, type, sizeof type);
     c->audit.tolerance_percent.v = RESOLVE_TOLERANCE_PERCENT * UG_DEC_SCALE;
     c->audit.small_count.v = RESOLVE_SMALL_COUNT * UG_DEC_SCALE;
+}
+
+/* BCP 47 (RFC 5646 §2.2.3, §2.2.4): "zh-Hant" names the script, and a tag
+** of only a region implies it by common use (CLDR's likelySubtags: zh-TW,
+** zh-HK and zh-MO are Hant, every other zh Hans). Subtags are compared
+** without case (RFC 5646 §2.1.1). */
+static bool traditional_han(const char *tag)
+{
+    static const char *const hant[] = {"hant", "tw", "hk", "mo"};
+    for (const char *p = strchr(tag, '-'); p; p = strchr(p + 1, '-')) {
+        size_t len = strcspn(p + 1, "-");
+        for (size_t i = 0; i < sizeof hant / sizeof *hant; i++)
+            if (strlen(hant[i]) == len && !strncasecmp(p + 1, hant[i], len))
+                return true;
+    }
+    return false;
+}
+
+const char *resolve_font(const ug_chart *c)
+{
+    const char *tag = c->lang.text;
+    if (c->style.font_mark.line || !tag)
+        return c->style.font; /* the layout's own, or no language to suit */
+    if (strncasecmp(tag, "zh", 2) || (tag[2] && tag[2] != '-'))
+        return c->style.font;
+    return traditional_han(tag) ? RESOLVE_FONT_HANT : RESOLVE_FONT_HANS;
+}
+
+bool resolve_direct_labels(const ug_chart *c)
+{
+    if (c->form != UG_FORM_ROWS || c->arrangement != UG_ARRANGE_SPLIT || !c->groups.n)
+        return false; /* no line of its own, or its label already on the left */
+    return c->direct_labels_mark.line ? c->direct_labels : true;
 }
 
 /* Text the layout gives no colour follows the background: the default dark

@@ -10,6 +10,12 @@
 #include "model.h"
 
 #define RESOLVE_FONT "DejaVu Sans"
+/* Han characters take the forms of the chart's script: DejaVu has none, and
+** fontconfig, asked for a Han character without a language, gives Noto Sans
+** CJK JP (fc-match "DejaVu Sans:charset=4e2d" with fonts-noto-cjk
+** 1:20220127 on Debian 12), whose forms differ from the simplified ones. */
+#define RESOLVE_FONT_HANS "DejaVu Sans, Noto Sans CJK SC"
+#define RESOLVE_FONT_HANT "DejaVu Sans, Noto Sans CJK TC"
 #define RESOLVE_INK 0x222222        /* text */
 #define RESOLVE_INK_ON_DARK 0xf2f2f2 /* text on a background the default fails on */
 #define RESOLVE_BACKGROUND 0xffffff
@@ -45,6 +51,18 @@ const resolve_small_preset *resolve_small_count_preset(const char *name);
 /* The values a chart has before its layout says otherwise (path, dir and
 ** limits are the caller's). */
 void resolve_defaults(ug_chart *c);
+/* The family list the chart's text is measured and drawn with: the
+** layout's style.font when it names one, else the default for its
+** language (RESOLVE_FONT_HANS for Chinese in simplified characters,
+** RESOLVE_FONT_HANT for traditional, RESOLVE_FONT otherwise). Call it once
+** the chart's language is final (a page's panel takes the page's). */
+const char *resolve_font(const ug_chart *c);
+/* Does each line of split rows name its category beside its count
+** ("Children: 64")? On by default where the lines would otherwise carry
+** none (split rows with groups, whose left column names the group): a
+** placeholder "not shown" must say what is not shown without colour (WCAG
+** 2.1 SC 1.4.1). `direct-labels: false` turns it off. */
+bool resolve_direct_labels(const ug_chart *c);
 /* After the layout is read: text without a colour follows the background
 ** (light ink on a dark one); categories without a colour take the palette
 ** as it is safe on that background: colours reaching 3:1 against it first,

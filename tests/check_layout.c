@@ -277,6 +277,11 @@ static const string_case strings[] = {
     {ROWS "style: {type: {note: 5pt}}\n" CAT, UG_ESCHEMA, 3, 15, "legible minimum of 6pt"},
     {ROWS "style: {type: {lable: 12}}\n" CAT, UG_ESCHEMA, 3, 16, "did you mean 'label'?"},
     {ROWS "key-place: left\n" CAT, UG_ESCHEMA, 3, 12, "beside"},
+    /* direct labels name each category's own line: split rows only */
+    {ROWS "direct-labels: true\n" CAT, UG_ESCHEMA, 3, 16, "needs 'arrangement: split'"},
+    {ROWS "arrangement: split\ndirect-labels: false\n" CAT, UG_OK, 0, 0, NULL},
+    {"form: waffle\ndirect-labels: true\n" CAT, UG_ESCHEMA, 2, 16, "for rows charts"},
+    {"form: waffle\ndirect-labels: false\n" CAT, UG_OK, 0, 0, NULL},
 };
 
 START_TEST(test_strings)
@@ -418,6 +423,8 @@ static const page_case bad_pages[] = {
     {"page: {size: A4}\npanels: [{chart: missing.yaml}]\n", 2, 18,
      "cannot read 'missing.yaml'"},
     {"title: chart\n", 1, 1, "this is a chart file, not a page file"},
+    {"page: {size: A4}\nnumber-format: words\npanels: [{text: a}]\n", 2, 16,
+     "'number-format' expects one of plain | compact | compact-short"},
 };
 
 START_TEST(test_bad_pages)
@@ -439,6 +446,28 @@ START_TEST(test_bad_pages)
         ck_assert_uint_eq(err.where.column, t->column);
     }
     ck_assert_msg(strstr(err.msg, t->msg), "case %d: '%s'", _i, err.msg);
+}
+END_TEST
+
+/* A page's number-format reaches every panel chart that states none; a
+** chart's own wins, and a percent chart's shares stay plain. */
+START_TEST(test_page_number_format_reaches_panels)
+{
+    const char *text =
+        "page: {size: A4}\nnumber-format: compact\ntitle: P\npanels:\n"
+        "  - chart: {title: A, icon-value: 1, categories: [{label: X, count: 3}]}\n"
+        "  - chart: {number-format: plain, title: B, icon-value: 1,\n"
+        "            categories: [{label: Y, count: 4}]}\n"
+        "  - chart: {title: C, form: waffle, counts-are: percent,\n"
+        "            categories: [{label: Z, count: 100}]}\n";
+    ug_page *p = NULL;
+    ug_error err = {0};
+    ck_assert_msg(ug_page_load_string(text, strlen(text), "p.yaml", NULL, &p, &err) == UG_OK,
+                  "%s", err.msg);
+    ck_assert_int_eq(p->panels[0].chart->number_format, UG_NUMBERS_COMPACT);
+    ck_assert_int_eq(p->panels[1].chart->number_format, UG_NUMBERS_PLAIN);
+    ck_assert_int_eq(p->panels[2].chart->number_format, UG_NUMBERS_PLAIN);
+    ug_page_free(p);
 }
 END_TEST
 
@@ -665,6 +694,10 @@ static const percent_case percent_cases[] = {
      "p.yaml:4:13: 'icon-value' is a count per icon"},
     {"form: waffle\ngroups: [Q1, Q2]\nchange: previous\n",
      "  - {label: A, counts: [100, 100]}\n", "p.yaml:5:9: 'change' states differences"},
+    {"form: waffle\ncurrency: EUR\n", "  - {label: A, count: 100}\n",
+     "p.yaml:4:11: 'currency' makes the counts sums of money"},
+    {"form: waffle\nnumber-format: compact\n", "  - {label: A, count: 100}\n",
+     "p.yaml:4:16: 'number-format' writes large counts in words"},
 };
 
 START_TEST(test_percent)
@@ -686,6 +719,48 @@ START_TEST(test_percent)
              err.where.column, err.msg);
     ck_assert_msg(!strncmp(got, k->error, strlen(k->error)), "got  %s\nwant %s", got,
                   k->error);
+}
+END_TEST
+
+/* `number-format` and `currency` (FORMAT.md §6): the codes ICU lists as ISO
+** 4217 codes in use are taken; anything else is refused at its place. */
+static const struct {
+    const char *keys, *error;
+} amount_cases[] = {
+    {"number-format: compact\ncurrency: PLN\n", NULL},
+    {"number-format: compact-short\n", NULL},
+    {"number-format: plain\ncurrency: JPY\n", NULL},
+    {"number-format: short\n",
+     "m.yaml:2:16: 'number-format' expects one of plain | compact | compact-short "
+     "(found 'short')"},
+    {"currency: eur\n",
+     "m.yaml:2:11: 'currency' expects an ISO 4217 code in capitals, such as EUR, USD or "
+     "PLN (found 'eur')"},
+    {"currency: EURO\n", "m.yaml:2:11: 'currency' expects an ISO 4217 code"},
+    {"currency: ABC\n", "m.yaml:2:11: 'currency' ABC is not an ISO 4217 code in use"},
+    /* Deutsche Mark: an ISO 4217 code withdrawn in 2002 (ISO 4217 list three) */
+    {"currency: DEM\n", "m.yaml:2:11: 'currency' DEM is not an ISO 4217 code in use"},
+};
+
+START_TEST(test_amount_keys)
+{
+    char text[512], got[1024];
+    snprintf(text, sizeof text, "form: rows\n%sicon-value: 10\n"
+             "categories: [{label: A, count: 1200}]\n", amount_cases[_i].keys);
+    ug_chart *c = NULL;
+    ug_error err = {0};
+    ug_status st = ug_chart_load_string(text, strlen(text), "m.yaml", NULL, &c, &err);
+    const char *want = amount_cases[_i].error;
+    if (!want) {
+        ck_assert_msg(st == UG_OK, "%s", err.msg);
+        ck_assert(c->number_format != UG_NUMBERS_PLAIN || c->currency.text);
+        ug_chart_free(c);
+        return;
+    }
+    ck_assert_int_ne(st, UG_OK);
+    snprintf(got, sizeof got, "%s:%u:%u: %s", err.where.file, err.where.line,
+             err.where.column, err.msg);
+    ck_assert_msg(!strncmp(got, want, strlen(want)), "got  %s\nwant %s", got, want);
 }
 END_TEST
 
@@ -713,6 +788,7 @@ static Suite *suite(void)
     tcase_add_test(t, test_form_table);
     tcase_add_loop_test(t, test_percent, 0, sizeof percent_cases / sizeof percent_cases[0]);
     tcase_add_test(t, test_counts_are_default);
+    tcase_add_loop_test(t, test_amount_keys, 0, sizeof amount_cases / sizeof amount_cases[0]);
     tcase_add_loop_test(t, test_strings, 0, sizeof strings / sizeof strings[0]);
     tcase_add_test(t, test_small_count_preset);
     tcase_add_test(t, test_file_size_limit);
@@ -720,6 +796,7 @@ static Suite *suite(void)
     tcase_add_test(t, test_page);
     tcase_add_loop_test(t, test_bad_pages, 0, sizeof bad_pages / sizeof bad_pages[0]);
     tcase_add_test(t, test_shared_scale);
+    tcase_add_test(t, test_page_number_format_reaches_panels);
     tcase_add_loop_test(t, test_layout_kind_files, 0,
                         sizeof kind_files / sizeof kind_files[0]);
     tcase_add_loop_test(t, test_layout_kind_texts, 0,

@@ -249,6 +249,93 @@ START_TEST(test_cluster_gap)
 }
 END_TEST
 
+/* Split rows: a category's wrapped line sits nearer its own first line than
+** the next category's line, so the eye groups it with its own label
+** (proximity; common practice, no source). With no wrapped category the
+** lines keep their plain spacing. */
+/* The tops of category cat's first two lines of icons (second < 0: one line). */
+static void category_lines(const ug_scene *s, unsigned cat, double *first, double *second)
+{
+    *first = *second = -1;
+    for (size_t k = 0; k < s->nicons; k++) {
+        double y = s->icons[k].y;
+        if (s->icons[k].cat != cat)
+            continue;
+        if (*first < 0)
+            *first = y;
+        else if (y != *first && *second < 0)
+            *second = y;
+    }
+}
+
+START_TEST(test_split_wrapped_line_stays_with_its_category)
+{
+    const fx_cat cats[] = {{"A", "square", 0x0072B2, {"30"}, NULL},
+                           {"B", "square", 0xD55E00, {"8"}, NULL},
+                           {"C", "square", 0x009E73, {"5"}, NULL}};
+    for (int wraps = 0; wraps < 2; wraps++) {
+        ug_chart *c = fx_chart(UG_FORM_ROWS, "t", NULL, 0, cats, 3);
+        c->icon_value = fx_dec("1");
+        c->arrangement = UG_ARRANGE_SPLIT;
+        c->columns = wraps ? 20 : 40;
+        ug_allocation *a;
+        ug_scene *s = pack_ok(c, &a);
+        double a1, a2, b1, b2, c1, c2;
+        category_lines(s, 0, &a1, &a2);
+        category_lines(s, 1, &b1, &b2);
+        category_lines(s, 2, &c1, &c2);
+        ck_assert_msg((a2 >= 0) == wraps && b2 < 0 && c2 < 0, "lines: %g %g %g", a2, b2, c2);
+        if (wraps)
+            ck_assert_msg(a2 - a1 < b1 - a2, "wrapped line %.1f below its first, the next "
+                          "category %.1f below it", a2 - a1, b1 - a2);
+        else
+            ck_assert_msg(fabs((b1 - a1) - (c1 - b1)) < 1e-9, "%g, %g", b1 - a1, c1 - b1);
+        ug_scene_free(s);
+        ug_allocation_free(a);
+        fx_free(c);
+    }
+}
+END_TEST
+
+/* Split rows with groups: the group's name is on the left of its first
+** line only, so each line names its category beside its count ("B: fewer
+** than 10"), and a placeholder says what it stands for without colour;
+** `direct-labels: false` leaves the bare counts. */
+static bool has_text(const ug_scene *s, const char *t)
+{
+    for (size_t k = 0; k < s->ntexts; k++)
+        if (!strcmp(s->texts[k].text, t))
+            return true;
+    return false;
+}
+
+START_TEST(test_split_groups_label_each_line)
+{
+    const char *groups[] = {"North", "South"};
+    const fx_cat cats[] = {{"Adults", "person", 0x0072B2, {"40", "30"}, NULL},
+                           {"Children", "child", 0xD55E00, {"3", "20"}, NULL}};
+    for (int off = 0; off < 2; off++) {
+        ug_chart *c = fx_chart(UG_FORM_ROWS, "t", groups, 2, cats, 2);
+        c->arrangement = UG_ARRANGE_SPLIT;
+        fx_suppress(c, "10");
+        c->suppress_margins = UG_MARGINS_HIDDEN; /* no complement needed */
+        if (off) {
+            c->direct_labels = false;
+            c->direct_labels_mark = (ug_mark){"t.yaml", 3, 16};
+        }
+        ug_allocation *a;
+        ug_scene *s = pack_ok(c, &a);
+        ck_assert_int_eq(has_text(s, "Adults: 40"), !off);
+        ck_assert_int_eq(has_text(s, "Children: fewer than 10"), !off);
+        ck_assert_int_eq(has_text(s, "fewer than 10"), 1); /* the box's own */
+        ck_assert_int_eq(has_text(s, "40"), off);
+        ug_scene_free(s);
+        ug_allocation_free(a);
+        fx_free(c);
+    }
+}
+END_TEST
+
 /* A long title and labels wrap inside the canvas; a narrow canvas wraps lines
 ** of icons early instead of shrinking them. */
 START_TEST(test_long_text_wraps_inside)
@@ -550,6 +637,8 @@ static Suite *pack_suite(void)
     tcase_add_test(t, test_suppressed_count_is_a_placeholder);
     tcase_add_test(t, test_partial_icon_fraction);
     tcase_add_test(t, test_cluster_gap);
+    tcase_add_test(t, test_split_wrapped_line_stays_with_its_category);
+    tcase_add_test(t, test_split_groups_label_each_line);
     tcase_add_test(t, test_long_text_wraps_inside);
     tcase_add_test(t, test_random_layouts);
     tcase_add_test(t, test_example_layouts_invariants);

@@ -210,11 +210,39 @@ START_TEST(test_more_categories_than_colours)
 }
 END_TEST
 
+/* The default family list follows the chart's language; Chinese takes the
+** Han forms of its script (RFC 5646's script subtag, or the region's by
+** CLDR likelySubtags); a layout's own style.font is kept whatever the
+** language. */
+START_TEST(test_font_follows_language)
+{
+    static const struct { const char *lang, *font; } cases[] = {
+        {NULL, RESOLVE_FONT},          {"en", RESOLVE_FONT},
+        {"ar", RESOLVE_FONT},          {"pt-PT", RESOLVE_FONT},
+        {"zh-Hans", RESOLVE_FONT_HANS}, {"zh", RESOLVE_FONT_HANS},
+        {"ZH-hans-CN", RESOLVE_FONT_HANS}, {"zh-SG", RESOLVE_FONT_HANS},
+        {"zh-Hant", RESOLVE_FONT_HANT}, {"zh-TW", RESOLVE_FONT_HANT},
+        {"zh-hk", RESOLVE_FONT_HANT},  {"zhx", RESOLVE_FONT},
+    };
+    for (size_t i = 0; i < sizeof cases / sizeof *cases; i++) {
+        ug_chart *c = bare_chart(1);
+        c->lang.text = cases[i].lang;
+        ck_assert_msg(!strcmp(resolve_font(c), cases[i].font), "%s: %s",
+                      cases[i].lang ? cases[i].lang : "(none)", resolve_font(c));
+        c->style.font = "DejaVu Serif";
+        c->style.font_mark = (ug_mark){"test.yaml", 4, 9};
+        ck_assert_str_eq(resolve_font(c), "DejaVu Serif");
+        chart_done(c);
+    }
+}
+END_TEST
+
 static Suite *resolve_suite(void)
 {
     Suite *s = suite_create("resolve");
     TCase *t = tcase_create("resolve");
     tcase_add_test(t, test_defaults);
+    tcase_add_test(t, test_font_follows_language);
     tcase_add_test(t, test_palette_safe_order);
     tcase_add_test(t, test_okabe_ito_on_white);
     tcase_add_test(t, test_palette_wraps);
