@@ -223,7 +223,7 @@ static const char *value_category(const audit_ctx *x)
 
 static ug_status check_unit_label(audit_ctx *x)
 {
-    if (x->c->unit_label.text)
+    if (x->c->unit_label.text || x->c->currency.text) /* money names its unit */
         return UG_OK;
     char fix[160];
     const char *cat = value_category(x);
@@ -244,7 +244,7 @@ static ug_status check_unit_forms(audit_ctx *x)
 {
     const ug_chart *c = x->c;
     const char *lang = c->lang.text ? c->lang.text : "en", *cat = value_category(x);
-    if (!c->unit_label.text || c->has_unit_forms || !strcmp(cat, "other"))
+    if (!c->unit_label.text || c->has_unit_forms || c->currency.text || !strcmp(cat, "other"))
         return UG_OK;
     char num[PHRASE_NUMBER_MAX], fix[512];
     phrase_number(lang, x->a->rule.value, 0, num);
@@ -919,7 +919,7 @@ static ug_status undrawable_in(audit_ctx *x, const ug_text *t, const char *what)
 {
     if (!t->text)
         return UG_OK;
-    text_font f = {.family = x->c->style.font, .size = 16};
+    text_font f = {.family = resolve_font(x->c), .size = 16};
     unsigned long cps[6];
     size_t listed = 0, found = text_undrawable(&f, t->text, cps, 6, &listed);
     if (!found)
@@ -1189,29 +1189,34 @@ static ug_status note_fit(audit_ctx *x, const ug_page *page, const page_result *
 }
 
 /* The page as composed (fitted, shared scale applied): each chart panel is
-** audited as the sheet shows it, from its allocation and scene. */
-ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
-                        ug_findings **out, ug_error *err)
+** audited as the sheet shows it, from its allocation and scene. A panel's
+** sources are printed at the page's foot, not under it: its audit sees them
+** on a copy of the chart, so the composed page stays untouched (and may be
+** audited on two threads at once). */
+ug_status ug_composed_page_audit(const ug_composed_page *cp, ug_findings **out,
+                                 ug_error *err)
 {
     ug_error_clear(err);
     *out = NULL;
-    page_result r;
-    ug_status st = page_compose(page, opt, &r, err);
-    if (st)
-        return st;
-    audit_ctx x = {NULL, NULL, ug_calloc(1, sizeof(ug_findings)), err, opt, false, NULL, NULL};
-    scale_of *scales = ug_calloc(page->npanels ? page->npanels : 1, sizeof *scales);
+    const ug_page *page = cp->page;
+    const page_result *r = &cp->r;
+    size_t np = page->npanels ? page->npanels : 1;
+    audit_ctx x = {NULL, NULL, ug_calloc(1, sizeof(ug_findings)), err,
+                   cp->has_opt ? &cp->opt : NULL, false, NULL, NULL};
+    scale_of *scales = ug_calloc(np, sizeof *scales);
+    ug_chart *shown = ug_calloc(np, sizeof *shown);
     size_t n = 0;
-    st = x.f && scales ? UG_OK : UG_ENOMEM;
+    ug_status st = x.f && scales && shown ? UG_OK : UG_ENOMEM;
     if (st)
         ug_fail(err, st, ug_mark_file(page->path), "out of memory");
     for (size_t i = 0; !st && i < page->npanels; i++) {
         if (page->panels[i].kind != UG_PANEL_CHART)
             continue;
-        r.charts[i].source = page->panels[i].chart->source; /* printed at the foot */
-        x.c = &r.charts[i];
-        x.a = r.allocs[r.alloc_of[i]];
-        x.scene = r.scenes[i];
+        shown[i] = r->charts[i];
+        shown[i].source = page->panels[i].chart->source;
+        x.c = &shown[i];
+        x.a = r->allocs[r->alloc_of[i]];
+        x.scene = r->scenes[i];
         /* a new icon value for one chart would break the page's comparison */
         x.keep_scale = shares_unit(page, i);
         st = audit_one(&x);
@@ -1221,10 +1226,22 @@ ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
     if (!st && !page->shared_scale)
         st = check_page_scale(&x, scales, n);
     if (!st && n)
-        st = note_fit(&x, page, &r);
-    ug_free(scales);
+        st = note_fit(&x, page, r);
     st = finish(&x, st, out);
-    page_result_free(&r);
+    ug_free(scales);
+    ug_free(shown); /* shallow copies; the findings own copies of what they show */
+    return st;
+}
+
+ug_status ug_page_audit(const ug_page *page, const ug_pack_options *opt,
+                        ug_findings **out, ug_error *err)
+{
+    ug_composed_page *cp;
+    *out = NULL;
+    ug_status st = ug_page_compose(page, opt, &cp, err);
+    if (!st)
+        st = ug_composed_page_audit(cp, out, err);
+    ug_composed_page_free(cp);
     return st;
 }
 

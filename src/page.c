@@ -551,10 +551,10 @@ static ug_status set_up(composer *k)
         first = p->panels[i].chart;
     /* the sheet takes its first chart's (resolved) font and ink; a page of
     ** text alone takes the defaults a chart would have */
-    ug_chart none = {.path = p->path};
+    ug_chart none = {.path = p->path, .lang = p->lang};
     resolve_defaults(&none);
     const ug_chart *look = first ? first : &none;
-    k->font = look->style.font;
+    k->font = resolve_font(look);
     k->font_mark = look->style.font_mark;
     /* the sheet is white paper: a dark-themed chart's light ink would vanish */
     ug_color ink = look->style.ink;
@@ -794,26 +794,63 @@ ug_status ug_page_draw(const ug_page *page, ug_output_format fmt, double dpi,
     return ug_page_draw_with(page, NULL, fmt, dpi, scale, out, len, err);
 }
 
+ug_status ug_page_compose(const ug_page *page, const ug_pack_options *opt,
+                          ug_composed_page **out, ug_error *err)
+{
+    ug_error_clear(err);
+    *out = NULL;
+    ug_composed_page *cp = ug_calloc(1, sizeof *cp);
+    if (!cp)
+        return ug_fail(err, UG_ENOMEM, ug_mark_file(page->path), "out of memory");
+    ug_status st = page_compose(page, opt, &cp->r, err);
+    if (st) {
+        ug_free(cp);
+        return st;
+    }
+    cp->page = page;
+    if (opt) {
+        cp->opt = *opt;
+        cp->has_opt = true;
+    }
+    *out = cp;
+    return UG_OK;
+}
+
+ug_status ug_composed_page_draw(const ug_composed_page *cp, ug_output_format fmt,
+                                double dpi, double scale, char **out, size_t *len,
+                                ug_error *err)
+{
+    ug_error_clear(err);
+    *out = NULL;
+    const page_result *r = &cp->r;
+    if (fmt == UG_OUT_CSV)
+        return ug_table_csv((const ug_allocation *const *)r->allocs, r->nallocs, out, len,
+                            err);
+    if (fmt == UG_OUT_HTML)
+        return ug_html_page(cp->page->title.text, r->svg, r->len, "",
+                            (const ug_allocation *const *)r->allocs, r->nallocs, out, len,
+                            err);
+    return ug_render_svg(r->svg, r->len, fmt, dpi, scale, out, len, err);
+}
+
+void ug_composed_page_free(ug_composed_page *cp)
+{
+    if (!cp)
+        return;
+    page_result_free(&cp->r);
+    ug_free(cp);
+}
+
 ug_status ug_page_draw_with(const ug_page *page, const ug_pack_options *opt,
                             ug_output_format fmt, double dpi, double scale, char **out,
                             size_t *len, ug_error *err)
 {
-    ug_error_clear(err);
-    page_result r;
+    ug_composed_page *cp;
     *out = NULL;
-    ug_status st = page_compose(page, opt, &r, err);
-    if (st)
-        return st;
-    if (fmt == UG_OUT_CSV)
-        st = ug_table_csv((const ug_allocation *const *)r.allocs, r.nallocs, out, len,
-                          err);
-    else if (fmt == UG_OUT_HTML)
-        st = ug_html_page(page->title.text, r.svg, r.len, "",
-                          (const ug_allocation *const *)r.allocs, r.nallocs, out, len,
-                          err);
-    else
-        st = ug_render_svg(r.svg, r.len, fmt, dpi, scale, out, len, err);
-    page_result_free(&r);
+    ug_status st = ug_page_compose(page, opt, &cp, err);
+    if (!st)
+        st = ug_composed_page_draw(cp, fmt, dpi, scale, out, len, err);
+    ug_composed_page_free(cp);
     return st;
 }
 

@@ -58,4 +58,13 @@ ug_status page_compose(const ug_page *page, const ug_pack_options *opt,
                        page_result *out, ug_error *err);
 void page_result_free(page_result *r);
 
+/* What ug_page_compose hands out: the result and what it was made from, for
+** the audit (src/audit.c reads it). */
+struct ug_composed_page {
+    page_result r;
+    const ug_page *page;
+    ug_pack_options opt; /* a copy; its folders and cache are borrowed */
+    bool has_opt;
+};
+
 #endif

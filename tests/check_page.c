@@ -593,6 +593,83 @@ START_TEST(test_handout_web_page)
 }
 END_TEST
 
+/* Counting allocator: every block asked for, so two ways of doing the same
+** work can be compared by how much they allocate. */
+static size_t blocks_asked;
+
+static void *counting_alloc(void *ud, void *ptr, size_t n)
+{
+    (void)ud;
+    if (n == 0) {
+        free(ptr);
+        return NULL;
+    }
+    blocks_asked++;
+    return realloc(ptr, n);
+}
+
+static char *findings_text(const ug_findings *f)
+{
+    char *t = NULL;
+    size_t n;
+    ug_error err = {0};
+    ck_assert_int_eq(ug_findings_format(f, UG_REPORT_TEXT, &t, &n, &err), UG_OK);
+    return t;
+}
+
+/* A page composed once draws and audits exactly as the one-call functions
+** do, the audit leaves it as it was (a second draw is byte-identical), and
+** drawing and auditing from one composition allocates less than composing
+** for each (each panel is allocated and packed once). */
+START_TEST(test_composed_once_draws_and_audits_the_same)
+{
+    const char *roots[] = {"../glyphs"};
+    ug_context_options o = {.size = sizeof o, .alloc = counting_alloc,
+                            .glyph_roots = roots, .nglyph_roots = 1};
+    ug_context *ctx = NULL, *was;
+    ug_error err = {0};
+    ck_assert_int_eq(ug_context_new(&o, &ctx, &err), UG_OK);
+    was = ug_context_use(ctx);
+    ug_page *p = load_page(shared_page);
+    char *one = NULL, *two = NULL, *again = NULL;
+    size_t n1, n2, n3;
+    ug_findings *f1 = NULL, *f2 = NULL;
+    ug_composed_page *cp = NULL;
+
+    blocks_asked = 0;
+    ck_assert_int_eq(ug_page_draw_with(p, NULL, UG_OUT_HTML, 96, 1, &one, &n1, &err), UG_OK);
+    ck_assert_int_eq(ug_page_audit(p, NULL, &f1, &err), UG_OK);
+    size_t separately = blocks_asked;
+
+    blocks_asked = 0;
+    ck_assert_int_eq(ug_page_compose(p, NULL, &cp, &err), UG_OK);
+    ck_assert_int_eq(ug_composed_page_draw(cp, UG_OUT_HTML, 96, 1, &two, &n2, &err), UG_OK);
+    ck_assert_int_eq(ug_composed_page_audit(cp, &f2, &err), UG_OK);
+    size_t once = blocks_asked;
+    ck_assert_int_eq(ug_composed_page_draw(cp, UG_OUT_HTML, 96, 1, &again, &n3, &err), UG_OK);
+
+    ck_assert_uint_eq(n1, n2);
+    ck_assert_int_eq(memcmp(one, two, n1), 0);
+    ck_assert_uint_eq(n2, n3);
+    ck_assert_int_eq(memcmp(two, again, n2), 0);
+    char *t1 = findings_text(f1), *t2 = findings_text(f2);
+    ck_assert_str_eq(t1, t2);
+    ck_assert_msg(once < separately, "%zu blocks composed once, %zu composing twice", once,
+                  separately);
+    ug_free(t1);
+    ug_free(t2);
+    ug_findings_free(f1);
+    ug_findings_free(f2);
+    ug_free(one);
+    ug_free(two);
+    ug_free(again);
+    ug_composed_page_free(cp);
+    ug_page_free(p);
+    ug_context_use(was);
+    ug_context_free(ctx);
+}
+END_TEST
+
 static Suite *page_suite(void)
 {
     Suite *s = suite_create("page");
@@ -616,6 +693,7 @@ static Suite *page_suite(void)
     tcase_add_test(tp, test_shrinks_to_fit_alike);
     tcase_add_test(tp, test_fit_is_the_largest_step);
     tcase_add_test(tp, test_no_shrink_says_so);
+    tcase_add_test(tp, test_composed_once_draws_and_audits_the_same);
     tcase_add_test(tp, test_panel_overrides_and_type);
     tcase_add_test(tp, test_type_scale_and_fit_errors);
     tcase_add_test(tp, test_ids_unique_and_references_resolve);

@@ -489,6 +489,108 @@ static bool batch_rows_in_threads(char *why)
     return ok;
 }
 
+/* ---- a context handed to every call (the _in functions) ------------------ */
+
+/* Each thread's allocator counts into its own counter: the calls must use
+** the context they are handed, not the thread's (unbound: the default). */
+static void *counted_alloc(void *ud, void *ptr, size_t n)
+{
+    if (n == 0) {
+        free(ptr);
+        return NULL;
+    }
+    ++*(size_t *)ud;
+    return realloc(ptr, n);
+}
+
+typedef struct {
+    pthread_barrier_t *start;
+    size_t blocks;
+    blob svg;
+    bool ok;
+    char why[WHY];
+} handed_run;
+
+static bool svg_in(ug_context *ctx, blob *b, char *why)
+{
+    ug_error err = {0};
+    ug_chart *c = NULL;
+    ug_allocation *a = NULL;
+    ug_scene *s = NULL;
+    ug_status st = ug_chart_load_in(ctx, "../layouts/pantry.yaml", NULL, &c, &err);
+    if (!st)
+        st = ug_chart_allocate_in(ctx, c, &a, &err);
+    if (!st)
+        st = ug_scene_pack_in(ctx, c, a, &s, &err);
+    if (!st)
+        st = ug_scene_svg_in(ctx, s, &b->data, &b->len, &err);
+    ug_scene_free_in(ctx, s);
+    ug_allocation_free_in(ctx, a);
+    ug_chart_free_in(ctx, c);
+    if (st)
+        snprintf(why, WHY, "%s", err.msg);
+    return !st;
+}
+
+static void *handed(void *arg)
+{
+    handed_run *h = arg;
+    const char *roots[] = {"../glyphs"};
+    ug_context_options o = {.size = sizeof o, .alloc = counted_alloc, .alloc_ud = &h->blocks,
+                            .glyph_roots = roots, .nglyph_roots = 1};
+    ug_context *ctx = NULL;
+    ug_error err = {0};
+    pthread_barrier_wait(h->start);
+    if (ug_context_new(&o, &ctx, &err) != UG_OK) {
+        snprintf(h->why, WHY, "context: %s", err.msg);
+        return NULL;
+    }
+    ug_context *before = ug_context_current();
+    h->ok = svg_in(ctx, &h->svg, h->why);
+    if (h->ok && ug_context_current() != before) {
+        h->ok = false;
+        snprintf(h->why, WHY, "the thread's own context was not restored");
+    }
+    ug_context_free(ctx);
+    return NULL;
+}
+
+static bool contexts_handed_to_calls(char *why)
+{
+    static handed_run h[NTHREADS];
+    pthread_barrier_t start;
+    pthread_t t[NTHREADS];
+    blob ref = {0};
+    bool ok = svg_in(ug_context_current(), &ref, why); /* the reference: this thread's */
+    pthread_barrier_init(&start, NULL, NTHREADS);
+    for (int i = 0; i < NTHREADS; i++) {
+        h[i].start = &start;
+        if (pthread_create(&t[i], NULL, handed, &h[i]) != 0)
+            abort();
+    }
+    for (int i = 0; i < NTHREADS; i++)
+        pthread_join(t[i], NULL);
+    pthread_barrier_destroy(&start);
+    for (int i = 0; i < NTHREADS && ok; i++) {
+        if (!h[i].ok)
+            ok = false, snprintf(why, WHY, "thread %d: %.900s", i, h[i].why);
+        else if (h[i].blocks == 0)
+            ok = false, snprintf(why, WHY, "thread %d: its context's allocator was unused", i);
+        else if (h[i].svg.len != ref.len || memcmp(h[i].svg.data, ref.data, ref.len))
+            ok = false, snprintf(why, WHY, "thread %d drew other bytes", i);
+    }
+    for (int i = 0; i < NTHREADS; i++)
+        free(h[i].svg.data);
+    free(ref.data);
+    return ok;
+}
+
+START_TEST(contexts_handed_to_every_call)
+{
+    in_fresh_process(contexts_handed_to_calls);
+}
+END_TEST
+
 START_TEST(batch_rows_share_a_cache)
 {
     in_fresh_process(batch_rows_in_threads);
@@ -524,6 +626,7 @@ int main(void)
     tcase_add_test(t, threads_after_a_drawing);
     tcase_add_test(t, fault_counters_per_thread);
     tcase_add_test(t, batch_rows_share_a_cache);
+    tcase_add_test(t, contexts_handed_to_every_call);
     /* ThreadSanitizer slows drawing five to fifteen times (from memory) */
     tcase_set_timeout(t, 600);
     suite_add_tcase(s, t);

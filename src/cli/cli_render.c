@@ -53,15 +53,14 @@ static int draw_page(const cli_draw_opts *o, char ***inputs)
     size_t len = 0;
     int rc = EXIT_OK;
     ug_findings *f = NULL;
-    /* one glyph cache for the drawing and its audit: each glyph loads once */
-    ug_glyph_cache *cache = NULL;
+    ug_composed_page *cp = NULL;
+    /* composed once: the drawing and its audit read the same panels */
     ug_pack_options popt = {.glyph_dirs = o->glyph_dirs, .nglyph_dirs = o->nglyph_dirs};
-    ug_status st = ug_glyph_cache_new(&cache, &err);
-    popt.glyph_cache = cache;
-    if (st || ug_page_load(o->layout, cli_limits(), &page, &err) ||
-        ug_page_draw_with(page, &popt, format_of(o), o->dpi > 0 ? o->dpi : 96,
-                          o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
-        ug_page_audit(page, &popt, &f, &err)) {
+    if (ug_page_load(o->layout, cli_limits(), &page, &err) ||
+        ug_page_compose(page, &popt, &cp, &err) ||
+        ug_composed_page_draw(cp, format_of(o), o->dpi > 0 ? o->dpi : 96,
+                              o->scale > 0 ? o->scale : 1, &bytes, &len, &err) ||
+        ug_composed_page_audit(cp, &f, &err)) {
         cli_report_error(&err);
         rc = cli_exit_for(&err);
     } else if ((rc = cli_print_findings(f, o->strict)) != EXIT_OK) {
@@ -72,9 +71,9 @@ static int draw_page(const cli_draw_opts *o, char ***inputs)
     }
     if (inputs && page)
         *inputs = ug_page_inputs(page);
-    free(bytes);
+    free(bytes); /* the findings went with cli_print_findings */
+    ug_composed_page_free(cp);
     ug_page_free(page);
-    ug_glyph_cache_free(cache);
     return rc;
 }
 
