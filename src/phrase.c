@@ -310,13 +310,10 @@ char *phrase_amount(const char *lang, const phrase_numbers *how, ug_dec d,
     char skel[SKELETON_MAX];
     if (plural)
         *plural = "other";
-    if (!how || (!how->compact && !how->currency && !how->sign)) {
-        phrase_number(lang, d, 0, buf);
-        if (plural)
-            *plural = phrase_plural(lang, d, 0);
-        return buf;
-    }
-    amount_skeleton(how, d, r, skel, sizeof skel);
+    if (!how || (!how->compact && !how->currency && !how->sign))
+        skel[0] = '\0'; /* as phrase_number writes it; text and category from one format */
+    else
+        amount_skeleton(how, d, r, skel, sizeof skel);
     if (!format_icu(lang, skel, d, buf, plural))
         ug_dec_format(d, buf);
     return buf;
