@@ -364,6 +364,49 @@ static pub_table *disclose_text(const char *yaml, ug_chart **chart)
     return t;
 }
 
+/* The words the languages work added (compact amounts, money, direct labels
+** on split rows, change notes through CLDR, right-to-left) write counts in
+** new places: each must still say nothing of a hidden count. */
+START_TEST(test_amounts_and_direct_labels_publish_no_hidden_count)
+{
+    static const char *const charts[] = {
+        "title: Fund\ncurrency: EUR\nnumber-format: compact\nlang: de\nform: rows\n"
+        "icon-value: 1000000\nrounding: partial\narrangement: split\n"
+        "suppress: {below: 10}\ngroups: [north, south]\nchange: previous\n"
+        "categories:\n  - {label: Repairs, counts: [4125000, 3990000]}\n"
+        "  - {label: Grants, counts: [7, 1860000]}\n"
+        "  - {label: Rent help, counts: [972500, 4]}\n",
+        "title: Visits\nunit-label: {one: person, other: people}\n"
+        "number-format: compact-short\nform: rows\nicon-value: 100000\n"
+        "arrangement: split\nsuppress: {below: 10}\ngroups: [2025, 2026]\n"
+        "change: first\ncategories:\n  - {label: Adults, counts: [1234567, 1301000]}\n"
+        "  - {label: Children, counts: [3, 250000]}\n",
+        "title: Visits\nlang: ar\nunit-label: people\nform: rows\nicon-value: 10\n"
+        "arrangement: split\nsuppress: {below: 10}\ngroups: [g1, g2]\n"
+        "categories:\n  - {label: A, counts: [120, 5]}\n  - {label: B, counts: [60, 75]}\n",
+        "title: Homes\nlang: pl\nnumber-format: compact\nunit-label: homes\n"
+        "form: waffle\ncells: 100\nsuppress: {below: 10}\n"
+        "categories:\n  - {label: A, count: 250000}\n  - {label: B, count: 6}\n"
+        "  - {label: C, count: 1200000}\n",
+    };
+    size_t hidden = 0;
+    for (size_t k = 0; k < sizeof charts / sizeof *charts; k++) {
+        ug_chart *c = load_ok(charts[k]);
+        hidden_set h = hidden_cells(c);
+        ck_assert_msg(h.n > 0, "chart %zu hides nothing", k);
+        hidden += h.n;
+        free(h.cells);
+        free(h.status);
+        char name[32];
+        snprintf(name, sizeof name, "amounts chart %zu", k);
+        check_invariant(c, name);
+        ug_chart_free(c);
+    }
+    ck_assert_uint_ge(hidden, 4);
+}
+END_TEST
+
+
 START_TEST(test_statuses_and_margins)
 {
     ug_chart *c = NULL;
@@ -445,6 +488,7 @@ static Suite *suite(void)
     tcase_add_test(t, test_layouts_publish_no_hidden_count);
     tcase_add_test(t, test_biproportional_publishes_no_hidden_count);
     tcase_add_test(t, test_generated_charts_publish_no_hidden_count);
+    tcase_add_test(t, test_amounts_and_direct_labels_publish_no_hidden_count);
     suite_add_tcase(s, t);
     return s;
 }
