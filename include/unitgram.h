@@ -396,7 +396,8 @@ UG_API ug_status ug_page_compose(const ug_page *page, const ug_pack_options *opt
 UG_API ug_status ug_composed_page_draw(const ug_composed_page *cp, ug_output_format fmt,
                                        double dpi, double scale, char **out, size_t *len,
                                        ug_error *err);
-/* Its audit: ug_composed_page_audit, with the audit below. */
+/* Frees a composed page (NULL is allowed). Its audit, ug_composed_page_audit,
+** stands with ug_page_audit below. */
 UG_API void ug_composed_page_free(ug_composed_page *cp);
 /* The handout's description (its SVG's <desc>): every chart's description in
 ** reading order. *out is malloc'd and NUL-ended. */
